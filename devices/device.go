@@ -1,0 +1,202 @@
+// Package devices holds the device models of zapnet, one per file, behind the
+// small Device interface that the engine in package mna drives.
+//
+// The engine solves F(x) + d/dt q(x) = 0 for the unknowns x: node voltages
+// (one row of KCL each: the sum of currents leaving the node) and branch
+// currents (one row each: the branch's defining equation). A device adds its
+// static currents to F and its Jacobian to J, and declares charge-like states
+// (charges of capacitors, fluxes of inductors) whose time derivative the
+// engine forms with the integration rule in force. Models never allocate in
+// Eval and never integrate anything themselves.
+package devices
+
+import (
+	"fmt"
+	"sort"
+
+	"zapnet/netlist"
+	"zapnet/waveforms"
+)
+
+// Ground is the index of the reference node; stamps on it are dropped.
+const Ground = -1
+
+// Layout is what a device asks of the engine before binding.
+type Layout struct {
+	Terminals []string // external node names, in the order Bind receives them
+	Internal  []string // internal nodes, shown as NAME.suffix in messages
+	Branches  []string // branch-current unknowns, shown as NAME.suffix
+}
+
+// Nodes are the unknown indices the engine assigned; Ground for gnd.
+type Nodes struct {
+	Terminals []int
+	Internal  []int
+	Branches  []int
+}
+
+// StateRows says where the time derivative of a state enters the system:
+// +dq/dt on row Plus and −dq/dt on row Minus (either may be Ground). A
+// capacitor between a and b is {a, b}; an inductor's flux on branch row br,
+// whose equation is v(a) − v(b) − dλ/dt = 0, is {Ground, br}.
+type StateRows struct{ Plus, Minus int }
+
+// Device is one element of a compiled circuit.
+type Device interface {
+	// Name is the element's name in the deck.
+	Name() string
+	// Layout lists the terminals and the internal unknowns the device needs.
+	Layout() Layout
+	// Bind gives the device its indices and returns the states it uses, in
+	// the order it addresses them in Eval (local state 0, 1, ...).
+	Bind(n Nodes) []StateRows
+	// Eval stamps the device at c.X into c. It must not allocate.
+	Eval(c *Context)
+}
+
+// Optional behaviours, found by type assertion.
+type (
+	// Resetter clears per-run state (limiting memory, history) before a run.
+	Resetter interface{ Reset() }
+	// Acceptor is told every accepted solution point.
+	Acceptor interface{ Accept(t float64, x []float64) }
+	// StepLimiter bounds the time step (a line's delay).
+	StepLimiter interface{ MaxStep() float64 }
+	// Prober reports named internal quantities at a solution point (for
+	// example the current through a pin's internal clamp paths, in A).
+	Prober interface {
+		Probes() []string
+		Probe(x []float64, dst []float64)
+	}
+)
+
+// Context carries one evaluation. The engine owns every slice; devices use the
+// methods. Fields are exported for the engine's sake only.
+type Context struct {
+	X  []float64 // the iterate being evaluated (read only)
+	T  float64   // time of the point being solved, s
+	DC bool      // operating point: strike off, d/dt q = 0
+
+	F []float64 // residual, one entry per unknown
+	J []float64 // Jacobian, N×N row-major
+	N int
+
+	// Integration: d/dt q_k ≈ Alpha·q_k + Hist[k]. Alpha is 0 at DC.
+	Alpha     float64
+	Q         []float64   // state values set by devices
+	Rows      []StateRows // per global state
+	StateBase int         // global index of the current device's state 0
+
+	// Limited is set by a device whose junction limiting changed the
+	// iterate: the engine does not accept the iteration as converged.
+	Limited bool
+	// Gmin is the engine's tiny shunt conductance, for models that want it
+	// across junctions, S.
+	Gmin float64
+}
+
+// V is the value of unknown i (0 for Ground).
+func (c *Context) V(i int) float64 {
+	if i < 0 {
+		return 0
+	}
+	return c.X[i]
+}
+
+// AddF adds v to the residual of row.
+func (c *Context) AddF(row int, v float64) {
+	if row >= 0 {
+		c.F[row] += v
+	}
+}
+
+// AddJ adds v to the Jacobian entry (row, col).
+func (c *Context) AddJ(row, col int, v float64) {
+	if row >= 0 && col >= 0 {
+		c.J[row*c.N+col] += v
+	}
+}
+
+// Current stamps a two-terminal current i flowing from a to b through the
+// device, with g = di/du where u = v(a) − v(b).
+func (c *Context) Current(a, b int, i, g float64) {
+	c.AddF(a, i)
+	c.AddF(b, -i)
+	c.AddJ(a, a, g)
+	c.AddJ(a, b, -g)
+	c.AddJ(b, a, -g)
+	c.AddJ(b, b, g)
+}
+
+// Conductance stamps a linear conductance g between a and b.
+func (c *Context) Conductance(a, b int, g float64) {
+	c.Current(a, b, g*(c.V(a)-c.V(b)), g)
+}
+
+// Inject stamps an independent current i entering node a from outside and
+// leaving through node b.
+func (c *Context) Inject(a, b int, i float64) {
+	c.AddF(a, -i)
+	c.AddF(b, i)
+}
+
+// Charge sets local state k to q and its derivative with respect to the
+// unknown col to dq. Call once per state with the value, then add further
+// derivatives with ChargeDeriv.
+func (c *Context) Charge(k int, q float64) { c.Q[c.StateBase+k] = q }
+
+// ChargeDeriv adds dq_k/dx_col = dq, stamping Alpha·dq on the state's rows.
+func (c *Context) ChargeDeriv(k, col int, dq float64) {
+	if col < 0 || c.Alpha == 0 {
+		return
+	}
+	r := c.Rows[c.StateBase+k]
+	c.AddJ(r.Plus, col, c.Alpha*dq)
+	c.AddJ(r.Minus, col, -c.Alpha*dq)
+}
+
+// Capacitance is a charge q between a and b with dq/du = cap, u = v(a) − v(b).
+func (c *Context) Capacitance(k, a, b int, q, cap float64) {
+	c.Charge(k, q)
+	c.ChargeDeriv(k, a, cap)
+	c.ChargeDeriv(k, b, -cap)
+}
+
+// Constructor builds the device of one checked element.
+type Constructor func(e *netlist.Element) (Device, error)
+
+var registry = map[netlist.Kind]Constructor{}
+
+// Register makes a model available for a kind; each model file registers
+// itself in an init function. Registering a kind twice is a programming error.
+func Register(k netlist.Kind, c Constructor) {
+	if _, dup := registry[k]; dup {
+		panic("devices: kind registered twice: " + string(k))
+	}
+	registry[k] = c
+}
+
+// New builds the device of a checked element.
+func New(e *netlist.Element) (Device, error) {
+	c, ok := registry[e.Kind]
+	if !ok {
+		return nil, fmt.Errorf("%s: %s: no model for kind %q", e.Pos, e.Name, e.Kind)
+	}
+	return c(e)
+}
+
+// Kinds lists the kinds that have a model, sorted.
+func Kinds() []netlist.Kind {
+	ks := make([]netlist.Kind, 0, len(registry))
+	for k := range registry {
+		ks = append(ks, k)
+	}
+	sort.Slice(ks, func(i, j int) bool { return ks[i] < ks[j] })
+	return ks
+}
+
+// Striker is the strike device: the engine hands it each run's stimulus and
+// the sign of its polarity (+1 pos, −1 neg). A nil stimulus switches it off.
+type Striker interface {
+	SetStimulus(s *waveforms.Stimulus, sign float64)
+}
