@@ -1,0 +1,101 @@
+// Package mna is zapnet's circuit engine: modified nodal analysis of a
+// compiled circuit, Newton iteration with junction limiting, the DC operating
+// point and the transient solution with trapezoidal integration and
+// error-controlled steps. It knows no standard and no report.
+package mna
+
+import (
+	"fmt"
+	"time"
+)
+
+// Settings tune a solution. A nil *Settings means every default; a zero
+// field means that field's default.
+type Settings struct {
+	// Stop is the simulated span, s. Zero: the stimulus's default span
+	// (waveforms.Stimulus.Stop); an error when there is no stimulus.
+	Stop float64
+	// MaxStep bounds the time step, s. Zero: Stop/50.
+	MaxStep float64
+	// MinStep is the step below which the solver gives up with a
+	// *SolveError, s. Zero: 1e-16 s.
+	MinStep float64
+	// RelTol is the relative tolerance of Newton and of the step control.
+	// Zero: 1e-3.
+	RelTol float64
+	// AbsTol is the absolute tolerance on node voltages, V (and on branch
+	// currents, A). Zero: 1e-6.
+	AbsTol float64
+	// ChargeTol is the absolute tolerance on the local truncation error of
+	// charges and fluxes, C or Wb. Zero: 1e-14.
+	ChargeTol float64
+	// Gmin is the conductance from every node to gnd, S, which ties nodes
+	// reached only through capacitors. Zero: 1e-12 S.
+	Gmin float64
+	// MaxIter bounds Newton iterations at one time point. Zero: 50.
+	MaxIter int
+	// Record keeps the sampled waveforms in the Result.
+	Record bool
+	// Observe, when set, is called at t = 0 and at every accepted point. The
+	// Point's slices are reused: copy what you keep.
+	Observe func(p *Point)
+}
+
+// Point is one accepted solution point.
+type Point struct {
+	T float64
+	V []float64 // node voltages, in System.Nodes order, V
+	I []float64 // current into each element's first terminal, System.Elements order, A
+	P []float64 // probe values, System.Probes order
+}
+
+// Result is a transient solution.
+type Result struct {
+	// Sampled waveforms, filled only with Settings.Record: Time[k] and
+	// V[node][k], I[element][k], P[probe][k].
+	Time []float64
+	V    [][]float64
+	I    [][]float64
+	P    [][]float64
+
+	// Energy is ∫ Σ v·i dt into each element over the run, J, in
+	// System.Elements order; the strike's entry is negative (it delivers).
+	Energy []float64
+	// PeakCurrent is the largest |I| of each element, A.
+	PeakCurrent []float64
+	// Balance is the sum of Energy: the integration error of the ledger, J.
+	Balance float64
+	// Stop is the span actually simulated, s.
+	Stop  float64
+	Stats Stats
+}
+
+// Stats count the work of a solution.
+type Stats struct {
+	Steps    int // accepted time steps
+	Rejected int // steps rejected by the error control or by Newton failure
+	Newton   int // Newton iterations over the transient
+	DCNewton int // Newton iterations of the operating point
+	Wall     time.Duration
+}
+
+// SolveError is numerical trouble, told as something a user can act on.
+type SolveError struct {
+	Time     float64 // s; negative for the operating point
+	Where    string  // the node, branch or element most involved
+	Residual float64 // the last largest residual
+	Reason   string  // what went wrong
+	Hint     string  // what to try
+}
+
+func (e *SolveError) Error() string {
+	when := "at the operating point"
+	if e.Time >= 0 {
+		when = fmt.Sprintf("at t = %.4g s", e.Time)
+	}
+	msg := fmt.Sprintf("solver: %s %s near %s (largest residual %.3g)", e.Reason, when, e.Where, e.Residual)
+	if e.Hint != "" {
+		msg += "; " + e.Hint
+	}
+	return msg
+}
