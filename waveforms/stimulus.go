@@ -50,4 +50,7 @@ type Stimulus struct {
 	// Stop is the default simulated span in seconds for this stimulus alone;
 	// the study may extend it for slow circuits.
 	Stop float64
+	// Note is a caution to show with the stimulus (a known simplification),
+	// empty for most waveforms.
+	Note string
 }
