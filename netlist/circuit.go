@@ -172,6 +172,11 @@ type Circuit struct {
 	Tolerances []Tolerance
 	Parts      map[string]*Part
 	Warnings   ErrorList // legal but doubtful things: shown, never fatal
+
+	// own keeps, per element name, the parameters the element states
+	// itself, so that With can merge them again over a swapped part. It is
+	// never modified after Parse and is shared between copies.
+	own map[string]*ownParams
 }
 
 // Element returns the element called name, or nil.

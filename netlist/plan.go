@@ -1,0 +1,352 @@
+package netlist
+
+import (
+	"fmt"
+	"maps"
+	"slices"
+	"strings"
+)
+
+func (p *parser) checkWatches(c *Circuit) {
+	known := map[string]bool{}
+	for _, n := range c.Nodes {
+		known[n] = true
+	}
+	seen := map[string]Pos{}
+	for _, rw := range p.watches {
+		w := Watch{Node: rw.node, Pos: rw.nodePos}
+		switch {
+		case rw.node == Ground:
+			p.errs.Add(rw.nodePos, "gnd is the reference: it is always 0 V")
+			continue
+		case !known[rw.node]:
+			p.errs.Add(rw.nodePos, "watch: no node %s in the deck%s", rw.node, didYouMean(rw.node, c.Nodes))
+			continue
+		}
+		if first, dup := seen[rw.node]; dup {
+			p.errs.Add(rw.nodePos, "node %s is already watched at %s", rw.node, first)
+			continue
+		}
+		seen[rw.node] = rw.nodePos
+		ok := true
+		for _, kv := range rw.params {
+			switch kv.key {
+			case "max", "min":
+				v, msg := numValue(kv.key+" of a watch", "V", anyValue, kv.val)
+				if msg != "" {
+					p.errs.Add(kv.valPos, "%s", msg)
+					ok = false
+					continue
+				}
+				if kv.key == "max" {
+					w.Max, w.HasMax = v, true
+				} else {
+					w.Min, w.HasMin = v, true
+				}
+			default:
+				p.errs.Add(kv.keyPos, "unknown parameter %s for a watch%s", kv.key, didYouMean(kv.key, []string{"max", "min"}))
+				ok = false
+			}
+		}
+		if w.HasMax && w.HasMin && !(w.Min < w.Max) {
+			p.errs.Add(rw.nodePos, "watch %s: min %s is not below max %s", rw.node, FormatSI(w.Min, "V"), FormatSI(w.Max, "V"))
+			ok = false
+		}
+		if ok {
+			c.Watches = append(c.Watches, w)
+		}
+	}
+}
+
+func (p *parser) checkWindow(c *Circuit) {
+	for i, rw := range p.windows {
+		if i > 0 {
+			p.errs.Add(rw.pos, "second window; the first is at %s", p.windows[0].pos)
+			continue
+		}
+		w := Window{Pos: rw.pos}
+		for _, kv := range rw.params {
+			var dst *float64
+			unit, r := "s", positive
+			switch kv.key {
+			case "stop":
+				dst = &w.Stop
+			case "maxstep":
+				dst = &w.MaxStep
+			case "reltol":
+				dst, unit = &w.RelTol, ""
+			case "abstol":
+				dst, unit = &w.AbsTol, "V"
+			default:
+				p.errs.Add(kv.keyPos, "unknown parameter %s for a window%s", kv.key, didYouMean(kv.key, []string{"stop", "maxstep", "reltol", "abstol"}))
+				continue
+			}
+			v, msg := numValue(kv.key+" of a window", unit, r, kv.val)
+			if msg == "" && kv.key == "reltol" && v >= 1 {
+				msg = fmt.Sprintf("reltol is a fraction below 1 (got %s)", kv.val)
+			}
+			if msg != "" {
+				p.errs.Add(kv.valPos, "%s", msg)
+				continue
+			}
+			*dst = v
+		}
+		if w.Stop > 0 && w.MaxStep > w.Stop {
+			p.errs.Add(rw.pos, "window: maxstep %s is longer than stop %s", FormatSI(w.MaxStep, "s"), FormatSI(w.Stop, "s"))
+		}
+		c.Window = w
+	}
+}
+
+// settable reports why ELEMENT.PARAM cannot be set, or "" when it can.
+func settable(c *Circuit, elem, param string) (string, *Element) {
+	e := c.Element(elem)
+	if e == nil {
+		var names []string
+		for _, x := range c.Elements {
+			names = append(names, x.Name)
+		}
+		return fmt.Sprintf("no element %s%s", elem, didYouMean(elem, names)), nil
+	}
+	if e.Kind == Strike {
+		switch param {
+		case "level", "polarity":
+			return "levels and polarities are already axes of the study; list them on the strike", e
+		case "waveform", "file", "part":
+			return fmt.Sprintf("the strike's %s cannot be varied", param), e
+		}
+		sp, ok := strikeParams[param]
+		if !ok {
+			return fmt.Sprintf("a strike has no parameter %s%s", param, didYouMean(param, keysOf(Strike))), e
+		}
+		if _, ok := sp.waveforms[e.Str["waveform"]]; !ok {
+			return fmt.Sprintf("%s is a parameter of waveform %s, not of %s", param, strings.Join(waveformsTaking(param), ", "), e.Str["waveform"]), e
+		}
+		return "", e
+	}
+	if param == "rail" {
+		return "a pin's rail changes the circuit's nodes and cannot be varied", e
+	}
+	if param == "part" || hasWord(e.Kind, param) || specOf(e.Kind, param) != nil {
+		return "", e
+	}
+	return fmt.Sprintf("a %s has no parameter %s%s", e.Kind, param, didYouMean(param, keysOf(e.Kind))), e
+}
+
+// apply sets one parameter of e (an element of c, already cloned by the
+// caller) from deck text and merges again; it returns a message when the
+// setting is not usable. It returns the element's own parameters after the
+// change, for the caller to keep when it keeps e.
+func (c *Circuit) apply(e *Element, param, text string) (*ownParams, string) {
+	own := c.own[e.Name]
+	if own == nil {
+		return nil, fmt.Sprintf("element %s cannot be changed", e.Name)
+	}
+	next := *own
+	if e.Kind == Strike {
+		sp := strikeParams[param]
+		v, msg := numValue(param+" of waveform "+e.Str["waveform"], sp.unit, sp.rule, text)
+		if msg != "" {
+			return nil, msg
+		}
+		e.Num[param] = v
+		next.num = maps.Clone(own.num)
+		next.num[param] = v
+		return &next, ""
+	}
+	var part *Part
+	if own.part != "" {
+		part = c.Parts[own.part]
+	}
+	switch {
+	case param == "part":
+		pt, msg := lookupPart(c, e.Kind, text)
+		if msg != "" {
+			return nil, msg
+		}
+		part, next.part = pt, pt.Name
+	case hasWord(e.Kind, param):
+		if m := wordParam(e.Kind, param, text); m != "" {
+			return nil, m
+		}
+		next.str = maps.Clone(own.str)
+		next.str[param] = text
+	default:
+		sp := specOf(e.Kind, param)
+		v, msg := numValue(param+" of a "+string(e.Kind), sp.unit, sp.rule, text)
+		if msg != "" {
+			return nil, msg
+		}
+		next.num = maps.Clone(own.num)
+		next.num[param] = v
+	}
+	e.Num, e.Str = merge(e.Kind, part, &next)
+	if ps := problems(e); len(ps) > 0 {
+		return nil, strings.Join(ps, "; ")
+	}
+	return &next, ""
+}
+
+func (p *parser) checkVary(c *Circuit) {
+	seen := map[string]Pos{}
+	for _, rv := range p.varies {
+		target := rv.elem + "." + rv.param
+		if first, dup := seen[target]; dup {
+			p.errs.Add(rv.targetPos, "%s is already varied at %s", target, first)
+			continue
+		}
+		seen[target] = rv.targetPos
+		msg, e := settable(c, rv.elem, rv.param)
+		if msg != "" {
+			pos := rv.paramPos
+			if e == nil {
+				pos = rv.targetPos
+			}
+			p.errs.Add(pos, "vary: %s", msg)
+			continue
+		}
+		v := Vary{Element: rv.elem, Param: rv.param, Pos: rv.targetPos}
+		ok := true
+		for _, it := range rv.values {
+			x := e.clone()
+			if _, m := c.apply(x, rv.param, it.text); m != "" {
+				p.errs.Add(it.pos, "vary %s: %s", target, m)
+				ok = false
+			}
+			v.Values = append(v.Values, it.text)
+		}
+		if ok {
+			c.Vary = append(c.Vary, v)
+		}
+	}
+}
+
+func (p *parser) checkTolerances(c *Circuit) {
+	seen := map[string]Pos{}
+	for _, line := range p.tols {
+		for _, rt := range line.pairs {
+			target := rt.elem + "." + rt.param
+			msg, e := settable(c, rt.elem, rt.param)
+			switch {
+			case msg != "":
+				pos := rt.paramPos
+				if e == nil {
+					pos = rt.targetPos
+				}
+				p.errs.Add(pos, "tolerance: %s", msg)
+				continue
+			case rt.param == "part" || hasWord(e.Kind, rt.param):
+				p.errs.Add(rt.paramPos, "tolerance: %s is not a number to spread", target)
+				continue
+			case !e.Has(rt.param):
+				p.errs.Add(rt.paramPos, "tolerance: %s has no %s to spread (give it a value first)", rt.elem, rt.param)
+				continue
+			}
+			if first, dup := seen[target]; dup {
+				p.errs.Add(rt.targetPos, "%s already has a tolerance at %s", target, first)
+				continue
+			}
+			seen[target] = rt.targetPos
+			n, m := parseNumber(rt.percent, true)
+			switch {
+			case m != "":
+				p.errs.Add(rt.percentPos, "%s", m)
+				continue
+			case !n.percent:
+				p.errs.Add(rt.percentPos, "a tolerance is a percentage such as 5%%, not %s", rt.percent)
+				continue
+			case !(n.val > 0 && n.val < 100):
+				p.errs.Add(rt.percentPos, "a tolerance must be above 0%% and below 100%% (got %s)", rt.percent)
+				continue
+			}
+			c.Tolerances = append(c.Tolerances, Tolerance{Element: rt.elem, Param: rt.param, Percent: n.val, Dist: line.dist, Pos: rt.targetPos})
+		}
+	}
+}
+
+// clone deep-copies an element.
+func (e *Element) clone() *Element {
+	x := *e
+	x.Num = maps.Clone(e.Num)
+	x.Str = maps.Clone(e.Str)
+	x.Levels = slices.Clone(e.Levels)
+	return &x
+}
+
+// Plan is the study the deck describes: its levels in deck order, the
+// polarities ("both" is pos then neg) and the variants, the cartesian
+// product of the vary lines with the first line varying slowest. A deck
+// without vary lines has one empty variant.
+func (c *Circuit) Plan() Plan {
+	var pl Plan
+	if s := c.Strike(); s != nil {
+		pl.Waveform = s.Str["waveform"]
+		pl.Levels = slices.Clone(s.Levels)
+		switch s.Str["polarity"] {
+		case "neg":
+			pl.Polarities = []string{"neg"}
+		case "both":
+			pl.Polarities = []string{"pos", "neg"}
+		default:
+			pl.Polarities = []string{"pos"}
+		}
+	}
+	pl.Variants = []Variant{{}}
+	for _, v := range c.Vary {
+		next := make([]Variant, 0, len(pl.Variants)*len(v.Values))
+		for _, base := range pl.Variants {
+			for _, val := range v.Values {
+				x := make(Variant, len(base), len(base)+1)
+				copy(x, base)
+				next = append(next, append(x, Setting{Element: v.Element, Param: v.Param, Value: val}))
+			}
+		}
+		pl.Variants = next
+	}
+	return pl
+}
+
+// With returns a deep copy of c with the settings applied in order and
+// checked again; c is not modified. The error is an ErrorList whose entries
+// sit at the changed element's statement.
+func (c *Circuit) With(settings ...Setting) (*Circuit, error) {
+	x := *c
+	x.Elements = make([]*Element, len(c.Elements))
+	for i, e := range c.Elements {
+		x.Elements[i] = e.clone()
+	}
+	x.Nodes = slices.Clone(c.Nodes)
+	x.Watches = slices.Clone(c.Watches)
+	x.Vary = slices.Clone(c.Vary)
+	for i := range x.Vary {
+		x.Vary[i].Values = slices.Clone(c.Vary[i].Values)
+	}
+	x.Tolerances = slices.Clone(c.Tolerances)
+	x.Parts = maps.Clone(c.Parts)
+	x.Warnings = slices.Clone(c.Warnings)
+	if len(settings) > 0 {
+		x.own = maps.Clone(c.own)
+	}
+	var errs ErrorList
+	for _, s := range settings {
+		msg, _ := settable(&x, s.Element, s.Param)
+		e := x.Element(s.Element)
+		pos := Pos{File: c.File}
+		if e != nil {
+			pos = e.Pos
+		}
+		if msg == "" {
+			var own *ownParams
+			if own, msg = x.apply(e, s.Param, s.Value); own != nil {
+				x.own[e.Name] = own
+			}
+		}
+		if msg != "" {
+			errs.Add(pos, "%s: %s", s, msg)
+		}
+	}
+	if len(errs) > 0 {
+		return nil, errs
+	}
+	return &x, nil
+}

@@ -1,0 +1,229 @@
+package netlist
+
+import (
+	"bytes"
+	"strings"
+	"unicode/utf8"
+)
+
+// token is one word of a statement: a bare word, a quoted string or a
+// key=value pair (whose value may be quoted).
+type token struct {
+	raw    string // as written, quotes and all
+	text   string // bare word or decoded quoted string
+	pos    Pos
+	quoted bool // the whole token is a quoted string
+
+	isKV      bool
+	key       string
+	val       string // decoded
+	valPos    Pos
+	valQuoted bool
+}
+
+// statement is the tokens of one logical line (continuations joined).
+type statement struct {
+	toks []token
+}
+
+// scan splits src into statements. It never fails: problems are added to
+// errs and the scan goes on, so that every problem of a deck is reported.
+//
+//	deck      = { line } .
+//	line      = [ token { space token } ] [ "\" ] [ "#" comment ] newline .
+//	token     = word | quoted | word "=" ( word | quoted ) .
+func scan(file string, src []byte, errs *ErrorList) []statement {
+	var out []statement
+	var cur []token
+	var contPos Pos
+	continuing := false
+	lineNo := 0
+	for len(src) > 0 || continuing {
+		if len(src) == 0 {
+			errs.Add(contPos, "the last line ends with \\ but no line follows")
+			break
+		}
+		lineNo++
+		var line []byte
+		if k := bytes.IndexByte(src, '\n'); k >= 0 {
+			line, src = src[:k], src[k+1:]
+		} else {
+			line, src = src, nil
+		}
+		if n := len(line); n > 0 && line[n-1] == '\r' {
+			line = line[:n-1]
+		}
+		toks, cont, cpos := scanLine(file, lineNo, line, errs)
+		cur = append(cur, toks...)
+		continuing = cont
+		contPos = cpos
+		if !cont {
+			if len(cur) > 0 {
+				out = append(out, statement{toks: cur})
+			}
+			cur = nil
+		}
+	}
+	if len(cur) > 0 {
+		out = append(out, statement{toks: cur})
+	}
+	return out
+}
+
+// scanLine reads the tokens of one physical line and reports whether the
+// line continues on the next one.
+func scanLine(file string, lineNo int, line []byte, errs *ErrorList) ([]token, bool, Pos) {
+	var toks []token
+	col := 1
+	i := 0
+	badUTF8 := false
+	for i < len(line) {
+		r, w := utf8.DecodeRune(line[i:])
+		if r == ' ' || r == '\t' || r == '\f' || r == '\v' {
+			i += w
+			col++
+			continue
+		}
+		if r == '#' {
+			break
+		}
+		start, startCol := i, col
+		inQuote := false
+		var quotePos Pos
+		for i < len(line) {
+			r, w = utf8.DecodeRune(line[i:])
+			if r == utf8.RuneError && w == 1 && !badUTF8 {
+				badUTF8 = true
+				errs.Add(Pos{file, lineNo, col}, "invalid UTF-8 encoding")
+			}
+			if inQuote {
+				if r == '\\' && i+1 < len(line) && (line[i+1] == '"' || line[i+1] == '\\') {
+					i += 2
+					col += 2
+					continue
+				}
+				if r == '"' {
+					inQuote = false
+				}
+				i += w
+				col++
+				continue
+			}
+			if r == ' ' || r == '\t' || r == '\f' || r == '\v' || r == '#' {
+				break
+			}
+			if r == '"' {
+				inQuote = true
+				quotePos = Pos{file, lineNo, col}
+			}
+			i += w
+			col++
+		}
+		if inQuote {
+			errs.Add(quotePos, "string not closed: a quote \" is missing before the end of the line")
+		}
+		toks = append(toks, makeToken(string(line[start:i]), Pos{file, lineNo, startCol}, errs))
+	}
+	// A trailing backslash continues the statement, whether it stands alone
+	// or is glued to the last word.
+	if n := len(toks); n > 0 {
+		t := &toks[n-1]
+		if !t.quoted && !t.valQuoted && strings.HasSuffix(t.raw, `\`) {
+			cpos := t.pos
+			cpos.Col += utf8.RuneCountInString(t.raw) - 1
+			raw := strings.TrimSuffix(t.raw, `\`)
+			if raw == "" {
+				toks = toks[:n-1]
+			} else {
+				toks[n-1] = makeToken(raw, t.pos, errs)
+			}
+			return toks, true, cpos
+		}
+	}
+	return toks, false, Pos{}
+}
+
+// makeToken classifies a raw word.
+func makeToken(raw string, pos Pos, errs *ErrorList) token {
+	t := token{raw: raw, text: raw, pos: pos}
+	if strings.HasPrefix(raw, `"`) {
+		t.quoted = true
+		t.text = unquote(raw, pos, errs)
+		return t
+	}
+	q := strings.IndexByte(raw, '"')
+	eq := strings.IndexByte(raw, '=')
+	if eq >= 0 && (q < 0 || eq < q) {
+		t.isKV = true
+		t.key = raw[:eq]
+		t.val = raw[eq+1:]
+		t.valPos = pos
+		t.valPos.Col += utf8.RuneCountInString(t.key) + 1
+		if strings.HasPrefix(t.val, `"`) {
+			t.valQuoted = true
+			t.val = unquote(t.val, t.valPos, errs)
+		} else if k := strings.IndexByte(t.val, '"'); k >= 0 {
+			p := t.valPos
+			p.Col += utf8.RuneCountInString(t.val[:k])
+			errs.Add(p, "unexpected quote inside %s", raw)
+		}
+		return t
+	}
+	if q >= 0 {
+		p := pos
+		p.Col += utf8.RuneCountInString(raw[:q])
+		errs.Add(p, "unexpected quote inside %s (quote the whole text)", raw)
+	}
+	return t
+}
+
+// unquote decodes a quoted string: \" is a quote and \\ a backslash; any
+// other backslash stays as written so that folder separators survive.
+func unquote(s string, pos Pos, errs *ErrorList) string {
+	var b strings.Builder
+	col := pos.Col + 1
+	for i := 1; i < len(s); {
+		r, w := utf8.DecodeRuneInString(s[i:])
+		switch {
+		case r == '\\' && i+1 < len(s) && (s[i+1] == '"' || s[i+1] == '\\'):
+			b.WriteByte(s[i+1])
+			i += 2
+			col += 2
+			continue
+		case r == '"':
+			if i+1 < len(s) {
+				p := pos
+				p.Col = col + 1
+				errs.Add(p, "unexpected text after the closing quote")
+			}
+			return b.String()
+		}
+		b.WriteString(s[i : i+w])
+		i += w
+		col++
+	}
+	return b.String() // not closed: already reported by the scanner
+}
+
+// item is one element of a comma-separated list, with its position.
+type item struct {
+	text string
+	pos  Pos
+}
+
+// splitList splits a list value; empty items are reported.
+func splitList(val string, pos Pos, errs *ErrorList) []item {
+	var out []item
+	col := pos.Col
+	for _, s := range strings.Split(val, ",") {
+		p := pos
+		p.Col = col
+		if s == "" {
+			errs.Add(p, "empty item in a list (lists are comma-separated, no spaces)")
+		} else {
+			out = append(out, item{s, p})
+		}
+		col += utf8.RuneCountInString(s) + 1
+	}
+	return out
+}
