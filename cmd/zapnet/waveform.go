@@ -1,11 +1,302 @@
 package main
 
 import (
+	"bufio"
 	"errors"
+	"fmt"
 	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+
+	"github.com/olekukonko/tablewriter"
+
+	"zapnet/waveforms"
 )
 
-// runWaveform is being built; see the open issues.
+// waveformCaution ends every waveform report (SAFETY.md).
+const waveformCaution = "A simulation is an estimate, not a compliance result."
+
+// waveformOptions are the settings of `zapnet waveform`.
+type waveformOptions struct {
+	name  string
+	level float64 // in the waveform's unit; 0: the catalogue's typical level
+	load  float64 // ohms, +Inf open; negative: the prescribed load
+	csv   string  // file for the sampled waveform; empty: none
+	num   map[string]float64
+	str   map[string]string
+}
+
+// runWaveform prints a waveform's calibration checks and, with --csv, writes
+// the waveform itself.
 func runWaveform(args []string, stdout, stderr io.Writer) error {
-	return errors.New("waveform: not built yet")
+	fs := newFlags("waveform",
+		"waveform NAME [--level L] [--load R] [--set key=value]... [--csv FILE]",
+		`  zapnet waveform iec61000-4-2 --level 8k
+  zapnet waveform hbm --level 2kV --load 500 --csv hbm-500ohm.csv
+  zapnet waveform iso10605 --set c=330p --set r=2k
+  zapnet waveform pwl --set file=measured.csv --level 1
+
+Waveforms: `+strings.Join(waveforms.Names(), ", ")+`.
+Levels are in the waveform's unit (V for discharges, eft and surge-1.2-50;
+A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
+		stderr)
+	level := fs.String("level", "", "level in the waveform's unit, e.g. 4k or 8kV (default: a typical level)")
+	load := fs.String("load", "", "resistive load for the checks and the CSV, ohms, or open (default: the load the standard prescribes)")
+	sets := fs.StringArray("set", nil, "waveform parameter key=value, as on the deck's strike line (repeatable)")
+	csvPath := fs.String("csv", "", "write the waveform as CSV to `FILE` (time, current and, for source networks, voltage)")
+	if err := fs.Parse(args); err != nil {
+		return err
+	}
+	if fs.NArg() != 1 {
+		return fmt.Errorf("waveform: want one waveform name (one of %s), got %d arguments", strings.Join(waveforms.Names(), ", "), fs.NArg())
+	}
+	opt := waveformOptions{name: fs.Arg(0), load: waveforms.DefaultLoad, csv: *csvPath,
+		num: map[string]float64{}, str: map[string]string{}}
+	info, err := waveforms.Describe(opt.name)
+	if err != nil {
+		return fmt.Errorf("waveform: %w", err)
+	}
+	var errs []error
+	if *level != "" {
+		v, err := parseSI(*level, info.Unit)
+		if err != nil {
+			errs = append(errs, fmt.Errorf("--level: %w", err))
+		}
+		opt.level = v
+	}
+	if *load != "" {
+		switch strings.ToLower(*load) {
+		case "open", "inf":
+			opt.load = math.Inf(1)
+		default:
+			v, err := parseSI(*load, "ohm")
+			if err == nil && v < 0 {
+				err = fmt.Errorf("a load is >= 0 ohms or open, got %q", *load)
+			}
+			if err != nil {
+				errs = append(errs, fmt.Errorf("--load: %w", err))
+			}
+			opt.load = v
+		}
+	}
+	for _, kv := range *sets {
+		k, v, ok := strings.Cut(kv, "=")
+		if !ok || k == "" {
+			errs = append(errs, fmt.Errorf("--set %q: want key=value", kv))
+			continue
+		}
+		if x, err := parseSI(v, ""); err == nil {
+			opt.num[k] = x
+		} else {
+			opt.str[k] = v
+		}
+	}
+	if err := errors.Join(errs...); err != nil {
+		return fmt.Errorf("waveform: %w", err)
+	}
+	return waveformReport(opt, stdout)
+}
+
+func waveformReport(opt waveformOptions, stdout io.Writer) error {
+	info, err := waveforms.Describe(opt.name)
+	if err != nil {
+		return err
+	}
+	if opt.level == 0 {
+		opt.level = info.Level
+	}
+	s, err := waveforms.New(opt.name, opt.level, opt.num, opt.str)
+	if err != nil {
+		return fmt.Errorf("waveform: %w", err)
+	}
+	load := opt.load
+	if load < 0 {
+		load = waveforms.PrescribedLoad(s.Name)
+	}
+	checks, err := waveforms.Checks(s, load)
+	if err != nil {
+		return fmt.Errorf("waveform: %w", err)
+	}
+	if opt.csv != "" {
+		if err := writeWaveformCSV(opt.csv, s, load); err != nil {
+			return fmt.Errorf("waveform: --csv: %w", err)
+		}
+	}
+
+	w := bufio.NewWriter(stdout)
+	fmt.Fprintf(w, "Waveform %s at %s: %s\n", s.Name, levelText(s), info.Summary)
+	fmt.Fprintf(w, "Source: %s\n", describeSource(s))
+	fmt.Fprintf(w, "Checked into: %s; default span %s, %d breakpoint(s)\n\n",
+		loadText(s, load), waveforms.FormatValue(s.Stop, "s"), len(s.Breakpoints))
+	if len(checks) == 0 {
+		fmt.Fprintf(w, "No published check points for this waveform%s.\n", map[bool]string{true: " with these network values", false: ""}[s.Name == "iso10605"])
+	} else {
+		table := tablewriter.NewWriter(w)
+		table.Header("quantity", "computed", "published", "tolerance", "result", "source")
+		for _, c := range checks {
+			pub := waveforms.FormatValue(c.Published, c.Unit)
+			if math.IsNaN(c.Published) {
+				pub = "window"
+			}
+			result := "within"
+			if !c.Within {
+				result = "OUTSIDE"
+			}
+			if err := table.Append(c.Quantity, waveforms.FormatValue(c.Computed, c.Unit), pub, c.Tol, result, c.Source); err != nil {
+				return err
+			}
+		}
+		if err := table.Render(); err != nil {
+			return err
+		}
+		fmt.Fprintln(w, "\nReferences:")
+		seen := map[string]bool{}
+		for _, c := range checks {
+			if !seen[c.Ref] {
+				seen[c.Ref] = true
+				fmt.Fprintf(w, "  %s\n", c.Ref)
+			}
+		}
+	}
+	if s.Note != "" {
+		fmt.Fprintf(w, "\nNote: %s\n", s.Note)
+	}
+	if opt.csv != "" {
+		fmt.Fprintf(w, "\nWaveform written to %s\n", opt.csv)
+	}
+	fmt.Fprintf(w, "\n%s\n", waveformCaution)
+	return w.Flush()
+}
+
+func levelText(s *waveforms.Stimulus) string {
+	if s.Unit == "" {
+		return "scale " + strconv.FormatFloat(s.Level, 'g', 6, 64)
+	}
+	return waveforms.FormatValue(s.Level, s.Unit)
+}
+
+func describeSource(s *waveforms.Stimulus) string {
+	switch s.Form {
+	case waveforms.Current:
+		return "ideal current (the same into any load)"
+	case waveforms.Thevenin:
+		return "open-circuit voltage behind " + waveforms.FormatValue(s.R, "Ω")
+	case waveforms.Network:
+		d := fmt.Sprintf("%s charged to %s, discharging through %s", waveforms.FormatValue(s.C, "F"),
+			waveforms.FormatValue(s.V0, "V"), waveforms.FormatValue(s.R, "Ω"))
+		if s.L > 0 {
+			d += " and " + waveforms.FormatValue(s.L, "H")
+		}
+		return d
+	}
+	return s.Form.String()
+}
+
+func loadText(s *waveforms.Stimulus, load float64) string {
+	var d string
+	switch {
+	case math.IsInf(load, 1):
+		d = "an open circuit"
+	case load == 0:
+		d = "a short"
+	default:
+		d = waveforms.FormatValue(load, "Ω")
+	}
+	if load == waveforms.PrescribedLoad(s.Name) {
+		d += " (the standard's load)"
+	}
+	return d
+}
+
+// writeWaveformCSV writes the sampled waveform (OUTPUT.md): `time,i(NAME)`
+// and, for Thevenin and network sources, `v(NAME)`, the voltage across the
+// load; one row per sample, SI units, %.9g. The file is written whole or
+// not at all: a temporary file in the same folder is renamed over path only
+// when complete.
+func writeWaveformCSV(path string, s *waveforms.Stimulus, load float64) (err error) {
+	t, i, v := waveforms.Sample(s, load, 0)
+	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*.tmp")
+	if err != nil {
+		return err
+	}
+	defer func() {
+		if err != nil {
+			f.Close()
+			os.Remove(f.Name())
+		}
+	}()
+	bw := bufio.NewWriter(f)
+	if v == nil {
+		fmt.Fprintf(bw, "time,i(%s)\n", s.Name)
+	} else {
+		fmt.Fprintf(bw, "time,i(%s),v(%s)\n", s.Name, s.Name)
+	}
+	for k := range t {
+		if v == nil {
+			fmt.Fprintf(bw, "%.9g,%.9g\n", t[k], i[k])
+		} else {
+			fmt.Fprintf(bw, "%.9g,%.9g,%.9g\n", t[k], i[k], v[k])
+		}
+	}
+	if err = bw.Flush(); err != nil {
+		return err
+	}
+	if err = f.Chmod(0o644); err != nil {
+		return err
+	}
+	if err = f.Close(); err != nil {
+		return err
+	}
+	return os.Rename(f.Name(), path)
+}
+
+// siPrefixes are the multipliers parseSI accepts (no "MEG": M is mega).
+var siPrefixes = map[string]float64{
+	"f": 1e-15, "p": 1e-12, "n": 1e-9, "u": 1e-6, "µ": 1e-6, "μ": 1e-6,
+	"m": 1e-3, "k": 1e3, "M": 1e6, "G": 1e9, "T": 1e12,
+}
+
+// parseSI reads a number with an optional SI prefix and an optional unit:
+// "4k", "8kV", "8 kV", "1.5e3", "330p". unit is the unit the value may
+// carry ("V", "A", "ohm"; "" for none); its case is ignored, and "Ω" is the
+// same as "ohm".
+func parseSI(s, unit string) (float64, error) {
+	text := strings.TrimSpace(s)
+	body := text
+	if unit != "" {
+		for _, u := range unitSpellings(unit) {
+			if len(body) > len(u) && strings.EqualFold(body[len(body)-len(u):], u) {
+				body = strings.TrimSpace(body[:len(body)-len(u)])
+				break
+			}
+		}
+	}
+	mult := 1.0
+	for p, m := range siPrefixes {
+		if strings.HasSuffix(body, p) {
+			if _, err := strconv.ParseFloat(strings.TrimSpace(strings.TrimSuffix(body, p)), 64); err == nil {
+				body, mult = strings.TrimSpace(strings.TrimSuffix(body, p)), m
+				break
+			}
+		}
+	}
+	v, err := strconv.ParseFloat(body, 64)
+	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+		want := "a number with an optional SI prefix"
+		if unit != "" {
+			want += " and unit " + unit
+		}
+		return 0, fmt.Errorf("%q is not %s (e.g. 4k)", text, want)
+	}
+	return v * mult, nil
+}
+
+func unitSpellings(unit string) []string {
+	if unit == "ohm" {
+		return []string{"ohms", "ohm", "Ω"}
+	}
+	return []string{unit}
 }
