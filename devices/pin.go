@@ -1,0 +1,184 @@
+package devices
+
+import "zapnet/netlist"
+
+// Pin is the protected IC input of MODELS.md: node p, reference r and an
+// optional supply rail.
+//
+//	cin between p and r (a linear charge, when cin > 0);
+//	lower path p –rs– kl –diode– r, the diode's anode at r, cathode at kl:
+//	    i_d(v) = is·[exp(v/(n·Vt)) − 1],  v = v(r) − v(kl);
+//	with vbr, the lower path is instead an internal uni clamp from p to r:
+//	    p –(rs + rdyn)– kl –junction– r, u = v(kl) − v(r), with the clamp's
+//	    uni law (vbr, it, nbr, is, n); its forward term is the lower diode;
+//	with rail, an upper path p –rs– ku –diode– rail (anode at ku).
+//
+// Each path has its own rs (default 1 Ω); a zero rs (and rdyn) joins kl or ku
+// to p. The internal clamp's series resistance is rs + rdyn: the path keeps
+// its rs and the clamp adds its dynamic resistance (rdyn default 0). The
+// clamp keys it and nbr are read when present (defaults 1 mA and 1); cin,
+// is, n default to 0, 1e-14 A and 1. The ratings vmax, vmin, ifail belong to
+// the study.
+//
+// Probe "ipath" is the current through the internal paths, not cin: the
+// lower (or internal clamp) path's current plus the upper path's, each
+// counted as flowing out of p, in A. Its peak magnitude is what ifail is
+// compared with.
+type Pin struct {
+	name    string
+	nodes   [2]string
+	rail    string
+	cin     float64 // F
+	gLow    float64 // conductance of the lower path's series resistance; 0: none
+	gUp     float64 // same for the upper path
+	clamp   bool    // lower path is the internal clamp
+	low     clampLaw
+	lowDio  diodeLaw
+	upDio   diodeLaw
+	hasRail bool
+
+	p, r, rl, kl, ku int
+	kCin             int
+	uLow, uUp        float64 // limiting memories, V
+	gmin             float64 // the engine's gmin at the last Eval, for Probe
+}
+
+func init() { Register(netlist.Pin, NewPin) }
+
+// NewPin builds a protected pin from its element.
+func NewPin(e *netlist.Element) (Device, error) {
+	p := modelParams{e: e}
+	cin := p.nonNegative("cin", 0)
+	is := p.nonNegative("is", 1e-14)
+	n := p.positive("n", 1)
+	rs := p.nonNegative("rs", 1)
+	d := &Pin{name: e.Name, nodes: e.Nodes, cin: cin}
+	rLow := rs
+	if e.Has("vbr") {
+		vbr := p.positive("vbr", 0)
+		it := p.positive("it", 1e-3)
+		nbr := p.positive("nbr", 1)
+		rLow += p.nonNegative("rdyn", 0)
+		d.clamp = true
+		d.low = newClampLaw(vbr, it, nbr, is, n, false)
+	} else {
+		d.lowDio = newDiodeLaw(is, n, 0, 0)
+	}
+	if rail := e.Str["rail"]; rail != "" {
+		d.hasRail, d.rail = true, rail
+		d.upDio = newDiodeLaw(is, n, 0, 0)
+		if rs > 0 {
+			d.gUp = 1 / rs
+		}
+	}
+	if rLow > 0 {
+		d.gLow = 1 / rLow
+	}
+	if err := p.err(); err != nil {
+		return nil, err
+	}
+	return d, nil
+}
+
+// Name implements Device.
+func (d *Pin) Name() string { return d.name }
+
+// Layout implements Device.
+func (d *Pin) Layout() Layout {
+	l := Layout{Terminals: []string{d.nodes[0], d.nodes[1]}}
+	if d.hasRail {
+		l.Terminals = append(l.Terminals, d.rail)
+	}
+	if d.gLow > 0 {
+		l.Internal = append(l.Internal, "low")
+	}
+	if d.hasRail && d.gUp > 0 {
+		l.Internal = append(l.Internal, "up")
+	}
+	return l
+}
+
+// Bind implements Device.
+func (d *Pin) Bind(n Nodes) []StateRows {
+	d.p, d.r, d.rl = n.Terminals[0], n.Terminals[1], Ground
+	if d.hasRail {
+		d.rl = n.Terminals[2]
+	}
+	d.kl, d.ku = d.p, d.p
+	k := 0
+	if d.gLow > 0 {
+		d.kl = n.Internal[k]
+		k++
+	}
+	if d.hasRail && d.gUp > 0 {
+		d.ku = n.Internal[k]
+	}
+	d.kCin = -1
+	if d.cin > 0 {
+		d.kCin = 0
+		return []StateRows{{Plus: d.p, Minus: d.r}}
+	}
+	return nil
+}
+
+// Reset implements Resetter.
+func (d *Pin) Reset() { d.uLow, d.uUp = 0, 0 }
+
+// Eval implements Device.
+func (d *Pin) Eval(c *Context) {
+	d.gmin = c.Gmin
+	if d.kCin >= 0 {
+		u := c.V(d.p) - c.V(d.r)
+		c.Capacitance(d.kCin, d.p, d.r, d.cin*u, d.cin)
+	}
+	if d.gLow > 0 {
+		c.Conductance(d.p, d.kl, d.gLow)
+	}
+	if d.clamp {
+		stampJunction(c, &d.low, d.kl, d.r, &d.uLow)
+	} else {
+		stampJunction(c, &d.lowDio, d.r, d.kl, &d.uLow)
+	}
+	if d.hasRail {
+		if d.gUp > 0 {
+			c.Conductance(d.p, d.ku, d.gUp)
+		}
+		stampJunction(c, &d.upDio, d.ku, d.rl, &d.uUp)
+	}
+}
+
+// Probes implements Prober.
+func (d *Pin) Probes() []string { return []string{"ipath"} }
+
+// Probe implements Prober: dst[0] is ipath at the solution x.
+func (d *Pin) Probe(x []float64, dst []float64) {
+	at := func(i int) float64 {
+		if i < 0 {
+			return 0
+		}
+		return x[i]
+	}
+	var out float64
+	switch {
+	case d.gLow > 0:
+		out = (at(d.p) - at(d.kl)) * d.gLow
+	case d.clamp:
+		u := at(d.kl) - at(d.r)
+		i, _ := d.low.current(u)
+		out = i + d.gmin*u
+	default:
+		v := at(d.r) - at(d.kl)
+		i, _ := d.lowDio.current(v)
+		out = -(i + d.gmin*v)
+	}
+	if d.hasRail {
+		if d.gUp > 0 {
+			out += (at(d.p) - at(d.ku)) * d.gUp
+		} else {
+			v := at(d.ku) - at(d.rl)
+			i, _ := d.upDio.current(v)
+			out += i + d.gmin*v
+		}
+	}
+	dst[0] = out
+}
