@@ -93,6 +93,10 @@ type Context struct {
 	// Gmin is the engine's tiny shunt conductance, for models that want it
 	// across junctions, S.
 	Gmin float64
+	// SourceScale multiplies the value of every independent source that is
+	// on at DC (supplies); the engine sets 1, and ramps it from 0 to 1 when
+	// the operating point needs source stepping.
+	SourceScale float64
 }
 
 // V is the value of unknown i (0 for Ground).

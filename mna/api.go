@@ -34,6 +34,11 @@ type Settings struct {
 	Gmin float64
 	// MaxIter bounds Newton iterations at one time point. Zero: 50.
 	MaxIter int
+	// FixedStep, when positive, turns the error control off: every step is
+	// FixedStep (shortened only to land on breakpoints and the stop time),
+	// still starting with the backward-Euler steps after each breakpoint.
+	// It exists for verification (order-of-accuracy tests); zero: adaptive.
+	FixedStep float64
 	// Record keeps the sampled waveforms in the Result.
 	Record bool
 	// Observe, when set, is called at t = 0 and at every accepted point. The

@@ -1,0 +1,82 @@
+package devices
+
+import (
+	"fmt"
+
+	"zapnet/netlist"
+)
+
+// capacitor is the chain a –esr– r –esl– l –C– b (MODELS.md, linear parts).
+// A zero parasitic adds no unknown: without esr, r is a; without esl, l is r.
+// States: 0 the charge C·v(l, b); 1 the flux esl·i of the esl branch.
+type capacitor struct {
+	name          string
+	nodes         [2]string
+	c, gesr, esl  float64
+	a, b, r, l, i int
+}
+
+func init() { Register(netlist.Capacitor, newCapacitor) }
+
+func newCapacitor(e *netlist.Element) (Device, error) {
+	cv := e.Get("value")
+	if !(cv > 0) || cv > maxLinearValue {
+		return nil, fmt.Errorf("%s: %s: capacitance must be positive and finite, have %g F", e.Pos, e.Name, cv)
+	}
+	esr, err := linearParasitic(e, "esr", "ohm")
+	if err != nil {
+		return nil, err
+	}
+	esl, err := linearParasitic(e, "esl", "H")
+	if err != nil {
+		return nil, err
+	}
+	d := &capacitor{name: e.Name, nodes: e.Nodes, c: cv, esl: esl}
+	if esr > 0 {
+		d.gesr = 1 / esr
+	}
+	return d, nil
+}
+
+func (d *capacitor) Name() string { return d.name }
+
+func (d *capacitor) Layout() Layout {
+	l := Layout{Terminals: d.nodes[:]}
+	if d.gesr > 0 {
+		l.Internal = append(l.Internal, "esr")
+	}
+	if d.esl > 0 {
+		l.Internal = append(l.Internal, "esl")
+		l.Branches = []string{"i"}
+	}
+	return l
+}
+
+func (d *capacitor) Bind(n Nodes) []StateRows {
+	d.a, d.b = n.Terminals[0], n.Terminals[1]
+	d.r, d.l, d.i = d.a, d.a, Ground
+	k := 0
+	if d.gesr > 0 {
+		d.r = n.Internal[k]
+		d.l = d.r
+		k++
+	}
+	rows := []StateRows{{}}
+	if d.esl > 0 {
+		d.l = n.Internal[k]
+		d.i = n.Branches[0]
+		rows = append(rows, StateRows{Plus: Ground, Minus: d.i})
+	}
+	rows[0] = StateRows{Plus: d.l, Minus: d.b}
+	return rows
+}
+
+func (d *capacitor) Eval(c *Context) {
+	if d.gesr > 0 {
+		c.Conductance(d.a, d.r, d.gesr)
+	}
+	if d.esl > 0 {
+		stampBranch(c, 1, d.r, d.l, d.i, d.esl)
+	}
+	c.Capacitance(0, d.l, d.b, d.c*(c.V(d.l)-c.V(d.b)), d.c)
+}

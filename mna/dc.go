@@ -1,0 +1,127 @@
+package mna
+
+// OperatingPoint solves the DC state (strike off, supplies on) and returns
+// the node voltages in Nodes order.
+//
+// Newton starts from zero. If it fails, gmin stepping ties every node to gnd
+// through a shunt of 10 mS relaxed by decades down to Gmin, each solution
+// starting the next; if that fails too, source stepping ramps the supplies
+// from zero to their value in adaptive increments.
+func (s *System) OperatingPoint(set *Settings) ([]float64, error) {
+	t := tolerances(set)
+	s.reset()
+	if _, err := s.operatingPoint(&t); err != nil {
+		return nil, err
+	}
+	v := make([]float64, len(s.nodeNames))
+	copy(v, s.x)
+	return v, nil
+}
+
+// reset clears per-run state: the devices' memories and the iterate.
+func (s *System) reset() {
+	for _, d := range s.devs {
+		if d.resetter != nil {
+			d.resetter.Reset()
+		}
+	}
+	clear(s.x)
+	clear(s.hist)
+	s.ctx.T = 0
+	s.ctx.Alpha = 0
+	s.ctx.Gmin = 0
+	s.ctx.SourceScale = 1
+}
+
+// operatingPoint leaves the DC solution in s.x (and its states in s.q) and
+// returns the Newton iterations spent.
+func (s *System) operatingPoint(t *tol) (int, error) {
+	c := &s.ctx
+	c.DC, c.T, c.Alpha, c.Gmin, c.SourceScale = true, 0, 0, t.gmin, 1
+	clear(s.hist)
+	total := 0
+	defer func() { c.SourceScale = 1 }()
+
+	clear(s.x)
+	it, st := s.newton(t, t.gmin)
+	total += it
+	if st == converged {
+		return total, nil
+	}
+	if st == singular {
+		return total, s.dcError(t, "the circuit matrix is singular")
+	}
+
+	// Gmin stepping.
+	clear(s.x)
+	ok := true
+	for g := 1e-2; g > t.gmin; g /= 10 {
+		it, st = s.newton(t, g+t.gmin)
+		total += it
+		if st != converged {
+			ok = false
+			break
+		}
+	}
+	if ok {
+		it, st = s.newton(t, t.gmin)
+		total += it
+		if st == converged {
+			return total, nil
+		}
+	}
+
+	// Source stepping.
+	clear(s.x)
+	c.SourceScale = 0
+	it, st = s.newton(t, t.gmin)
+	total += it
+	if st != converged {
+		return total, s.dcError(t, "Newton iteration did not converge")
+	}
+	step := 0.1
+	for c.SourceScale < 1 {
+		saved := c.SourceScale
+		copy(s.xAcc, s.x) // xAcc is free before the transient: keep the last good point
+		c.SourceScale = min(1, saved+step)
+		it, st = s.newton(t, t.gmin)
+		total += it
+		if st == converged {
+			step = min(2*step, 0.5)
+			continue
+		}
+		copy(s.x, s.xAcc)
+		c.SourceScale = saved
+		step /= 4
+		if step < 1e-4 {
+			return total, s.dcError(t, "Newton iteration did not converge")
+		}
+	}
+	return total, nil
+}
+
+func (s *System) dcError(t *tol, reason string) *SolveError {
+	hint := s.hintFor(s.resRow, false)
+	if reason == "the circuit matrix is singular" {
+		hint = s.singularHint(s.resRow)
+	}
+	return &SolveError{Time: -1, Where: s.where(s.resRow), Residual: s.resValue, Reason: reason, Hint: hint}
+}
+
+// where names an unknown for a message.
+func (s *System) where(i int) string {
+	if i < 0 || i >= len(s.unknowns) {
+		return "an unknown"
+	}
+	if s.isNode[i] {
+		return "node " + s.unknowns[i]
+	}
+	return "branch " + s.unknowns[i]
+}
+
+func (s *System) singularHint(i int) string {
+	if i >= 0 && i < len(s.isNode) && !s.isNode[i] {
+		return "a loop of supplies or inductors fixes no current there; break it with series resistance"
+	}
+	return "a node with no DC path to gnd, or held only by supplies; connect it through a resistor"
+}

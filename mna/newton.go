@@ -1,0 +1,204 @@
+package mna
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/lapack/gonum"
+)
+
+// lapack is gonum's pure-Go LAPACK; it works on row-major flat slices, the
+// layout of the Jacobian.
+var lapack gonum.Implementation
+
+// tol are the tolerances of one solution, defaults filled in.
+type tol struct {
+	rel, abs, charge, current, gmin float64
+	maxIter                         int
+}
+
+// currentTol is the absolute tolerance on the KCL residual, A. It is far
+// below the milliampere currents that matter for a protected pin and well
+// above the rounding of the ampere-scale currents of a strike.
+const currentTol = 1e-9
+
+func tolerances(set *Settings) tol {
+	t := tol{rel: 1e-3, abs: 1e-6, charge: 1e-14, current: currentTol, gmin: 1e-12, maxIter: 50}
+	if set == nil {
+		return t
+	}
+	if set.RelTol > 0 {
+		t.rel = set.RelTol
+	}
+	if set.AbsTol > 0 {
+		t.abs = set.AbsTol
+	}
+	if set.ChargeTol > 0 {
+		t.charge = set.ChargeTol
+	}
+	if set.Gmin > 0 {
+		t.gmin = set.Gmin
+	}
+	if set.MaxIter > 0 {
+		t.maxIter = set.MaxIter
+	}
+	return t
+}
+
+// assemble evaluates every device at s.x into F and J, forms the state
+// derivatives and adds them, and adds the shunt conductances. Along the way
+// it records each device's terminal currents (the change its Eval and its
+// own states make on its terminal rows) and each row's largest single
+// contribution.
+func (s *System) assemble(g float64) {
+	clear(s.f)
+	clear(s.jac)
+	clear(s.scale)
+	c := &s.ctx
+	c.Limited = false
+	for di := range s.devs {
+		d := &s.devs[di]
+		for k, r := range d.touched {
+			s.snap[k] = s.f[r]
+		}
+		c.StateBase = d.stateLo
+		d.dev.Eval(c)
+		for k, r := range d.touched {
+			v := s.f[r] - s.snap[k]
+			s.snap[k] = v
+			s.scale[r] = math.Max(s.scale[r], math.Abs(v))
+		}
+		for t, k := range d.termSnap {
+			if k >= 0 {
+				s.termCur[d.curBase+t] = s.snap[k]
+			} else {
+				s.termCur[d.curBase+t] = 0
+			}
+		}
+	}
+	if c.DC {
+		clear(s.qdot)
+	} else {
+		for k, r := range s.rows {
+			qd := c.Alpha*s.q[k] + s.hist[k]
+			s.qdot[k] = qd
+			a := math.Abs(qd)
+			if r.Plus >= 0 {
+				s.f[r.Plus] += qd
+				s.scale[r.Plus] = math.Max(s.scale[r.Plus], a)
+			}
+			if r.Minus >= 0 {
+				s.f[r.Minus] -= qd
+				s.scale[r.Minus] = math.Max(s.scale[r.Minus], a)
+			}
+			st := s.stateTerm[k]
+			if st[0] >= 0 {
+				s.termCur[st[0]] += qd
+			}
+			if st[1] >= 0 {
+				s.termCur[st[1]] -= qd
+			}
+		}
+	}
+	n := s.n
+	for i := 0; i < n; i++ {
+		if s.isNode[i] {
+			s.f[i] += g * s.x[i]
+			s.jac[i*n+i] += g
+		}
+	}
+}
+
+// residualOK tests the KCL residual of every node row against
+// current + rel·(largest current any one element puts on that node), and
+// every branch row against abs + rel·(largest node voltage), and remembers
+// the worst row for diagnostics.
+func (s *System) residualOK(t *tol) bool {
+	vmax := 0.0
+	for i, node := range s.isNode {
+		if node {
+			vmax = math.Max(vmax, math.Abs(s.x[i]))
+		}
+	}
+	ok := true
+	worst := -1.0
+	for i, node := range s.isNode {
+		var lim float64
+		if node {
+			lim = t.current + t.rel*s.scale[i]
+		} else {
+			lim = t.abs + t.rel*vmax
+		}
+		r := math.Abs(s.f[i]) / lim
+		if !(r <= 1) {
+			ok = false
+		}
+		if r > worst || r != r {
+			worst = r
+			s.resRow, s.resValue = i, s.f[i]
+		}
+	}
+	return ok
+}
+
+// newtonStatus says how a Newton solve ended.
+type newtonStatus int
+
+const (
+	converged newtonStatus = iota
+	notConverged
+	singular
+)
+
+// newton iterates from s.x at the context's time and integration rule. g is
+// the total shunt on every node row. It returns the iterations used.
+func (s *System) newton(t *tol, g float64) (int, newtonStatus) {
+	n := s.n
+	for it := 1; it <= t.maxIter; it++ {
+		s.assemble(g)
+		resOK := s.residualOK(t)
+		copy(s.lu, s.jac)
+		lapack.Dgetrf(n, n, s.lu, n, s.piv)
+		if k := s.zeroPivot(g); k >= 0 {
+			s.resRow, s.resValue = k, s.f[k]
+			return it, singular
+		}
+		for i := range s.dx {
+			s.dx[i] = -s.f[i]
+		}
+		lapack.Dgetrs(blas.NoTrans, n, 1, s.lu, n, s.piv, s.dx, 1)
+		dxOK := true
+		for i, d := range s.dx {
+			x := s.x[i]
+			xn := x + d
+			if !(math.Abs(d) <= t.rel*math.Max(math.Abs(x), math.Abs(xn))+t.abs) {
+				dxOK = false
+				if d != d || math.IsInf(xn, 0) {
+					s.resRow, s.resValue = i, s.f[i]
+					return it, notConverged
+				}
+			}
+			s.x[i] = xn
+		}
+		if dxOK && resOK && !s.ctx.Limited {
+			return it, converged
+		}
+	}
+	return t.maxIter, notConverged
+}
+
+// zeroPivot returns the unknown whose pivot vanished in the factorisation,
+// or -1. Node rows carry at least the shunt g, so a pivot far below it
+// means a dependent unknown (a loop of supplies or inductors, a node held
+// only by branch equations), not a weakly tied node.
+func (s *System) zeroPivot(g float64) int {
+	n := s.n
+	lim := 1e-6 * g
+	for k := 0; k < n; k++ {
+		p := s.lu[k*n+k]
+		if !(math.Abs(p) > lim) {
+			return k
+		}
+	}
+	return -1
+}

@@ -1,0 +1,320 @@
+package mna
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+
+	"zapnet/devices"
+	"zapnet/netlist"
+	"zapnet/waveforms"
+)
+
+// System is a compiled circuit: the numbering of its unknowns, its devices
+// and every buffer a solution needs. It is reused across runs (the runs of a
+// sweep) and is not safe for concurrent use: give each goroutine its own.
+type System struct {
+	nodeNames []string // circuit nodes: unknowns 0..len-1
+	unknowns  []string // display name of every unknown
+	isNode    []bool   // KCL row (true) or branch row (false)
+	owner     []int    // device owning an internal unknown, -1 for circuit nodes
+	nodeDevs  [][]int  // devices touching each circuit node, for hints
+	devs      []device
+	elements  []string
+	probes    []string
+
+	striker devices.Striker
+	stim    *waveforms.Stimulus
+	sign    float64
+
+	n     int
+	ctx   devices.Context
+	x     []float64 // iterate
+	xAcc  []float64 // last accepted solution
+	dx    []float64
+	f     []float64
+	jac   []float64
+	lu    []float64
+	piv   []int
+	scale []float64 // largest single contribution on each row, for the residual test
+	snap  []float64 // per-device scratch: rows before its Eval
+
+	// States: q set by the devices at the last evaluation, hist the
+	// integration history, qdot the derivative formed at the last
+	// evaluation, qdotAcc at the last accepted point.
+	q, hist, qdot, qdotAcc []float64
+	rows                   []devices.StateRows
+	stateDev               []int // device of each state
+	stateTerm              [][2]int
+	hq                     [3][]float64 // accepted charge history (ring)
+	ht                     [3]float64
+
+	termCur []float64 // current into every device terminal (flattened), A
+	power   []float64 // per element at the last accepted point, W
+	shunt   float64   // extra conductance of gmin stepping, S
+
+	pt       Point
+	resRow   int     // row of the largest scaled residual in the last Newton iteration
+	resValue float64 // its residual
+}
+
+// device is one compiled element with the engine's bookkeeping.
+type device struct {
+	dev       devices.Device
+	nodes     devices.Nodes
+	term      []int // terminal rows (Ground allowed)
+	touched   []int // distinct rows the device may stamp
+	termSnap  []int // for each terminal, its index in touched, or -1
+	stateLo   int
+	stateHi   int
+	curBase   int
+	probeBase int
+	nProbe    int
+	prober    devices.Prober
+	acceptor  devices.Acceptor
+	resetter  devices.Resetter
+	limiter   devices.StepLimiter
+}
+
+// Compile numbers the nodes of c, builds its devices and allocates every
+// buffer a solution needs.
+//
+// Circuit nodes come first, in order of first appearance among the
+// elements' terminals (deck order); then each element's internal nodes and
+// branch currents, in deck order. Every element, the strike included, is
+// built from the device registry.
+func Compile(c *netlist.Circuit) (*System, error) {
+	s := &System{sign: 1}
+	var errs []error
+	nodeIndex := map[string]int{}
+	for _, e := range c.Elements {
+		d, err := devices.New(e)
+		if err != nil {
+			errs = append(errs, err)
+			continue
+		}
+		s.devs = append(s.devs, device{dev: d})
+		s.elements = append(s.elements, e.Name)
+		for _, name := range d.Layout().Terminals {
+			if name == netlist.Ground || name == "" {
+				continue
+			}
+			if _, ok := nodeIndex[name]; !ok {
+				nodeIndex[name] = len(s.nodeNames)
+				s.nodeNames = append(s.nodeNames, name)
+			}
+		}
+	}
+	if len(errs) > 0 {
+		return nil, errors.Join(errs...)
+	}
+	if len(s.devs) == 0 {
+		return nil, errors.New("mna: the circuit has no elements")
+	}
+	for _, name := range s.nodeNames {
+		s.unknowns = append(s.unknowns, name)
+		s.isNode = append(s.isNode, true)
+		s.owner = append(s.owner, -1)
+	}
+	s.nodeDevs = make([][]int, len(s.nodeNames))
+
+	// Internal unknowns, then binding: states are numbered in device order.
+	var rows []devices.StateRows
+	var stateDev []int
+	nTerm, nProbe := 0, 0
+	for di := range s.devs {
+		d := &s.devs[di]
+		lay := d.dev.Layout()
+		name := d.dev.Name()
+		for _, t := range lay.Terminals {
+			idx := devices.Ground
+			if t != netlist.Ground && t != "" {
+				idx = nodeIndex[t]
+				if k := len(s.nodeDevs[idx]); k == 0 || s.nodeDevs[idx][k-1] != di {
+					s.nodeDevs[idx] = append(s.nodeDevs[idx], di)
+				}
+			}
+			d.nodes.Terminals = append(d.nodes.Terminals, idx)
+		}
+		for _, in := range lay.Internal {
+			d.nodes.Internal = append(d.nodes.Internal, len(s.unknowns))
+			s.unknowns = append(s.unknowns, name+"."+in)
+			s.isNode = append(s.isNode, true)
+			s.owner = append(s.owner, di)
+		}
+		for _, br := range lay.Branches {
+			d.nodes.Branches = append(d.nodes.Branches, len(s.unknowns))
+			s.unknowns = append(s.unknowns, name+"."+br)
+			s.isNode = append(s.isNode, false)
+			s.owner = append(s.owner, di)
+		}
+		d.term = d.nodes.Terminals
+		for _, r := range d.nodes.Terminals {
+			d.termSnap = append(d.termSnap, addRow(&d.touched, r))
+		}
+		// A device with a terminal twice on one node gets that row's current
+		// on its first terminal only.
+		for t := range d.termSnap {
+			for u := 0; u < t; u++ {
+				if d.termSnap[u] == d.termSnap[t] {
+					d.termSnap[t] = -1
+				}
+			}
+		}
+		for _, r := range d.nodes.Internal {
+			addRow(&d.touched, r)
+		}
+		for _, r := range d.nodes.Branches {
+			addRow(&d.touched, r)
+		}
+		d.curBase = nTerm
+		nTerm += len(d.term)
+		d.prober, _ = d.dev.(devices.Prober)
+		d.acceptor, _ = d.dev.(devices.Acceptor)
+		d.resetter, _ = d.dev.(devices.Resetter)
+		d.limiter, _ = d.dev.(devices.StepLimiter)
+		if st, ok := d.dev.(devices.Striker); ok {
+			if s.striker != nil {
+				errs = append(errs, fmt.Errorf("mna: more than one strike (%s)", name))
+			}
+			s.striker = st
+		}
+		d.probeBase = nProbe
+		if d.prober != nil {
+			for _, p := range d.prober.Probes() {
+				s.probes = append(s.probes, name+"."+p)
+				nProbe++
+				d.nProbe++
+			}
+		}
+	}
+	s.n = len(s.unknowns)
+	for di := range s.devs {
+		d := &s.devs[di]
+		sr := d.dev.Bind(d.nodes)
+		d.stateLo = len(rows)
+		for _, r := range sr {
+			if r.Plus >= s.n || r.Minus >= s.n || r.Plus < devices.Ground || r.Minus < devices.Ground {
+				panic(fmt.Sprintf("mna: %s: state row out of range", d.dev.Name()))
+			}
+			rows = append(rows, r)
+			stateDev = append(stateDev, di)
+		}
+		d.stateHi = len(rows)
+	}
+	if len(errs) > 0 {
+		return nil, errors.Join(errs...)
+	}
+	s.rows, s.stateDev = rows, stateDev
+	s.stateTerm = make([][2]int, len(rows))
+	for k, r := range rows {
+		d := &s.devs[stateDev[k]]
+		s.stateTerm[k] = [2]int{termOf(d, r.Plus), termOf(d, r.Minus)}
+	}
+
+	n, ns := s.n, len(rows)
+	s.x = make([]float64, n)
+	s.xAcc = make([]float64, n)
+	s.dx = make([]float64, n)
+	s.f = make([]float64, n)
+	s.jac = make([]float64, n*n)
+	s.lu = make([]float64, n*n)
+	s.piv = make([]int, n)
+	s.scale = make([]float64, n)
+	maxTouched := 0
+	for _, d := range s.devs {
+		maxTouched = max(maxTouched, len(d.touched))
+	}
+	s.snap = make([]float64, maxTouched)
+	s.q = make([]float64, ns)
+	s.hist = make([]float64, ns)
+	s.qdot = make([]float64, ns)
+	s.qdotAcc = make([]float64, ns)
+	for i := range s.hq {
+		s.hq[i] = make([]float64, ns)
+	}
+	s.termCur = make([]float64, nTerm)
+	s.power = make([]float64, len(s.devs))
+	s.pt = Point{
+		V: make([]float64, len(s.nodeNames)),
+		I: make([]float64, len(s.devs)),
+		P: make([]float64, nProbe),
+	}
+	s.ctx = devices.Context{
+		X: s.x, F: s.f, J: s.jac, N: n,
+		Q: s.q, Rows: s.rows, SourceScale: 1,
+	}
+	return s, nil
+}
+
+// addRow appends r to rows unless it is Ground or already there, and
+// returns its index (-1 for Ground).
+func addRow(rows *[]int, r int) int {
+	if r < 0 {
+		return -1
+	}
+	for i, v := range *rows {
+		if v == r {
+			return i
+		}
+	}
+	*rows = append(*rows, r)
+	return len(*rows) - 1
+}
+
+// termOf is the flattened terminal-current index of the terminal of d on
+// row r, or -1.
+func termOf(d *device, r int) int {
+	if r < 0 {
+		return -1
+	}
+	for t, tr := range d.term {
+		if tr == r && d.termSnap[t] >= 0 {
+			return d.curBase + t
+		}
+	}
+	return -1
+}
+
+// Nodes are the circuit's node names (gnd excluded), in result order: order
+// of first appearance among the elements' terminals.
+func (s *System) Nodes() []string { return s.nodeNames }
+
+// Elements are the element names, in result order (deck order).
+func (s *System) Elements() []string { return s.elements }
+
+// Probes are the names of the devices' probes, "ELEMENT.probe", in result order.
+func (s *System) Probes() []string { return s.probes }
+
+// Unknowns are the names of every unknown of the system: the circuit nodes,
+// then internal nodes and branch currents as ELEMENT.suffix.
+func (s *System) Unknowns() []string { return s.unknowns }
+
+// SetStimulus sets the strike of the next runs; sign is +1 or −1; nil: none.
+// The stimulus also supplies the breakpoints and the default span.
+func (s *System) SetStimulus(st *waveforms.Stimulus, sign float64) {
+	s.stim, s.sign = st, sign
+	if s.striker != nil {
+		s.striker.SetStimulus(st, sign)
+	}
+}
+
+// hintFor suggests what to try when the solution is stuck at unknown i.
+func (s *System) hintFor(i int, transient bool) string {
+	var names []string
+	if i >= 0 && i < len(s.owner) && s.owner[i] >= 0 {
+		names = append(names, s.elements[s.owner[i]])
+	} else if i >= 0 && i < len(s.nodeDevs) {
+		for _, di := range s.nodeDevs[i] {
+			names = append(names, s.elements[di])
+		}
+	}
+	who := "the elements there"
+	if len(names) > 0 {
+		who = strings.Join(names, ", ")
+	}
+	if transient {
+		return "try a smaller maxstep in the window statement, or add series resistance to " + who
+	}
+	return "check the DC paths through " + who + " (a supply across a junction needs series resistance)"
+}

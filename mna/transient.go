@@ -1,0 +1,326 @@
+package mna
+
+import (
+	"errors"
+	"math"
+	"time"
+)
+
+// trtol widens the truncation-error tolerance: the divided-difference
+// estimate overstates the error the solution actually carries, and a factor
+// of about 7 is the common practice [practice] that keeps the step from
+// being needlessly small while the Newton tolerances still govern accuracy.
+const trtol = 7
+
+// firstFraction is the first step after t = 0 and after every breakpoint, as
+// a fraction of the interval it starts (itself at most MaxStep): small
+// enough to follow a corner, and the error control then grows it at most 2×
+// a step.
+const firstFraction = 1e-3
+
+// beSteps is the number of backward-Euler steps after t = 0 and after each
+// breakpoint: they damp the step-to-step ringing the trapezoidal rule
+// leaves after a discontinuity (it is not L-stable).
+const beSteps = 2
+
+// Transient solves from the operating point to the stop time.
+//
+// The initial state is the operating point (strike off, supplies on): its
+// charges and fluxes, with zero derivatives. Each step is solved by Newton
+// with the trapezoidal rule, after t = 0 and after each breakpoint first with
+// two backward-Euler steps. The step follows the local truncation error of
+// every charge and flux; a step whose error is too large or whose Newton
+// iteration fails is shrunk and retried. Breakpoints of the stimulus are hit
+// exactly. The energy ledger integrates Σ v·i of every element over the
+// accepted points with the trapezoidal rule.
+func (s *System) Transient(set *Settings) (*Result, error) {
+	start := time.Now()
+	var cfg Settings
+	if set != nil {
+		cfg = *set
+	}
+	t := tolerances(set)
+	stop := cfg.Stop
+	if stop <= 0 && s.stim != nil {
+		stop = s.stim.Stop
+	}
+	if !(stop > 0) || math.IsInf(stop, 0) {
+		return nil, errors.New("mna: no stop time: give one in the settings or set a stimulus with a default span")
+	}
+	maxStep := cfg.MaxStep
+	if maxStep <= 0 {
+		maxStep = stop / 50
+	}
+	for _, d := range s.devs {
+		if d.limiter != nil {
+			if m := d.limiter.MaxStep(); m > 0 && m < maxStep {
+				maxStep = m
+			}
+		}
+	}
+	minStep := cfg.MinStep
+	if minStep <= 0 {
+		minStep = 1e-16
+	}
+	fixed := cfg.FixedStep
+
+	ne := len(s.devs)
+	res := &Result{Energy: make([]float64, ne), PeakCurrent: make([]float64, ne), Stop: stop}
+	if cfg.Record {
+		res.V = make([][]float64, len(s.nodeNames))
+		res.I = make([][]float64, ne)
+		res.P = make([][]float64, len(s.probes))
+	}
+
+	s.reset()
+	dcIt, err := s.operatingPoint(&t)
+	res.Stats.DCNewton = dcIt
+	if err != nil {
+		res.Stats.Wall = time.Since(start)
+		return nil, err
+	}
+	c := &s.ctx
+	c.DC = false
+
+	copy(s.xAcc, s.x)
+	head, nHist := 0, 1
+	copy(s.hq[head], s.q)
+	s.ht[head] = 0
+	clear(s.qdotAcc)
+	s.accept(res, &cfg, 0, 0, true)
+
+	now := 0.0
+	bi := 0 // next candidate breakpoint in s.stim.Breakpoints
+	var bps []float64
+	if s.stim != nil {
+		bps = s.stim.Breakpoints
+	}
+	// nextTarget is the next breakpoint after now (or the stop time).
+	nextTarget := func() (float64, bool) {
+		for bi < len(bps) && bps[bi] <= now+minStep {
+			bi++
+		}
+		if bi < len(bps) && bps[bi] < stop-minStep {
+			return bps[bi], true
+		}
+		return stop, false
+	}
+	target, _ := nextTarget()
+	h := min(maxStep, target) * firstFraction
+	if fixed > 0 {
+		h = fixed
+	}
+	be := beSteps
+	for now < stop {
+		target, isBP := nextTarget()
+		hs := min(h, maxStep)
+		rem := target - now
+		hit := false
+		if hs >= rem {
+			hs, hit = rem, true
+		} else if hs > 0.5*rem {
+			hs = 0.5 * rem
+		}
+		if hs < minStep {
+			return nil, s.stepError(now, "the time step fell below the minimum step")
+		}
+		tNew := now + hs
+		if hit {
+			tNew = target
+		}
+
+		hn := s.hq[head]
+		if be > 0 {
+			c.Alpha = 1 / hs
+			for k, q := range hn {
+				s.hist[k] = -q / hs
+			}
+		} else {
+			c.Alpha = 2 / hs
+			for k, q := range hn {
+				s.hist[k] = -c.Alpha*q - s.qdotAcc[k]
+			}
+		}
+		c.T = tNew
+		copy(s.x, s.xAcc)
+		it, st := s.newton(&t, t.gmin)
+		res.Stats.Newton += it
+		if st != converged {
+			res.Stats.Rejected++
+			h = hs / 2
+			if h < minStep {
+				reason := "Newton iteration did not converge and the time step fell below the minimum step"
+				if st == singular {
+					reason = "the circuit matrix is singular"
+				}
+				return nil, s.stepError(now, reason)
+			}
+			continue
+		}
+		grow := 2.0
+		if fixed <= 0 {
+			r, have := s.lteRatio(be > 0, tNew, head, nHist, &t)
+			if have {
+				p := 1.0 / 3
+				if be > 0 {
+					p = 0.5
+				}
+				if r > 1 {
+					res.Stats.Rejected++
+					h = hs * max(1.0/8, min(0.5, 0.9*math.Pow(r, -p)))
+					if h < minStep {
+						return nil, s.stepError(now, "the truncation error stays too large at the minimum step")
+					}
+					continue
+				}
+				if r > 0 {
+					grow = min(2, 0.9*math.Pow(r, -p))
+				}
+			}
+		}
+
+		// Accept.
+		head = (head + 1) % len(s.hq)
+		copy(s.hq[head], s.q)
+		s.ht[head] = tNew
+		nHist = min(nHist+1, len(s.hq))
+		copy(s.qdotAcc, s.qdot)
+		copy(s.xAcc, s.x)
+		now = tNew
+		res.Stats.Steps++
+		s.accept(res, &cfg, now, hs, false)
+
+		switch {
+		case fixed > 0:
+			h = fixed
+			if hit && isBP {
+				be = beSteps
+			} else if be > 0 {
+				be--
+			}
+		case hit && isBP:
+			be = beSteps
+			nHist = 1
+			next, _ := nextTarget()
+			h = min(maxStep, next-now) * firstFraction
+		default:
+			if be > 0 {
+				be--
+			}
+			h = hs * grow
+		}
+	}
+	for _, e := range res.Energy {
+		res.Balance += e
+	}
+	res.Stats.Wall = time.Since(start)
+	return res, nil
+}
+
+// lteRatio is the largest ratio of estimated local truncation error to
+// tolerance over the states, for a step to tNew whose charges are in s.q.
+// The error comes from divided differences over the accepted points since
+// the last breakpoint: h³/12·q‴ for the trapezoidal rule (needs three
+// earlier points) and h²/2·q″ for backward Euler (needs two). have is false
+// when there are too few points.
+func (s *System) lteRatio(be bool, tNew float64, head, nHist int, t *tol) (r float64, have bool) {
+	n := len(s.hq)
+	i1 := head
+	i2 := (head + n - 1) % n
+	i3 := (head + n - 2) % n
+	h := tNew - s.ht[i1]
+	if be {
+		if nHist < 2 {
+			return 0, false
+		}
+		t0, t1 := s.ht[i2], s.ht[i1]
+		q0, q1 := s.hq[i2], s.hq[i1]
+		for k, q2 := range s.q {
+			d10 := (q1[k] - q0[k]) / (t1 - t0)
+			d21 := (q2 - q1[k]) / (tNew - t1)
+			dd2 := (d21 - d10) / (tNew - t0)
+			lte := h * h * dd2
+			tl := trtol * (t.rel*math.Max(math.Abs(q1[k]), math.Abs(q2)) + t.charge)
+			r = math.Max(r, math.Abs(lte)/tl)
+		}
+		return r, true
+	}
+	if nHist < 3 {
+		return 0, false
+	}
+	t0, t1, t2 := s.ht[i3], s.ht[i2], s.ht[i1]
+	q0, q1, q2 := s.hq[i3], s.hq[i2], s.hq[i1]
+	for k, q3 := range s.q {
+		d10 := (q1[k] - q0[k]) / (t1 - t0)
+		d21 := (q2[k] - q1[k]) / (t2 - t1)
+		d32 := (q3 - q2[k]) / (tNew - t2)
+		dd20 := (d21 - d10) / (t2 - t0)
+		dd31 := (d32 - d21) / (tNew - t1)
+		dd3 := (dd31 - dd20) / (tNew - t0)
+		lte := h * h * h * dd3 / 2
+		tl := trtol * (t.rel*math.Max(math.Abs(q2[k]), math.Abs(q3)) + t.charge)
+		r = math.Max(r, math.Abs(lte)/tl)
+	}
+	return r, true
+}
+
+// accept books an accepted point: element currents and powers, the energy
+// ledger (trapezoidal over the step h), peaks, probes, the devices'
+// Acceptors, Observe and Record.
+func (s *System) accept(res *Result, cfg *Settings, now, h float64, first bool) {
+	pt := &s.pt
+	pt.T = now
+	copy(pt.V, s.x[:len(s.nodeNames)])
+	for di := range s.devs {
+		d := &s.devs[di]
+		p := 0.0
+		for ti, r := range d.term {
+			if r >= 0 {
+				p += s.x[r] * s.termCur[d.curBase+ti]
+			}
+		}
+		if !first {
+			res.Energy[di] += 0.5 * h * (s.power[di] + p)
+		}
+		s.power[di] = p
+		i := 0.0
+		switch {
+		case len(d.term) > 0 && d.term[0] >= 0:
+			i = s.termCur[d.curBase]
+		case len(d.term) > 1:
+			i = -s.termCur[d.curBase+1]
+		}
+		pt.I[di] = i
+		res.PeakCurrent[di] = math.Max(res.PeakCurrent[di], math.Abs(i))
+		if d.prober != nil {
+			d.prober.Probe(s.x, pt.P[d.probeBase:d.probeBase+d.nProbe])
+		}
+		if d.acceptor != nil {
+			d.acceptor.Accept(now, s.x)
+		}
+	}
+	if cfg.Observe != nil {
+		cfg.Observe(pt)
+	}
+	if cfg.Record {
+		res.Time = append(res.Time, now)
+		for i, v := range pt.V {
+			res.V[i] = append(res.V[i], v)
+		}
+		for i, v := range pt.I {
+			res.I[i] = append(res.I[i], v)
+		}
+		for i, v := range pt.P {
+			res.P[i] = append(res.P[i], v)
+		}
+	}
+}
+
+// stepError reports a transient failure at time now.
+func (s *System) stepError(now float64, reason string) *SolveError {
+	hint := s.hintFor(s.resRow, true)
+	if reason == "the circuit matrix is singular" {
+		hint = s.singularHint(s.resRow)
+	}
+	return &SolveError{Time: now, Where: s.where(s.resRow), Residual: s.resValue, Reason: reason, Hint: hint}
+}
