@@ -2,10 +2,192 @@ package main
 
 import (
 	"errors"
+	"fmt"
 	"io"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+
+	"zapnet/cmd/internal/report"
+	"zapnet/cmd/internal/study"
+	"zapnet/netlist"
 )
 
-// runRun is being built; see the open issues.
+// runOptions are the settings of `zapnet run`; runStudy takes them so that
+// tests can call it without flags.
+type runOptions struct {
+	deck       string
+	levels     []float64 // nil: the deck's
+	polarities []string  // nil: the deck's
+	json       string    // file, "-" for stdout, "" for none
+	csv        string    // file, folder or pattern, "" for none
+	workers    int       // 0: every core
+	// zeroWall keeps wall times out of the JSON (golden tests).
+	zeroWall bool
+}
+
 func runRun(args []string, stdout, stderr io.Writer) error {
-	return errors.New("run: not built yet")
+	fs := newFlags("run",
+		"run DECK [--level LIST] [--polarity pos|neg|both] [--json FILE] [--csv FILE] [--workers N]",
+		`  zapnet run testdata/demo.zap
+  zapnet run testdata/demo.zap --level 8k --polarity neg
+  zapnet run testdata/demo.zap --json result.json --csv 'waves/{run}.csv'
+
+Runs every level × polarity (× variant) of the deck's strike and prints, per
+run, the watched nodes, the clamps against ipp/emax, the residual pulse at
+each protected pin, the capacitors against their rating, the energy ledger
+and the verdict with the margin to the nearest limit; then a summary.
+Exit status: 0 every run PASS, 1 at least one FAIL, 2 unusable input or a
+failed solve.`,
+		stderr)
+	level := fs.String("level", "", "levels to run instead of the deck's, an SI list in the waveform's unit, e.g. 4k,8k")
+	polarity := fs.String("polarity", "", "polarity to run instead of the deck's: pos, neg or both")
+	jsonPath := fs.String("json", "", "write the results as JSON to `FILE` (- for stdout, the tables then go to stderr)")
+	csvPath := fs.String("csv", "", "write each run's waveforms as CSV: a `FILE` for one run; a folder (ending in /) or a pattern with {run} for several")
+	workers := fs.Int("workers", 0, "runs solved at once (default: every core)")
+	if err := fs.Parse(args); err != nil {
+		return err
+	}
+	if fs.NArg() != 1 {
+		fs.Usage()
+		return fmt.Errorf("run: want one deck, got %d arguments", fs.NArg())
+	}
+	opt := runOptions{deck: fs.Arg(0), json: *jsonPath, csv: *csvPath, workers: *workers}
+	if *level != "" {
+		ls, err := levelList(*level)
+		if err != nil {
+			return fmt.Errorf("run: --level: %w", err)
+		}
+		opt.levels = ls
+	}
+	switch *polarity {
+	case "":
+	case "pos", "neg":
+		opt.polarities = []string{*polarity}
+	case "both":
+		opt.polarities = []string{"pos", "neg"}
+	default:
+		return fmt.Errorf("run: --polarity %q: use pos, neg or both", *polarity)
+	}
+	if *workers < 0 {
+		return fmt.Errorf("run: --workers %d: use a positive number, or 0 for every core", *workers)
+	}
+	return runStudy(opt, stdout, stderr)
+}
+
+// runStudy reads the deck, solves its study, prints the report and writes
+// the requested files. It returns errVerdictFail when a run failed its
+// verdict, and any other error for unusable input or a failed solve.
+func runStudy(opt runOptions, stdout, stderr io.Writer) error {
+	c, err := netlist.ParseFile(opt.deck)
+	if err != nil {
+		return err
+	}
+	for _, w := range c.Warnings {
+		fmt.Fprintln(stderr, w)
+	}
+	sopt := &study.Options{Levels: opt.levels, Polarities: opt.polarities, Workers: opt.workers,
+		Record: opt.csv != ""}
+	runs, solveErr := study.Execute(c, sopt)
+	if runs == nil && solveErr != nil {
+		return fmt.Errorf("%s: %w", opt.deck, solveErr)
+	}
+	if opt.zeroWall {
+		for i := range runs {
+			runs[i].Stats.Wall = 0
+		}
+	}
+
+	tables := stdout
+	if opt.json == "-" {
+		tables = stderr
+	}
+	if err := report.Tables(tables, runs, &report.TableOptions{Title: c.Title, Deck: opt.deck}); err != nil {
+		return err
+	}
+	meta := report.Meta{Tool: "zapnet", Version: Version, Deck: opt.deck, Title: c.Title}
+	var errs []error
+	switch opt.json {
+	case "":
+	case "-":
+		if err := report.JSON(stdout, meta, runs); err != nil {
+			errs = append(errs, err)
+		}
+	default:
+		if err := report.WriteFile(opt.json, func(w io.Writer) error { return report.JSON(w, meta, runs) }); err != nil {
+			errs = append(errs, fmt.Errorf("--json: %w", err))
+		}
+	}
+	if opt.csv != "" {
+		var solved []study.Run
+		for _, r := range runs {
+			if r.Err == nil {
+				solved = append(solved, r)
+			}
+		}
+		if err := writeCSVs(opt.csv, opt.deck, solved); err != nil {
+			errs = append(errs, err)
+		}
+	}
+	if solveErr != nil {
+		errs = append(errs, solveErr)
+	}
+	if len(errs) > 0 {
+		return errors.Join(errs...)
+	}
+	for _, r := range runs {
+		if r.Verdict != study.Pass {
+			return errVerdictFail
+		}
+	}
+	return nil
+}
+
+// writeCSVs writes one CSV per run, each whole or not at all.
+func writeCSVs(target, deck string, runs []study.Run) error {
+	if len(runs) == 0 {
+		return nil
+	}
+	paths, err := report.CSVPaths(target, deck, runs)
+	if err != nil {
+		return err
+	}
+	if strings.HasSuffix(target, "/") {
+		if err := os.MkdirAll(target, 0o755); err != nil {
+			return fmt.Errorf("--csv: %w", err)
+		}
+	}
+	for i, p := range paths {
+		r := &runs[i]
+		if err := report.WriteFile(p, func(w io.Writer) error { return report.CSV(w, r) }); err != nil {
+			return fmt.Errorf("--csv: %w", err)
+		}
+	}
+	return nil
+}
+
+// levelMultipliers are the SI prefixes a --level value may carry.
+var levelMultipliers = map[string]float64{"m": 1e-3, "k": 1e3, "M": 1e6}
+
+// levelList reads a comma-separated list of levels with SI prefixes and an
+// optional unit, as on the deck's strike line: "4k,8k", "8kV", "500A".
+func levelList(s string) ([]float64, error) {
+	var out []float64
+	for _, f := range strings.Split(s, ",") {
+		text := strings.TrimSpace(f)
+		body := strings.TrimRight(text, "VA")
+		mult := 1.0
+		if n := len(body); n > 0 {
+			if m, ok := levelMultipliers[body[n-1:]]; ok {
+				body, mult = body[:n-1], m
+			}
+		}
+		v, err := strconv.ParseFloat(body, 64)
+		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) || v <= 0 || len(text)-len(strings.TrimRight(text, "VA")) > 1 {
+			return nil, fmt.Errorf("%q is not a positive level (write levels like 4k,8k or 8kV)", text)
+		}
+		out = append(out, v*mult)
+	}
+	return out, nil
 }

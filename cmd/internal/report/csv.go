@@ -2,23 +2,130 @@ package report
 
 import (
 	"errors"
+	"fmt"
 	"io"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
 
 	"zapnet/cmd/internal/study"
+	"zapnet/netlist"
 )
 
 // CSV writes a recorded run's waveforms (OUTPUT.md): a header
-// `time,v(n1),...,i(D1),...,i(strike)` and one row per accepted point, SI
-// units, %.9g. The run must have been solved with Options.Record.
+// `time,v(n1),...,i(D1),...,p(U1.ipath),...,i(strike)` and one row per
+// accepted point, SI units, %.9g. Element currents are into each element's
+// first terminal; i(strike) is the current the strike drives into its node.
+// The run must have been solved with Options.Record.
 func CSV(w io.Writer, r *study.Run) error {
-	return errors.New("report: CSV is not built yet")
+	wv := r.Waves
+	if wv == nil {
+		return errors.New("report: the run was not recorded (study.Options.Record)")
+	}
+	ew := &errWriter{w: w}
+	head := []string{"time"}
+	for _, n := range wv.Nodes {
+		head = append(head, "v("+n+")")
+	}
+	for _, e := range wv.Elements {
+		head = append(head, "i("+e+")")
+	}
+	for _, p := range wv.Probes {
+		head = append(head, "p("+p+")")
+	}
+	if wv.Strike != nil {
+		head = append(head, "i(strike)")
+	}
+	io.WriteString(ew, strings.Join(head, ",")+"\n")
+	buf := make([]byte, 0, 32*len(head))
+	num := func(v float64) {
+		buf = append(buf, ',')
+		buf = strconv.AppendFloat(buf, v, 'g', 9, 64)
+	}
+	for k, t := range wv.Time {
+		buf = strconv.AppendFloat(buf[:0], t, 'g', 9, 64)
+		for _, v := range wv.V {
+			num(v[k])
+		}
+		for _, i := range wv.I {
+			num(i[k])
+		}
+		for _, p := range wv.P {
+			num(p[k])
+		}
+		if wv.Strike != nil {
+			num(wv.Strike[k])
+		}
+		buf = append(buf, '\n')
+		ew.Write(buf)
+	}
+	return ew.err
 }
 
 // CSVPaths names one CSV file per run from target: with one run, target
 // itself; with several, target is a folder (existing, or ending in a path
 // separator) that receives one file per run named after the deck, variant,
-// level and polarity, or a pattern containing "{run}", replaced by the same
-// name.
+// level and polarity ("demo_8kV_pos.csv", "demo_C1.value-1u_8kV_pos.csv"),
+// or a pattern containing "{run}", replaced by the same name without the
+// deck's.
 func CSVPaths(target, deck string, runs []study.Run) ([]string, error) {
-	return nil, errors.New("report: CSV is not built yet")
+	if target == "" {
+		return nil, errors.New("--csv needs a file, a folder or a pattern with {run}")
+	}
+	if len(runs) == 1 && !strings.Contains(target, "{run}") && !isDir(target) {
+		return []string{target}, nil
+	}
+	base := strings.TrimSuffix(filepath.Base(deck), filepath.Ext(deck))
+	var paths []string
+	seen := map[string]bool{}
+	for i := range runs {
+		name := RunName(&runs[i])
+		var p string
+		switch {
+		case strings.Contains(target, "{run}"):
+			p = strings.ReplaceAll(target, "{run}", name)
+		case isDir(target):
+			p = filepath.Join(target, base+"_"+name+".csv")
+		default:
+			return nil, fmt.Errorf("--csv %s: %d runs need a folder (ending in /) or a pattern with {run}, for example --csv 'out/{run}.csv'", target, len(runs))
+		}
+		if seen[p] {
+			return nil, fmt.Errorf("--csv %s: two runs would write %s", target, p)
+		}
+		seen[p] = true
+		paths = append(paths, p)
+	}
+	return paths, nil
+}
+
+// RunName is a run's name for files: "8kV_pos", "C1.value-1u_8kV_pos".
+func RunName(r *study.Run) string {
+	var parts []string
+	for _, s := range r.Variant {
+		parts = append(parts, s.Element+"."+s.Param+"-"+s.Value)
+	}
+	parts = append(parts, netlist.FormatSI(r.Level, r.LevelUnit), r.Polarity)
+	name := strings.Join(parts, "_")
+	return strings.Map(func(c rune) rune {
+		switch {
+		case c == ' ':
+			return -1
+		case c == 'µ':
+			return 'u'
+		case c == 'Ω':
+			return 'R'
+		case c == '/' || c == '\\' || c == ':' || c == '*' || c == '?' || c == '"' || c == '<' || c == '>' || c == '|':
+			return '-'
+		}
+		return c
+	}, name)
+}
+
+func isDir(p string) bool {
+	if strings.HasSuffix(p, "/") || strings.HasSuffix(p, string(filepath.Separator)) {
+		return true
+	}
+	st, err := os.Stat(p)
+	return err == nil && st.IsDir()
 }
