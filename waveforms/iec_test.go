@@ -68,7 +68,7 @@ func TestIECTableEveryLevel(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		ts, ys := sampleF(s, 200e-9, 200000)
+		ts, ys := sampleF(s, 200e-9, 20000) // 10 ps grid
 		pv, _ := Peak(ts, ys)
 		t10, _ := FirstCrossing(ts, ys, 0.1*pv)
 		within := func(what string, got, want, tol float64) {
@@ -82,6 +82,17 @@ func TestIECTableEveryLevel(t *testing.T) {
 		r, _ := Rise(ts, ys, 0.1, 0.9)
 		if math.Abs(r-0.8e-9) > 0.25*0.8e-9 {
 			t.Errorf("%g kV rise %.3g s outside 0.8 ns ±25 %%", c.kv, r)
+		}
+		// Checks reports the same four points, all within.
+		cs, err := Checks(s, DefaultLoad)
+		if err != nil || len(cs) != 4 {
+			t.Fatalf("checks: %v, %v", cs, err)
+		}
+		for k, want := range []float64{pv, r, s.F(t10 + 30e-9), s.F(t10 + 60e-9)} {
+			near(t, cs[k].Quantity, cs[k].Computed, want, 1e-3)
+			if !cs[k].Within || cs[k].Source == "" {
+				t.Errorf("%g kV %s: %+v", c.kv, cs[k].Quantity, cs[k])
+			}
 		}
 		// Linear in the level [pub: the table's amplitudes scale].
 		near(t, "linearity", s.F(5e-9), c.kv/4*mustF(t, 4000, 5e-9), 1e-12)
