@@ -31,6 +31,9 @@ func (r *nlRig) transient(t *testing.T, h float64, steps int, visit func(tm floa
 		t.Fatalf("operating point: %v", err)
 	}
 	r.residual(x)
+	if a, ok := r.d.(Acceptor); ok {
+		a.Accept(0, x)
+	}
 	q := append([]float64(nil), r.c.Q...)
 	qdot := make([]float64, len(q)) // d/dt q at the operating point: 0
 	r.c.DC = false
@@ -54,6 +57,9 @@ func (r *nlRig) transient(t *testing.T, h float64, steps int, visit func(tm floa
 		for k := range q {
 			q[k] = r.c.Q[k]
 			qdot[k] = r.c.Alpha*q[k] + r.hist[k]
+		}
+		if a, ok := r.d.(Acceptor); ok {
+			a.Accept(r.c.T, x)
 		}
 		visit(r.c.T, x)
 	}

@@ -1,0 +1,206 @@
+package devices
+
+import "zapnet/netlist"
+
+// Line is the lossless transmission line of MODELS.md between the ports in
+// and out, each referred to gnd, with characteristic impedance z0 and
+// one-way delay T, solved by the method of characteristics. With i1, i2 the
+// currents into the line at in and out, the waves leaving each end arrive
+// unchanged at the other one delay later:
+//
+//	i1(t) = v1(t)/z0 − [v2(t−T)/z0 + i2(t−T)]
+//	i2(t) = v2(t)/z0 − [v1(t−T)/z0 + i1(t−T)]
+//
+// so in the transient each port is a conductance 1/z0 to gnd beside a
+// current fixed by the stored history (interpolated linearly between
+// accepted points). The time step never exceeds T (MaxStep), so t − T always
+// falls inside the stored history.
+//
+// At the operating point a lossless line is a wire: its steady state has
+// v1 = v2 and i1 = −i2, which the two equations above cannot fix by
+// themselves (with the history equal to the present values they collapse
+// into one). The line therefore owns a branch current: at DC it carries the
+// wire's current with the branch equation v1 − v2 = 0; in the transient it
+// is unused and held at 0. The accepted operating point (t = 0) seeds the
+// history, which is held constant before it: the line starts in its DC
+// steady state. A line evaluated before any accepted point sees a history at
+// rest (all zero).
+type Line struct {
+	name  string
+	nodes [2]string
+	z0, g float64 // Ω, 1/z0
+	delay float64 // s
+
+	in, out, br int
+
+	// History ring: accepted points, oldest at head.
+	ht, hv1, hv2, hi1, hi2 []float64
+	head, size             int
+
+	lastDC  bool    // the last Eval was an operating-point one
+	cacheT  float64 // time of the cached history
+	cacheOK bool
+	h1, h2  float64 // history currents at cacheT − delay
+}
+
+func init() { Register(netlist.Line, NewLine) }
+
+// lineHistoryCap is the initial history capacity; it grows (outside Eval)
+// when a run keeps more points within one delay.
+const lineHistoryCap = 256
+
+// NewLine builds a line from its element.
+func NewLine(e *netlist.Element) (Device, error) {
+	p := modelParams{e: e}
+	p.require("z0")
+	p.require("delay")
+	z0 := p.positive("z0", 50)
+	delay := p.positive("delay", 1e-9)
+	if err := p.err(); err != nil {
+		return nil, err
+	}
+	d := &Line{name: e.Name, nodes: e.Nodes, z0: z0, g: 1 / z0, delay: delay}
+	d.allocHistory(lineHistoryCap)
+	return d, nil
+}
+
+func (d *Line) allocHistory(n int) {
+	d.ht = make([]float64, n)
+	d.hv1 = make([]float64, n)
+	d.hv2 = make([]float64, n)
+	d.hi1 = make([]float64, n)
+	d.hi2 = make([]float64, n)
+}
+
+// Name implements Device.
+func (d *Line) Name() string { return d.name }
+
+// Layout implements Device.
+func (d *Line) Layout() Layout {
+	return Layout{Terminals: []string{d.nodes[0], d.nodes[1]}, Branches: []string{"dc"}}
+}
+
+// Bind implements Device.
+func (d *Line) Bind(n Nodes) []StateRows {
+	d.in, d.out, d.br = n.Terminals[0], n.Terminals[1], n.Branches[0]
+	return nil
+}
+
+// MaxStep implements StepLimiter.
+func (d *Line) MaxStep() float64 { return d.delay }
+
+// Reset implements Resetter: the history is emptied, its storage kept.
+func (d *Line) Reset() {
+	d.head, d.size = 0, 0
+	d.cacheOK = false
+	d.lastDC = false
+}
+
+// Eval implements Device.
+func (d *Line) Eval(c *Context) {
+	d.lastDC = c.DC
+	if c.DC {
+		branchKCL(c, d.in, d.out, d.br)
+		return
+	}
+	if !d.cacheOK || d.cacheT != c.T {
+		d.h1, d.h2 = d.history(c.T)
+		d.cacheT, d.cacheOK = c.T, true
+	}
+	c.Current(d.in, Ground, d.g*c.V(d.in)-d.h1, d.g)
+	c.Current(d.out, Ground, d.g*c.V(d.out)-d.h2, d.g)
+	c.AddF(d.br, c.V(d.br))
+	c.AddJ(d.br, d.br, 1)
+}
+
+// history returns the history currents of both ports for time t:
+// v2(t−T)/z0 + i2(t−T) and v1(t−T)/z0 + i1(t−T).
+func (d *Line) history(t float64) (h1, h2 float64) {
+	v1, v2, i1, i2 := d.at(t - d.delay)
+	return d.g*v2 + i2, d.g*v1 + i1
+}
+
+// at interpolates the stored port values at time tq; before the first point
+// the first point holds, after the last the last one does.
+func (d *Line) at(tq float64) (v1, v2, i1, i2 float64) {
+	if d.size == 0 {
+		return 0, 0, 0, 0
+	}
+	n := len(d.ht)
+	// Binary search for the first point later than tq.
+	lo, hi := 0, d.size
+	for lo < hi {
+		mid := (lo + hi) / 2
+		if d.ht[(d.head+mid)%n] > tq {
+			hi = mid
+		} else {
+			lo = mid + 1
+		}
+	}
+	if lo == 0 || lo == d.size {
+		j := d.head % n
+		if lo == d.size {
+			j = (d.head + d.size - 1) % n
+		}
+		return d.hv1[j], d.hv2[j], d.hi1[j], d.hi2[j]
+	}
+	a, b := (d.head+lo-1)%n, (d.head+lo)%n
+	w := (tq - d.ht[a]) / (d.ht[b] - d.ht[a])
+	return d.hv1[a] + w*(d.hv1[b]-d.hv1[a]), d.hv2[a] + w*(d.hv2[b]-d.hv2[a]),
+		d.hi1[a] + w*(d.hi1[b]-d.hi1[a]), d.hi2[a] + w*(d.hi2[b]-d.hi2[a])
+}
+
+// Accept implements Acceptor: it stores the port voltages and currents of
+// an accepted point. The point counts as the operating point when the last
+// evaluation was one; its currents are then the wire's branch current.
+func (d *Line) Accept(t float64, x []float64) {
+	get := func(i int) float64 {
+		if i < 0 {
+			return 0
+		}
+		return x[i]
+	}
+	v1, v2 := get(d.in), get(d.out)
+	var i1, i2 float64
+	if d.lastDC {
+		i1 = get(d.br)
+		i2 = -i1
+	} else {
+		h1, h2 := d.history(t)
+		i1 = d.g*v1 - h1
+		i2 = d.g*v2 - h2
+	}
+	// A point at or before the newest one replaces what it overtakes (an
+	// engine that re-accepts a time, or restarts without Reset).
+	n := len(d.ht)
+	for d.size > 0 && d.ht[(d.head+d.size-1)%n] >= t {
+		d.size--
+	}
+	// Drop points no future query (at or after t − T) needs: keep the
+	// newest one at or before t − T.
+	for d.size >= 2 && d.ht[(d.head+1)%n] <= t-d.delay {
+		d.head = (d.head + 1) % n
+		d.size--
+	}
+	if d.size == n {
+		d.grow()
+		n = len(d.ht)
+	}
+	j := (d.head + d.size) % n
+	d.ht[j], d.hv1[j], d.hv2[j], d.hi1[j], d.hi2[j] = t, v1, v2, i1, i2
+	d.size++
+	d.cacheOK = false
+}
+
+// grow doubles the history storage, oldest point first.
+func (d *Line) grow() {
+	old := [][]float64{d.ht, d.hv1, d.hv2, d.hi1, d.hi2}
+	n := len(d.ht)
+	d.allocHistory(2 * n)
+	for s, dst := range [][]float64{d.ht, d.hv1, d.hv2, d.hi1, d.hi2} {
+		for k := range d.size {
+			dst[k] = old[s][(d.head+k)%n]
+		}
+	}
+	d.head = 0
+}
