@@ -18,6 +18,22 @@ type ownParams struct {
 	nodes [2]Pos         // where its nodes are named
 }
 
+// aKind is the kind with its article, for messages.
+func aKind(k Kind) string {
+	if k == Inductor {
+		return "an " + string(k)
+	}
+	return "a " + string(k)
+}
+
+// paramOf names a parameter in messages: "vbr of a clamp".
+func paramOf(k Kind, key string) string {
+	if key == "value" {
+		return "the value of " + aKind(k)
+	}
+	return key + " of " + aKind(k)
+}
+
 // numValue parses text as a value of a parameter in unit under rule, and
 // returns a message for the user when it is not one.
 func numValue(what, unit string, r rule, text string) (float64, string) {
@@ -65,7 +81,9 @@ func hasWord(kind Kind, key string) bool {
 
 // readParam parses one key=value of an element or part of kind into num or
 // str and reports what is wrong with it.
-func (p *parser) readParam(kind Kind, kv rawParam, num map[string]float64, str map[string]string) bool {
+// Keys written but unusable are added to skip when it is not nil, so that
+// they are not reported again as missing.
+func (p *parser) readParam(kind Kind, kv rawParam, num map[string]float64, str map[string]string, skip map[string]bool) bool {
 	if hasWord(kind, kv.key) {
 		if m := wordParam(kind, kv.key, kv.val); m != "" {
 			p.errs.Add(kv.valPos, "%s", m)
@@ -76,16 +94,28 @@ func (p *parser) readParam(kind Kind, kv rawParam, num map[string]float64, str m
 	}
 	sp := specOf(kind, kv.key)
 	if sp == nil {
-		p.errs.Add(kv.keyPos, "unknown parameter %s for a %s%s", kv.key, kind, didYouMean(kv.key, keysOf(kind)))
+		p.errs.Add(kv.keyPos, "unknown parameter %s for %s%s", kv.key, aKind(kind), didYouMean(kv.key, keysOf(kind)))
+		if skip != nil {
+			// The slip is reported once, not again as a missing parameter.
+			if g := suggest(kv.key, keysOf(kind)); g != "" {
+				skip[g] = true
+			}
+		}
 		return false
 	}
 	if kv.quoted {
 		p.errs.Add(kv.valPos, "%s takes a number, not a quoted text", kv.key)
+		if skip != nil {
+			skip[kv.key] = true
+		}
 		return false
 	}
-	v, msg := numValue(kv.key+" of a "+string(kind), sp.unit, sp.rule, kv.val)
+	v, msg := numValue(paramOf(kind, kv.key), sp.unit, sp.rule, kv.val)
 	if msg != "" {
 		p.errs.Add(kv.valPos, "%s", msg)
+		if skip != nil {
+			skip[kv.key] = true
+		}
 		return false
 	}
 	num[kv.key] = v
@@ -132,14 +162,14 @@ func merge(kind Kind, part *Part, own *ownParams) (map[string]float64, map[strin
 
 // problems lists what makes a merged element unusable: missing required
 // parameters and parameters that contradict each other.
-func problems(e *Element) []string {
+func problems(e *Element, skip map[string]bool) []string {
 	var out []string
 	spec := specs[e.Kind]
 	if spec == nil {
 		return nil
 	}
 	for _, sp := range spec.params {
-		if sp.required && !e.Has(sp.key) {
+		if sp.required && !e.Has(sp.key) && !skip[sp.key] {
 			what := sp.key
 			if sp.key == "value" {
 				what = "a value in " + unitWords[sp.unit]
@@ -184,6 +214,10 @@ func (p *parser) check(src []byte) *Circuit {
 		}
 		if first, dup := names[re.name]; dup {
 			p.errs.Add(re.namePos, "element %s already defined at %s", re.name, first)
+			// Its connections still count, or its nodes would be
+			// reported as dangling too.
+			p.dups = append(p.dups, conn{re.name, re.nodePos[0]}, conn{re.name, re.nodePos[1]})
+			p.dupNodes = append(p.dupNodes, re.nodes[0], re.nodes[1])
 			continue
 		}
 		names[re.name] = re.namePos
@@ -220,7 +254,7 @@ func (p *parser) checkParts(c *Circuit) {
 				p.errs.Add(kv.keyPos, "a part cannot take another part")
 				continue
 			}
-			p.readParam(rp.kind, kv, part.Num, part.Str)
+			p.readParam(rp.kind, kv, part.Num, part.Str, nil)
 		}
 		c.Parts[rp.name] = part
 	}
@@ -252,11 +286,13 @@ func lookupPart(c *Circuit, k Kind, name string) (*Part, string) {
 
 func (p *parser) checkElement(re *rawElement, c *Circuit) *Element {
 	own := &ownParams{num: map[string]float64{}, str: map[string]string{}, pos: map[string]Pos{}, name: re.namePos, nodes: re.nodePos}
+	skip := map[string]bool{}
 	if re.hasValue {
 		sp := specOf(re.kind, "value")
-		v, msg := numValue("the value of a "+string(re.kind), sp.unit, sp.rule, re.value)
+		v, msg := numValue(paramOf(re.kind, "value"), sp.unit, sp.rule, re.value)
 		if msg != "" {
 			p.errs.Add(re.valuePos, "%s", msg)
+			skip["value"] = true
 		} else {
 			own.num["value"] = v
 		}
@@ -277,13 +313,13 @@ func (p *parser) checkElement(re *rawElement, c *Circuit) *Element {
 		case kv.key == "value" && re.hasValue:
 			p.errs.Add(kv.keyPos, "value given twice: once after the nodes and once as value=")
 		default:
-			p.readParam(re.kind, kv, own.num, own.str)
+			p.readParam(re.kind, kv, own.num, own.str, skip)
 		}
 	}
 	e := &Element{Kind: re.kind, Name: re.name, Nodes: re.nodes, Pos: re.kindPos}
 	e.Num, e.Str = merge(re.kind, part, own)
-	if own.part != "?" {
-		for _, m := range problems(e) {
+	if own.part != "?" && re.nodePos[1].IsValid() {
+		for _, m := range problems(e, skip) {
 			p.errs.Add(re.namePos, "%s", m)
 		}
 	}
@@ -533,6 +569,9 @@ func (p *parser) checkTopology(c *Circuit) {
 			e.Kind == Bead && e.Get("rdc") == 0:
 			ideal = append(ideal, edge{e.Nodes[0], e.Nodes[1], e.Name})
 		}
+	}
+	for i, n := range p.dupNodes {
+		add(n, p.dups[i].elem, p.dups[i].pos)
 	}
 	for _, n := range c.Nodes {
 		if cs := conns[n]; len(cs) == 1 {

@@ -94,6 +94,8 @@ type parser struct {
 	windows  []rawParamsAt
 	title    string
 	titlePos Pos
+	dups     []conn // connections of elements whose name is taken
+	dupNodes []string
 }
 
 type rawParamsAt struct {
@@ -121,6 +123,11 @@ func readDeck(path string) ([]byte, error) {
 	}
 	if !fi.Mode().IsRegular() {
 		return nil, fmt.Errorf("%s is not a regular file", path)
+	}
+	if fi.Size() == 0 {
+		// Empty, or a kernel file whose size is unknown and whose read
+		// might block: either way there is nothing to read.
+		return nil, nil
 	}
 	if fi.Size() > maxDeckSize {
 		return nil, fmt.Errorf("%s is larger than %d MiB; a deck is text", path, maxDeckSize>>20)

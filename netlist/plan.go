@@ -173,7 +173,7 @@ func (c *Circuit) apply(e *Element, param, text string) (*ownParams, string) {
 		next.str[param] = text
 	default:
 		sp := specOf(e.Kind, param)
-		v, msg := numValue(param+" of a "+string(e.Kind), sp.unit, sp.rule, text)
+		v, msg := numValue(paramOf(e.Kind, param), sp.unit, sp.rule, text)
 		if msg != "" {
 			return nil, msg
 		}
@@ -181,7 +181,7 @@ func (c *Circuit) apply(e *Element, param, text string) (*ownParams, string) {
 		next.num[param] = v
 	}
 	e.Num, e.Str = merge(e.Kind, part, &next)
-	if ps := problems(e); len(ps) > 0 {
+	if ps := problems(e, nil); len(ps) > 0 {
 		return nil, strings.Join(ps, "; ")
 	}
 	return &next, ""

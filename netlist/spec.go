@@ -210,27 +210,34 @@ func didYouMean(s string, cands []string) string {
 	return ""
 }
 
-// editDistance is the Levenshtein distance between a and b, in runes.
+// editDistance is the optimal-string-alignment distance between a and b in
+// runes: insertions, deletions, substitutions and swaps of neighbours each
+// count one, since a swap (tsv for tvs) is the commonest slip.
 func editDistance(a, b string) int {
 	ra, rb := []rune(a), []rune(b)
 	if len(ra) > 64 || len(rb) > 64 {
 		return 1 << 20 // names this long are no slip of the keyboard
 	}
-	prev := make([]int, len(rb)+1)
-	cur := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
+	w := len(rb) + 1
+	d := make([]int, (len(ra)+1)*w)
+	for i := 0; i <= len(ra); i++ {
+		d[i*w] = i
+	}
+	for j := 0; j <= len(rb); j++ {
+		d[j] = j
 	}
 	for i := 1; i <= len(ra); i++ {
-		cur[0] = i
 		for j := 1; j <= len(rb); j++ {
 			cost := 1
 			if ra[i-1] == rb[j-1] {
 				cost = 0
 			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+			v := min(d[(i-1)*w+j]+1, d[i*w+j-1]+1, d[(i-1)*w+j-1]+cost)
+			if i > 1 && j > 1 && ra[i-1] == rb[j-2] && ra[i-2] == rb[j-1] {
+				v = min(v, d[(i-2)*w+j-2]+1)
+			}
+			d[i*w+j] = v
 		}
-		prev, cur = cur, prev
 	}
-	return prev[len(rb)]
+	return d[len(ra)*w+len(rb)]
 }
