@@ -1,0 +1,251 @@
+package main
+
+import (
+	"bytes"
+	"flag"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	"zapnet/waveforms"
+)
+
+// waveformGolden compares got with testdata/NAME.golden and rewrites the
+// file when the package's -update flag is set (defined with the shared
+// golden helper) or ZAPNET_UPDATE_GOLDEN=1. It defines no flag of its own.
+func waveformGolden(t *testing.T, name string, got []byte) {
+	t.Helper()
+	path := filepath.Join("testdata", name+".golden")
+	update := os.Getenv("ZAPNET_UPDATE_GOLDEN") == "1"
+	if f := flag.Lookup("update"); f != nil && f.Value.String() == "true" {
+		update = true
+	}
+	if update {
+		if err := os.WriteFile(path, got, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	want, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatalf("%v (regenerate with go test -update)", err)
+	}
+	if !bytes.Equal(got, want) {
+		gl, wl := strings.Split(string(got), "\n"), strings.Split(string(want), "\n")
+		for k := 0; k < len(gl) || k < len(wl); k++ {
+			var g, w string
+			if k < len(gl) {
+				g = gl[k]
+			}
+			if k < len(wl) {
+				w = wl[k]
+			}
+			if g != w {
+				col := 1
+				for col <= len(g) && col <= len(w) && g[col-1] == w[col-1] {
+					col++
+				}
+				t.Errorf("%s:%d:%d: got\n%s\nwant\n%s", path, k+1, col, g, w)
+				break
+			}
+		}
+	}
+}
+
+func runW(t *testing.T, args ...string) (stdout, stderr string, code int) {
+	t.Helper()
+	var o, e bytes.Buffer
+	code = Main(append([]string{"waveform"}, args...), &o, &e)
+	return o.String(), e.String(), code
+}
+
+// The 4 kV contact-discharge report: its numbers are those of the annex
+// formula [calc: CHECKS.md: 14.92 A first peak, 0.811 ns rise] against the
+// calibration table [pub], and the caution line ends it.
+func TestWaveformReportIEC4k(t *testing.T) {
+	out, errOut, code := runW(t, "iec61000-4-2", "--level", "4k")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	for _, want := range []string{"14.92 A", "811 ps", "15 A", "within", "[pub]",
+		"A simulation is an estimate, not a compliance result."} {
+		if !strings.Contains(out, want) {
+			t.Errorf("report lacks %q:\n%s", want, out)
+		}
+	}
+	if strings.Contains(out, "OUTSIDE") {
+		t.Errorf("a check of the annex waveform at 4 kV is outside:\n%s", out)
+	}
+	waveformGolden(t, "waveform-iec61000-4-2-4k", []byte(out))
+	// SI spellings of the same level give the same report.
+	for _, lv := range []string{"4kV", "4000", "4 kV", "4e3"} {
+		if o, _, _ := runW(t, "iec61000-4-2", "--level", lv); o != out {
+			t.Errorf("--level %q gives a different report", lv)
+		}
+	}
+	// No level: the typical 4 kV.
+	if o, _, _ := runW(t, "iec61000-4-2"); o != out {
+		t.Error("the default level is not 4 kV")
+	}
+}
+
+// Every waveform prints a report with the caution; surge-1.2-50 also
+// prints its simplification note.
+func TestWaveformEveryName(t *testing.T) {
+	for _, n := range waveforms.Names() {
+		args := []string{n}
+		if n == "pwl" {
+			args = append(args, "--set", "file=../../waveforms/testdata/pulse.csv")
+		}
+		out, errOut, code := runW(t, args...)
+		if code != 0 {
+			t.Errorf("%s: exit %d: %s", n, code, errOut)
+			continue
+		}
+		if !strings.HasSuffix(out, "A simulation is an estimate, not a compliance result.\n") {
+			t.Errorf("%s: no caution at the end:\n%s", n, out)
+		}
+		if n == "surge-1.2-50" && !strings.Contains(out, "8/20 µs current into a short, which this source does not") {
+			t.Errorf("surge-1.2-50 report lacks the simplification note:\n%s", out)
+		}
+	}
+	out, _, _ := runW(t, "iso10605", "--set", "c=330p", "--set", "r=2k", "--level", "8k")
+	// 330 pF / 2 kΩ at 8 kV: 4 A·e^(−400/660) at 400 ns [calc].
+	want := waveforms.FormatValue(4*math.Exp(-400.0/660), "A")
+	if !strings.Contains(out, "i(400 ns)") || !strings.Contains(out, want) {
+		t.Errorf("iso10605 330p/2k report lacks i(400 ns) = %s:\n%s", want, out)
+	}
+}
+
+// The CSV holds the waveform itself: read back, its samples are the
+// stimulus's values, its peak the annex's 14.921 A at 4 kV [calc], and the
+// file is the only one in its folder (no temporary left behind).
+func TestWaveformCSV(t *testing.T) {
+	dir := t.TempDir()
+	path := filepath.Join(dir, "iec.csv")
+	if _, e, code := runW(t, "iec61000-4-2", "--csv", path); code != 0 {
+		t.Fatalf("exit %d: %s", code, e)
+	}
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(data)), "\n")
+	if lines[0] != "time,i(iec61000-4-2)" {
+		t.Errorf("header %q", lines[0])
+	}
+	ts, is, err := waveforms.ReadPWL(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, _ := waveforms.New("iec61000-4-2", 4000, nil, nil)
+	for k := range ts {
+		if want := s.F(ts[k]); math.Abs(is[k]-want) > 1e-8*math.Abs(want)+1e-12 {
+			t.Fatalf("row %d: i(%g) = %g, want %g", k+2, ts[k], is[k], want)
+		}
+	}
+	pk, _ := waveforms.Peak(ts, is)
+	if math.Abs(pk-14.921) > 14.921e-3 {
+		t.Errorf("peak from the CSV %g A, want 14.921 A ±0.1 %%", pk)
+	}
+	if ents, _ := os.ReadDir(dir); len(ents) != 1 {
+		t.Errorf("folder holds %d entries, want the CSV alone", len(ents))
+	}
+
+	// A network into a load: three columns, v = i·load.
+	path = filepath.Join(dir, "hbm.csv")
+	if _, e, code := runW(t, "hbm", "--load", "500", "--csv", path); code != 0 {
+		t.Fatalf("exit %d: %s", code, e)
+	}
+	data, _ = os.ReadFile(path)
+	lines = strings.Split(strings.TrimSpace(string(data)), "\n")
+	if lines[0] != "time,i(hbm),v(hbm)" {
+		t.Errorf("header %q", lines[0])
+	}
+	for _, l := range lines[1:] {
+		f := strings.Split(l, ",")
+		i, _ := strconv.ParseFloat(f[1], 64)
+		v, _ := strconv.ParseFloat(f[2], 64)
+		if len(f) != 3 || math.Abs(v-500*i) > 1e-8*math.Abs(v)+1e-15 {
+			t.Fatalf("row %q: v is not 500 Ω · i", l)
+		}
+	}
+}
+
+// Written whole or not at all: a folder that does not exist is an error,
+// the report is not printed, and no file appears.
+func TestWaveformCSVFailure(t *testing.T) {
+	dir := t.TempDir()
+	path := filepath.Join(dir, "missing", "x.csv")
+	out, errOut, code := runW(t, "tlp", "--csv", path)
+	if code != exitUnusable || !strings.Contains(errOut, "--csv") || out != "" {
+		t.Errorf("exit %d, stdout %q, stderr %q", code, out, errOut)
+	}
+	if _, err := os.Stat(path); err == nil {
+		t.Error("file created on failure")
+	}
+}
+
+// Unusable input exits 2 with a message that helps.
+func TestWaveformBadInput(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"iec-61000"}, "known: eft, hbm, iec61000-4-2"},
+		{[]string{}, "want one waveform name"},
+		{[]string{"iec61000-4-2", "hbm"}, "want one waveform name"},
+		{[]string{"iec61000-4-2", "--level", "4kA"}, "--level"},
+		{[]string{"iec61000-4-2", "--level", "-4k"}, "level must be a positive"},
+		{[]string{"hbm", "--load", "-5"}, "--load"},
+		{[]string{"hbm", "--load", "lots"}, "--load"},
+		{[]string{"tlp", "--set", "rise"}, "key=value"},
+		{[]string{"tlp", "--set", "rise=200n"}, "shorter than width"},
+		{[]string{"pwl"}, "file"},
+	} {
+		_, errOut, code := runW(t, c.args...)
+		if code != exitUnusable || !strings.Contains(errOut, c.want) {
+			t.Errorf("%v: exit %d, stderr %q, want 2 and %q", c.args, code, errOut, c.want)
+		}
+	}
+	// --help is not an error and shows the worked example.
+	_, errOut, code := runW(t, "--help")
+	if code != 0 || !strings.Contains(errOut, "zapnet waveform iec61000-4-2 --level 8k") {
+		t.Errorf("--help: exit %d, %q", code, errOut)
+	}
+}
+
+func TestParseSI(t *testing.T) {
+	for _, c := range []struct {
+		s, unit string
+		want    float64
+		ok      bool
+	}{
+		{"4k", "V", 4000, true},
+		{"8kV", "V", 8000, true},
+		{"8 kv", "V", 8000, true},
+		{"16A", "A", 16, true},
+		{"1.5e3", "V", 1500, true},
+		{"330p", "", 330e-12, true},
+		{"2.5u", "", 2.5e-6, true},
+		{"2.5µ", "", 2.5e-6, true},
+		{"100m", "ohm", 0.1, true},
+		{"2k", "ohm", 2000, true},
+		{"50 ohm", "ohm", 50, true},
+		{"50Ω", "ohm", 50, true},
+		{"1M", "ohm", 1e6, true},
+		{"4kA", "V", 0, false},
+		{"4MEG", "V", 0, false},
+		{"", "V", 0, false},
+		{"k", "V", 0, false},
+		{"NaN", "V", 0, false},
+	} {
+		got, err := parseSI(c.s, c.unit)
+		if (err == nil) != c.ok || (c.ok && math.Abs(got-c.want) > 1e-12*math.Abs(c.want)) {
+			t.Errorf("parseSI(%q, %q) = %g, %v; want %g, ok %v", c.s, c.unit, got, err, c.want, c.ok)
+		}
+	}
+}
