@@ -226,8 +226,14 @@ func (p *parser) check(src []byte) *Circuit {
 			strikes = append(strikes, e)
 		}
 	}
+	written := 0
+	for _, re := range p.elements {
+		if re.kind == Strike {
+			written++
+		}
+	}
 	switch {
-	case len(strikes) == 0:
+	case written == 0:
 		p.errs.Add(Pos{File: p.top, Line: 1, Col: 1}, "deck has no strike: add one, for example strike zap IN gnd waveform=iec61000-4-2 level=8k")
 	case len(strikes) > 1:
 		for _, s := range strikes[1:] {

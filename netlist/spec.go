@@ -241,3 +241,21 @@ func editDistance(a, b string) int {
 	}
 	return d[len(ra)*w+len(rb)]
 }
+
+// ParamOrder lists the numeric parameters of a kind in the order of the
+// language reference ("value" first where there is one), for listings. For
+// a strike it lists the parameters of every waveform.
+func ParamOrder(k Kind) []string {
+	if k == Strike {
+		return append([]string(nil), strikeParamOrder...)
+	}
+	s := specs[k]
+	if s == nil {
+		return nil
+	}
+	out := make([]string, len(s.params))
+	for i, p := range s.params {
+		out[i] = p.key
+	}
+	return out
+}

@@ -2,10 +2,214 @@ package main
 
 import (
 	"errors"
+	"fmt"
 	"io"
+	"strings"
+	"text/tabwriter"
+
+	"zapnet/netlist"
 )
 
-// runCheck is being built; see the open issues.
+const checkExample = `  zapnet check testdata/demo.zap
+
+  reads the deck and the part library it includes, then prints the circuit
+  as zapnet understood it (every parameter with its default filled in) and
+  the study it describes: 4 levels × 2 polarities × 1 variant = 8 runs.
+  A deck with problems prints each as file:line:col: message and exits 2.`
+
+// checkOptions are the options of zapnet check.
+type checkOptions struct {
+	quiet bool // only problems, no listing
+}
+
+// runCheck reads a deck and either lists every problem in it (exit status 2)
+// or shows the circuit and the study plan as zapnet understood them.
 func runCheck(args []string, stdout, stderr io.Writer) error {
-	return errors.New("check: not built yet")
+	var o checkOptions
+	fs := newFlags("check", "check [options] DECK", checkExample, stderr)
+	fs.BoolVarP(&o.quiet, "quiet", "q", false, "print only the problems and warnings, no listing")
+	if err := fs.Parse(args); err != nil {
+		return err
+	}
+	if fs.NArg() != 1 {
+		fs.Usage()
+		return errors.New("check needs one deck: zapnet check DECK")
+	}
+	deck := fs.Arg(0)
+	c, err := netlist.ParseFile(deck)
+	if err != nil {
+		var list netlist.ErrorList
+		if !errors.As(err, &list) {
+			return err
+		}
+		n := 0
+		for _, e := range list {
+			fmt.Fprintln(stderr, e.Error())
+			if !e.Warning {
+				n++
+			}
+		}
+		if n == 1 {
+			return fmt.Errorf("%s: 1 problem", deck)
+		}
+		return fmt.Errorf("%s: %d problems", deck, n)
+	}
+	if o.quiet {
+		for _, w := range c.Warnings {
+			fmt.Fprintln(stderr, w.Error())
+		}
+		return nil
+	}
+	writeListing(stdout, deck, c)
+	return nil
+}
+
+// writeListing prints the checked circuit and its study. Every number goes
+// through FormatSI so that the listing is stable across platforms.
+func writeListing(w io.Writer, deck string, c *netlist.Circuit) {
+	title := c.Title
+	if title == "" {
+		title = "(untitled)"
+	}
+	fmt.Fprintf(w, "%s\ndeck %s\n\n", title, deck)
+
+	fmt.Fprintf(w, "Nodes (%d besides gnd)\n  %s\n\n", len(c.Nodes), strings.Join(c.Nodes, " "))
+
+	fmt.Fprintf(w, "Elements (%d)\n", len(c.Elements))
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	for _, e := range c.Elements {
+		fmt.Fprintf(tw, "  %s\t%s\t%s → %s\t%s\n", e.Kind, e.Name, e.Nodes[0], e.Nodes[1], strings.Join(elementParams(e), ", "))
+	}
+	tw.Flush()
+	fmt.Fprintln(w)
+
+	fmt.Fprintln(w, "Watches")
+	if len(c.Watches) == 0 {
+		fmt.Fprintln(w, "  none")
+	}
+	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	for _, wt := range c.Watches {
+		var lim []string
+		if wt.HasMax {
+			lim = append(lim, "max "+netlist.FormatSI(wt.Max, "V"))
+		}
+		if wt.HasMin {
+			lim = append(lim, "min "+netlist.FormatSI(wt.Min, "V"))
+		}
+		if len(lim) == 0 {
+			lim = []string{"reported, no limits"}
+		}
+		fmt.Fprintf(tw, "  %s\t%s\n", wt.Node, strings.Join(lim, ", "))
+	}
+	tw.Flush()
+	fmt.Fprintln(w)
+
+	fmt.Fprintln(w, "Window")
+	win := c.Window
+	field := func(name string, v float64, unit, zero string) {
+		if v == 0 {
+			fmt.Fprintf(w, "  %-8s %s\n", name, zero)
+		} else {
+			fmt.Fprintf(w, "  %-8s %s\n", name, netlist.FormatSI(v, unit))
+		}
+	}
+	field("stop", win.Stop, "s", "from the waveform and the circuit")
+	field("maxstep", win.MaxStep, "s", "solver default")
+	field("reltol", win.RelTol, "", "solver default")
+	field("abstol", win.AbsTol, "V", "solver default")
+	fmt.Fprintln(w)
+
+	fmt.Fprintln(w, "Tolerances")
+	if len(c.Tolerances) == 0 {
+		fmt.Fprintln(w, "  none")
+	}
+	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	for _, t := range c.Tolerances {
+		dist := "uniform"
+		if t.Dist == "normal" {
+			dist = "normal, ±" + trimFloat(t.Percent) + " % is 3σ"
+		}
+		fmt.Fprintf(tw, "  %s.%s\t±%s %%\t%s\n", t.Element, t.Param, trimFloat(t.Percent), dist)
+	}
+	tw.Flush()
+	fmt.Fprintln(w)
+
+	pl := c.Plan()
+	unit := netlist.LevelUnit(pl.Waveform)
+	levels := make([]string, len(pl.Levels))
+	for i, l := range pl.Levels {
+		levels[i] = netlist.FormatSI(l, unit)
+	}
+	fmt.Fprintln(w, "Study")
+	fmt.Fprintf(w, "  %s: %s × %s × %s = %s\n", pl.Waveform,
+		count(len(pl.Levels), "level"), count(len(pl.Polarities), "polarity"),
+		count(len(pl.Variants), "variant"), count(pl.Runs(), "run"))
+	fmt.Fprintf(w, "  levels      %s\n", strings.Join(levels, ", "))
+	fmt.Fprintf(w, "  polarities  %s\n", strings.Join(pl.Polarities, ", "))
+	for i, v := range pl.Variants {
+		head := "            "
+		if i == 0 {
+			head = "  variants  "
+		}
+		text := "the deck as written"
+		if len(v) > 0 {
+			s := make([]string, len(v))
+			for k, x := range v {
+				s[k] = x.String()
+			}
+			text = strings.Join(s, " ")
+		}
+		fmt.Fprintf(w, "%s%*d  %s\n", head, 2, i+1, text)
+	}
+	fmt.Fprintln(w)
+
+	fmt.Fprintln(w, "Warnings")
+	if len(c.Warnings) == 0 {
+		fmt.Fprintln(w, "  none")
+	}
+	for _, e := range c.Warnings {
+		fmt.Fprintf(w, "  %s: %s\n", e.Pos, e.Msg)
+	}
+}
+
+// elementParams renders an element's parameters in the order of the
+// language reference, each with its unit.
+func elementParams(e *netlist.Element) []string {
+	var out []string
+	if e.Kind == netlist.Strike {
+		out = append(out, "waveform "+e.Str["waveform"], "polarity "+e.Str["polarity"])
+		if f := e.Str["file"]; f != "" {
+			out = append(out, "file "+f)
+		}
+	} else {
+		if p := e.Str["part"]; p != "" {
+			out = append(out, "part "+p)
+		}
+		for _, k := range []string{"polarity", "rail"} {
+			if v := e.Str[k]; v != "" {
+				out = append(out, k+" "+v)
+			}
+		}
+	}
+	for _, k := range netlist.ParamOrder(e.Kind) {
+		if e.Has(k) {
+			out = append(out, k+" "+netlist.FormatSI(e.Get(k), netlist.ParamUnit(e.Kind, k)))
+		}
+	}
+	return out
+}
+
+func count(n int, what string) string {
+	if n == 1 {
+		return "1 " + what
+	}
+	if what == "polarity" {
+		return fmt.Sprintf("%d polarities", n)
+	}
+	return fmt.Sprintf("%d %ss", n, what)
+}
+
+// trimFloat prints a percentage without trailing zeros.
+func trimFloat(v float64) string {
+	return strings.TrimSuffix(netlist.FormatSI(v, ""), " ")
 }

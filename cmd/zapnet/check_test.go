@@ -1,0 +1,113 @@
+package main
+
+import (
+	"bytes"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+func runCheckMain(t *testing.T, args ...string) (stdout, stderr string, code int) {
+	t.Helper()
+	var o, e bytes.Buffer
+	code = Main(append([]string{"check"}, args...), &o, &e)
+	return o.String(), e.String(), code
+}
+
+// The listing of every demo deck is a golden file: a change in what the
+// parser understands shows up as a diff to review.
+func TestCheckDemoDecks(t *testing.T) {
+	decks, _ := filepath.Glob(filepath.Join("..", "..", "testdata", "*.zap"))
+	if len(decks) < 4 {
+		t.Fatalf("demo decks: %v", decks)
+	}
+	for _, d := range decks {
+		name := strings.TrimSuffix(filepath.Base(d), ".zap")
+		t.Run(name, func(t *testing.T) {
+			out, errs, code := runCheckMain(t, filepath.ToSlash(d))
+			if code != exitPass || errs != "" {
+				t.Fatalf("exit %d, stderr:\n%s", code, errs)
+			}
+			golden(t, "check-"+name+".txt", []byte(out))
+		})
+	}
+}
+
+// The five-mistakes deck has exactly five mistakes of five sorts, each
+// reported at its own line and column in one pass, and exit status 2
+// (LANGUAGE.md, OUTPUT.md).
+func TestCheckFiveMistakes(t *testing.T) {
+	out, errs, code := runCheckMain(t, "../../testdata/bad/five-mistakes.zap")
+	if code != exitUnusable {
+		t.Errorf("exit %d, want %d", code, exitUnusable)
+	}
+	if out != "" {
+		t.Errorf("stdout not empty:\n%s", out)
+	}
+	lines := strings.Split(strings.TrimSpace(errs), "\n")
+	var at []string
+	for _, l := range lines[:len(lines)-1] {
+		// file:line:col: message
+		parts := strings.SplitN(strings.TrimPrefix(l, "../../testdata/bad/five-mistakes.zap:"), ":", 3)
+		at = append(at, parts[0]+":"+parts[1])
+	}
+	// Line and column of each mistake, counted by hand in the deck.
+	want := []string{"7:61", "9:40", "10:27", "11:22", "13:11"}
+	if strings.Join(at, " ") != strings.Join(want, " ") {
+		t.Errorf("positions %v, want %v\n%s", at, want, errs)
+	}
+	if last := lines[len(lines)-1]; last != "zapnet: ../../testdata/bad/five-mistakes.zap: 5 problems" {
+		t.Errorf("last line %q", last)
+	}
+	golden(t, "check-five-mistakes.stderr", []byte(errs))
+}
+
+func TestCheckBadDecks(t *testing.T) {
+	tests := []struct {
+		deck string
+		code int
+		want []string // substrings of stderr
+	}{
+		{"bad/include-cycle.zap", exitUnusable, []string{
+			"include-cycle-lib.zap:2:9: include cycle: ../../testdata/bad/include-cycle.zap → ../../testdata/bad/include-cycle-lib.zap → ../../testdata/bad/include-cycle.zap",
+			"1 problem\n"}},
+		{"bad/no-strike.zap", exitUnusable, []string{"no-strike.zap:1:1: deck has no strike"}},
+		{"bad/short-loop.zap", exitUnusable, []string{
+			"short-loop.zap:5:10: loop of supplies and inductors with no resistance: V1 → L1 → FB1",
+			"short-loop.zap:6:18: node open has only one connection (R9)",
+			"short-loop.zap:7:14: strike zap is on gnd and gnd",
+			"3 problems\n"}},
+		{"bad/none.zap", exitUnusable, []string{"none.zap: cannot read ../../testdata/bad/none.zap: no such file or directory"}},
+		{"bad/warnings-only.zap", exitPass, nil},
+	}
+	for _, tt := range tests {
+		_, errs, code := runCheckMain(t, "../../testdata/"+tt.deck)
+		if code != tt.code {
+			t.Errorf("%s: exit %d, want %d\n%s", tt.deck, code, tt.code, errs)
+		}
+		for _, w := range tt.want {
+			if !strings.Contains(errs, w) {
+				t.Errorf("%s: stderr lacks %q:\n%s", tt.deck, w, errs)
+			}
+		}
+	}
+	out, _, _ := runCheckMain(t, "../../testdata/bad/warnings-only.zap")
+	golden(t, "check-warnings-only.txt", []byte(out))
+
+	// --quiet prints the warnings alone, on stderr.
+	out, errs, code := runCheckMain(t, "--quiet", "../../testdata/bad/warnings-only.zap")
+	if code != exitPass || out != "" || strings.Count(errs, "warning:") != 3 {
+		t.Errorf("--quiet: exit %d, stdout %q, stderr:\n%s", code, out, errs)
+	}
+}
+
+func TestCheckUsage(t *testing.T) {
+	_, errs, code := runCheckMain(t)
+	if code != exitUnusable || !strings.Contains(errs, "zapnet check testdata/demo.zap") || !strings.Contains(errs, "check needs one deck") {
+		t.Errorf("no deck: exit %d\n%s", code, errs)
+	}
+	_, errs, code = runCheckMain(t, "--help")
+	if code != exitPass || !strings.Contains(errs, "Example:") {
+		t.Errorf("--help: exit %d\n%s", code, errs)
+	}
+}
