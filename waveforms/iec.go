@@ -33,12 +33,16 @@ func newIEC61000_4_2(level float64, _ params) (*Stimulus, error) {
 	scale := level / iecRefLevel
 	a1 := scale * iecI1 / iecK(iecTau1, iecTau2)
 	a2 := scale * iecI2 / iecK(iecTau3, iecTau4)
+	// (t/τ)^n as exp(n·(ln t − ln τ)): one logarithm serves both terms,
+	// which makes F several times cheaper than two calls of math.Pow.
+	ln1, ln3 := math.Log(iecTau1), math.Log(iecTau3)
 	f := func(t float64) float64 {
 		if t <= 0 {
 			return 0
 		}
-		x1 := math.Pow(t/iecTau1, iecN)
-		x2 := math.Pow(t/iecTau3, iecN)
+		lt := math.Log(t)
+		x1 := math.Exp(iecN * (lt - ln1))
+		x2 := math.Exp(iecN * (lt - ln3))
 		return a1*x1/(1+x1)*math.Exp(-t/iecTau2) + a2*x2/(1+x2)*math.Exp(-t/iecTau4)
 	}
 	return &Stimulus{
