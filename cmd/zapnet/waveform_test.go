@@ -2,7 +2,6 @@ package main
 
 import (
 	"bytes"
-	"flag"
 	"math"
 	"os"
 	"path/filepath"
@@ -12,48 +11,6 @@ import (
 
 	"zapnet/waveforms"
 )
-
-// waveformGolden compares got with testdata/NAME.golden and rewrites the
-// file when the package's -update flag is set (defined with the shared
-// golden helper) or ZAPNET_UPDATE_GOLDEN=1. It defines no flag of its own.
-func waveformGolden(t *testing.T, name string, got []byte) {
-	t.Helper()
-	path := filepath.Join("testdata", name+".golden")
-	update := os.Getenv("ZAPNET_UPDATE_GOLDEN") == "1"
-	if f := flag.Lookup("update"); f != nil && f.Value.String() == "true" {
-		update = true
-	}
-	if update {
-		if err := os.WriteFile(path, got, 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (regenerate with go test -update)", err)
-	}
-	if !bytes.Equal(got, want) {
-		gl, wl := strings.Split(string(got), "\n"), strings.Split(string(want), "\n")
-		for k := 0; k < len(gl) || k < len(wl); k++ {
-			var g, w string
-			if k < len(gl) {
-				g = gl[k]
-			}
-			if k < len(wl) {
-				w = wl[k]
-			}
-			if g != w {
-				col := 1
-				for col <= len(g) && col <= len(w) && g[col-1] == w[col-1] {
-					col++
-				}
-				t.Errorf("%s:%d:%d: got\n%s\nwant\n%s", path, k+1, col, g, w)
-				break
-			}
-		}
-	}
-}
 
 func runW(t *testing.T, args ...string) (stdout, stderr string, code int) {
 	t.Helper()
@@ -79,7 +36,7 @@ func TestWaveformReportIEC4k(t *testing.T) {
 	if strings.Contains(out, "OUTSIDE") {
 		t.Errorf("a check of the annex waveform at 4 kV is outside:\n%s", out)
 	}
-	waveformGolden(t, "waveform-iec61000-4-2-4k", []byte(out))
+	golden(t, "waveform-iec61000-4-2-4k.txt", []byte(out))
 	// SI spellings of the same level give the same report.
 	for _, lv := range []string{"4kV", "4000", "4 kV", "4e3"} {
 		if o, _, _ := runW(t, "iec61000-4-2", "--level", lv); o != out {
