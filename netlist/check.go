@@ -244,8 +244,46 @@ func (p *parser) check(src []byte) *Circuit {
 	p.checkWatches(c)
 	p.checkWindow(c)
 	p.checkVary(c)
+	p.checkVariants(c)
 	p.checkTolerances(c)
 	return c
+}
+
+// maxCheckedVariants bounds the variants tried one by one at load time.
+const maxCheckedVariants = 4096
+
+// checkVariants tries every combination of the vary lines: each value was
+// checked alone, but two lines can still contradict each other (a pin's
+// vmin varied above its varied vmax).
+func (p *parser) checkVariants(c *Circuit) {
+	if len(c.Vary) < 2 || p.errs.Err() != nil {
+		return
+	}
+	n := 1
+	for _, v := range c.Vary {
+		n *= len(v.Values)
+		if n > maxCheckedVariants {
+			return
+		}
+	}
+	where := map[string]Pos{}
+	for _, v := range c.Vary {
+		where[v.Element] = v.Pos
+	}
+	for _, v := range c.Plan().Variants {
+		if _, err := c.With(v...); err != nil {
+			var s []string
+			for _, x := range v {
+				s = append(s, x.String())
+			}
+			msg := err.Error()
+			if l, ok := err.(ErrorList); ok && len(l) > 0 {
+				msg = l[0].Msg
+			}
+			p.errs.Add(where[v[len(v)-1].Element], "the variant %s does not hold together: %s", strings.Join(s, " "), msg)
+			return
+		}
+	}
 }
 
 func (p *parser) checkParts(c *Circuit) {

@@ -256,3 +256,11 @@ func TestSuggest(t *testing.T) {
 		}
 	}
 }
+
+func TestVariantsHoldTogether(t *testing.T) {
+	_, err := Parse("t.zap", []byte("strike s a gnd waveform=hbm level=1k\npin U a gnd vmax=5 vmin=-1\nvary U.vmin=-1,0\nvary U.vmax=3,-0.5\n"))
+	want := "t.zap:4:6: the variant U.vmin=0 U.vmax=-0.5 does not hold together: U.vmax=-0.5: pin U: vmin 0 V is not below vmax -500 mV"
+	if err == nil || err.Error() != want {
+		t.Errorf("got\n%v\nwant\n%s", err, want)
+	}
+}
