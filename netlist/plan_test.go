@@ -264,3 +264,33 @@ func TestVariantsHoldTogether(t *testing.T) {
 		t.Errorf("got\n%v\nwant\n%s", err, want)
 	}
 }
+
+// The example of the language reference in README.md must stay a valid deck
+// with the run count it claims.
+func TestReadmeExample(t *testing.T) {
+	text, err := os.ReadFile(filepath.Join("..", "README.md"))
+	if err != nil {
+		t.Skip("no README.md")
+	}
+	var lib, deck string
+	for _, b := range strings.Split(string(text), "```") {
+		b = strings.TrimPrefix(b, "\n")
+		switch {
+		case strings.HasPrefix(b, "# parts/protect.zap"):
+			lib = b
+		case strings.HasPrefix(b, `title "Sensor input`):
+			deck = b
+		}
+	}
+	if lib == "" || deck == "" {
+		t.Fatal("README.md: the example deck or its library is missing")
+	}
+	dir := writeFiles(t, map[string]string{"parts/protect.zap": lib, "deck.zap": deck})
+	c, err := ParseFile(filepath.Join(dir, "deck.zap"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := c.Plan().Runs(); !strings.Contains(string(text), "= "+strconv.Itoa(n)+" runs") || n != 24 {
+		t.Errorf("the example plans %d runs", n)
+	}
+}

@@ -110,7 +110,7 @@ const noDefault = -1.0 // marker inside strikeParams; every default is > 0
 var strikeParams = map[string]strikeParam{
 	"c":     {unit: "F", rule: positive, waveforms: map[string]float64{"iso10605": 150e-12}},
 	"r":     {unit: "Ω", rule: positive, waveforms: map[string]float64{"iso10605": 330, "surge-1.2-50": 2}},
-	"l":     {unit: "H", rule: nonNeg, waveforms: map[string]float64{"hbm": noDefault}},
+	"l":     {unit: "H", rule: nonNeg, waveforms: map[string]float64{"hbm": noDefault, "iso10605": noDefault}},
 	"width": {unit: "s", rule: positive, waveforms: map[string]float64{"tlp": 100e-9}},
 	"rise":  {unit: "s", rule: positive, waveforms: map[string]float64{"tlp": 1e-9}},
 	"count": {unit: "", rule: atLeastOne, waveforms: map[string]float64{"eft": 1}},
