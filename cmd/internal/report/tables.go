@@ -86,7 +86,11 @@ func Summary(w io.Writer, runs []study.Run) error {
 		}
 	}
 	t.Render()
-	line := fmt.Sprintf("%d runs: %d PASS, %d FAIL", len(runs), pass, fail)
+	noun := "runs"
+	if len(runs) == 1 {
+		noun = "run"
+	}
+	line := fmt.Sprintf("%d %s: %d PASS, %d FAIL", len(runs), noun, pass, fail)
 	if errs > 0 {
 		line += fmt.Sprintf(", %d not solved", errs)
 	}
@@ -121,7 +125,9 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 	if r.Window.Default {
 		how = "default: the waveform and the circuit's slowest response"
 	}
-	fmt.Fprintf(w, "Window: 0 to %s (%s); %d steps, %d rejected\n\n", si(r.Window.Stop, "s"), how, r.Stats.Steps, r.Stats.Rejected)
+	// Step counts stay in the JSON: they change with every tuning of the
+	// engine and say nothing about the protection.
+	fmt.Fprintf(w, "Window: 0 to %s (%s)\n\n", si(r.Window.Stop, "s"), how)
 
 	// Watched nodes and pin lines.
 	var nodes [][]string
@@ -158,22 +164,23 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 		section(w, "Clamps", []string{"clamp", "peak current", "at", "ipp", "energy", "emax"}, clamps)
 	}
 
-	// The residual pulse at each protected pin.
+	// The residual pulse at each protected pin; the ratings themselves are
+	// in the limits table.
 	var pins [][]string
 	for _, p := range r.Pins {
-		vmax, vmin, above, below := "-", "-", "-", "-"
+		above, below := "-", "-"
 		if p.HasVmax {
-			vmax, above = si(p.Vmax, "V"), si(p.AboveVmax, "s")
+			above = si(p.AboveVmax, "s")
 		}
 		if p.HasVmin {
-			vmin, below = si(p.Vmin, "V"), si(p.BelowVmin, "s")
+			below = si(p.BelowVmin, "s")
 		}
-		pins = append(pins, []string{p.Name, si(p.Peak, "V"), si(p.TPeak, "s"), vmax, above,
-			si(p.Min, "V"), vmin, below, si(p.Energy, "J"), si(p.IPath, "A"), rating(lim[p.Name+" ifail"])})
+		pins = append(pins, []string{p.Name, si(p.Peak, "V"), si(p.TPeak, "s"), above,
+			si(p.Min, "V"), si(p.TMin, "s"), below, si(p.Energy, "J"), si(p.IPath, "A"), rating(lim[p.Name+" ifail"])})
 	}
 	if len(pins) > 0 {
-		section(w, "Protected pins (residual pulse)", []string{"pin", "peak", "at", "vmax", "time above",
-			"lowest", "vmin", "time below", "energy in", "internal clamp", "ifail"}, pins)
+		section(w, "Protected pins (residual pulse)", []string{"pin", "peak", "at", "time > vmax",
+			"lowest", "at", "time < vmin", "energy in", "internal clamp", "ifail"}, pins)
 	}
 
 	// Capacitors with a rating.

@@ -239,6 +239,7 @@ func (b *Bench) Solve(level float64, polarity string, opt *Options) (*Run, error
 		stop = DefaultStop(b.Circuit, st.Stop)
 		r.Window.Default = true
 	}
+	first := stop
 	var res *mna.Result
 	var late []string
 	for {
@@ -273,8 +274,8 @@ func (b *Bench) Solve(level float64, polarity string, opt *Options) (*Run, error
 	}
 	r.Window.Stop = stop
 	if r.Window.Extended > 0 {
-		r.Notes = append(r.Notes, fmt.Sprintf("the default window was extended %d× to %s because the response was still developing at its end",
-			1<<r.Window.Extended, formatSI(stop, "s")))
+		r.Notes = append(r.Notes, fmt.Sprintf("the default window was extended from %s to %s because the response was still developing at its end",
+			formatSI(first, "s"), formatSI(stop, "s")))
 	}
 	if len(late) > 0 {
 		what := strings.Join(late, ", ")
@@ -479,4 +480,14 @@ func (b *Bench) waves(res *mna.Result) *Waves {
 		w.I = append(w.I, res.I[i])
 	}
 	return w
+}
+
+// Solve compiles the variant of c and solves one run with it: the one-off
+// form of NewBench followed by Bench.Solve.
+func Solve(c *netlist.Circuit, v netlist.Variant, level float64, polarity string, opt *Options) (*Run, error) {
+	b, err := NewBench(c, v)
+	if err != nil {
+		return nil, err
+	}
+	return b.Solve(level, polarity, opt)
 }
