@@ -196,6 +196,9 @@ func describeSource(s *waveforms.Stimulus) string {
 }
 
 func loadText(s *waveforms.Stimulus, load float64) string {
+	if s.Name == "pwl" {
+		return "no load prescribed (an ideal current from a file)"
+	}
 	var d string
 	switch {
 	case math.IsInf(load, 1):
