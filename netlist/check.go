@@ -331,6 +331,9 @@ func lookupPart(c *Circuit, k Kind, name string) (*Part, string) {
 func (p *parser) checkElement(re *rawElement, c *Circuit) *Element {
 	own := &ownParams{num: map[string]float64{}, str: map[string]string{}, pos: map[string]Pos{}, name: re.namePos, nodes: re.nodePos}
 	skip := map[string]bool{}
+	for k := range re.written {
+		skip[k] = true // a written key that is unusable was reported already
+	}
 	if re.hasValue {
 		sp := specOf(re.kind, "value")
 		v, msg := numValue(paramOf(re.kind, "value"), sp.unit, sp.rule, re.value)
@@ -450,7 +453,9 @@ func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
 		}
 	}
 	if wave == "" {
-		p.errs.Add(re.namePos, "strike %s needs waveform= (one of %s)", re.name, strings.Join(waveformNames, ", "))
+		if !re.written["waveform"] {
+			p.errs.Add(re.namePos, "strike %s needs waveform= (one of %s)", re.name, strings.Join(waveformNames, ", "))
+		}
 		wave = "?"
 	}
 	own.str["waveform"] = wave
@@ -503,7 +508,7 @@ func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
 			own.num[kv.key] = v
 		}
 	}
-	if !hasLevel {
+	if !hasLevel && !re.written["level"] {
 		p.errs.Add(re.namePos, "strike %s needs level= (a list such as level=2k,4k,8k)", re.name)
 	}
 	if wave == "pwl" && !hasFile {

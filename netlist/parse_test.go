@@ -130,6 +130,23 @@ func TestErrors(t *testing.T) {
 		{"pin window", "pin U1 tst gnd vmax=1 vmin=2",
 			[]string{"1:5: pin U1: vmin 2 V is not below vmax 1 V"}},
 
+		{"columns count runes", "resistor Rµ tst gnd 1Ω zz=1",
+			[]string{"1:24: unknown parameter zz for a resistor"}},
+		{"columns after a tab", "resistor\tR1 tst gnd 1k zz=1",
+			[]string{"1:24: unknown parameter zz for a resistor"}},
+		{"quote inside a word", "resistor R\"1 tst gnd 1k",
+			[]string{"1:11: unexpected quote inside R\"1 (quote the whole text)", "1:10: element name R\"1 may hold only letters, digits, _, - and . (not '\"')"}},
+		{"key with no value", "clamp D1 tst gnd vbr=",
+			[]string{"1:18: vbr= has no value"}},
+		{"strike keys with no value", "strike s2 tst gnd waveform= level=",
+			[]string{"1:19: waveform= has no value", "1:29: level= has no value", "2:8: second strike zap; a deck has exactly one (the first is s2 at t.zap:1:8)"}},
+		{"statement starting with a key", "vbr=6",
+			[]string{"1:1: a statement starts with a keyword such as resistor, not vbr=6"}},
+		{"include a folder", "include \".\"",
+			[]string{"1:9: . is not a regular file"}},
+		{"tolerance of a word", "clamp D1 tst gnd vbr=6\ntolerance D1.polarity=5%",
+			[]string{"2:14: tolerance: D1.polarity is not a number to spread"}},
+
 		// Parts.
 		{"unknown part", "part tvs clamp vbr=6\nclamp D1 tst gnd part=tsv",
 			[]string{"2:23: no part tsv (did you mean tvs?)"}},

@@ -38,7 +38,8 @@ type rawElement struct {
 	valuePos Pos
 	hasValue bool
 	params   []rawParam
-	ok       bool // name and both nodes present and well formed
+	ok       bool            // name and both nodes present and well formed
+	written  map[string]bool // every key written, usable or not
 }
 
 type rawPart struct {
@@ -394,7 +395,12 @@ func nameProblem(s string) string {
 func (p *parser) parseElement(st statement) {
 	t := st.toks[0]
 	kind := Kind(t.raw)
-	e := &rawElement{kind: kind, kindPos: t.pos}
+	e := &rawElement{kind: kind, kindPos: t.pos, written: map[string]bool{}}
+	for _, t := range st.toks[1:] {
+		if t.isKV {
+			e.written[t.key] = true
+		}
+	}
 	pos, kv := p.params(st.toks[1:])
 	e.params = kv
 	e.ok = true

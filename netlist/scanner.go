@@ -112,7 +112,10 @@ func scanLine(file string, lineNo int, line []byte, errs *ErrorList) ([]token, b
 			if r == ' ' || r == '\t' || r == '\f' || r == '\v' || r == '#' {
 				break
 			}
-			if r == '"' {
+			// A quote opens a string only at the start of a word or of a
+			// value; elsewhere it is a stray character, reported by
+			// makeToken, and does not swallow the rest of the line.
+			if r == '"' && (i == start || line[i-1] == '=') {
 				inQuote = true
 				quotePos = Pos{file, lineNo, col}
 			}
