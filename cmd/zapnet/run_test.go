@@ -53,6 +53,7 @@ func TestRunExitCodes(t *testing.T) {
 		{"failing levels", []string{demoDeck, "--level", "8kV", "--polarity", "neg"}, exitFail, ""},
 		{"no clamp", []string{noClamp}, exitFail, ""},
 		{"broken deck", []string{brokenDeck}, exitUnusable, "run-unknown-key.zap:5:27: unknown parameter vbrr"},
+		{"unsolvable deck", []string{"../../testdata/bad/run-solve-fail.zap"}, exitUnusable, "V1"},
 		{"missing deck", []string{"../../testdata/no-such-deck.zap"}, exitUnusable, "no-such-deck.zap"},
 		{"bad polarity", []string{demoDeck, "--polarity", "up"}, exitUnusable, "--polarity"},
 		{"bad level", []string{demoDeck, "--level", "8kk"}, exitUnusable, "--level"},

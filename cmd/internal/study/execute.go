@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"runtime"
+	"strings"
 	"sync"
 
 	"zapnet/netlist"
@@ -117,11 +118,24 @@ func ExecuteJobs(c *netlist.Circuit, jobs []Job, opt *Options) ([]Run, error) {
 	}
 	close(next)
 	wg.Wait()
-	var errs []error
+	// One failure told once: runs that fail the same way (every level at
+	// the operating point, say) share one message naming them all.
+	var order []string
+	labels := map[string][]string{}
+	first := map[string]error{}
 	for i := range runs {
-		if runs[i].Err != nil {
-			errs = append(errs, fmt.Errorf("%s: %w", runs[i].Label(), runs[i].Err))
+		if err := runs[i].Err; err != nil {
+			msg := err.Error()
+			if _, seen := labels[msg]; !seen {
+				order = append(order, msg)
+				first[msg] = err
+			}
+			labels[msg] = append(labels[msg], runs[i].Label())
 		}
+	}
+	var errs []error
+	for _, msg := range order {
+		errs = append(errs, fmt.Errorf("%s: %w", strings.Join(labels[msg], "; "), first[msg]))
 	}
 	return runs, errors.Join(errs...)
 }

@@ -395,3 +395,37 @@ func TestSolveErrorIsASentence(t *testing.T) {
 		t.Errorf("the engine's error is not reachable with errors.As")
 	}
 }
+
+// BenchmarkSolveDemo8kV is one run of the demo on a reused Bench: the cost of
+// a sweep's step. Allocations per run should not grow with the number of
+// time steps (measurements stream into fixed trackers).
+func BenchmarkSolveDemo8kV(b *testing.B) {
+	c, err := netlist.ParseFile(demoPath)
+	if err != nil {
+		b.Fatal(err)
+	}
+	bench, err := NewBench(c, nil)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := bench.Solve(8000, "pos", nil); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkExecuteDemo is the whole demo study on every core.
+func BenchmarkExecuteDemo(b *testing.B) {
+	c, err := netlist.ParseFile(demoPath)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := Execute(c, nil); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
