@@ -12,9 +12,14 @@ import "zapnet/netlist"
 //	i2(t) = v2(t)/z0 − [v1(t−T)/z0 + i1(t−T)]
 //
 // so in the transient each port is a conductance 1/z0 to gnd beside a
-// current fixed by the stored history (interpolated linearly between
-// accepted points). The time step never exceeds T (MaxStep), so t − T always
-// falls inside the stored history.
+// current fixed by the stored history. The time step never exceeds T
+// (MaxStep), so t − T always falls inside the stored history. The history is
+// interpolated by the parabola through the two accepted points around t − T
+// and the next one (the previous one at the newest end): linear
+// interpolation smooths the waves a little on every transit, which drains a
+// ringing line's energy visibly when the step is a sizeable fraction of T;
+// the parabola cuts that loss by more than an order of magnitude at the
+// same steps.
 //
 // At the operating point a lossless line is a wire: its steady state has
 // v1 = v2 and i1 = −i2, which the two equations above cannot fix by
@@ -120,8 +125,9 @@ func (d *Line) history(t float64) (h1, h2 float64) {
 	return d.g*v2 + i2, d.g*v1 + i1
 }
 
-// at interpolates the stored port values at time tq; before the first point
-// the first point holds, after the last the last one does.
+// at interpolates the stored port values at time tq (quadratic, linear with
+// two points); before the first point the first point holds, after the last
+// the last one does.
 func (d *Line) at(tq float64) (v1, v2, i1, i2 float64) {
 	if d.size == 0 {
 		return 0, 0, 0, 0
@@ -145,9 +151,24 @@ func (d *Line) at(tq float64) (v1, v2, i1, i2 float64) {
 		return d.hv1[j], d.hv2[j], d.hi1[j], d.hi2[j]
 	}
 	a, b := (d.head+lo-1)%n, (d.head+lo)%n
-	w := (tq - d.ht[a]) / (d.ht[b] - d.ht[a])
-	return d.hv1[a] + w*(d.hv1[b]-d.hv1[a]), d.hv2[a] + w*(d.hv2[b]-d.hv2[a]),
-		d.hi1[a] + w*(d.hi1[b]-d.hi1[a]), d.hi2[a] + w*(d.hi2[b]-d.hi2[a])
+	third := -1
+	switch {
+	case lo+1 < d.size:
+		third = (d.head + lo + 1) % n
+	case lo-2 >= 0:
+		third = (d.head + lo - 2) % n
+	}
+	if third < 0 {
+		w := (tq - d.ht[a]) / (d.ht[b] - d.ht[a])
+		return d.hv1[a] + w*(d.hv1[b]-d.hv1[a]), d.hv2[a] + w*(d.hv2[b]-d.hv2[a]),
+			d.hi1[a] + w*(d.hi1[b]-d.hi1[a]), d.hi2[a] + w*(d.hi2[b]-d.hi2[a])
+	}
+	ta, tb, tc := d.ht[a], d.ht[b], d.ht[third]
+	wa := (tq - tb) * (tq - tc) / ((ta - tb) * (ta - tc))
+	wb := (tq - ta) * (tq - tc) / ((tb - ta) * (tb - tc))
+	wc := (tq - ta) * (tq - tb) / ((tc - ta) * (tc - tb))
+	return wa*d.hv1[a] + wb*d.hv1[b] + wc*d.hv1[third], wa*d.hv2[a] + wb*d.hv2[b] + wc*d.hv2[third],
+		wa*d.hi1[a] + wb*d.hi1[b] + wc*d.hi1[third], wa*d.hi2[a] + wb*d.hi2[b] + wc*d.hi2[third]
 }
 
 // Accept implements Acceptor: it stores the port voltages and currents of
