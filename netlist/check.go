@@ -374,6 +374,10 @@ func (p *parser) checkElement(re *rawElement, c *Circuit) *Element {
 		p.errs.Add(re.nodePos[1], "%s %s connects node %s to itself", re.kind, re.name, re.nodes[0])
 		re.ok = false
 	}
+	if rail, ok := own.str["rail"]; ok && re.ok && rail == re.nodes[0] {
+		p.errs.Add(own.pos["rail"], "pin %s: rail %s is the pin's own node", re.name, rail)
+		re.ok = false
+	}
 	if re.ok {
 		p.plausible(e, own)
 		if _, dup := c.own[re.name]; !dup {

@@ -186,6 +186,10 @@ func TestErrors(t *testing.T) {
 		// Electrical checks.
 		{"one connection", "resistor R1 tst dangling 1k",
 			[]string{"1:17: node dangling has only one connection (R1); connect it to something else or remove it"}},
+		{"rail not driven", "pin U1 tst gnd rail=vcc",
+			[]string{"1:21: node vcc has only one connection (U1); connect it to something else or remove it"}},
+		{"rail on the pin", "pin U1 tst gnd rail=tst",
+			[]string{"1:21: pin U1: rail tst is the pin's own node"}},
 		{"self loop", "resistor R1 tst tst 1k",
 			[]string{"1:17: resistor R1 connects node tst to itself"}},
 		{"duplicate element", "resistor R1 tst gnd 1k\nresistor R1 tst gnd 2k",

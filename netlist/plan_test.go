@@ -294,3 +294,13 @@ func TestReadmeExample(t *testing.T) {
 		t.Errorf("the example plans %d runs", n)
 	}
 }
+
+func BenchmarkParseDemo(b *testing.B) {
+	path := filepath.Join("..", "testdata", "demo.zap")
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := ParseFile(path); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
