@@ -72,6 +72,9 @@ func TestParseNumber(t *testing.T) {
 	}
 }
 
+// Engineering notation: the mantissa in [1, 1000) with the SI prefix of the
+// power of ten (BIPM SI brochure, 9th edition, table 7) [pub]; the expected
+// strings are rounded to four significant digits by hand [calc].
 func TestFormatSI(t *testing.T) {
 	tests := []struct {
 		v    float64
@@ -109,6 +112,9 @@ func TestFormatSI(t *testing.T) {
 	}
 }
 
+// Units of the parameters and levels follow LANGUAGE.md and MODELS.md, the
+// project's contract, and the waveform units of CHECKS.md [pub: the
+// standards' level definitions].
 func TestUnits(t *testing.T) {
 	for _, tt := range []struct {
 		k    Kind
