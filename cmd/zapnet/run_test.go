@@ -7,6 +7,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -262,4 +263,57 @@ func TestLevelList(t *testing.T) {
 			t.Errorf("levelList(%q) accepted", bad)
 		}
 	}
+}
+
+// The JSON of one demo run is a golden file too: it shows the document's
+// shape to anyone who reads it by machine. Numbers are rounded to four
+// significant digits and the engine's counts zeroed for the comparison, so
+// that the golden file follows the physics rather than the last bit of the
+// step control.
+func TestRunJSONGolden(t *testing.T) {
+	var out, errs bytes.Buffer
+	opt := runOptions{deck: demoDeck, levels: []float64{2000}, polarities: []string{"pos"}, json: "-", zeroWall: true}
+	if err := runStudy(opt, &out, &errs); err != nil {
+		t.Fatalf("%v\n%s", err, errs.String())
+	}
+	var doc map[string]any
+	if err := json.Unmarshal(out.Bytes(), &doc); err != nil {
+		t.Fatal(err)
+	}
+	for _, r := range doc["runs"].([]any) {
+		stats := r.(map[string]any)["stats"].(map[string]any)
+		if stats["wall_s"] != 0.0 {
+			t.Errorf("wall time not zeroed: %v", stats["wall_s"])
+		}
+		for k := range stats {
+			stats[k] = 0
+		}
+	}
+	b, err := json.MarshalIndent(round4(doc), "", "  ")
+	if err != nil {
+		t.Fatal(err)
+	}
+	golden(t, "run-demo-2kV-pos.json", append(b, '\n'))
+}
+
+// round4 rounds every number in a decoded JSON value to four significant
+// digits.
+func round4(v any) any {
+	switch x := v.(type) {
+	case float64:
+		if x == 0 || math.IsInf(x, 0) || math.IsNaN(x) {
+			return x
+		}
+		f, _ := strconv.ParseFloat(strconv.FormatFloat(x, 'g', 4, 64), 64)
+		return f
+	case map[string]any:
+		for k, e := range x {
+			x[k] = round4(e)
+		}
+	case []any:
+		for i, e := range x {
+			x[i] = round4(e)
+		}
+	}
+	return v
 }
