@@ -1,0 +1,26 @@
+// Package plots draws the pictures of a study as SVG figures with
+// gonum.org/v1/plot: what the strike drove, what the watched nodes saw, the
+// clamp current, the residual pulse at each protected pin with its vmax and
+// vmin drawn, the energy ledger as bars, overlays of one quantity across the
+// runs of a sweep, and a margin-against-level curve for a margin search.
+//
+// It measures nothing and decides nothing: every number comes from a
+// study.Run solved with study.Options.Record (or, for MarginCurve, from the
+// caller). Package report embeds the figures in its HTML report; the command
+// line writes them as files with --plot.
+//
+//   - RunFigures(c, r, opt) draws one recorded run: "strike", "nodes",
+//     "clamps", "residual-PIN" for each protected pin, and "ledger".
+//   - Overlays(c, runs, opt) draws one quantity across runs: the residual of
+//     each pin and the current of each clamp, one line per run (level,
+//     polarity, variant), with the limits drawn once.
+//   - MarginCurve(title, unit, curves, opt) draws the worst margin found at
+//     each level a margin search tried, one line per polarity or variant,
+//     with the zero line where PASS turns into FAIL.
+//
+// Axes are in engineering units: each axis picks the SI prefix that keeps its
+// tick labels between 0.1 and 1000 (ns or µs, mV or V or kV, mA or A, µJ), and
+// says the unit in its label. The legend stands beside the plot area, never
+// over the data. Text in a figure (the deck's title, element names) is
+// escaped by the SVG writer, so a deck cannot put markup into a figure.
+package plots

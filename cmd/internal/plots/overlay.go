@@ -1,0 +1,155 @@
+package plots
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"zapnet/cmd/internal/study"
+	"zapnet/netlist"
+)
+
+// Overlays draws one quantity across runs, one line per run named by its
+// level, polarity and variant: the residual pulse of each protected pin (with
+// vmax and vmin) and the current of each clamp (with ipp on both sides, since
+// the runs' polarities differ). Unsolved and unrecorded runs are skipped;
+// with fewer than two runs left there is nothing to compare and Overlays
+// returns no figure. At most Options.MaxOverlay runs are drawn, the first in
+// plan order, and the caption says so.
+func Overlays(c *netlist.Circuit, runs []study.Run, opt *Options) ([]Figure, error) {
+	o := opt.withDefaults()
+	var use []study.Run
+	for _, r := range runs {
+		if r.Err == nil && r.Waves != nil {
+			use = append(use, r)
+		}
+	}
+	if len(use) < 2 {
+		return nil, nil
+	}
+	note := ""
+	if len(use) > o.MaxOverlay {
+		note = fmt.Sprintf(" (the first %d of %d runs)", o.MaxOverlay, len(use))
+		use = use[:o.MaxOverlay]
+	}
+	first := &use[0]
+	var figs []Figure
+	for k := range first.Pins {
+		pin := &first.Pins[k]
+		what := "Residual pulse at " + pin.Name + ", every run" + note
+		f, err := residualFigure(&o, c, use, pin, "overlay-residual-"+pin.Name, what, closeUpSpan(first.Waves))
+		if err != nil {
+			return nil, err
+		}
+		figs = append(figs, f)
+	}
+	for _, e := range first.Elements {
+		if e.Kind != netlist.Clamp {
+			continue
+		}
+		var cs []curve
+		for i := range use {
+			if iw := elementWave(use[i].Waves, e.Name); iw != nil {
+				cs = append(cs, curve{RunLabel(&use[i]), use[i].Waves.Time, iw})
+			}
+		}
+		var lims []limitLine
+		for _, l := range first.Limits {
+			if l.Element == e.Name && l.Param == "ipp" {
+				lims = append(lims, limitLine{"ipp +" + netlist.FormatSI(l.Value, "A"), l.Value},
+					limitLine{"ipp " + netlist.FormatSI(-l.Value, "A"), -l.Value})
+			}
+		}
+		what := "Current in " + e.Name + ", every run" + note
+		f, err := timeFigure(&o, timeSpec{name: "overlay-clamp-" + e.Name, what: what, caption: what,
+			quantity: "current", unit: "A", curves: cs, limits: lims, closeUp: closeUpSpan(first.Waves)})
+		if err != nil {
+			return nil, err
+		}
+		figs = append(figs, f)
+	}
+	return figs, nil
+}
+
+// MarginSeries is one margin search: the worst margin found at each level it
+// tried, for one polarity (and variant).
+type MarginSeries struct {
+	// Name is the legend entry: "pos", "neg", "C1.value=1u pos".
+	Name string
+	// Levels are the levels tried, in the waveform's unit (V for
+	// discharges), in any order.
+	Levels []float64
+	// Margins are the worst margin at each level, percent of the limit
+	// (study.Run.Worst.Percent): positive passes, negative fails.
+	Margins []float64
+}
+
+// MarginCurve draws the worst margin against level for one or more margin
+// searches, one line with markers per series, and the zero line where a run
+// turns from PASS to FAIL. unit is the level's unit ("V" for discharges,
+// "A", or "" for a waveform's own unit); title is the deck's title.
+func MarginCurve(title, unit string, curves []MarginSeries, opt *Options) (Figure, error) {
+	o := opt.withDefaults()
+	o.Title = title
+	if len(curves) == 0 {
+		return Figure{}, fmt.Errorf("plots: margin: nothing to draw")
+	}
+	lMax := 0.0
+	for _, c := range curves {
+		if len(c.Levels) != len(c.Margins) {
+			return Figure{}, fmt.Errorf("plots: margin: %s has %d levels and %d margins", c.Name, len(c.Levels), len(c.Margins))
+		}
+		for _, l := range c.Levels {
+			lMax = math.Max(lMax, math.Abs(l))
+		}
+	}
+	ls, lp := engineering(lMax)
+	what := "Worst margin against level"
+	p := newPlot("")
+	if unit == "" {
+		p.X.Label.Text = "level"
+		ls, lp = 1, ""
+	} else {
+		p.X.Label.Text = "level (" + lp + unit + ")"
+	}
+	p.Y.Label.Text = "worst margin (% of the limit)"
+	fig := Figure{Name: "margin", Caption: what}
+	var entries []legendEntry
+	glyphs := []draw.GlyphDrawer{draw.CircleGlyph{}, draw.SquareGlyph{}, draw.TriangleGlyph{}, draw.PyramidGlyph{}, draw.CrossGlyph{}}
+	for i, c := range curves {
+		xy := make(plotter.XYs, len(c.Levels))
+		for k := range c.Levels {
+			xy[k] = plotter.XY{X: c.Levels[k] * ls, Y: c.Margins[k]}
+		}
+		sort.Slice(xy, func(a, b int) bool { return xy[a].X < xy[b].X })
+		l, s, err := plotter.NewLinePoints(xy)
+		if err != nil {
+			return Figure{}, fmt.Errorf("plots: margin: %s: %w", c.Name, err)
+		}
+		l.LineStyle = lineStyle(i)
+		s.GlyphStyle = draw.GlyphStyle{Color: palette[i%len(palette)], Radius: vg.Points(2.5), Shape: glyphs[i%len(glyphs)]}
+		p.Add(l, s)
+		entries = append(entries, legendEntry{c.Name, l})
+		fig.Series = append(fig.Series, c.Name)
+	}
+	zero, err := plotter.NewLine(plotter.XYs{{X: math.Min(p.X.Min, 0), Y: 0}, {X: p.X.Max, Y: 0}})
+	if err != nil {
+		return Figure{}, fmt.Errorf("plots: margin: %w", err)
+	}
+	zero.LineStyle = draw.LineStyle{Color: limitColor, Width: vg.Points(1), Dashes: []vg.Length{vg.Points(5), vg.Points(3)}}
+	p.Add(zero)
+	entries = append(entries, legendEntry{"0 %: PASS above, FAIL below", zero})
+	fig.Series = append(fig.Series, "0 %: PASS above, FAIL below")
+	padY(p)
+	svg, err := render(&o, heading(title, what), []*plot.Plot{p}, entries)
+	if err != nil {
+		return Figure{}, fmt.Errorf("plots: margin: %w", err)
+	}
+	fig.SVG = svg
+	return fig, nil
+}
