@@ -14,7 +14,9 @@ func (s *System) OperatingPoint(set *Settings) ([]float64, error) {
 		return nil, err
 	}
 	v := make([]float64, len(s.nodeNames))
-	copy(v, s.x)
+	for i, k := range s.nodeIdx {
+		v[i] = s.x[k]
+	}
 	return v, nil
 }
 

@@ -14,14 +14,16 @@ import (
 // and every buffer a solution needs. It is reused across runs (the runs of a
 // sweep) and is not safe for concurrent use: give each goroutine its own.
 type System struct {
-	nodeNames []string // circuit nodes: unknowns 0..len-1
-	unknowns  []string // display name of every unknown
-	isNode    []bool   // KCL row (true) or branch row (false)
-	owner     []int    // device owning an internal unknown, -1 for circuit nodes
-	nodeDevs  [][]int  // devices touching each circuit node, for hints
-	devs      []device
-	elements  []string
-	probes    []string
+	nodeNames   []string // circuit nodes, in result order
+	nodeIdx     []int    // unknown of each circuit node
+	unknowns    []string // display name of every unknown
+	isNode      []bool   // KCL row (true) or branch row (false)
+	owner       []int    // device owning an internal unknown, -1 for circuit nodes
+	circuitNode []int    // circuit node of each unknown, -1 for internal ones
+	nodeDevs    [][]int  // devices touching each circuit node, for hints
+	devs        []device
+	elements    []string
+	probes      []string
 
 	striker devices.Striker
 	stim    *waveforms.Stimulus
@@ -34,8 +36,7 @@ type System struct {
 	dx    []float64
 	f     []float64
 	jac   []float64
-	lu    []float64
-	piv   []int
+	lu    *lu
 	scale []float64 // largest single contribution on each row, for the residual test
 	snap  []float64 // per-device scratch: rows before its Eval
 
@@ -79,14 +80,12 @@ type device struct {
 // Compile numbers the nodes of c, builds its devices and allocates every
 // buffer a solution needs.
 //
-// Circuit nodes come first, in order of first appearance among the
-// elements' terminals (deck order); then each element's internal nodes and
-// branch currents, in deck order. Every element, the strike included, is
+// Nodes() lists the circuit nodes in order of first appearance among the
+// elements' terminals (deck order). Every element, the strike included, is
 // built from the device registry.
 func Compile(c *netlist.Circuit) (*System, error) {
 	s := &System{sign: 1}
 	var errs []error
-	nodeIndex := map[string]int{}
 	for _, e := range c.Elements {
 		d, err := devices.New(e)
 		if err != nil {
@@ -95,15 +94,6 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		}
 		s.devs = append(s.devs, device{dev: d})
 		s.elements = append(s.elements, e.Name)
-		for _, name := range d.Layout().Terminals {
-			if name == netlist.Ground || name == "" {
-				continue
-			}
-			if _, ok := nodeIndex[name]; !ok {
-				nodeIndex[name] = len(s.nodeNames)
-				s.nodeNames = append(s.nodeNames, name)
-			}
-		}
 	}
 	if len(errs) > 0 {
 		return nil, errors.Join(errs...)
@@ -111,14 +101,12 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	if len(s.devs) == 0 {
 		return nil, errors.New("mna: the circuit has no elements")
 	}
-	for _, name := range s.nodeNames {
-		s.unknowns = append(s.unknowns, name)
-		s.isNode = append(s.isNode, true)
-		s.owner = append(s.owner, -1)
-	}
-	s.nodeDevs = make([][]int, len(s.nodeNames))
 
-	// Internal unknowns, then binding: states are numbered in device order.
+	// Unknowns are numbered as the elements are met: a new terminal node,
+	// then the element's internal nodes and branches. Unknowns that share
+	// an element stay close, which keeps the matrix of a chain (a ladder, a
+	// line of parts) banded and its factorisation cheap.
+	nodeIndex := map[string]int{} // node name → unknown
 	var rows []devices.StateRows
 	var stateDev []int
 	nTerm, nProbe := 0, 0
@@ -129,24 +117,26 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		for _, t := range lay.Terminals {
 			idx := devices.Ground
 			if t != netlist.Ground && t != "" {
-				idx = nodeIndex[t]
-				if k := len(s.nodeDevs[idx]); k == 0 || s.nodeDevs[idx][k-1] != di {
-					s.nodeDevs[idx] = append(s.nodeDevs[idx], di)
+				var ok bool
+				if idx, ok = nodeIndex[t]; !ok {
+					idx = s.addUnknown(t, true, -1)
+					nodeIndex[t] = idx
+					s.nodeNames = append(s.nodeNames, t)
+					s.nodeIdx = append(s.nodeIdx, idx)
+					s.nodeDevs = append(s.nodeDevs, nil)
+				}
+				cn := s.circuitNode[idx]
+				if k := len(s.nodeDevs[cn]); k == 0 || s.nodeDevs[cn][k-1] != di {
+					s.nodeDevs[cn] = append(s.nodeDevs[cn], di)
 				}
 			}
 			d.nodes.Terminals = append(d.nodes.Terminals, idx)
 		}
 		for _, in := range lay.Internal {
-			d.nodes.Internal = append(d.nodes.Internal, len(s.unknowns))
-			s.unknowns = append(s.unknowns, name+"."+in)
-			s.isNode = append(s.isNode, true)
-			s.owner = append(s.owner, di)
+			d.nodes.Internal = append(d.nodes.Internal, s.addUnknown(name+"."+in, true, di))
 		}
 		for _, br := range lay.Branches {
-			d.nodes.Branches = append(d.nodes.Branches, len(s.unknowns))
-			s.unknowns = append(s.unknowns, name+"."+br)
-			s.isNode = append(s.isNode, false)
-			s.owner = append(s.owner, di)
+			d.nodes.Branches = append(d.nodes.Branches, s.addUnknown(name+"."+br, false, di))
 		}
 		d.term = d.nodes.Terminals
 		for _, r := range d.nodes.Terminals {
@@ -218,8 +208,7 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.dx = make([]float64, n)
 	s.f = make([]float64, n)
 	s.jac = make([]float64, n*n)
-	s.lu = make([]float64, n*n)
-	s.piv = make([]int, n)
+	s.lu = newLU(n)
 	s.scale = make([]float64, n)
 	maxTouched := 0
 	for _, d := range s.devs {
@@ -245,6 +234,20 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		Q: s.q, Rows: s.rows, SourceScale: 1,
 	}
 	return s, nil
+}
+
+// addUnknown numbers a new unknown.
+func (s *System) addUnknown(name string, node bool, owner int) int {
+	i := len(s.unknowns)
+	s.unknowns = append(s.unknowns, name)
+	s.isNode = append(s.isNode, node)
+	s.owner = append(s.owner, owner)
+	cn := -1
+	if owner < 0 {
+		cn = len(s.nodeNames)
+	}
+	s.circuitNode = append(s.circuitNode, cn)
+	return i
 }
 
 // addRow appends r to rows unless it is Ground or already there, and
@@ -286,8 +289,9 @@ func (s *System) Elements() []string { return s.elements }
 // Probes are the names of the devices' probes, "ELEMENT.probe", in result order.
 func (s *System) Probes() []string { return s.probes }
 
-// Unknowns are the names of every unknown of the system: the circuit nodes,
-// then internal nodes and branch currents as ELEMENT.suffix.
+// Unknowns are the names of every unknown of the system, in matrix order:
+// circuit nodes by name, internal nodes and branch currents as
+// ELEMENT.suffix.
 func (s *System) Unknowns() []string { return s.unknowns }
 
 // SetStimulus sets the strike of the next runs; sign is +1 or −1; nil: none.
@@ -304,8 +308,8 @@ func (s *System) hintFor(i int, transient bool) string {
 	var names []string
 	if i >= 0 && i < len(s.owner) && s.owner[i] >= 0 {
 		names = append(names, s.elements[s.owner[i]])
-	} else if i >= 0 && i < len(s.nodeDevs) {
-		for _, di := range s.nodeDevs[i] {
+	} else if i >= 0 && i < len(s.circuitNode) && s.circuitNode[i] >= 0 {
+		for _, di := range s.nodeDevs[s.circuitNode[i]] {
 			names = append(names, s.elements[di])
 		}
 	}
