@@ -94,22 +94,30 @@ func ExecuteJobs(c *netlist.Circuit, jobs []Job, opt *Options) ([]Run, error) {
 			benchVariant := -1
 			for k := range next {
 				j := jobs[k]
-				if bench == nil || benchVariant != j.VariantIndex {
-					b, err := NewBench(c, j.Variant)
-					if err != nil {
-						runs[k] = failedRun(c, j, err)
-						bench, benchVariant = nil, -1
-						continue
+				runs[k] = func() (run Run) {
+					// A panic is a bug, but the user should get a
+					// sentence and the other runs, not a stack trace.
+					defer func() {
+						if p := recover(); p != nil {
+							bench, benchVariant = nil, -1
+							run = failedRun(c, j, fmt.Errorf("internal error (please report it with the deck): %v", p))
+						}
+					}()
+					if bench == nil || benchVariant != j.VariantIndex {
+						b, err := NewBench(c, j.Variant)
+						if err != nil {
+							bench, benchVariant = nil, -1
+							return failedRun(c, j, err)
+						}
+						bench, benchVariant = b, j.VariantIndex
 					}
-					bench, benchVariant = b, j.VariantIndex
-				}
-				r, err := bench.Solve(j.Level, j.Polarity, opt)
-				if err != nil {
-					runs[k] = failedRun(c, j, err)
-					continue
-				}
-				r.Job = j
-				runs[k] = *r
+					r, err := bench.Solve(j.Level, j.Polarity, opt)
+					if err != nil {
+						return failedRun(c, j, err)
+					}
+					r.Job = j
+					return *r
+				}()
 			}
 		}()
 	}
