@@ -6,44 +6,52 @@ import "math"
 // for every solve: P·A = L·U, L unit lower and U upper, both in a.
 //
 // It is the unblocked right-looking algorithm of LAPACK's dgetf2 written
-// out, with two economies for circuit matrices: zero multipliers are
-// skipped, and each row's update stops at the last column where it can be
-// nonzero (hi). For the tens of unknowns of a protection network this beats
-// a BLAS-based factorisation, whose per-call dispatch costs more than the
-// arithmetic (measured: gonum's Dgetrf and Dgetrs took several times
-// longer at 15 unknowns); for a long chain of parts numbered along the chain
-// the cost grows with the bandwidth rather than n³.
+// out, with economies for circuit matrices: zero multipliers are skipped,
+// and the elimination is bounded by where entries can be nonzero, starting
+// from the structure of the circuit (a device stamps only among its own
+// unknowns) and widened by the fill-in as it happens. For the tens of
+// unknowns of a protection network this beats a BLAS-based factorisation,
+// whose per-call dispatch costs more than the arithmetic (measured: gonum's
+// Dgetrf and Dgetrs took several times longer at 15 unknowns); for a long
+// chain of parts numbered along the chain the cost grows with the
+// bandwidth rather than n³.
 type lu struct {
 	n   int
 	a   []float64 // n×n row-major
 	piv []int     // row exchanged with row k at step k
 	hi  []int     // last possibly nonzero column of each row
+	lr  []int     // last possibly nonzero row of each column
+
+	hi0 []int // the circuit's structure: last column of each row (and,
+	// the structure being symmetric, last row of each column)
 }
 
-func newLU(n int) *lu {
-	return &lu{n: n, a: make([]float64, n*n), piv: make([]int, n), hi: make([]int, n)}
+// newLU prepares the factorisation of n×n matrices whose row i has no
+// nonzero beyond column last[i] and whose column j none beyond row last[j];
+// nil last means dense.
+func newLU(n int, last []int) *lu {
+	f := &lu{n: n, a: make([]float64, n*n), piv: make([]int, n), hi: make([]int, n), lr: make([]int, n), hi0: last}
+	if f.hi0 == nil {
+		f.hi0 = make([]int, n)
+		for i := range f.hi0 {
+			f.hi0[i] = n - 1
+		}
+	}
+	return f
 }
 
 // factor copies m into the factorisation storage and factors it. It returns
 // the first column whose pivot is exactly zero, or -1.
 func (f *lu) factor(m []float64) int {
-	n, a, hi := f.n, f.a, f.hi
+	n, a, hi, lr := f.n, f.a, f.hi, f.lr
 	copy(a, m)
-	for i := 0; i < n; i++ {
-		h := -1
-		row := a[i*n : i*n+n]
-		for j := n - 1; j >= 0; j-- {
-			if row[j] != 0 {
-				h = j
-				break
-			}
-		}
-		hi[i] = h
-	}
+	copy(hi, f.hi0)
+	copy(lr, f.hi0)
 	zero := -1
 	for k := 0; k < n; k++ {
+		end := lr[k]
 		p, mx := k, math.Abs(a[k*n+k])
-		for i := k + 1; i < n; i++ {
+		for i := k + 1; i <= end; i++ {
 			if v := math.Abs(a[i*n+k]); v > mx {
 				p, mx = i, v
 			}
@@ -55,6 +63,12 @@ func (f *lu) factor(m []float64) int {
 				rk[j], rp[j] = rp[j], rk[j]
 			}
 			hi[k], hi[p] = hi[p], hi[k]
+			// The old row k now sits at p: its columns reach down to p.
+			for j := k + 1; j <= hi[p]; j++ {
+				if lr[j] < p {
+					lr[j] = p
+				}
+			}
 		}
 		d := a[k*n+k]
 		if d == 0 {
@@ -67,13 +81,13 @@ func (f *lu) factor(m []float64) int {
 		hk := hi[k]
 		if hk <= k {
 			// Row k ends at the diagonal: the multipliers change nothing.
-			for i := k + 1; i < n; i++ {
+			for i := k + 1; i <= end; i++ {
 				a[i*n+k] *= inv
 			}
 			continue
 		}
 		rowk := a[k*n+k+1 : k*n+hk+1]
-		for i := k + 1; i < n; i++ {
+		for i := k + 1; i <= end; i++ {
 			l := a[i*n+k]
 			if l == 0 {
 				continue
@@ -86,6 +100,12 @@ func (f *lu) factor(m []float64) int {
 			}
 			if hk > hi[i] {
 				hi[i] = hk
+			}
+		}
+		// Fill-in: the columns of row k now reach every row updated.
+		for j := k + 1; j <= hk; j++ {
+			if lr[j] < end {
+				lr[j] = end
 			}
 		}
 	}

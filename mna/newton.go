@@ -57,7 +57,9 @@ func (s *System) assemble(g float64) {
 		for k, r := range d.touched {
 			v := s.f[r] - s.snap[k]
 			s.snap[k] = v
-			s.scale[r] = math.Max(s.scale[r], math.Abs(v))
+			if a := math.Abs(v); a > s.scale[r] {
+				s.scale[r] = a
+			}
 		}
 		for t, k := range d.termSnap {
 			if k >= 0 {
@@ -76,11 +78,15 @@ func (s *System) assemble(g float64) {
 			a := math.Abs(qd)
 			if r.Plus >= 0 {
 				s.f[r.Plus] += qd
-				s.scale[r.Plus] = math.Max(s.scale[r.Plus], a)
+				if a > s.scale[r.Plus] {
+					s.scale[r.Plus] = a
+				}
 			}
 			if r.Minus >= 0 {
 				s.f[r.Minus] -= qd
-				s.scale[r.Minus] = math.Max(s.scale[r.Minus], a)
+				if a > s.scale[r.Minus] {
+					s.scale[r.Minus] = a
+				}
 			}
 			st := s.stateTerm[k]
 			if st[0] >= 0 {
@@ -107,8 +113,8 @@ func (s *System) assemble(g float64) {
 func (s *System) residualOK(t *tol) bool {
 	vmax := 0.0
 	for i, node := range s.isNode {
-		if node {
-			vmax = math.Max(vmax, math.Abs(s.x[i]))
+		if a := math.Abs(s.x[i]); node && a > vmax {
+			vmax = a
 		}
 	}
 	ok := true
@@ -177,7 +183,7 @@ func (s *System) newton(t *tol, g float64) (int, newtonStatus) {
 		for i, d := range s.dx {
 			x := s.x[i]
 			xn := x + d
-			if !(math.Abs(d) <= t.rel*math.Max(math.Abs(x), math.Abs(xn))+t.abs) {
+			if !(math.Abs(d) <= t.rel*max(math.Abs(x), math.Abs(xn))+t.abs) {
 				dxOK = false
 				if d != d || math.IsInf(xn, 0) {
 					s.resRow, s.resValue = i, s.f[i]

@@ -3,6 +3,7 @@ package mna
 import (
 	"errors"
 	"fmt"
+	"slices"
 	"strings"
 
 	"zapnet/devices"
@@ -208,7 +209,7 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.dx = make([]float64, n)
 	s.f = make([]float64, n)
 	s.jac = make([]float64, n*n)
-	s.lu = newLU(n)
+	s.lu = newLU(n, s.structure())
 	s.scale = make([]float64, n)
 	maxTouched := 0
 	for _, d := range s.devs {
@@ -234,6 +235,34 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		Q: s.q, Rows: s.rows, SourceScale: 1,
 	}
 	return s, nil
+}
+
+// structure is the last column each row of the Jacobian can reach: a device
+// stamps only among its own unknowns, the engine only on the diagonal.
+// The structure is symmetric, so it bounds the columns too.
+func (s *System) structure() []int {
+	last := make([]int, s.n)
+	for i := range last {
+		last[i] = i
+	}
+	for di := range s.devs {
+		d := &s.devs[di]
+		m := -1
+		for _, r := range d.touched {
+			m = max(m, r)
+		}
+		for _, r := range d.touched {
+			last[r] = max(last[r], m)
+		}
+		for k := d.stateLo; k < d.stateHi; k++ {
+			for _, r := range [2]int{s.rows[k].Plus, s.rows[k].Minus} {
+				if r >= 0 && !slices.Contains(d.touched, r) {
+					panic(fmt.Sprintf("mna: %s: a state row outside the device's unknowns", d.dev.Name()))
+				}
+			}
+		}
+	}
+	return last
 }
 
 // addUnknown numbers a new unknown.
