@@ -71,4 +71,9 @@
 // counts only when it stands out: at least 1 % of the signal's largest
 // excursion from its value at t = 0, so a tail settling by microvolts does
 // not stretch the window.
+//
+// Without a `window reltol=` the study solves at DefaultRelTol (1e-4), tighter
+// than the engine's generic default: the report's numbers are peaks of
+// nanosecond ringing, and they are only as good as the steps that sample
+// them.
 package study
