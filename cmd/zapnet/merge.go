@@ -1,11 +1,268 @@
 package main
 
 import (
+	"bytes"
+	"encoding/json"
 	"errors"
+	"fmt"
 	"io"
+	"os"
+	"sort"
+	"strings"
+
+	"zapnet/cmd/internal/report"
+	"zapnet/cmd/internal/study"
+	"zapnet/cmd/internal/whatif"
+	"zapnet/netlist"
 )
 
-// runMerge is being built; see the open issues.
 func runMerge(args []string, stdout, stderr io.Writer) error {
-	return errors.New("merge: not built yet")
+	fs := newFlags("merge",
+		"merge SHARD.json ... [-o FILE]",
+		`  zapnet run deck.zap --shard 1/2 --json a.json
+  zapnet run deck.zap --shard 2/2 --json b.json
+  zapnet merge a.json b.json -o all.json
+
+Joins the JSON of the shards of one sweep (run, margin, sensitivity or
+spread, each run with --shard i/n) into exactly the JSON the unsharded
+command writes, and prints its tables. Every shard must be there once: a
+missing or interrupted slice is an error naming the missing items. A spread
+is recomputed from the circuits' samples, so its percentiles are exact.
+Exit status: as the unsharded command's (run, spread: 1 when something
+failed its verdict), 2 when the files do not belong together.`,
+		stderr)
+	out := fs.StringP("output", "o", "", "write the merged JSON to `FILE` (default: stdout, the tables then go to stderr)")
+	if err := fs.Parse(args); err != nil {
+		return err
+	}
+	if fs.NArg() < 1 {
+		fs.Usage()
+		return errors.New("merge: give the JSON files of the shards")
+	}
+	return mergeFiles(fs.Args(), *out, stdout, stderr)
+}
+
+// mergeFiles reads the shards, merges them and writes the result.
+func mergeFiles(paths []string, out string, stdout, stderr io.Writer) error {
+	jsonPath := out
+	if jsonPath == "" {
+		jsonPath = "-"
+	}
+	var raws [][]byte
+	kind := ""
+	for _, p := range paths {
+		b, err := os.ReadFile(p)
+		if err != nil {
+			return fmt.Errorf("merge: %w", err)
+		}
+		k, err := docKind(b)
+		if err != nil {
+			return fmt.Errorf("merge: %s: %w", p, err)
+		}
+		if kind != "" && k != kind {
+			return fmt.Errorf("merge: %s is %s output, %s is %s output: merge shards of one command", paths[0], kind, p, k)
+		}
+		kind = k
+		raws = append(raws, b)
+	}
+	metas := make([]report.Meta, len(raws))
+	decode := func(i int, v any) error {
+		d := json.NewDecoder(bytes.NewReader(raws[i]))
+		if err := d.Decode(v); err != nil {
+			return fmt.Errorf("merge: %s: %w", paths[i], err)
+		}
+		return json.Unmarshal(raws[i], &metas[i])
+	}
+	var err error
+	switch kind {
+	case "run":
+		docs := make([]report.RunShardDocument, len(raws))
+		for i := range raws {
+			if err = decode(i, &docs[i]); err != nil {
+				return err
+			}
+		}
+		if err = sameMeta(paths, metas); err != nil {
+			return err
+		}
+		return mergeRuns(docs, jsonPath, stdout, stderr)
+	case "margin":
+		parts := make([]*whatif.MarginResult, len(raws))
+		for i := range raws {
+			doc := report.MarginDocument{MarginResult: &whatif.MarginResult{}}
+			if err = decode(i, &doc); err != nil {
+				return err
+			}
+			parts[i] = doc.MarginResult
+		}
+		if err = sameMeta(paths, metas); err != nil {
+			return err
+		}
+		res, err := whatif.MergeMargins(parts)
+		if err != nil {
+			return fmt.Errorf("merge: %w", err)
+		}
+		return writeMargins(res, metas[0], jsonPath, stdout, stderr)
+	case "sensitivity":
+		parts := make([]*whatif.SensitivityResult, len(raws))
+		for i := range raws {
+			doc := report.SensitivityDocument{SensitivityResult: &whatif.SensitivityResult{}}
+			if err = decode(i, &doc); err != nil {
+				return err
+			}
+			parts[i] = doc.SensitivityResult
+		}
+		if err = sameMeta(paths, metas); err != nil {
+			return err
+		}
+		res, err := whatif.MergeSensitivities(parts)
+		if err != nil {
+			return fmt.Errorf("merge: %w", err)
+		}
+		return writeSensitivity(res, metas[0], jsonPath, stdout, stderr)
+	default: // spread
+		parts := make([]*whatif.SpreadResult, len(raws))
+		for i := range raws {
+			doc := report.SpreadDocument{SpreadResult: &whatif.SpreadResult{}}
+			if err = decode(i, &doc); err != nil {
+				return err
+			}
+			parts[i] = doc.SpreadResult
+		}
+		if err = sameMeta(paths, metas); err != nil {
+			return err
+		}
+		res, err := whatif.MergeSpreads(parts)
+		if err != nil {
+			return fmt.Errorf("merge: %w", err)
+		}
+		return writeSpread(res, metas[0], jsonPath, stdout, stderr)
+	}
+}
+
+// docKind tells which command wrote a JSON document by its fields.
+func docKind(b []byte) (string, error) {
+	var m map[string]json.RawMessage
+	if err := json.Unmarshal(b, &m); err != nil {
+		return "", fmt.Errorf("not a zapnet JSON document: %w", err)
+	}
+	if string(m["tool"]) != `"zapnet"` {
+		return "", errors.New("not a zapnet JSON document (no \"tool\": \"zapnet\")")
+	}
+	switch {
+	case m["margins"] != nil:
+		return "margin", nil
+	case m["parameters"] != nil:
+		return "sensitivity", nil
+	case m["samples"] != nil:
+		return "spread", nil
+	case bytes.HasPrefix(bytes.TrimSpace(m["runs"]), []byte("[")):
+		return "run", nil
+	}
+	return "", errors.New("not the JSON of run, margin, sensitivity or spread")
+}
+
+// sameMeta checks that every shard comes from the same tool version, deck
+// and title: shards of different decks cannot be joined.
+func sameMeta(paths []string, metas []report.Meta) error {
+	for i := 1; i < len(metas); i++ {
+		if metas[i] != metas[0] {
+			return fmt.Errorf("merge: %s and %s come from different decks or versions (%s %s, %q; %s %s, %q)",
+				paths[0], paths[i], metas[0].Deck, metas[0].Version, metas[0].Title, metas[i].Deck, metas[i].Version, metas[i].Title)
+		}
+	}
+	return nil
+}
+
+// mergeRuns joins run shards into the document `zapnet run` writes for the
+// whole sweep, and prints its summary.
+func mergeRuns(docs []report.RunShardDocument, jsonPath string, stdout, stderr io.Writer) error {
+	total := -1
+	var infos []string
+	for _, d := range docs {
+		n := len(d.Runs)
+		if d.Shard != nil {
+			n = d.Shard.Total
+			infos = append(infos, fmt.Sprintf("%d/%d", d.Shard.Index, d.Shard.Count))
+		}
+		if total >= 0 && n != total {
+			return fmt.Errorf("merge: shards of %d and of %d runs: they are not shards of one sweep", total, n)
+		}
+		total = n
+	}
+	sort.Strings(infos)
+	for i := 1; i < len(infos); i++ {
+		if infos[i] == infos[i-1] {
+			return fmt.Errorf("merge: shard %s is given twice", infos[i])
+		}
+	}
+	merged := report.Document{Meta: docs[0].Meta, Runs: []report.RunJSON{}}
+	var idx []int
+	for _, d := range docs {
+		for _, r := range d.Runs {
+			merged.Runs = append(merged.Runs, r)
+			idx = append(idx, r.Index)
+		}
+	}
+	if err := whatif.Complete(idx, total, "runs"); err != nil {
+		return fmt.Errorf("merge: %w", err)
+	}
+	sort.Slice(merged.Runs, func(a, b int) bool { return merged.Runs[a].Index < merged.Runs[b].Index })
+
+	tables := stdout
+	if jsonPath == "-" {
+		tables = stderr
+	}
+	fmt.Fprintf(tables, "%s (%s): %d shards, %d runs\n\n", merged.Title, merged.Deck, len(docs), len(merged.Runs))
+	if err := report.Summary(tables, summaryRuns(merged.Runs)); err != nil {
+		return err
+	}
+	if err := writeOutput(jsonPath, stdout, merged); err != nil {
+		return fmt.Errorf("merge: %w", err)
+	}
+	var errs []error
+	failed := false
+	for _, r := range merged.Runs {
+		switch {
+		case r.Error != "":
+			errs = append(errs, fmt.Errorf("%s %s: %s", netlist.FormatSI(r.Level, r.LevelUnit), r.Polarity, r.Error))
+		case r.Verdict != string(study.Pass):
+			failed = true
+		}
+	}
+	if len(errs) > 0 {
+		return errors.Join(errs...)
+	}
+	if failed {
+		return errVerdictFail
+	}
+	return nil
+}
+
+// summaryRuns rebuilds from the JSON what the summary table shows of a run.
+func summaryRuns(rs []report.RunJSON) []study.Run {
+	out := make([]study.Run, len(rs))
+	for i, r := range rs {
+		x := study.Run{Waveform: r.Waveform, LevelUnit: r.LevelUnit, Verdict: study.Verdict(r.Verdict)}
+		x.Index, x.Level, x.Polarity = r.Index, r.Level, r.Polarity
+		keys := make([]string, 0, len(r.Variant))
+		for k := range r.Variant {
+			keys = append(keys, k)
+		}
+		sort.Strings(keys)
+		for _, k := range keys {
+			e, p, _ := strings.Cut(k, ".")
+			x.Variant = append(x.Variant, netlist.Setting{Element: e, Param: p, Value: r.Variant[k]})
+		}
+		if r.Error != "" {
+			x.Err = errors.New(r.Error)
+		}
+		if w := r.Worst; w != nil {
+			e, p, _ := strings.Cut(w.Name, " ")
+			x.Worst = &study.Limit{Element: e, Param: p, Unit: w.Unit, Value: w.Limit, Measured: w.Measured,
+				Margin: w.Margin, Percent: w.Percent}
+		}
+		out[i] = x
+	}
+	return out
 }

@@ -1,11 +1,156 @@
 package main
 
 import (
+	"context"
 	"errors"
+	"fmt"
 	"io"
+	"strconv"
+
+	"zapnet/cmd/internal/report"
+	"zapnet/cmd/internal/whatif"
+	"zapnet/netlist"
 )
 
-// runSpread is being built; see the open issues.
+// spreadOptions are the settings of `zapnet spread`.
+type spreadOptions struct {
+	deck       string
+	levels     []float64 // nil: the deck's
+	polarities []string  // nil: the deck's
+	runs       int
+	seed       uint64
+	json       string
+	workers    int
+	sweep      sweepSpec
+}
+
 func runSpread(args []string, stdout, stderr io.Writer) error {
-	return errors.New("spread: not built yet")
+	fs := newFlags("spread",
+		"spread DECK [--runs N] [--seed S] [--level LIST] [--polarity pos|neg|both] [--set E.P=v] [--shard i/n] [--json FILE] [--workers N]",
+		`  zapnet spread testdata/signal-connector.zap --runs 2000 --seed 7 --level 8k
+  zapnet spread deck.zap --runs 10000 --seed 1 --shard 3/10 --json part3.json
+
+Draws N circuits from the deck's tolerance lines (uniform: ±x %; normal: x %
+is three standard deviations, truncated there), strikes each at every level
+and polarity, and reports the percentiles of each pin's residual peak, each
+clamp's energy and current and the worst margin, and the fraction of
+circuits that pass everywhere with its Wilson 95 % interval. Circuit k draws
+from a generator seeded by (seed, k): the same seed gives the same result on
+any number of cores and shards. The JSON keeps every circuit's values
+("samples") so that zapnet merge recomputes the percentiles exactly.
+Exit status: 0 every drawn circuit passed, 1 at least one failed, 2 unusable
+input or a failed solve.`,
+		stderr)
+	runs := fs.Int("runs", whatif.DefaultRuns, "circuits to draw")
+	seed := fs.String("seed", "1", "seed of the draws, a whole number ≥ 0")
+	level := fs.String("level", "", "levels to run instead of the deck's, e.g. 8k")
+	polarity := fs.String("polarity", "", "polarity instead of the deck's: pos, neg or both")
+	jsonPath := fs.String("json", "", "write the distribution as JSON to `FILE` (- for stdout, the tables then go to stderr)")
+	workers := fs.Int("workers", 0, "circuits solved at once (default: every core)")
+	sweep := addSweepFlags(fs)
+	if err := fs.Parse(args); err != nil {
+		return err
+	}
+	if fs.NArg() != 1 {
+		fs.Usage()
+		return fmt.Errorf("spread: want one deck, got %d arguments", fs.NArg())
+	}
+	opt := spreadOptions{deck: fs.Arg(0), json: *jsonPath, workers: *workers, runs: *runs}
+	var errs []error
+	var err error
+	if *level != "" {
+		if opt.levels, err = levelList(*level); err != nil {
+			errs = append(errs, fmt.Errorf("--level: %w", err))
+		}
+	}
+	if opt.polarities, err = parsePolarity(*polarity); err != nil {
+		errs = append(errs, err)
+	}
+	if opt.seed, err = strconv.ParseUint(*seed, 10, 64); err != nil {
+		errs = append(errs, fmt.Errorf("--seed %q: give a whole number ≥ 0", *seed))
+	}
+	if *runs < 1 {
+		errs = append(errs, fmt.Errorf("--runs %d: draw at least one circuit", *runs))
+	}
+	if opt.sweep, err = sweep.spec(); err != nil {
+		errs = append(errs, err)
+	}
+	if *workers < 0 {
+		errs = append(errs, fmt.Errorf("--workers %d: use a positive number, or 0 for every core", *workers))
+	}
+	if len(errs) > 0 {
+		return fmt.Errorf("spread: %w", errors.Join(errs...))
+	}
+	ctx, stop := interruptible(stderr)
+	defer stop()
+	return spreadStudy(ctx, opt, stdout, stderr)
+}
+
+// spreadStudy draws and solves the circuits and writes the tables and JSON.
+func spreadStudy(ctx context.Context, opt spreadOptions, stdout, stderr io.Writer) error {
+	c, err := netlist.ParseFile(opt.deck)
+	if err != nil {
+		return err
+	}
+	for _, w := range c.Warnings {
+		fmt.Fprintln(stderr, w)
+	}
+	base, _, err := whatif.Base(c, opt.sweep.sets)
+	if err != nil {
+		return err
+	}
+	sopt := &whatif.SpreadOptions{Runs: opt.runs, Seed: opt.seed, Shard: opt.sweep.shard}
+	sopt.Study.Levels, sopt.Study.Polarities, sopt.Study.Workers = opt.levels, opt.polarities, opt.workers
+	progress, clear := newProgress(stderr, "spread")
+	sopt.Progress = progress
+	res, err := whatif.Spreads(ctx, base, sopt)
+	clear()
+	if err != nil {
+		return fmt.Errorf("%s: %w", opt.deck, err)
+	}
+	return writeSpread(res, report.Meta{Tool: "zapnet", Version: Version, Deck: opt.deck, Title: c.Title}, opt.json, stdout, stderr)
+}
+
+// writeSpread prints and writes a spread (also of merged shards). It returns
+// errVerdictFail when a drawn circuit failed.
+func writeSpread(res *whatif.SpreadResult, meta report.Meta, jsonPath string, stdout, stderr io.Writer) error {
+	tables := stdout
+	if jsonPath == "-" {
+		tables = stderr
+	}
+	if err := report.SpreadTable(tables, res, meta.Title, meta.Deck); err != nil {
+		return err
+	}
+	var errs []error
+	if jsonPath != "" {
+		if err := writeOutput(jsonPath, stdout, report.SpreadDocument{Meta: meta, SpreadResult: res}); err != nil {
+			errs = append(errs, fmt.Errorf("--json: %w", err))
+		}
+	}
+	unsolved := 0
+	for _, s := range res.Samples {
+		if s.Error != "" {
+			unsolved++
+			if unsolved <= 3 {
+				errs = append(errs, fmt.Errorf("circuit %d: %s", s.Index, s.Error))
+			}
+		}
+	}
+	if unsolved > 3 {
+		errs = append(errs, fmt.Errorf("%d circuits in all could not be solved", unsolved))
+	}
+	if res.Interrupted {
+		n := res.Runs
+		if res.Shard != nil {
+			n = len(res.Shard.Items())
+		}
+		errs = append(errs, errInterrupted{len(res.Samples), n})
+	}
+	if len(errs) > 0 {
+		return errors.Join(errs...)
+	}
+	if res.Passed < res.Solved {
+		return errVerdictFail
+	}
+	return nil
 }

@@ -1,0 +1,280 @@
+package report
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"sort"
+	"strings"
+
+	"zapnet/cmd/internal/study"
+	"zapnet/cmd/internal/whatif"
+)
+
+// The what-if documents (OUTPUT.md, "What-if commands"): the tool, version,
+// deck and title of Meta, then the result's own fields.
+
+// RunShardDocument is the run document of a sharded or interrupted sweep:
+// Document plus the shard it is (for merge) and whether it was cut short.
+// Both extra fields are omitted for a whole, finished sweep, so the merged
+// shards encode exactly like the unsharded run.
+type RunShardDocument struct {
+	Document
+	Shard       *whatif.ShardInfo `json:"shard,omitempty"`
+	Interrupted bool              `json:"interrupted,omitempty"`
+}
+
+// MarginDocument is the JSON of `zapnet margin`.
+type MarginDocument struct {
+	Meta
+	*whatif.MarginResult
+}
+
+// SensitivityDocument is the JSON of `zapnet sensitivity`.
+type SensitivityDocument struct {
+	Meta
+	*whatif.SensitivityResult
+}
+
+// SpreadDocument is the JSON of `zapnet spread`.
+type SpreadDocument struct {
+	Meta
+	*whatif.SpreadResult
+}
+
+// EncodeJSON writes any document indented, with a final newline, as JSON
+// does for the run document.
+func EncodeJSON(w io.Writer, doc any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(doc)
+}
+
+func init() {
+	// The what-if tables' word columns, aligned left like the others.
+	for _, h := range []string{"param", "limiting", "measure", "monotonic", "note", "worst at", "distribution", "condition"} {
+		textColumns[h] = true
+	}
+}
+
+// heading prints the title and deck line the run tables start with.
+func heading(w io.Writer, title, deck, what string) {
+	switch {
+	case title != "" && deck != "":
+		fmt.Fprintf(w, "%s (%s)\n", title, deck)
+	case title != "":
+		fmt.Fprintf(w, "%s\n", title)
+	case deck != "":
+		fmt.Fprintf(w, "%s\n", deck)
+	}
+	fmt.Fprintf(w, "\n%s\n", what)
+}
+
+// VariantRanking prints the variants of a sweep ranked by their worst margin
+// over every level and polarity, the most margin first.
+func VariantRanking(w io.Writer, ranks []whatif.VariantRank) error {
+	ew := &errWriter{w: w}
+	fmt.Fprintln(ew, "\nVariants ranked by worst margin over every level and polarity")
+	head := []string{"rank", "variant", "worst margin", "worst at", "PASS", "FAIL"}
+	var rows [][]string
+	for _, r := range ranks {
+		worst, at := "no limits", "-"
+		switch {
+		case r.Unsolved > 0:
+			worst = fmt.Sprintf("%d runs not solved", r.Unsolved)
+		case r.Worst != nil:
+			worst = r.Worst.String()
+			at = si(r.WorstLevel, r.LevelUnit) + " " + r.WorstPolarity
+		}
+		rows = append(rows, []string{fmt.Sprint(r.Rank), study.VariantString(r.Variant), worst, at,
+			fmt.Sprint(r.Passed), fmt.Sprint(r.Failed)})
+	}
+	t := newTable(ew, head)
+	t.Header(toAny(head)...)
+	for _, r := range rows {
+		t.Append(toAny(r)...)
+	}
+	t.Render()
+	return ew.err
+}
+
+// MarginTable prints a margin search: per variant and polarity the highest
+// passing level, the first failing one and the limit that fails.
+func MarginTable(w io.Writer, r *whatif.MarginResult, title, deck string) error {
+	ew := &errWriter{w: w}
+	heading(ew, title, deck, fmt.Sprintf("Margin search: %s up to %s in steps of %s", r.Waveform,
+		si(r.Max, r.LevelUnit), si(r.Resolution, r.LevelUnit)))
+	head := []string{"variant", "polarity", "highest pass", "first fail", "limiting", "monotonic", "solves"}
+	t := newTable(ew, head)
+	t.Header(toAny(head)...)
+	var notes []string
+	for _, m := range r.Margins {
+		pass, fail, mono := "none", "none in range", "yes"
+		if m.MaxPass != nil {
+			pass = si(*m.MaxPass, m.LevelUnit)
+		}
+		if m.FirstFail != nil {
+			fail = si(*m.FirstFail, m.LevelUnit)
+		}
+		if !m.Monotonic {
+			mono = "NO"
+		}
+		limiting := m.Limiting
+		if m.Error != "" {
+			pass, fail, mono, limiting = "-", "-", "-", "not solved"
+			notes = append(notes, fmt.Sprintf("%s %s: %s", variantText(m.Variant), m.Polarity, m.Error))
+		} else if m.Note != "" {
+			notes = append(notes, fmt.Sprintf("%s %s: %s", variantText(m.Variant), m.Polarity, m.Note))
+		}
+		t.Append(toAny([]string{variantText(m.Variant), m.Polarity, pass, fail, limiting, mono, fmt.Sprint(m.Solves)})...)
+	}
+	t.Render()
+	for _, n := range notes {
+		fmt.Fprintf(ew, "Note: %s\n", n)
+	}
+	if r.Interrupted {
+		fmt.Fprintln(ew, "Interrupted: the searches above finished; the others did not run.")
+	}
+	fmt.Fprintln(ew)
+	fmt.Fprintln(ew, Caution)
+	return ew.err
+}
+
+// variantText renders a JSON variant map in its settings' order of names.
+func variantText(v map[string]string) string {
+	if len(v) == 0 {
+		return "deck"
+	}
+	keys := make([]string, 0, len(v))
+	for k := range v {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	var s []string
+	for _, k := range keys {
+		s = append(s, k+"="+v[k])
+	}
+	return strings.Join(s, " ")
+}
+
+// SensitivityTable prints the parameters ranked by what ±step does to the
+// worst margin.
+func SensitivityTable(w io.Writer, r *whatif.SensitivityResult, title, deck string) error {
+	ew := &errWriter{w: w}
+	pct := fmt.Sprintf("%g %%", 100*r.Step)
+	heading(ew, title, deck, fmt.Sprintf("Sensitivity: each parameter ±%s, effect on the worst margin", pct))
+	fmt.Fprintf(ew, "Baseline worst margin: %s (%s)\n", percentText(r.Baseline), r.BaselineLimiting)
+	head := []string{"rank", "param", "nominal", "−" + pct, "+" + pct, "effect", "limiting"}
+	t := newTable(ew, head)
+	t.Header(toAny(head)...)
+	for i, p := range r.Parameters {
+		if p.Error != "" {
+			t.Append(toAny([]string{fmt.Sprint(i + 1), p.Param, fmt.Sprintf("%.4g", p.Nominal), "-", "-", "-", "not solved: " + p.Error})...)
+			continue
+		}
+		lim := p.LimitingPlus
+		if p.LimitingMinus != p.LimitingPlus {
+			lim = p.LimitingMinus + " / " + p.LimitingPlus
+		}
+		t.Append(toAny([]string{fmt.Sprint(i + 1), p.Param, fmt.Sprintf("%.4g", p.Nominal),
+			percentText(p.Minus10), percentText(p.Plus10), signedPoints(p.Effect), lim})...)
+	}
+	t.Render()
+	fmt.Fprintf(ew, "effect: percentage points of worst margin gained by raising the parameter %s (negative: lowering it buys margin).\n", pct)
+	fmt.Fprintln(ew, "Effects of a few hundredths of a point are within the solver's tolerance.")
+	for _, s := range r.Skipped {
+		fmt.Fprintf(ew, "Skipped %s: %s\n", s.Param, s.Reason)
+	}
+	for _, n := range r.Notes {
+		fmt.Fprintf(ew, "Note: %s\n", n)
+	}
+	if r.Interrupted {
+		fmt.Fprintln(ew, "Interrupted: the parameters above finished; the others did not run.")
+	}
+	fmt.Fprintln(ew)
+	fmt.Fprintln(ew, Caution)
+	return ew.err
+}
+
+func signedPoints(v float64) string {
+	if math.Abs(v) < 0.0005 {
+		v = 0
+	}
+	return fmt.Sprintf("%+.3f", v)
+}
+
+// SpreadTable prints a spread: the tolerances drawn, the pass fraction with
+// its 95 % interval, and the percentiles of every measurement, over all
+// conditions and per level and polarity.
+func SpreadTable(w io.Writer, r *whatif.SpreadResult, title, deck string) error {
+	ew := &errWriter{w: w}
+	heading(ew, title, deck, fmt.Sprintf("Spread: %d circuits drawn with seed %d", r.Runs, r.Seed))
+	var tol [][]string
+	for _, t := range r.Tolerances {
+		tol = append(tol, []string{t.Param, fmt.Sprintf("%.4g", t.Nominal), fmt.Sprintf("±%g %%", t.Percent), t.Dist})
+	}
+	section(ew, "Tolerances", []string{"param", "nominal", "tolerance", "distribution"}, tol)
+
+	fmt.Fprintf(ew, "Passed at every level and polarity: %d of %d solved (%s), 95 %% interval %s to %s (Wilson)\n",
+		r.Passed, r.Solved, percent(100*r.PassFraction), percent(100*r.CI95[0]), percent(100*r.CI95[1]))
+	if n := len(r.Samples) - r.Solved; n > 0 {
+		fmt.Fprintf(ew, "%d circuits could not be solved and are left out.\n", n)
+	}
+	fmt.Fprintln(ew)
+	section(ew, "Worst case over the levels and polarities, per circuit", percentileHead(), percentileRows(r.Measures, r.Percentiles))
+	if len(r.Conditions) > 1 {
+		var rows [][]string
+		for _, c := range r.Conditions {
+			rows = append(rows, []string{si(c.Level, r.LevelUnit) + " " + c.Polarity, fmt.Sprint(c.Passed),
+				percent(100 * c.PassFraction), percent(100*c.CI95[0]) + " to " + percent(100*c.CI95[1])})
+		}
+		section(ew, "Per level and polarity", []string{"condition", "passed", "pass fraction", "95 % interval"}, rows)
+	}
+	for _, n := range r.Notes {
+		fmt.Fprintf(ew, "Note: %s\n", n)
+	}
+	if r.Shard != nil {
+		fmt.Fprintf(ew, "Shard %d/%d: these statistics are of this shard's circuits only; merge the shards for the study's.\n", r.Shard.Index, r.Shard.Count)
+	}
+	if r.Interrupted {
+		fmt.Fprintf(ew, "Interrupted: %d of %d circuits finished; the statistics are of those.\n", len(r.Samples), r.Runs)
+	}
+	fmt.Fprintln(ew, Caution)
+	return ew.err
+}
+
+func percentileHead() []string {
+	return []string{"measure", "p1", "p5", "p50", "p95", "p99", "max"}
+}
+
+func percentileRows(measures []string, ps map[string]whatif.Percentiles) [][]string {
+	var rows [][]string
+	for _, m := range measures {
+		p := ps[m]
+		f := func(v float64) string {
+			if p.N == 0 {
+				return "-"
+			}
+			if m == "worst_margin" {
+				return percentText(v)
+			}
+			return si(v, measureUnit(m))
+		}
+		rows = append(rows, []string{m, f(p.P1), f(p.P5), f(p.P50), f(p.P95), f(p.P99), f(p.Max)})
+	}
+	return rows
+}
+
+// measureUnit is the SI unit of a spread measurement by its name.
+func measureUnit(m string) string {
+	switch {
+	case strings.HasSuffix(m, ".energy"):
+		return "J"
+	case strings.HasSuffix(m, ".peak_current"):
+		return "A"
+	case strings.Contains(m, ".residual."):
+		return "V"
+	}
+	return ""
+}

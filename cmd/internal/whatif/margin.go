@@ -1,0 +1,334 @@
+package whatif
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"slices"
+	"strings"
+
+	"zapnet/cmd/internal/study"
+	"zapnet/netlist"
+)
+
+// MarginOptions tune a margin search. A nil *MarginOptions means every
+// default; a zero field means that field's default.
+type MarginOptions struct {
+	// Study chooses the variants (Variants; nil: the deck's), the
+	// polarities (nil: the deck's), the window, the engine settings and the
+	// workers (zero: every core). Its Levels, when set, replace the deck's
+	// levels in choosing the default range.
+	Study study.Options
+	// Max is the top of the searched range, in the waveform's unit (V for
+	// discharges). Zero: twice the highest of the deck's levels.
+	Max float64
+	// Resolution is the step of the search: levels are multiples of it,
+	// and the search ends when the highest pass and the first failure are
+	// one step apart. Zero: 100 V (0.1 kV) for waveforms whose level is in
+	// volts, Max/200 otherwise.
+	Resolution float64
+	// Scan is how many evenly spaced levels up to Max are solved before
+	// the bisection; they bracket the first failure and check that the
+	// verdict is monotonic in level. Zero: 16.
+	Scan int
+	// Shard selects the searches (one per variant and polarity, in plan
+	// order) this process runs. Zero: all.
+	Shard Shard
+	// Progress, when set, is told after each finished search.
+	Progress Progress
+}
+
+// Margin is the result of one search, one variant and one polarity. Its
+// JSON is the "margins" entry of OUTPUT.md, with additions.
+type Margin struct {
+	// Index is the search's place in plan order (variant-major, then
+	// polarity), stable across shards.
+	Index     int               `json:"index"`
+	Variant   map[string]string `json:"variant"`
+	Polarity  string            `json:"polarity"`
+	LevelUnit string            `json:"level_unit"`
+	// MaxPass is the highest level found passing with every level below it
+	// that was solved passing too; null when even the lowest level, one
+	// Resolution, fails.
+	MaxPass *float64 `json:"max_pass_level"`
+	// FirstFail is the lowest failing level, one Resolution above MaxPass;
+	// null when the whole range passes.
+	FirstFail *float64 `json:"first_fail_level"`
+	// Limiting names the limit that fails first ("U1 vmax"); when the
+	// whole range passes, the limit with the least margin at its top.
+	Limiting string `json:"limiting"`
+	// Monotonic is false when a level above the first failure passes
+	// again: then "the highest passing level" is not one number, and
+	// PassesAbove lists the levels that passed above the failure.
+	Monotonic   bool      `json:"monotonic"`
+	PassesAbove []float64 `json:"passes_above_failure,omitempty"`
+	// Note says in a sentence what the numbers mean when it is not plain.
+	Note string `json:"note,omitempty"`
+	// Solves is the number of transient solutions the search took.
+	Solves int `json:"solves"`
+	// Error is why the search stopped: a solve failure at one level.
+	Error string `json:"error,omitempty"`
+
+	variant netlist.Variant
+}
+
+// VariantSettings is the variant of the search as settings.
+func (m *Margin) VariantSettings() netlist.Variant { return m.variant }
+
+// MarginResult is a margin search over the variants and polarities of a
+// study.
+type MarginResult struct {
+	Waveform   string  `json:"waveform"`
+	LevelUnit  string  `json:"level_unit"`
+	Max        float64 `json:"range_max"` // top of the searched range
+	Resolution float64 `json:"resolution"`
+	// Margins are the shard's searches, in plan order.
+	Margins []Margin `json:"margins"`
+	// Total is the number of searches of the whole study.
+	Total int        `json:"total"`
+	Shard *ShardInfo `json:"shard,omitempty"`
+	// Interrupted says that the context was cancelled: Margins holds the
+	// searches that finished.
+	Interrupted bool `json:"interrupted,omitempty"`
+}
+
+// DefaultScan is the number of levels of the coarse scan.
+const DefaultScan = 16
+
+// Margins searches, for every variant and polarity of the study of c, the
+// highest level that still passes.
+//
+// Levels are the multiples m·Resolution, m = 1…M, M·Resolution ≤ Max. The
+// search solves Scan evenly spaced multiples first (always M itself), takes
+// the lowest failing one and the scan level below it as a bracket and
+// bisects it until the two are one step apart. Bisection is only right when
+// the verdict changes once, from PASS to FAIL, as the level rises; the scan
+// is the check of that: a scan level above the first failure that passes
+// again marks the search non-monotonic (a clamp that only turns on hard
+// enough at high levels can do that to a residual limit).
+func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*MarginResult, error) {
+	if opt == nil {
+		opt = &MarginOptions{}
+	}
+	if c.Strike() == nil {
+		return nil, fmt.Errorf("%s: the deck has no strike: add a strike line", c.File)
+	}
+	plan := c.Plan()
+	levels, pols, variants := plan.Levels, plan.Polarities, plan.Variants
+	if opt.Study.Levels != nil {
+		levels = opt.Study.Levels
+	}
+	if opt.Study.Polarities != nil {
+		pols = opt.Study.Polarities
+	}
+	if opt.Study.Variants != nil {
+		variants = opt.Study.Variants
+	}
+	if len(variants) == 0 {
+		variants = []netlist.Variant{nil}
+	}
+	for _, p := range pols {
+		if p != "pos" && p != "neg" {
+			return nil, fmt.Errorf("polarity %q: use pos or neg", p)
+		}
+	}
+	unit := netlist.LevelUnit(plan.Waveform)
+	res := &MarginResult{Waveform: plan.Waveform, LevelUnit: unit, Max: opt.Max, Resolution: opt.Resolution, Margins: []Margin{}}
+	if res.Max == 0 {
+		if len(levels) == 0 {
+			return nil, fmt.Errorf("no level to choose the range from: give the top of the range")
+		}
+		res.Max = 2 * slices.Max(levels)
+	}
+	if res.Resolution == 0 {
+		res.Resolution = res.Max / 200
+		if unit == "V" {
+			res.Resolution = 100
+		}
+	}
+	if !(res.Max > 0) || !(res.Resolution > 0) || math.IsInf(res.Max, 0) {
+		return nil, fmt.Errorf("margin search: range top %g and resolution %g must be positive", res.Max, res.Resolution)
+	}
+	steps := int(math.Floor(res.Max/res.Resolution + 1e-9))
+	if steps < 1 {
+		return nil, fmt.Errorf("margin search: the range top %s is below the resolution %s",
+			netlist.FormatSI(res.Max, unit), netlist.FormatSI(res.Resolution, unit))
+	}
+	if steps > 1e7 {
+		return nil, fmt.Errorf("margin search: %d steps of %s up to %s is too fine; use a coarser resolution",
+			steps, netlist.FormatSI(res.Resolution, unit), netlist.FormatSI(res.Max, unit))
+	}
+	scan := opt.Scan
+	if scan <= 0 {
+		scan = DefaultScan
+	}
+
+	type search struct {
+		index, variant int
+		polarity       string
+	}
+	var all []search
+	for vi := range variants {
+		for _, p := range pols {
+			all = append(all, search{len(all), vi, p})
+		}
+	}
+	res.Total = len(all)
+	res.Shard = opt.Shard.Info(len(all))
+	var mine []search
+	for _, s := range all {
+		if opt.Shard.Has(s.index) {
+			mine = append(mine, s)
+		}
+	}
+	out := make([]Margin, len(mine))
+	workers := workerCount(opt.Study.Workers)
+	benches := make([]*study.Bench, workers)
+	benchOf := make([]int, workers)
+	sopt := opt.Study
+	sopt.Record = false
+	complete := make([]bool, len(mine))
+	finished := forEach(ctx, workers, len(mine), opt.Progress, func(w, i int) {
+		s := mine[i]
+		m := &out[i]
+		*m = Margin{Index: s.index, Variant: variantMap(variants[s.variant]), Polarity: s.polarity,
+			LevelUnit: unit, variant: variants[s.variant]}
+		if benches[w] == nil || benchOf[w] != s.variant {
+			b, err := study.NewBench(c, variants[s.variant])
+			if err != nil {
+				benches[w] = nil
+				m.Error = err.Error()
+				complete[i] = true
+				return
+			}
+			benches[w], benchOf[w] = b, s.variant
+		}
+		complete[i] = searchOne(ctx, benches[w], m, s.polarity, steps, scan, res.Resolution, &sopt)
+	})
+	for i := range mine {
+		if finished[i] && complete[i] {
+			res.Margins = append(res.Margins, out[i])
+		} else {
+			res.Interrupted = true
+		}
+	}
+	return res, nil
+}
+
+// outcome is what a search needs of one solve.
+type outcome struct {
+	pass  bool
+	worst *study.Limit
+}
+
+// searchOne fills m for one polarity with bench. It returns false when ctx
+// stopped it before the end.
+func searchOne(ctx context.Context, bench *study.Bench, m *Margin, polarity string, steps, scan int, step float64, opt *study.Options) bool {
+	return search(ctx, m, steps, scan, step, func(level float64) (outcome, error) {
+		r, err := bench.Solve(level, polarity, opt)
+		if err != nil {
+			return outcome{}, err
+		}
+		return outcome{pass: r.Verdict == study.Pass, worst: r.Worst}, nil
+	})
+}
+
+// search is the scan and the bisection over the levels k·step, k = 1…steps,
+// with solve telling the verdict at a level.
+func search(ctx context.Context, m *Margin, steps, scan int, step float64, solveAt func(level float64) (outcome, error)) bool {
+	level := func(k int) float64 { return float64(k) * step }
+	solve := func(k int) (outcome, bool) {
+		m.Solves++
+		o, err := solveAt(level(k))
+		if err != nil {
+			m.Error = fmt.Sprintf("%s %s: %v", netlist.FormatSI(level(k), m.LevelUnit), m.Polarity, err)
+			return outcome{}, false
+		}
+		return o, true
+	}
+
+	// The scan: multiples ⌈k·steps/scan⌉, k = 1…scan, without repeats.
+	var grid []int
+	for k := 1; k <= scan; k++ {
+		g := (k*steps + scan - 1) / scan
+		if len(grid) == 0 || g > grid[len(grid)-1] {
+			grid = append(grid, g)
+		}
+	}
+	results := make([]outcome, len(grid))
+	first := -1
+	for i, g := range grid {
+		if ctx.Err() != nil {
+			return false
+		}
+		o, ok := solve(g)
+		if !ok {
+			return true
+		}
+		results[i] = o
+		if !o.pass && first < 0 {
+			first = i
+		}
+	}
+	m.Monotonic = true
+	if first < 0 {
+		top := level(grid[len(grid)-1])
+		m.MaxPass = &top
+		if w := results[len(results)-1].worst; w != nil {
+			m.Limiting = w.Name()
+		}
+		m.Note = fmt.Sprintf("passes up to the top of the searched range, %s: raise the range to find the failure",
+			netlist.FormatSI(top, m.LevelUnit))
+		return true
+	}
+	for i := first + 1; i < len(grid); i++ {
+		if results[i].pass {
+			m.Monotonic = false
+			m.PassesAbove = append(m.PassesAbove, level(grid[i]))
+		}
+	}
+
+	// Bisection between the scan level below the first failure (0: no
+	// strike, which passes) and the first failure.
+	lo, hi := 0, grid[first]
+	if first > 0 {
+		lo = grid[first-1]
+	}
+	failing := results[first]
+	for hi-lo > 1 {
+		if ctx.Err() != nil {
+			return false
+		}
+		mid := lo + (hi-lo)/2
+		o, ok := solve(mid)
+		if !ok {
+			return true
+		}
+		if o.pass {
+			lo = mid
+		} else {
+			hi, failing = mid, o
+		}
+	}
+	if lo > 0 {
+		v := level(lo)
+		m.MaxPass = &v
+	}
+	ff := level(hi)
+	m.FirstFail = &ff
+	if failing.worst != nil {
+		m.Limiting = failing.worst.Name()
+	}
+	switch {
+	case !m.Monotonic:
+		var s []string
+		for _, l := range m.PassesAbove {
+			s = append(s, netlist.FormatSI(l, m.LevelUnit))
+		}
+		m.Note = fmt.Sprintf("the verdict is not monotonic in level: it fails at %s but passes again at %s; the highest level with every lower level passing is reported",
+			netlist.FormatSI(ff, m.LevelUnit), strings.Join(s, ", "))
+	case lo == 0:
+		m.Note = fmt.Sprintf("fails even at the lowest level searched, %s", netlist.FormatSI(ff, m.LevelUnit))
+	}
+	return true
+}

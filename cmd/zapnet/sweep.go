@@ -1,0 +1,195 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+	"syscall"
+
+	"github.com/spf13/pflag"
+
+	"zapnet/cmd/internal/report"
+	"zapnet/cmd/internal/study"
+	"zapnet/cmd/internal/whatif"
+	"zapnet/netlist"
+)
+
+// The sweep flags shared by run, margin, sensitivity and spread: what-if
+// values from the command line and one shard of the sweep.
+
+// sweepFlags are the flags as registered; spec reads them.
+type sweepFlags struct {
+	sets  *[]string
+	shard *string
+}
+
+// sweepSpec is what the flags asked for.
+type sweepSpec struct {
+	sets  []netlist.Vary // --set, in the order given
+	shard whatif.Shard   // --shard; zero: the whole sweep
+}
+
+// addSweepFlags registers --set and --shard on fs.
+func addSweepFlags(fs *pflag.FlagSet) *sweepFlags {
+	return &sweepFlags{
+		sets:  fs.StringArray("set", nil, "what-if values `ELEMENT.PARAM=v1,v2,...` as on a vary line (repeat for more; replaces the deck's vary line for that parameter)"),
+		shard: fs.String("shard", "", "solve only slice `i/n` of the sweep (i from 1 to n), for a batch scheduler; join the slices' JSON with zapnet merge"),
+	}
+}
+
+// spec parses the registered flags.
+func (f *sweepFlags) spec() (sweepSpec, error) {
+	var s sweepSpec
+	var errs []error
+	for _, v := range *f.sets {
+		vy, err := whatif.ParseSet(v)
+		if err != nil {
+			errs = append(errs, err)
+			continue
+		}
+		s.sets = append(s.sets, vy)
+	}
+	sh, err := whatif.ParseShard(*f.shard)
+	if err != nil {
+		errs = append(errs, fmt.Errorf("--shard: %w", err))
+	}
+	s.shard = sh
+	return s, errors.Join(errs...)
+}
+
+// parsePolarity reads --polarity: "" (the deck's), pos, neg or both.
+func parsePolarity(s string) ([]string, error) {
+	switch s {
+	case "":
+		return nil, nil
+	case "pos", "neg":
+		return []string{s}, nil
+	case "both":
+		return []string{"pos", "neg"}, nil
+	}
+	return nil, fmt.Errorf("--polarity %q: use pos, neg or both", s)
+}
+
+// interruptible is a context cancelled by the first Ctrl-C (or SIGTERM from
+// a batch scheduler): the sweep then finishes the solves in progress and
+// reports what finished. A second Ctrl-C ends the program at once.
+func interruptible(stderr io.Writer) (context.Context, func()) {
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	go func() {
+		<-ctx.Done()
+		if context.Cause(ctx) != context.Canceled {
+			fmt.Fprintln(stderr, "\nzapnet: stopping: finishing the solves in progress (Ctrl-C again to quit at once)")
+		}
+		stop()
+	}()
+	return ctx, stop
+}
+
+// errInterrupted reports a sweep cut short; its output holds what finished.
+type errInterrupted struct{ done, total int }
+
+func (e errInterrupted) Error() string {
+	return fmt.Sprintf("interrupted: %d of %d finished and were reported; the rest did not run", e.done, e.total)
+}
+
+// runSweep is what `zapnet run` solves with the sweep flags: the variants of
+// the deck and --set, the shard's slice of the jobs, stopped cleanly by
+// Ctrl-C, with a progress bar on a terminal.
+type runSweep struct {
+	runs     []study.Run
+	variants int // variants of the whole study
+	shard    *whatif.ShardInfo
+	// interrupted: Ctrl-C came before every job ran.
+	interrupted bool
+}
+
+// sweepRuns solves the runs of c that sopt and spec select. The error joins
+// the failed solves and, when interrupted, an errInterrupted; runs is nil
+// only when nothing could start.
+func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, stderr io.Writer) (*runSweep, error) {
+	if len(spec.sets) > 0 {
+		vs, err := whatif.Variants(c, spec.sets)
+		if err != nil {
+			return nil, err
+		}
+		sopt.Variants = vs
+	}
+	jobs, err := study.Jobs(c, sopt)
+	if err != nil {
+		return nil, err
+	}
+	sw := &runSweep{shard: spec.shard.Info(len(jobs))}
+	var mine []study.Job
+	for _, j := range jobs {
+		if spec.shard.Has(j.Index) {
+			mine = append(mine, j)
+		}
+		sw.variants = max(sw.variants, j.VariantIndex+1)
+	}
+	ctx, stop := interruptible(stderr)
+	defer stop()
+	progress, clear := newProgress(stderr, "run")
+	var done func(int)
+	if progress != nil {
+		done = func(n int) { progress(n, len(mine)) }
+	}
+	runs, err := study.ExecuteJobsContext(ctx, c, mine, sopt, done)
+	clear()
+	sw.runs = runs
+	if len(runs) < len(mine) {
+		sw.interrupted = true
+		// Keep the solve failures, replace the context's error by one
+		// that says what the report holds.
+		err = errors.Join(withoutContext(err), errInterrupted{len(runs), len(mine)})
+	}
+	return sw, err
+}
+
+// withoutContext drops context errors from a joined error.
+func withoutContext(err error) error {
+	if err == nil {
+		return nil
+	}
+	var keep []error
+	if j, ok := err.(interface{ Unwrap() []error }); ok {
+		for _, e := range j.Unwrap() {
+			if !errors.Is(e, context.Canceled) {
+				keep = append(keep, e)
+			}
+		}
+		return errors.Join(keep...)
+	}
+	if errors.Is(err, context.Canceled) {
+		return nil
+	}
+	return err
+}
+
+// runJSON writes the run document; a shard or an interrupted sweep also
+// says so (report.RunShardDocument), a whole one is exactly report.JSON.
+func runJSON(w io.Writer, meta report.Meta, sw *runSweep) error {
+	if sw.shard == nil && !sw.interrupted {
+		return report.JSON(w, meta, sw.runs)
+	}
+	return report.EncodeJSON(w, report.RunShardDocument{Document: report.NewDocument(meta, sw.runs),
+		Shard: sw.shard, Interrupted: sw.interrupted})
+}
+
+// rankVariants prints the variant ranking when the sweep has several.
+func rankVariants(w io.Writer, sw *runSweep) error {
+	if sw.variants < 2 {
+		return nil
+	}
+	return report.VariantRanking(w, whatif.RankVariants(sw.runs))
+}
+
+// writeOutput writes a document to "-" (w) or to a file, whole or not at all.
+func writeOutput(path string, w io.Writer, doc any) error {
+	if path == "-" {
+		return report.EncodeJSON(w, doc)
+	}
+	return report.WriteFile(path, func(f io.Writer) error { return report.EncodeJSON(f, doc) })
+}
