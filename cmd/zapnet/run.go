@@ -25,11 +25,12 @@ type runOptions struct {
 	workers    int       // 0: every core
 	// zeroWall keeps wall times out of the JSON (golden tests).
 	zeroWall bool
+	sweep    sweepSpec // --set and --shard (sweep.go)
 }
 
 func runRun(args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("run",
-		"run DECK [--level LIST] [--polarity pos|neg|both] [--json FILE] [--csv FILE] [--workers N]",
+		"run DECK [--level LIST] [--polarity pos|neg|both] [--set E.P=v1,v2] [--shard i/n] [--json FILE] [--csv FILE] [--workers N]",
 		`  zapnet run testdata/demo.zap
   zapnet run testdata/demo.zap --level 8k --polarity neg
   zapnet run testdata/demo.zap --json result.json --csv 'waves/{run}.csv'
@@ -46,6 +47,7 @@ failed solve.`,
 	jsonPath := fs.String("json", "", "write the results as JSON to `FILE` (- for stdout, the tables then go to stderr)")
 	csvPath := fs.String("csv", "", "write each run's waveforms as CSV: a `FILE` for one run; a folder (ending in /) or a pattern with {run} for several")
 	workers := fs.Int("workers", 0, "runs solved at once (default: every core)")
+	sweep := addSweepFlags(fs)
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
@@ -54,6 +56,10 @@ failed solve.`,
 		return fmt.Errorf("run: want one deck, got %d arguments", fs.NArg())
 	}
 	opt := runOptions{deck: fs.Arg(0), json: *jsonPath, csv: *csvPath, workers: *workers}
+	var err error
+	if opt.sweep, err = sweep.spec(); err != nil {
+		return fmt.Errorf("run: %w", err)
+	}
 	if *level != "" {
 		ls, err := levelList(*level)
 		if err != nil {
@@ -89,10 +95,11 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 	}
 	sopt := &study.Options{Levels: opt.levels, Polarities: opt.polarities, Workers: opt.workers,
 		Record: opt.csv != ""}
-	runs, solveErr := study.Execute(c, sopt)
-	if runs == nil && solveErr != nil {
+	sw, solveErr := sweepRuns(c, sopt, opt.sweep, stderr)
+	if sw == nil {
 		return fmt.Errorf("%s: %w", opt.deck, solveErr)
 	}
+	runs := sw.runs
 	if opt.zeroWall {
 		for i := range runs {
 			runs[i].Stats.Wall = 0
@@ -106,16 +113,19 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 	if err := report.Tables(tables, runs, &report.TableOptions{Title: c.Title, Deck: opt.deck}); err != nil {
 		return err
 	}
+	if err := rankVariants(tables, sw); err != nil {
+		return err
+	}
 	meta := report.Meta{Tool: "zapnet", Version: Version, Deck: opt.deck, Title: c.Title}
 	var errs []error
 	switch opt.json {
 	case "":
 	case "-":
-		if err := report.JSON(stdout, meta, runs); err != nil {
+		if err := runJSON(stdout, meta, sw); err != nil {
 			errs = append(errs, err)
 		}
 	default:
-		if err := report.WriteFile(opt.json, func(w io.Writer) error { return report.JSON(w, meta, runs) }); err != nil {
+		if err := report.WriteFile(opt.json, func(w io.Writer) error { return runJSON(w, meta, sw) }); err != nil {
 			errs = append(errs, fmt.Errorf("--json: %w", err))
 		}
 	}
