@@ -284,10 +284,10 @@ func (b *Bench) Solve(level float64, polarity string, opt *Options) (*Run, error
 		what := strings.Join(late, ", ")
 		if explicit {
 			r.Window.Suggest = niceCeil(math.Max(2*stop, DefaultStop(b.Circuit, st.Stop)))
-			r.Notes = append(r.Notes, fmt.Sprintf("%s in the last %.0f %% of the window: it may still be rising, so it is not a peak; try window stop=%s",
+			r.Notes = append(r.Notes, fmt.Sprintf("%s: in the last %.0f %% of the window, possibly still rising, so not a peak; try window stop=%s",
 				what, 100*EndFraction, deckNumber(r.Window.Suggest, "s")))
 		} else {
-			r.Notes = append(r.Notes, fmt.Sprintf("%s in the last %.0f %% of the window even at the %s limit of the default window: it may still be rising; set a longer window stop= to see it",
+			r.Notes = append(r.Notes, fmt.Sprintf("%s: in the last %.0f %% of the window even at the default's %s limit, possibly still rising; set a longer window stop= to see the peak",
 				what, 100*EndFraction, formatSI(stop, "s")))
 		}
 	}
@@ -315,10 +315,10 @@ func (b *Bench) lateExtremes(stop float64) []string {
 			return
 		}
 		if thi >= edge && hi-v0 >= Significance*span {
-			late = append(late, name+" highest value")
+			late = append(late, name+" highest")
 		}
 		if tlo >= edge && v0-lo >= Significance*span {
-			late = append(late, name+" lowest value")
+			late = append(late, name+" lowest")
 		}
 	}
 	watched := map[string]bool{}

@@ -291,7 +291,7 @@ func TestDefaultWindowExtends(t *testing.T) {
 	if c1.TPeak > (1-EndFraction)*r.Window.Stop || c1.TPeak < 200e-9 {
 		t.Errorf("C1 peak at %.3g s in a window of %.3g s: want it after the strike and before the last %g %%", c1.TPeak, r.Window.Stop, 100*EndFraction)
 	}
-	if got := strings.Join(r.Notes, "\n"); !strings.Contains(got, "extended") || strings.Contains(got, "may still be rising") {
+	if got := strings.Join(r.Notes, "\n"); !strings.Contains(got, "extended") || strings.Contains(got, "possibly still rising") {
 		t.Errorf("notes %q should say the window was extended, and no more", got)
 	}
 }
@@ -303,7 +303,7 @@ func TestDefaultWindowCap(t *testing.T) {
 	if r.Window.Stop != Cap(200e-9) {
 		t.Errorf("window stop %.4g s, want the cap %.4g s", r.Window.Stop, Cap(200e-9))
 	}
-	if got := strings.Join(r.Notes, "\n"); !strings.Contains(got, "may still be rising") {
+	if got := strings.Join(r.Notes, "\n"); !strings.Contains(got, "possibly still rising") {
 		t.Errorf("notes %q should say the extreme may still be rising", got)
 	}
 }
