@@ -429,3 +429,52 @@ func BenchmarkExecuteDemo(b *testing.B) {
 		}
 	}
 }
+
+// Streamed measurements equal those of the recorded waveforms, point for
+// point (waveforms.Tracker matches the batch measurements exactly), and a
+// run not asked to record keeps no waveform.
+func TestStreamingMatchesRecording(t *testing.T) {
+	c := demo(t)
+	b, err := NewBench(c, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	plain, err := b.Solve(8000, "neg", nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if plain.Waves != nil {
+		t.Errorf("a run without Record kept its waveforms")
+	}
+	rec, err := b.Solve(8000, "neg", &Options{Record: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := rec.Waves
+	if w == nil || len(w.Time) < 10 {
+		t.Fatal("recorded run has no waveforms")
+	}
+	idx := map[string]int{}
+	for i, n := range w.Nodes {
+		idx[n] = i
+	}
+	n2 := w.V[idx["n2"]]
+	hi, thi := waveforms.Peak(w.Time, n2)
+	lo, tlo := waveforms.Min(w.Time, n2)
+	p := pin(t, rec, "U1")
+	if p.Peak != hi || p.TPeak != thi || p.Min != lo || p.TMin != tlo {
+		t.Errorf("streamed residual %g@%g / %g@%g, recorded %g@%g / %g@%g", p.Peak, p.TPeak, p.Min, p.TMin, hi, thi, lo, tlo)
+	}
+	if got := waveforms.WidthBelow(w.Time, n2, -1.5); got != p.BelowVmin {
+		t.Errorf("time below vmin: streamed %g, recorded %g", p.BelowVmin, got)
+	}
+	// The same bench gives the same answer whether or not it records.
+	if pp := pin(t, plain, "U1"); pp.Peak != p.Peak || pp.Min != p.Min {
+		t.Errorf("recording changed the result: %g/%g vs %g/%g", pp.Peak, pp.Min, p.Peak, p.Min)
+	}
+	// The strike column is the waveform with its sign: −30 A ±15 % at
+	// 8 kV [pub: IEC 61000-4-2 table].
+	if pk, _ := waveforms.Min(w.Time, w.Strike); math.Abs(pk+30) > 4.5 {
+		t.Errorf("strike current peak %.3g A, want about −30 A", pk)
+	}
+}
