@@ -45,6 +45,7 @@ func (s *System) operatingPoint(t *tol) (int, error) {
 	defer func() { c.SourceScale = 1 }()
 
 	clear(s.x)
+	s.dcMethod = "newton"
 	it, st := s.newton(t, t.gmin)
 	total += it
 	if st == converged {
@@ -56,6 +57,7 @@ func (s *System) operatingPoint(t *tol) (int, error) {
 
 	// Gmin stepping.
 	clear(s.x)
+	s.dcMethod = "gmin stepping"
 	ok := true
 	for g := 1e-2; g > t.gmin; g /= 10 {
 		it, st = s.newton(t, g+t.gmin)
@@ -75,6 +77,7 @@ func (s *System) operatingPoint(t *tol) (int, error) {
 
 	// Source stepping.
 	clear(s.x)
+	s.dcMethod = "source stepping"
 	c.SourceScale = 0
 	it, st = s.newton(t, t.gmin)
 	total += it

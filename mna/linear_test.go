@@ -511,3 +511,26 @@ func TestCompileErrors(t *testing.T) {
 		}
 	}
 }
+
+// A transient that cannot keep its step above MinStep stops with a
+// *SolveError that carries the time and what to try.
+func TestTransientErrorIsNamed(t *testing.T) {
+	s := compile(t,
+		el(testSourceKind, "src", "n", "gnd", 0),
+		el(netlist.Resistor, "R1", "n", "gnd", 1e3),
+		el(netlist.Capacitor, "C1", "n", "gnd", 1e-9))
+	s.SetStimulus(step(waveforms.Current, 1e-3, 0, 1e-6), 1)
+	_, err := s.Transient(&Settings{MinStep: 1e-7})
+	var se *SolveError
+	if !errors.As(err, &se) {
+		t.Fatalf("got %v, want a *SolveError", err)
+	}
+	if se.Time < 0 || se.Where == "" || !strings.Contains(se.Hint, "maxstep") {
+		t.Errorf("error %q: want a time, a place and a hint about maxstep", se)
+	}
+	// Without a stimulus or a stop time there is no span to solve.
+	s.SetStimulus(nil, 1)
+	if _, err := s.Transient(nil); err == nil {
+		t.Error("no error without a stop time")
+	}
+}

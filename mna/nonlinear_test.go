@@ -1,6 +1,7 @@
 package mna
 
 import (
+	"errors"
 	"math"
 	"testing"
 
@@ -173,4 +174,42 @@ func interp(ts, vs []float64, t float64) float64 {
 		}
 	}
 	return vs[len(vs)-1]
+}
+
+// [calc] Two diodes in series carry one current i ≈ Is1·e^{v1/a} = Is2·e^{v2/a}
+// (the −1 terms are below 1e-12 of i here), so together they are one diode
+// with n = 2 and Is = √(Is1·Is2), whose operating point behind R is the
+// Lambert W form above. With too few Newton iterations for a start from
+// zero the operating point must come from the fallbacks and still be right.
+func TestOperatingPointFallbacks(t *testing.T) {
+	const V, R, is1, is2 = 30.0, 0.01, 1e-14, 1e-9
+	vt := 1.380649e-23 * 300 / 1.602176634e-19
+	a := 2 * vt
+	is := math.Sqrt(is1 * is2)
+	want := V + is*R - a*lambertW(is*R/a*math.Exp((V+is*R)/a))
+	s := compile(t,
+		el(netlist.Supply, "V1", "a", "gnd", V, "r", R),
+		el(netlist.Diode, "D1", "a", "b", 0, "is", is1),
+		el(netlist.Diode, "D2", "b", "gnd", 0, "is", is2))
+	for _, c := range []struct {
+		maxIter int
+		method  string
+	}{{50, "newton"}, {4, "source stepping"}} {
+		v, err := s.OperatingPoint(&Settings{MaxIter: c.maxIter})
+		if err != nil {
+			t.Fatalf("MaxIter %d: %v", c.maxIter, err)
+		}
+		if s.dcMethod != c.method {
+			t.Errorf("MaxIter %d: solved by %s, want %s", c.maxIter, s.dcMethod, c.method)
+		}
+		if d := math.Abs(v[0] - want); d > 1e-4 {
+			t.Errorf("MaxIter %d: v(a) = %.8f V, want %.8f V", c.maxIter, v[0], want)
+		}
+	}
+	// Two iterations cannot even confirm convergence: a named error.
+	_, err := s.OperatingPoint(&Settings{MaxIter: 2})
+	var se *SolveError
+	if !errors.As(err, &se) || se.Time >= 0 || se.Hint == "" {
+		t.Errorf("MaxIter 2: got %v, want an operating-point *SolveError with a hint", err)
+	}
 }
