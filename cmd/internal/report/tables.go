@@ -161,7 +161,7 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 			rating(lim[e.Name+" ipp"]), si(e.Energy, "J"), rating(lim[e.Name+" emax"])})
 	}
 	if len(clamps) > 0 {
-		section(w, "Clamps", []string{"clamp", "peak current", "at", "ipp", "energy", "emax"}, clamps)
+		section(w, "Clamps", []string{"clamp", "peak current", "at", "ipp (margin)", "energy", "emax (margin)"}, clamps)
 	}
 
 	// The residual pulse at each protected pin; the ratings themselves are
@@ -180,7 +180,7 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 	}
 	if len(pins) > 0 {
 		section(w, "Protected pins (residual pulse)", []string{"pin", "peak", "at", "time > vmax",
-			"lowest", "at", "time < vmin", "energy in", "internal clamp", "ifail"}, pins)
+			"lowest", "at", "time < vmin", "energy in", "internal clamp", "ifail (margin)"}, pins)
 	}
 
 	// Capacitors with a rating.
