@@ -39,6 +39,7 @@ type System struct {
 	jac   []float64
 	lu    *lu
 	scale []float64 // largest single contribution on each row, for the residual test
+	noise []float64 // size of the cancelling state terms on each row, for the same
 	snap  []float64 // per-device scratch: rows before its Eval
 
 	// States: q set by the devices at the last evaluation, hist the
@@ -211,6 +212,7 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.jac = make([]float64, n*n)
 	s.lu = newLU(n, s.structure())
 	s.scale = make([]float64, n)
+	s.noise = make([]float64, n)
 	maxTouched := 0
 	for _, d := range s.devs {
 		maxTouched = max(maxTouched, len(d.touched))
