@@ -25,15 +25,17 @@ type runOptions struct {
 	workers    int       // 0: every core
 	// zeroWall keeps wall times out of the JSON (golden tests).
 	zeroWall bool
-	sweep    sweepSpec // --set and --shard (sweep.go)
+	sweep    sweepSpec      // --set and --shard (sweep.go)
+	pictures pictureOptions // --plot and --html (plotflags.go)
 }
 
 func runRun(args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("run",
-		"run DECK [--level LIST] [--polarity pos|neg|both] [--set E.P=v1,v2] [--shard i/n] [--json FILE] [--csv FILE] [--workers N]",
+		"run DECK [--level LIST] [--polarity pos|neg|both] [--set E.P=v1,v2] [--shard i/n] [--json FILE] [--csv FILE] [--plot DIR] [--html FILE] [--workers N]",
 		`  zapnet run testdata/demo.zap
   zapnet run testdata/demo.zap --level 8k --polarity neg
   zapnet run testdata/demo.zap --json result.json --csv 'waves/{run}.csv'
+  zapnet run testdata/demo.zap --html report.html --plot figures/
 
 Runs every level × polarity (× variant) of the deck's strike and prints, per
 run, the watched nodes, the clamps against ipp/emax, the residual pulse at
@@ -48,6 +50,7 @@ failed solve.`,
 	csvPath := fs.String("csv", "", "write each run's waveforms as CSV: a `FILE` for one run; a folder (ending in /) or a pattern with {run} for several")
 	workers := fs.Int("workers", 0, "runs solved at once (default: every core)")
 	sweep := addSweepFlags(fs)
+	pictures := addPictureFlags(fs)
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
@@ -55,7 +58,8 @@ failed solve.`,
 		fs.Usage()
 		return fmt.Errorf("run: want one deck, got %d arguments", fs.NArg())
 	}
-	opt := runOptions{deck: fs.Arg(0), json: *jsonPath, csv: *csvPath, workers: *workers}
+	opt := runOptions{deck: fs.Arg(0), json: *jsonPath, csv: *csvPath, workers: *workers,
+		pictures: pictures.options()}
 	var err error
 	if opt.sweep, err = sweep.spec(); err != nil {
 		return fmt.Errorf("run: %w", err)
@@ -94,7 +98,7 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 		fmt.Fprintln(stderr, w)
 	}
 	sopt := &study.Options{Levels: opt.levels, Polarities: opt.polarities, Workers: opt.workers,
-		Record: opt.csv != ""}
+		Record: opt.csv != "" || opt.pictures.wanted()}
 	sw, solveErr := sweepRuns(c, sopt, opt.sweep, stderr)
 	if sw == nil {
 		return fmt.Errorf("%s: %w", opt.deck, solveErr)
@@ -139,6 +143,9 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 		if err := writeCSVs(opt.csv, opt.deck, solved); err != nil {
 			errs = append(errs, err)
 		}
+	}
+	if err := writePictures(opt.pictures, c, meta, runs); err != nil {
+		errs = append(errs, err)
 	}
 	if solveErr != nil {
 		errs = append(errs, solveErr)

@@ -81,10 +81,10 @@ func (o *Options) withDefaults() Options {
 // families for a viewer that lacks it.
 var (
 	sansFont   = font.Font{Typeface: "Liberation", Variant: "Sans"}
-	titleFont  = font.From(sansFont, 11)
-	labelFont  = font.From(sansFont, 10)
-	tickFont   = font.From(sansFont, 9)
-	legendFont = font.From(sansFont, 9)
+	titleFont  = font.From(sansFont, 12)
+	labelFont  = font.From(sansFont, 11)
+	tickFont   = font.From(sansFont, 10)
+	legendFont = font.From(sansFont, 10)
 )
 
 // palette is the Okabe–Ito set of colours told apart by readers with the
