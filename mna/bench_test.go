@@ -144,3 +144,21 @@ func BenchmarkLadder(b *testing.B) {
 		})
 	}
 }
+
+// The Jacobian stays zero outside the structure that Compile derives from
+// the devices' unknowns: the engine clears and factors only inside it.
+func TestStampsStayInStructure(t *testing.T) {
+	for _, s := range []*System{referenceNetwork(t), ladder(t, 5)} {
+		if _, err := s.Transient(&Settings{Stop: 20e-9}); err != nil {
+			t.Fatal(err)
+		}
+		n := s.n
+		for i := 0; i < n; i++ {
+			for j := 0; j < n; j++ {
+				if (j < s.lu.lo0[i] || j > s.lu.hi0[i]) && s.jac[i*n+j] != 0 {
+					t.Errorf("J[%s][%s] = %g lies outside the structure", s.unknowns[i], s.unknowns[j], s.jac[i*n+j])
+				}
+			}
+		}
+	}
+}

@@ -20,32 +20,44 @@ type lu struct {
 	a   []float64 // n×n row-major
 	piv []int     // row exchanged with row k at step k
 	hi  []int     // last possibly nonzero column of each row
+	lo  []int     // first possibly nonzero column of each row
 	lr  []int     // last possibly nonzero row of each column
 
-	hi0 []int // the circuit's structure: last column of each row (and,
-	// the structure being symmetric, last row of each column)
+	// The circuit's structure: the first and last column of each row (and,
+	// the structure being symmetric, the first and last row of each column).
+	lo0, hi0 []int
 }
 
 // newLU prepares the factorisation of n×n matrices whose row i has no
-// nonzero beyond column last[i] and whose column j none beyond row last[j];
-// nil last means dense.
-func newLU(n int, last []int) *lu {
-	f := &lu{n: n, a: make([]float64, n*n), piv: make([]int, n), hi: make([]int, n), lr: make([]int, n), hi0: last}
+// nonzero outside columns first[i]..last[i] and whose column j none outside
+// rows first[j]..last[j]; nil bounds mean dense.
+func newLU(n int, first, last []int) *lu {
+	f := &lu{n: n, a: make([]float64, n*n), piv: make([]int, n),
+		hi: make([]int, n), lo: make([]int, n), lr: make([]int, n), lo0: first, hi0: last}
 	if f.hi0 == nil {
-		f.hi0 = make([]int, n)
+		f.lo0, f.hi0 = make([]int, n), make([]int, n)
 		for i := range f.hi0 {
 			f.hi0[i] = n - 1
 		}
 	}
+	copy(f.lo, f.lo0)
+	copy(f.hi, f.hi0)
 	return f
 }
 
 // factor copies m into the factorisation storage and factors it. It returns
-// the first column whose pivot is exactly zero, or -1.
+// the first column whose pivot is exactly zero, or -1. m must be zero outside
+// the structure; only the structure is copied, after the extent the last
+// factorisation filled is cleared.
 func (f *lu) factor(m []float64) int {
-	n, a, hi, lr := f.n, f.a, f.hi, f.lr
-	copy(a, m)
+	n, a, hi, lo, lr := f.n, f.a, f.hi, f.lo, f.lr
+	for i := 0; i < n; i++ {
+		row := a[i*n : i*n+n]
+		clear(row[lo[i] : max(hi[i], i)+1])
+		copy(row[f.lo0[i]:f.hi0[i]+1], m[i*n+f.lo0[i]:i*n+f.hi0[i]+1])
+	}
 	copy(hi, f.hi0)
+	copy(lo, f.lo0)
 	copy(lr, f.hi0)
 	zero := -1
 	for k := 0; k < n; k++ {
@@ -58,11 +70,15 @@ func (f *lu) factor(m []float64) int {
 		}
 		f.piv[k] = p
 		if p != k {
-			rk, rp := a[k*n:k*n+n], a[p*n:p*n+n]
+			// Only the columns where either row can be nonzero move; the
+			// multipliers of L travel with their rows.
+			j0, j1 := min(lo[k], lo[p]), max(hi[k], hi[p])
+			rk, rp := a[k*n+j0:k*n+j1+1], a[p*n+j0:p*n+j1+1]
 			for j := range rk {
 				rk[j], rp[j] = rp[j], rk[j]
 			}
 			hi[k], hi[p] = hi[p], hi[k]
+			lo[k], lo[p] = lo[p], lo[k]
 			// The old row k now sits at p: its columns reach down to p.
 			for j := k + 1; j <= hi[p]; j++ {
 				if lr[j] < p {
@@ -124,10 +140,12 @@ func (f *lu) solve(b []float64) {
 		}
 	}
 	for i := 1; i < n; i++ {
-		row := a[i*n : i*n+i]
+		j0 := min(f.lo[i], i)
+		row := a[i*n+j0 : i*n+i]
 		s := b[i]
+		x := b[j0:i]
 		for j, v := range row {
-			s -= v * b[j]
+			s -= v * x[j]
 		}
 		b[i] = s
 	}

@@ -31,7 +31,7 @@ func TestLUAgainstLAPACK(t *testing.T) {
 			for i := range b {
 				b[i] = rng.NormFloat64()
 			}
-			f := newLU(n, nil)
+			f := newLU(n, nil, nil)
 			if z := f.factor(a); z >= 0 {
 				t.Fatalf("n=%d: zero pivot at %d", n, z)
 			}
@@ -73,7 +73,7 @@ func TestLUZeroPivot(t *testing.T) {
 		2, 4, 6,
 		0, 0, 1,
 	}
-	if z := newLU(3, nil).factor(a); z != 1 {
+	if z := newLU(3, nil, nil).factor(a); z != 1 {
 		t.Errorf("zero pivot at %d, want 1", z)
 	}
 }
@@ -86,9 +86,9 @@ func TestLUBandedAgainstLAPACK(t *testing.T) {
 	for _, n := range []int{3, 30, 120} {
 		for _, bw := range []int{1, 2, 5} {
 			a := make([]float64, n*n)
-			last := make([]int, n)
+			first, last := make([]int, n), make([]int, n)
 			for i := 0; i < n; i++ {
-				last[i] = min(n-1, i+bw)
+				first[i], last[i] = max(0, i-bw), min(n-1, i+bw)
 				for j := max(0, i-bw); j <= last[i]; j++ {
 					// Small diagonals force row exchanges.
 					a[i*n+j] = rng.NormFloat64()
@@ -101,7 +101,7 @@ func TestLUBandedAgainstLAPACK(t *testing.T) {
 			for i := range b {
 				b[i] = rng.NormFloat64()
 			}
-			f := newLU(n, last)
+			f := newLU(n, first, last)
 			if z := f.factor(a); z >= 0 {
 				t.Fatalf("n=%d bw=%d: zero pivot at %d", n, bw, z)
 			}

@@ -47,7 +47,11 @@ func tolerances(set *Settings) tol {
 // contribution.
 func (s *System) assemble(g float64) {
 	clear(s.f)
-	clear(s.jac)
+	// Devices stamp only within the structure (see structure), so only
+	// that part of the Jacobian needs clearing.
+	for i := 0; i < s.n; i++ {
+		clear(s.jac[i*s.n+s.lu.lo0[i] : i*s.n+s.lu.hi0[i]+1])
+	}
 	clear(s.scale)
 	clear(s.noise)
 	c := &s.ctx

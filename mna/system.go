@@ -210,7 +210,8 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.dx = make([]float64, n)
 	s.f = make([]float64, n)
 	s.jac = make([]float64, n*n)
-	s.lu = newLU(n, s.structure())
+	first, last := s.structure()
+	s.lu = newLU(n, first, last)
 	s.scale = make([]float64, n)
 	s.noise = make([]float64, n)
 	maxTouched := 0
@@ -239,22 +240,22 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	return s, nil
 }
 
-// structure is the last column each row of the Jacobian can reach: a device
-// stamps only among its own unknowns, the engine only on the diagonal.
-// The structure is symmetric, so it bounds the columns too.
-func (s *System) structure() []int {
-	last := make([]int, s.n)
+// structure is the first and last column each row of the Jacobian can
+// reach: a device stamps only among its own unknowns, the engine only on the
+// diagonal. The structure is symmetric, so it bounds the columns too.
+func (s *System) structure() (first, last []int) {
+	first, last = make([]int, s.n), make([]int, s.n)
 	for i := range last {
-		last[i] = i
+		first[i], last[i] = i, i
 	}
 	for di := range s.devs {
 		d := &s.devs[di]
-		m := -1
+		lo, hi := s.n, -1
 		for _, r := range d.touched {
-			m = max(m, r)
+			lo, hi = min(lo, r), max(hi, r)
 		}
 		for _, r := range d.touched {
-			last[r] = max(last[r], m)
+			first[r], last[r] = min(first[r], lo), max(last[r], hi)
 		}
 		for k := d.stateLo; k < d.stateHi; k++ {
 			for _, r := range [2]int{s.rows[k].Plus, s.rows[k].Minus} {
@@ -264,7 +265,7 @@ func (s *System) structure() []int {
 			}
 		}
 	}
-	return last
+	return first, last
 }
 
 // addUnknown numbers a new unknown.
