@@ -120,18 +120,14 @@ func (s *System) assemble(g float64) {
 
 // residualOK tests the KCL residual of every node row against
 // current + rel·(largest current any one element puts on that node), and
-// every branch row against abs + rel·(largest node voltage), and remembers
-// the worst row for diagnostics. Both limits also allow the rounding of the
-// state derivatives: Alpha·q and the history cancel to the small dq/dt of a
-// large charge (a biased decoupling capacitor at a picosecond step), which
-// leaves an error of a few ulps of the history that no iteration removes.
+// every branch row (volts) against abs + rel·(largest term of its equation,
+// |J_ij·x_j|), and remembers the worst row for diagnostics. Both limits also
+// allow the rounding of the state derivatives: Alpha·q and the history
+// cancel to the small dq/dt of a large charge (a biased decoupling capacitor
+// at a picosecond step), which leaves an error of a few ulps of the history
+// that no iteration removes.
 func (s *System) residualOK(t *tol) bool {
-	vmax := 0.0
-	for i, node := range s.isNode {
-		if a := math.Abs(s.x[i]); node && a > vmax {
-			vmax = a
-		}
-	}
+	n := s.n
 	ok := true
 	worst := -1.0
 	for i, node := range s.isNode {
@@ -139,7 +135,14 @@ func (s *System) residualOK(t *tol) bool {
 		if node {
 			lim += t.current + t.rel*s.scale[i]
 		} else {
-			lim += t.abs + t.rel*vmax
+			big := 0.0
+			row := s.jac[i*n : i*n+n]
+			for j := s.lu.lo0[i]; j <= s.lu.hi0[i]; j++ {
+				if a := math.Abs(row[j] * s.x[j]); a > big {
+					big = a
+				}
+			}
+			lim += t.abs + t.rel*big
 		}
 		r := math.Abs(s.f[i]) / lim
 		if !(r <= 1) {
