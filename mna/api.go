@@ -81,7 +81,11 @@ type Stats struct {
 	Rejected int // steps rejected by the error control or by Newton failure
 	Newton   int // Newton iterations over the transient
 	DCNewton int // Newton iterations of the operating point
-	Wall     time.Duration
+	// Factorisations counts the LU factorisations of the transient: a
+	// Newton iteration that converges, or that takes a chord step with the
+	// previous factors, needs none.
+	Factorisations int
+	Wall           time.Duration
 }
 
 // SolveError is numerical trouble, told as something a user can act on.

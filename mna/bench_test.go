@@ -69,8 +69,8 @@ func TestReferenceNetwork(t *testing.T) {
 		if b := math.Abs(res.Balance / res.Energy[zap]); b > 1e-3 {
 			t.Errorf("sign %g: balance %.3g J is %.2g of the strike's energy", sign, res.Balance, b)
 		}
-		t.Logf("sign %+g: %d steps, %d rejected, %d Newton; peak v(n1) %.3f V; clamp %.3g J; strike %.3g J; balance %.2g",
-			sign, res.Stats.Steps, res.Stats.Rejected, res.Stats.Newton, peak,
+		t.Logf("sign %+g: %d steps, %d rejected, %d Newton, %d LU; peak v(n1) %.3f V; clamp %.3g J; strike %.3g J; balance %.2g",
+			sign, res.Stats.Steps, res.Stats.Rejected, res.Stats.Newton, res.Stats.Factorisations, peak,
 			res.Energy[elemIndex(t, s, "D1")], res.Energy[zap], res.Balance)
 	}
 }
@@ -80,7 +80,7 @@ func TestReferenceNetwork(t *testing.T) {
 func BenchmarkReferenceStrike(b *testing.B) {
 	s := referenceNetwork(b)
 	set := &Settings{Stop: 400e-9, Observe: func(*Point) {}}
-	var steps, newton int
+	var steps, newton, lu int
 	b.ReportAllocs()
 	cpu0 := cpuTime()
 	for b.Loop() {
@@ -88,10 +88,11 @@ func BenchmarkReferenceStrike(b *testing.B) {
 		if err != nil {
 			b.Fatal(err)
 		}
-		steps, newton = res.Stats.Steps, res.Stats.Newton
+		steps, newton, lu = res.Stats.Steps, res.Stats.Newton, res.Stats.Factorisations
 	}
 	b.ReportMetric(float64(steps), "steps")
 	b.ReportMetric(float64(newton), "newton")
+	b.ReportMetric(float64(lu), "LU")
 	b.ReportMetric(float64(cpuTime()-cpu0)/float64(b.N), "cpu-ns/op")
 }
 

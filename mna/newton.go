@@ -169,22 +169,36 @@ const (
 // the total shunt on every node row. It returns the iterations used (device
 // evaluations).
 //
-// An iterate is converged when the last update was within tolerance on every
+// An iterate is converged when an update was within tolerance on every
 // unknown, the residual is within tolerance on every row and no device
 // limited its junction step. The test is made at the start of an iteration,
 // on the residual of the freshly evaluated point, so the last iteration needs
 // no factorisation and the states and terminal currents left by the
-// evaluation belong to the accepted point. An update within tolerance from a
-// point whose residual already passed is also accepted, without a further
-// evaluation (the common test; it saves an evaluation on linear circuits).
+// evaluation belong to the accepted point. When the residual passes but the
+// last update was large (the first iteration of a step), the update the
+// previous factors give (a chord step, a back-substitution only) decides: on
+// the linear stretches of a circuit it is already negligible, which saves the
+// second factorisation of every step. An update within tolerance from a point
+// whose residual already passed is also accepted.
 func (s *System) newton(t *tol, g float64) (int, newtonStatus) {
 	prevOK := false
 	for it := 1; it <= t.maxIter; it++ {
 		s.assemble(g)
 		resOK := s.residualOK(t)
-		if prevOK && resOK && !s.ctx.Limited {
-			return it, converged
+		if resOK && !s.ctx.Limited {
+			if prevOK {
+				return it, converged
+			}
+			if it > 1 {
+				s.negF()
+				s.lu.solve(s.dx)
+				if ok, _ := s.update(t, false); ok {
+					s.update(t, true)
+					return it, converged
+				}
+			}
 		}
+		s.factorisations++
 		if k := s.lu.factor(s.jac); k >= 0 {
 			s.resRow, s.resValue = k, s.f[k]
 			return it, singular
@@ -193,22 +207,12 @@ func (s *System) newton(t *tol, g float64) (int, newtonStatus) {
 			s.resRow, s.resValue = k, s.f[k]
 			return it, singular
 		}
-		for i := range s.dx {
-			s.dx[i] = -s.f[i]
-		}
+		s.negF()
 		s.lu.solve(s.dx)
-		dxOK := true
-		for i, d := range s.dx {
-			x := s.x[i]
-			xn := x + d
-			if !(math.Abs(d) <= t.rel*max(math.Abs(x), math.Abs(xn))+t.abs) {
-				dxOK = false
-				if d != d || math.IsInf(xn, 0) {
-					s.resRow, s.resValue = i, s.f[i]
-					return it, notConverged
-				}
-			}
-			s.x[i] = xn
+		dxOK, bad := s.update(t, true)
+		if bad >= 0 {
+			s.resRow, s.resValue = bad, s.f[bad]
+			return it, notConverged
 		}
 		if dxOK && resOK && !s.ctx.Limited {
 			return it, converged
@@ -216,6 +220,33 @@ func (s *System) newton(t *tol, g float64) (int, newtonStatus) {
 		prevOK = dxOK
 	}
 	return t.maxIter, notConverged
+}
+
+// negF sets dx to −F, the right-hand side of the Newton step.
+func (s *System) negF() {
+	for i, f := range s.f {
+		s.dx[i] = -f
+	}
+}
+
+// update tests the step dx against rel·|x| + abs on every unknown and, with
+// apply, adds it to x. bad is an unknown whose update is not finite, or -1.
+func (s *System) update(t *tol, apply bool) (ok bool, bad int) {
+	ok, bad = true, -1
+	for i, d := range s.dx {
+		x := s.x[i]
+		xn := x + d
+		if !(math.Abs(d) <= t.rel*max(math.Abs(x), math.Abs(xn))+t.abs) {
+			ok = false
+			if d != d || math.IsInf(xn, 0) {
+				bad = i
+			}
+		}
+		if apply {
+			s.x[i] = xn
+		}
+	}
+	return ok, bad
 }
 
 // zeroPivot returns the unknown whose pivot vanished in the factorisation,

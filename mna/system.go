@@ -52,9 +52,10 @@ type System struct {
 	hq                     [3][]float64 // accepted charge history (ring)
 	ht                     [3]float64
 
-	termCur  []float64 // current into every device terminal (flattened), A
-	power    []float64 // per element at the last accepted point, W
-	dcMethod string    // how the last operating point was found, for tests
+	termCur        []float64 // current into every device terminal (flattened), A
+	power          []float64 // per element at the last accepted point, W
+	dcMethod       string    // how the last operating point was found, for tests
+	factorisations int       // LU factorisations of the transient, for Stats
 
 	pt       Point
 	resRow   int     // row of the largest scaled residual in the last Newton iteration

@@ -94,6 +94,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 	}
 	c := &s.ctx
 	c.DC = false
+	s.factorisations = 0
 
 	copy(s.xAcc, s.x)
 	head, nHist := 0, 1
@@ -232,6 +233,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 	for _, e := range res.Energy {
 		res.Balance += e
 	}
+	res.Stats.Factorisations = s.factorisations
 	res.Stats.Wall = time.Since(start)
 	return res, nil
 }
