@@ -14,64 +14,117 @@ import (
 	"zapnet/netlist"
 )
 
-// Overlays draws one quantity across runs, one line per run named by its
-// level, polarity and variant: the residual pulse of each protected pin (with
-// vmax and vmin) and the current of each clamp (with ipp on both sides, since
-// the runs' polarities differ). Unsolved and unrecorded runs are skipped;
-// with fewer than two runs left there is nothing to compare and Overlays
-// returns no figure. At most Options.MaxOverlay runs are drawn, the first in
-// plan order, and the caption says so.
+// Overlays draws one quantity across runs, one line per run: the residual
+// pulse of each protected pin (with vmax and vmin) and the current of each
+// clamp (with ipp on both sides, since polarities differ). The runs of the
+// first variant are compared across levels and polarities ("2 kV pos",
+// "2 kV neg", ...); with several variants, the runs at the highest level are
+// compared across variants too, one figure per polarity, each line named by
+// its variant. Unsolved and unrecorded runs are skipped; a group of fewer
+// than two runs draws nothing. At most Options.MaxOverlay runs are drawn in
+// one figure, the first in plan order, and the caption says so.
 func Overlays(c *netlist.Circuit, runs []study.Run, opt *Options) ([]Figure, error) {
 	o := opt.withDefaults()
-	var use []study.Run
+	var solved []study.Run
 	for _, r := range runs {
 		if r.Err == nil && r.Waves != nil {
-			use = append(use, r)
+			solved = append(solved, r)
 		}
 	}
-	if len(use) < 2 {
+	if len(solved) == 0 {
 		return nil, nil
 	}
-	note := ""
-	if len(use) > o.MaxOverlay {
-		note = fmt.Sprintf(" (the first %d of %d runs)", o.MaxOverlay, len(use))
-		use = use[:o.MaxOverlay]
+	type group struct {
+		name, what string
+		runs       []study.Run
+		label      func(*study.Run) string
 	}
-	first := &use[0]
-	var figs []Figure
-	for k := range first.Pins {
-		pin := &first.Pins[k]
-		what := "Residual pulse at " + pin.Name + ", every run" + note
-		f, err := residualFigure(&o, c, use, pin, "overlay-residual-"+pin.Name, what, closeUpSpan(first.Waves))
-		if err != nil {
-			return nil, err
+	var groups []group
+	first := solved[0].VariantIndex
+	var levels []study.Run
+	several := false
+	for _, r := range solved {
+		if r.VariantIndex == first {
+			levels = append(levels, r)
+		} else {
+			several = true
 		}
-		figs = append(figs, f)
 	}
-	for _, e := range first.Elements {
-		if e.Kind != netlist.Clamp {
+	g := group{name: "overlay", what: "every run", runs: levels,
+		label: func(r *study.Run) string { return netlist.FormatSI(r.Level, r.LevelUnit) + " " + r.Polarity }}
+	if several {
+		g.what = "every level, " + study.VariantString(levels[0].Variant)
+	}
+	groups = append(groups, g)
+	if several {
+		top := math.Inf(-1)
+		for _, r := range solved {
+			top = math.Max(top, r.Level)
+		}
+		for _, pol := range []string{"pos", "neg"} {
+			var vs []study.Run
+			for _, r := range solved {
+				if r.Level == top && r.Polarity == pol {
+					vs = append(vs, r)
+				}
+			}
+			if len(vs) == 0 {
+				continue
+			}
+			groups = append(groups, group{name: "overlay-variants-" + pol,
+				what:  "every variant, " + netlist.FormatSI(top, vs[0].LevelUnit) + " " + pol,
+				runs:  vs,
+				label: func(r *study.Run) string { return study.VariantString(r.Variant) }})
+		}
+	}
+
+	var figs []Figure
+	for _, g := range groups {
+		use := g.runs
+		if len(use) < 2 {
 			continue
 		}
-		var cs []curve
-		for i := range use {
-			if iw := elementWave(use[i].Waves, e.Name); iw != nil {
-				cs = append(cs, curve{RunLabel(&use[i]), use[i].Waves.Time, iw})
+		note := ""
+		if len(use) > o.MaxOverlay {
+			note = fmt.Sprintf(" (the first %d of %d runs)", o.MaxOverlay, len(use))
+			use = use[:o.MaxOverlay]
+		}
+		ref := &use[0]
+		closeUp := closeUpSpan(ref.Waves)
+		for k := range ref.Pins {
+			pin := &ref.Pins[k]
+			what := "Residual pulse at " + pin.Name + ", " + g.what + note
+			f, err := residualFigure(&o, c, use, g.label, pin, g.name+"-residual-"+pin.Name, what, closeUp)
+			if err != nil {
+				return nil, err
 			}
+			figs = append(figs, f)
 		}
-		var lims []limitLine
-		for _, l := range first.Limits {
-			if l.Element == e.Name && l.Param == "ipp" {
-				lims = append(lims, limitLine{"ipp +" + netlist.FormatSI(l.Value, "A"), l.Value},
-					limitLine{"ipp " + netlist.FormatSI(-l.Value, "A"), -l.Value})
+		for _, e := range ref.Elements {
+			if e.Kind != netlist.Clamp {
+				continue
 			}
+			var cs []curve
+			for i := range use {
+				if iw := elementWave(use[i].Waves, e.Name); iw != nil {
+					cs = append(cs, curve{g.label(&use[i]), use[i].Waves.Time, iw})
+				}
+			}
+			var lims []limitLine
+			for _, l := range ref.Limits {
+				if l.Element == e.Name && l.Param == "ipp" {
+					lims = append(lims, limitLine{"ipp +" + netlist.FormatSI(l.Value, "A"), l.Value},
+						limitLine{"ipp " + netlist.FormatSI(-l.Value, "A"), -l.Value})
+				}
+			}
+			what := "Current in " + e.Name + ", " + g.what + note
+			f, err := timeFigure(&o, timeSpec{name: g.name + "-clamp-" + e.Name, what: what, caption: what,
+				quantity: "current", unit: "A", curves: cs, limits: lims, closeUp: closeUp})
+			if err != nil {
+				return nil, err
+			}
+			figs = append(figs, f)
 		}
-		what := "Current in " + e.Name + ", every run" + note
-		f, err := timeFigure(&o, timeSpec{name: "overlay-clamp-" + e.Name, what: what, caption: what,
-			quantity: "current", unit: "A", curves: cs, limits: lims, closeUp: closeUpSpan(first.Waves)})
-		if err != nil {
-			return nil, err
-		}
-		figs = append(figs, f)
 	}
 	return figs, nil
 }

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/xml"
 	"io"
+	"maps"
 	"math"
 	"slices"
 	"strings"
@@ -321,5 +322,44 @@ func TestNiceCeil(t *testing.T) {
 		if got := niceCeil(c[0]); math.Abs(got/c[1]-1) > 1e-12 {
 			t.Errorf("niceCeil(%g) = %g, want %g", c[0], got, c[1])
 		}
+	}
+}
+
+// With a vary line the overlays compare the first variant across levels and
+// polarities, then every variant at the top level, one figure per polarity
+// (testdata/panel-button.zap: vary Cf.part=mlcc-100n,mlcc-1u, levels up to
+// 8 kV, both polarities; pin U3 with vmax=3.6V vmin=-0.3V; clamp D4).
+func TestOverlaysAcrossVariants(t *testing.T) {
+	c, err := netlist.ParseFile("../../../testdata/panel-button.zap")
+	if err != nil {
+		t.Fatal(err)
+	}
+	runs, err := study.Execute(c, &study.Options{Record: true, Levels: []float64{2e3, 8e3}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	figs, err := Overlays(c, runs, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	series := map[string][]string{}
+	captions := map[string]string{}
+	for _, f := range figs {
+		series[f.Name] = f.Series
+		captions[f.Name] = f.Caption
+		svgText(t, f.Name, f.SVG)
+	}
+	variants := []string{"Cf.part=mlcc-100n", "Cf.part=mlcc-1u"}
+	for name, want := range map[string][]string{
+		"overlay-residual-U3":              {"2 kV pos", "2 kV neg", "8 kV pos", "8 kV neg", "vmax 3.6 V", "vmin -300 mV"},
+		"overlay-variants-pos-residual-U3": append(slices.Clone(variants), "vmax 3.6 V", "vmin -300 mV"),
+		"overlay-variants-neg-residual-U3": append(slices.Clone(variants), "vmax 3.6 V", "vmin -300 mV"),
+	} {
+		if !slices.Equal(series[name], want) {
+			t.Errorf("%s: series %q, want %q (figures %v)", name, series[name], want, slices.Collect(maps.Keys(series)))
+		}
+	}
+	if c := captions["overlay-variants-neg-residual-U3"]; !strings.Contains(c, "8 kV neg") {
+		t.Errorf("caption %q does not name the level and polarity", c)
 	}
 }

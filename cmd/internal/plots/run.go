@@ -109,7 +109,7 @@ func RunFigures(c *netlist.Circuit, r *study.Run, opt *Options) ([]Figure, error
 	}
 
 	for k := range r.Pins {
-		f, err := residualFigure(&o, c, []study.Run{*r}, &r.Pins[k], "residual-"+r.Pins[k].Name,
+		f, err := residualFigure(&o, c, []study.Run{*r}, nil, &r.Pins[k], "residual-"+r.Pins[k].Name,
 			fmt.Sprintf("Residual pulse at %s, %s", r.Pins[k].Name, label), closeUp)
 		if err := add(f, err); err != nil {
 			return nil, err
@@ -123,8 +123,9 @@ func RunFigures(c *netlist.Circuit, r *study.Run, opt *Options) ([]Figure, error
 }
 
 // residualFigure draws the residual pulse v(pin) − v(ref) of pin in each of
-// runs, with the pin's vmax and vmin.
-func residualFigure(o *Options, c *netlist.Circuit, runs []study.Run, pin *study.Residual, name, what string, closeUp float64) (Figure, error) {
+// runs, with the pin's vmax and vmin; label names each run's line (nil: the
+// line is named by its nodes).
+func residualFigure(o *Options, c *netlist.Circuit, runs []study.Run, label func(*study.Run) string, pin *study.Residual, name, what string, closeUp float64) (Figure, error) {
 	ref := refOf(c, pin.Name)
 	var cs []curve
 	for i := range runs {
@@ -137,8 +138,8 @@ func residualFigure(o *Options, c *netlist.Circuit, runs []study.Run, pin *study
 		if ref != "gnd" {
 			n += " − v(" + ref + ")"
 		}
-		if len(runs) > 1 {
-			n = RunLabel(&runs[i])
+		if label != nil {
+			n = label(&runs[i])
 		}
 		cs = append(cs, curve{n, w.Time, res})
 	}
