@@ -222,3 +222,30 @@ func TestProgressOnlyOnTerminal(t *testing.T) {
 		t.Error("a regular file taken for a terminal")
 	}
 }
+
+// The what-if tables are golden files: numbers printed with four
+// significant digits, nothing from the clock (go test -update rewrites
+// them).
+func TestWhatIfTablesGolden(t *testing.T) {
+	for _, c := range []struct {
+		name string
+		args []string
+		code int
+	}{
+		{"margin-demo.txt", []string{"margin", demoDeck, "--max", "8k"}, exitPass},
+		{"sensitivity-clamp-at-pin.txt", []string{"sensitivity", clampAtPin, "--param", "D1.ls,D1.rdyn,D1.vbr,Lpad.value"}, exitPass},
+		{"spread-net-a.txt", []string{"spread", spreadDeck, "--runs", "20", "--seed", "5"}, exitFail},
+		{"run-variants.txt", []string{"run", demoDeck, "--level", "4k", "--polarity", "pos", "--set", "C1.value=10n,1u", "--set", "D1.ls=0.2n,0.8n"}, exitFail},
+	} {
+		out, e, code := zapnet(t, c.args...)
+		if code != c.code {
+			t.Errorf("%v: exit %d, want %d\n%s", c.args, code, c.code, e)
+			continue
+		}
+		if c.name == "run-variants.txt" {
+			// Only the ranking is this test's; the rest is run's own golden.
+			out = out[strings.Index(out, "\nVariants ranked"):]
+		}
+		golden(t, c.name, []byte(out))
+	}
+}

@@ -170,14 +170,14 @@ func SensitivityTable(w io.Writer, r *whatif.SensitivityResult, title, deck stri
 	t.Header(toAny(head)...)
 	for i, p := range r.Parameters {
 		if p.Error != "" {
-			t.Append(toAny([]string{fmt.Sprint(i + 1), p.Param, fmt.Sprintf("%.4g", p.Nominal), "-", "-", "-", "not solved: " + p.Error})...)
+			t.Append(toAny([]string{fmt.Sprint(i + 1), p.Param, si(p.Nominal, p.Unit), "-", "-", "-", "not solved: " + p.Error})...)
 			continue
 		}
 		lim := p.LimitingPlus
 		if p.LimitingMinus != p.LimitingPlus {
 			lim = p.LimitingMinus + " / " + p.LimitingPlus
 		}
-		t.Append(toAny([]string{fmt.Sprint(i + 1), p.Param, fmt.Sprintf("%.4g", p.Nominal),
+		t.Append(toAny([]string{fmt.Sprint(i + 1), p.Param, si(p.Nominal, p.Unit),
 			percentText(p.Minus10), percentText(p.Plus10), signedPoints(p.Effect), lim})...)
 	}
 	t.Render()
@@ -212,12 +212,12 @@ func SpreadTable(w io.Writer, r *whatif.SpreadResult, title, deck string) error 
 	heading(ew, title, deck, fmt.Sprintf("Spread: %d circuits drawn with seed %d", r.Runs, r.Seed))
 	var tol [][]string
 	for _, t := range r.Tolerances {
-		tol = append(tol, []string{t.Param, fmt.Sprintf("%.4g", t.Nominal), fmt.Sprintf("±%g %%", t.Percent), t.Dist})
+		tol = append(tol, []string{t.Param, si(t.Nominal, t.Unit), fmt.Sprintf("±%g %%", t.Percent), t.Dist})
 	}
 	section(ew, "Tolerances", []string{"param", "nominal", "tolerance", "distribution"}, tol)
 
 	fmt.Fprintf(ew, "Passed at every level and polarity: %d of %d solved (%s), 95 %% interval %s to %s (Wilson)\n",
-		r.Passed, r.Solved, percent(100*r.PassFraction), percent(100*r.CI95[0]), percent(100*r.CI95[1]))
+		r.Passed, r.Solved, fractionText(r.PassFraction), fractionText(r.CI95[0]), fractionText(r.CI95[1]))
 	if n := len(r.Samples) - r.Solved; n > 0 {
 		fmt.Fprintf(ew, "%d circuits could not be solved and are left out.\n", n)
 	}
@@ -227,7 +227,7 @@ func SpreadTable(w io.Writer, r *whatif.SpreadResult, title, deck string) error 
 		var rows [][]string
 		for _, c := range r.Conditions {
 			rows = append(rows, []string{si(c.Level, r.LevelUnit) + " " + c.Polarity, fmt.Sprint(c.Passed),
-				percent(100 * c.PassFraction), percent(100*c.CI95[0]) + " to " + percent(100*c.CI95[1])})
+				fractionText(c.PassFraction), fractionText(c.CI95[0]) + " to " + fractionText(c.CI95[1])})
 		}
 		section(ew, "Per level and polarity", []string{"condition", "passed", "pass fraction", "95 % interval"}, rows)
 	}
@@ -242,6 +242,20 @@ func SpreadTable(w io.Writer, r *whatif.SpreadResult, title, deck string) error 
 	}
 	fmt.Fprintln(ew, Caution)
 	return ew.err
+}
+
+// fractionText renders a fraction as a percentage that keeps two significant
+// digits near 0 % and 100 %, where a spread's interval bounds sit: the upper
+// bound of 0 passes in 10,000 is 0.038 %, not "0.0 %".
+func fractionText(f float64) string {
+	p := 100 * f
+	switch {
+	case p > 0 && p < 1:
+		return fmt.Sprintf("%.2g %%", p)
+	case p > 99 && p < 100:
+		return fmt.Sprintf("%.*f %%", max(1, int(math.Ceil(-math.Log10(100-p)))+1), p)
+	}
+	return fmt.Sprintf("%.1f %%", p)
 }
 
 func percentileHead() []string {

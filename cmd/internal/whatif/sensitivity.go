@@ -46,6 +46,7 @@ type ParamEffect struct {
 	Index   int     `json:"index"`
 	Param   string  `json:"param"` // "D1.ls"
 	Nominal float64 `json:"nominal"`
+	Unit    string  `json:"unit"` // of Nominal: "H", "Ω", "" for a pure number
 	// Minus10 and Plus10 are the worst margins, %, with the parameter at
 	// (1 − Step) and (1 + Step) times its nominal value.
 	Minus10 float64 `json:"minus10"`
@@ -184,7 +185,7 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 			continue
 		}
 		lo, hi := halves[2*k], halves[2*k+1]
-		e := ParamEffect{Index: p.index, Param: p.elem + "." + p.param, Nominal: p.nominal,
+		e := ParamEffect{Index: p.index, Param: p.elem + "." + p.param, Nominal: p.nominal, Unit: ParamUnit(c, p.elem, p.param),
 			Minus10: lo.margin, Plus10: hi.margin, LimitingMinus: lo.where, LimitingPlus: hi.where}
 		switch {
 		case lo.err != nil:

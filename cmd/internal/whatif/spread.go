@@ -87,6 +87,7 @@ type Condition struct {
 type ToleranceUse struct {
 	Param   string  `json:"param"` // "D1.vbr"
 	Nominal float64 `json:"nominal"`
+	Unit    string  `json:"unit"` // of Nominal
 	Percent float64 `json:"percent"`
 	Dist    string  `json:"dist"`
 }
@@ -154,7 +155,7 @@ func Spreads(ctx context.Context, c *netlist.Circuit, opt *SpreadOptions) (*Spre
 			return nil, fmt.Errorf("tolerance %s.%s: distribution %q: use uniform or normal", t.Element, t.Param, t.Dist)
 		}
 		res.Tolerances = append(res.Tolerances, ToleranceUse{Param: t.Element + "." + t.Param,
-			Nominal: e.Num[t.Param], Percent: t.Percent, Dist: t.Dist})
+			Nominal: e.Num[t.Param], Unit: ParamUnit(c, t.Element, t.Param), Percent: t.Percent, Dist: t.Dist})
 	}
 	if len(c.Vary) > 0 {
 		res.Notes = append(res.Notes, "the deck's vary lines are left out: a spread draws around one design (choose it with --set)")
