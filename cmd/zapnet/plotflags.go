@@ -119,3 +119,23 @@ func reportFigures(fs []plots.Figure) []report.Figure {
 	}
 	return out
 }
+
+// writeMarginPictures writes the figure of a margin search (plots.MarginCurve)
+// as o asks: "DECK_margin.svg" in the --plot folder, and an HTML report of
+// the figure with the caution and the deck.
+func writeMarginPictures(o pictureOptions, c *netlist.Circuit, meta report.Meta, fig plots.Figure) error {
+	var errs []error
+	if o.plotDir != "" {
+		if err := writeSVGs(o.plotDir, meta.Deck, nil, nil, []plots.Figure{fig}); err != nil {
+			errs = append(errs, fmt.Errorf("--plot: %w", err))
+		}
+	}
+	if o.htmlFile != "" {
+		hopt := &report.HTMLOptions{Meta: meta, Source: c.Source, Overlays: reportFigures([]plots.Figure{fig}),
+			OverlaysTitle: "Margin against level"}
+		if err := report.WriteFile(o.htmlFile, func(w io.Writer) error { return report.HTML(w, nil, hopt) }); err != nil {
+			errs = append(errs, fmt.Errorf("--html: %w", err))
+		}
+	}
+	return errors.Join(errs...)
+}

@@ -37,13 +37,16 @@ type HTMLOptions struct {
 	// Overlays are the figures across runs, shown under the summary.
 	// Nil: none.
 	Overlays []Figure
+	// OverlaysTitle heads the overlays. Empty: "Every run compared".
+	OverlaysTitle string
 }
 
 // HTML writes the report as one self-contained page: inline CSS, inline SVG,
 // no script and no reference to anything outside the file, so it opens
 // offline and can be mailed or archived as it is. It holds the title, the
 // caution, the summary, the overlays, each run's tables, verdict and
-// figures, and the deck's listing.
+// figures, and the deck's listing. Without runs (a what-if command's report)
+// the summary is left out and the page holds its figures.
 //
 // Every text from the deck (title, names, the listing) goes through
 // html/template, which escapes it for where it lands; a Content Security
@@ -57,7 +60,10 @@ func HTML(w io.Writer, runs []study.Run, opt *HTMLOptions) error {
 	}
 	page := htmlPage{
 		Title: opt.Meta.Title, Deck: opt.Meta.Deck, Tool: opt.Meta.Tool, Version: opt.Meta.Version,
-		Caution: Caution,
+		Caution: Caution, OverlaysTitle: opt.OverlaysTitle,
+	}
+	if page.OverlaysTitle == "" {
+		page.OverlaysTitle = "Every run compared"
 	}
 	if page.Tool == "" {
 		page.Tool = "zapnet"
@@ -127,6 +133,7 @@ func HTML(w io.Writer, runs []study.Run, opt *HTMLOptions) error {
 
 type htmlPage struct {
 	Title, Deck, Tool, Version, Caution string
+	OverlaysTitle                       string
 	Variants                            bool
 	Summary                             []htmlSummaryRow
 	Count                               string
@@ -405,9 +412,11 @@ footer { margin-top: 2.5rem; }
 <p class="meta">{{if .Deck}}Deck <code id="deck-path">{{.Deck}}</code>, {{end}}{{.Tool}} {{.Version}}</p>
 <p id="caution" class="caution"><strong>Caution.</strong> {{.Caution}}</p>
 <nav id="contents"><ul>
+{{- if .Runs}}
 <li><a href="#summary">Summary</a></li>
+{{- end}}
 {{- if .Overlays}}
-<li><a href="#overlays">Every run compared</a></li>
+<li><a href="#overlays">{{.OverlaysTitle}}</a></li>
 {{- end}}
 {{- range .Runs}}
 <li><a href="#{{.ID}}">{{.Heading}}</a></li>
@@ -418,6 +427,7 @@ footer { margin-top: 2.5rem; }
 </ul></nav>
 </header>
 <main>
+{{- if .Runs}}
 <section id="summary">
 <h2>Summary</h2>
 <table id="summary-table">
@@ -430,9 +440,10 @@ footer { margin-top: 2.5rem; }
 </table>
 <p id="summary-count">{{.Count}}</p>
 </section>
+{{- end}}
 {{- if .Overlays}}
 <section id="overlays">
-<h2>Every run compared</h2>
+<h2>{{.OverlaysTitle}}</h2>
 <div class="figures">
 {{- range .Overlays}}
 <figure id="{{.ID}}">{{.SVG}}<figcaption>{{.Caption}}</figcaption></figure>
