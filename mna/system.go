@@ -27,8 +27,7 @@ type System struct {
 	probes      []string
 
 	striker devices.Striker
-	stim    *waveforms.Stimulus
-	sign    float64
+	stim    *waveforms.Stimulus // for the breakpoints and the default span
 
 	n     int
 	ctx   devices.Context
@@ -87,7 +86,7 @@ type device struct {
 // elements' terminals (deck order). Every element, the strike included, is
 // built from the device registry.
 func Compile(c *netlist.Circuit) (*System, error) {
-	s := &System{sign: 1}
+	s := &System{}
 	var errs []error
 	for _, e := range c.Elements {
 		d, err := devices.New(e)
@@ -330,7 +329,7 @@ func (s *System) Unknowns() []string { return s.unknowns }
 // SetStimulus sets the strike of the next runs; sign is +1 or −1; nil: none.
 // The stimulus also supplies the breakpoints and the default span.
 func (s *System) SetStimulus(st *waveforms.Stimulus, sign float64) {
-	s.stim, s.sign = st, sign
+	s.stim = st
 	if s.striker != nil {
 		s.striker.SetStimulus(st, sign)
 	}

@@ -43,9 +43,15 @@ const beSteps = 2
 // with the trapezoidal rule, after t = 0 and after each breakpoint first with
 // two backward-Euler steps. The step follows the local truncation error of
 // every charge and flux; a step whose error is too large or whose Newton
-// iteration fails is shrunk and retried. Breakpoints of the stimulus are hit
-// exactly. The energy ledger integrates Σ v·i of every element over the
-// accepted points with the trapezoidal rule.
+// iteration fails is shrunk and retried with one backward-Euler step. Before
+// the trapezoidal rule resumes, the derivatives are re-estimated to second
+// order. Breakpoints of the stimulus are hit exactly. The energy ledger
+// integrates Σ v·i of every element over the accepted points with the
+// trapezoidal rule.
+//
+// Transient resets the system first, so one System serves any number of
+// runs; it allocates per run, never per step (unless Record keeps the
+// waveforms). Runs are reproducible bit for bit.
 func (s *System) Transient(set *Settings) (*Result, error) {
 	start := time.Now()
 	var cfg Settings
@@ -89,7 +95,6 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 	dcIt, err := s.operatingPoint(&t)
 	res.Stats.DCNewton = dcIt
 	if err != nil {
-		res.Stats.Wall = time.Since(start)
 		return nil, err
 	}
 	c := &s.ctx
