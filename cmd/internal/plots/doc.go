@@ -10,10 +10,15 @@
 // line writes them as files with --plot.
 //
 //   - RunFigures(c, r, opt) draws one recorded run: "strike", "nodes",
-//     "clamps", "residual-PIN" for each protected pin, and "ledger".
+//     "clamps", "residual-PIN" for each protected pin, and "ledger". A
+//     figure against time has two panels on one vertical scale: a close-up
+//     of the first instants (twelve times the strike's time to peak, 10 or
+//     20 ns for the IEC 61000-4-2 current) and the whole window.
 //   - Overlays(c, runs, opt) draws one quantity across runs: the residual of
-//     each pin and the current of each clamp, one line per run (level,
-//     polarity, variant), with the limits drawn once.
+//     each pin and the current of each clamp, one line per run, with the
+//     limits drawn once: the first variant across levels and polarities
+//     ("overlay-residual-U1"), and with a vary line every variant at the
+//     top level, per polarity ("overlay-variants-pos-residual-U1").
 //   - MarginCurve(title, unit, curves, opt) draws the worst margin found at
 //     each level a margin search tried, one line per polarity or variant,
 //     with the zero line where PASS turns into FAIL.
