@@ -6,6 +6,7 @@ import (
 	"math"
 	"slices"
 	"strings"
+	"sync"
 
 	"zapnet/cmd/internal/study"
 	"zapnet/netlist"
@@ -34,7 +35,10 @@ type MarginOptions struct {
 	// Shard selects the searches (one per variant and polarity, in plan
 	// order) this process runs. Zero: all.
 	Shard Shard
-	// Progress, when set, is told after each finished search.
+	// Progress, when set, is told after each solve, against an estimate of
+	// the solves of the whole search (the scan and a full bisection of each
+	// search; a search that fails nowhere needs no bisection and finishes
+	// early, and the last call then says done = total).
 	Progress Progress
 }
 
@@ -188,7 +192,19 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 	sopt := opt.Study
 	sopt.Record = false
 	complete := make([]bool, len(mine))
-	finished := forEach(ctx, workers, len(mine), opt.Progress, func(w, i int) {
+	perSearch := len(scanGrid(steps, scan)) + bisections(steps, scan)
+	var mu sync.Mutex
+	solved := 0
+	tick := func() {
+		if opt.Progress == nil {
+			return
+		}
+		mu.Lock()
+		solved++
+		opt.Progress(min(solved, perSearch*len(mine)-1), perSearch*len(mine))
+		mu.Unlock()
+	}
+	finished := forEach(ctx, workers, len(mine), nil, func(w, i int) {
 		s := mine[i]
 		m := &out[i]
 		*m = Margin{Index: s.index, Variant: variantMap(variants[s.variant]), Polarity: s.polarity,
@@ -203,8 +219,11 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 			}
 			benches[w], benchOf[w] = b, s.variant
 		}
-		complete[i] = searchOne(ctx, benches[w], m, s.polarity, steps, scan, res.Resolution, &sopt)
+		complete[i] = searchOne(ctx, benches[w], m, s.polarity, steps, scan, res.Resolution, &sopt, tick)
 	})
+	if opt.Progress != nil {
+		opt.Progress(perSearch*len(mine), perSearch*len(mine))
+	}
 	for i := range mine {
 		if finished[i] && complete[i] {
 			res.Margins = append(res.Margins, out[i])
@@ -223,8 +242,9 @@ type outcome struct {
 
 // searchOne fills m for one polarity with bench. It returns false when ctx
 // stopped it before the end.
-func searchOne(ctx context.Context, bench *study.Bench, m *Margin, polarity string, steps, scan int, step float64, opt *study.Options) bool {
+func searchOne(ctx context.Context, bench *study.Bench, m *Margin, polarity string, steps, scan int, step float64, opt *study.Options, tick func()) bool {
 	return search(ctx, m, steps, scan, step, func(level float64) (outcome, error) {
+		defer tick()
 		r, err := bench.Solve(level, polarity, opt)
 		if err != nil {
 			return outcome{}, err
@@ -247,14 +267,7 @@ func search(ctx context.Context, m *Margin, steps, scan int, step float64, solve
 		return o, true
 	}
 
-	// The scan: multiples ⌈k·steps/scan⌉, k = 1…scan, without repeats.
-	var grid []int
-	for k := 1; k <= scan; k++ {
-		g := (k*steps + scan - 1) / scan
-		if len(grid) == 0 || g > grid[len(grid)-1] {
-			grid = append(grid, g)
-		}
-	}
+	grid := scanGrid(steps, scan)
 	results := make([]outcome, len(grid))
 	first := -1
 	for i, g := range grid {
@@ -331,4 +344,32 @@ func search(ctx context.Context, m *Margin, steps, scan int, step float64, solve
 		m.Note = fmt.Sprintf("fails even at the lowest level searched, %s", netlist.FormatSI(ff, m.LevelUnit))
 	}
 	return true
+}
+
+// scanGrid is the scan's multiples ⌈k·steps/scan⌉, k = 1…scan, without
+// repeats; the last is steps itself.
+func scanGrid(steps, scan int) []int {
+	var grid []int
+	for k := 1; k <= scan; k++ {
+		g := (k*steps + scan - 1) / scan
+		if len(grid) == 0 || g > grid[len(grid)-1] {
+			grid = append(grid, g)
+		}
+	}
+	return grid
+}
+
+// bisections is the number of solves that bisect the widest bracket of the
+// scan down to one step.
+func bisections(steps, scan int) int {
+	grid := scanGrid(steps, scan)
+	widest, prev := 0, 0
+	for _, g := range grid {
+		widest, prev = max(widest, g-prev), g
+	}
+	n := 0
+	for w := widest; w > 1; w = (w + 1) / 2 {
+		n++
+	}
+	return n
 }
