@@ -493,6 +493,15 @@ func TestSupplyLoopIsNamed(t *testing.T) {
 	if se.Where != "branch V2.i" || se.Hint == "" || se.Time >= 0 {
 		t.Errorf("error %q: want it at the operating point near branch V2.i, with a hint", se)
 	}
+	// Two inductors in parallel are a loop of shorts at DC.
+	s = compile(t,
+		el(netlist.Supply, "V1", "a", "gnd", 5.0, "r", 10.0),
+		el(netlist.Inductor, "L1", "a", "gnd", 1e-9),
+		el(netlist.Inductor, "L2", "a", "gnd", 1e-9))
+	_, err = s.OperatingPoint(nil)
+	if !errors.As(err, &se) || se.Where != "branch L2.i" || !strings.Contains(se.Hint, "loop") {
+		t.Errorf("inductor loop: got %v, want a *SolveError near branch L2.i naming the loop", err)
+	}
 }
 
 // Bad element values are errors from Compile, all of them at once.
