@@ -186,13 +186,15 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 		}
 	}
 	out := make([]Margin, len(mine))
+	for i, sr := range mine {
+		out[i] = Margin{Index: sr.index, Variant: variantMap(variants[sr.variant]), Polarity: sr.polarity,
+			LevelUnit: unit, variant: variants[sr.variant]}
+	}
 	workers := workerCount(opt.Study.Workers)
-	benches := make([]*study.Bench, workers)
-	benchOf := make([]int, workers)
 	sopt := opt.Study
 	sopt.Record = false
-	complete := make([]bool, len(mine))
-	perSearch := len(scanGrid(steps, scan)) + bisections(steps, scan)
+	grid := scanGrid(steps, scan)
+	total := (len(grid) + bisections(steps, scan)) * len(mine)
 	var mu sync.Mutex
 	solved := 0
 	tick := func() {
@@ -201,28 +203,75 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 		}
 		mu.Lock()
 		solved++
-		opt.Progress(min(solved, perSearch*len(mine)-1), perSearch*len(mine))
+		opt.Progress(min(solved, total-1), total)
 		mu.Unlock()
 	}
-	finished := forEach(ctx, workers, len(mine), nil, func(w, i int) {
-		s := mine[i]
-		m := &out[i]
-		*m = Margin{Index: s.index, Variant: variantMap(variants[s.variant]), Polarity: s.polarity,
-			LevelUnit: unit, variant: variants[s.variant]}
-		if benches[w] == nil || benchOf[w] != s.variant {
-			b, err := study.NewBench(c, variants[s.variant])
+
+	// A variant that does not compile fails its searches before any solve.
+	compileErr := map[int]error{}
+	for _, sr := range mine {
+		if _, done := compileErr[sr.variant]; !done {
+			_, err := study.NewBench(c, variants[sr.variant])
+			compileErr[sr.variant] = err
+		}
+	}
+	// Each worker keeps the compiled variant it used last.
+	benches := make([]*study.Bench, workers)
+	benchOf := make([]int, workers)
+	bench := func(w, variant int) (*study.Bench, error) {
+		if benches[w] == nil || benchOf[w] != variant {
+			b, err := study.NewBench(c, variants[variant])
 			if err != nil {
 				benches[w] = nil
-				m.Error = err.Error()
-				complete[i] = true
+				return nil, err
+			}
+			benches[w], benchOf[w] = b, variant
+		}
+		return benches[w], nil
+	}
+	solver := func(w int, sr search) func(float64) (outcome, error) {
+		return func(level float64) (outcome, error) {
+			defer tick()
+			b, err := bench(w, sr.variant)
+			if err != nil {
+				return outcome{}, err
+			}
+			r, err := b.Solve(level, sr.polarity, &sopt)
+			if err != nil {
+				return outcome{}, err
+			}
+			return outcome{pass: r.Verdict == study.Pass, worst: r.Worst}, nil
+		}
+	}
+
+	// The scans of every search at once, so that one search alone still
+	// keeps every worker busy; then each search's bisection.
+	scans := make([]scanned, len(mine)*len(grid))
+	scanDone := forEach(ctx, workers, len(scans), nil, func(w, it int) {
+		sr := mine[it/len(grid)]
+		if compileErr[sr.variant] != nil {
+			return
+		}
+		o, err := solver(w, sr)(float64(grid[it%len(grid)]) * res.Resolution)
+		scans[it] = scanned{o, err}
+	})
+	complete := make([]bool, len(mine))
+	finished := forEach(ctx, workers, len(mine), nil, func(w, i int) {
+		sr := mine[i]
+		if err := compileErr[sr.variant]; err != nil {
+			out[i].Error = err.Error()
+			complete[i] = true
+			return
+		}
+		for it := i * len(grid); it < (i+1)*len(grid); it++ {
+			if !scanDone[it] {
 				return
 			}
-			benches[w], benchOf[w] = b, s.variant
 		}
-		complete[i] = searchOne(ctx, benches[w], m, s.polarity, steps, scan, res.Resolution, &sopt, tick)
+		complete[i] = finishSearch(ctx, &out[i], grid, scans[i*len(grid):(i+1)*len(grid)], res.Resolution, solver(w, sr))
 	})
-	if opt.Progress != nil {
-		opt.Progress(perSearch*len(mine), perSearch*len(mine))
+	if opt.Progress != nil && !ctxDone(ctx) {
+		opt.Progress(total, total)
 	}
 	for i := range mine {
 		if finished[i] && complete[i] {
@@ -234,52 +283,54 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 	return res, nil
 }
 
+func ctxDone(ctx context.Context) bool { return ctx.Err() != nil }
+
 // outcome is what a search needs of one solve.
 type outcome struct {
 	pass  bool
 	worst *study.Limit
 }
 
-// searchOne fills m for one polarity with bench. It returns false when ctx
-// stopped it before the end.
-func searchOne(ctx context.Context, bench *study.Bench, m *Margin, polarity string, steps, scan int, step float64, opt *study.Options, tick func()) bool {
-	return search(ctx, m, steps, scan, step, func(level float64) (outcome, error) {
-		defer tick()
-		r, err := bench.Solve(level, polarity, opt)
-		if err != nil {
-			return outcome{}, err
-		}
-		return outcome{pass: r.Verdict == study.Pass, worst: r.Worst}, nil
-	})
+// scanned is one solve of the scan.
+type scanned struct {
+	o   outcome
+	err error
 }
 
 // search is the scan and the bisection over the levels k·step, k = 1…steps,
-// with solve telling the verdict at a level.
+// one solve after the other, with solveAt telling the verdict at a level.
+// It returns false when ctx stopped it before the end.
 func search(ctx context.Context, m *Margin, steps, scan int, step float64, solveAt func(level float64) (outcome, error)) bool {
-	level := func(k int) float64 { return float64(k) * step }
-	solve := func(k int) (outcome, bool) {
-		m.Solves++
-		o, err := solveAt(level(k))
-		if err != nil {
-			m.Error = fmt.Sprintf("%s %s: %v", netlist.FormatSI(level(k), m.LevelUnit), m.Polarity, err)
-			return outcome{}, false
-		}
-		return o, true
-	}
-
 	grid := scanGrid(steps, scan)
-	results := make([]outcome, len(grid))
-	first := -1
+	res := make([]scanned, len(grid))
 	for i, g := range grid {
 		if ctx.Err() != nil {
 			return false
 		}
-		o, ok := solve(g)
-		if !ok {
+		o, err := solveAt(float64(g) * step)
+		res[i] = scanned{o, err}
+	}
+	return finishSearch(ctx, m, grid, res, step, solveAt)
+}
+
+// finishSearch reads the scan, checks that the verdict is monotonic on it,
+// and bisects the bracket of the first failure. It returns false when ctx
+// stopped it before the end.
+func finishSearch(ctx context.Context, m *Margin, grid []int, scan []scanned, step float64, solveAt func(level float64) (outcome, error)) bool {
+	level := func(k int) float64 { return float64(k) * step }
+	fail := func(k int, err error) {
+		m.Error = fmt.Sprintf("%s %s: %v", netlist.FormatSI(level(k), m.LevelUnit), m.Polarity, err)
+	}
+	m.Solves = len(grid)
+	results := make([]outcome, len(grid))
+	first := -1
+	for i, sc := range scan {
+		if sc.err != nil {
+			fail(grid[i], sc.err)
 			return true
 		}
-		results[i] = o
-		if !o.pass && first < 0 {
+		results[i] = sc.o
+		if !sc.o.pass && first < 0 {
 			first = i
 		}
 	}
@@ -313,8 +364,10 @@ func search(ctx context.Context, m *Margin, steps, scan int, step float64, solve
 			return false
 		}
 		mid := lo + (hi-lo)/2
-		o, ok := solve(mid)
-		if !ok {
+		m.Solves++
+		o, err := solveAt(level(mid))
+		if err != nil {
+			fail(mid, err)
 			return true
 		}
 		if o.pass {
