@@ -11,12 +11,17 @@ import (
 	"zapnet/netlist"
 )
 
-// Speed targets of the what-if sweeps. Run with the core counts to compare:
+// Speed targets of the what-if sweeps. Each benchmark uses every core
+// GOMAXPROCS allows, one compiled circuit per worker. Compare core counts in
+// separate processes (one -cpu value each; a -cpu list in one process gave
+// inconsistent wall times here), on a machine with nothing else running:
 //
-//	go test -run - -bench 'Strikes|Spread' -benchtime 1x -cpu 1,2 ./cmd/internal/whatif
+//	go test -c -o whatif.test ./cmd/internal/whatif
+//	./whatif.test -test.run - -test.bench 'Strikes|Spread$' -test.benchtime 1x -test.cpu 1
+//	./whatif.test -test.run - -test.bench 'Strikes|Spread$' -test.benchtime 1x -test.cpu 2
 //
-// Each benchmark uses every core GOMAXPROCS allows (-cpu), one compiled
-// circuit per worker.
+// cpu-ms/run is the CPU time per run, which other work on the machine does
+// not inflate.
 
 // BenchmarkStrikes solves 1,000 strikes of reference network A: 500 levels
 // from 2 kV to 8 kV, both polarities, as one sweep.
