@@ -95,7 +95,7 @@ func sensitivityStudy(ctx context.Context, opt sensitivityOptions, stdout, stder
 	for _, w := range c.Warnings {
 		fmt.Fprintln(stderr, w)
 	}
-	base, _, err := whatif.Base(c, opt.sweep.sets)
+	base, variant, err := whatif.Base(c, opt.sweep.sets)
 	if err != nil {
 		return err
 	}
@@ -108,6 +108,7 @@ func sensitivityStudy(ctx context.Context, opt sensitivityOptions, stdout, stder
 	if err != nil {
 		return fmt.Errorf("%s: %w", opt.deck, err)
 	}
+	res.Variant = whatif.VariantMap(variant)
 	return writeSensitivity(res, report.Meta{Tool: "zapnet", Version: Version, Deck: opt.deck, Title: c.Title}, opt.json, stdout, stderr)
 }
 

@@ -95,7 +95,7 @@ func spreadStudy(ctx context.Context, opt spreadOptions, stdout, stderr io.Write
 	for _, w := range c.Warnings {
 		fmt.Fprintln(stderr, w)
 	}
-	base, _, err := whatif.Base(c, opt.sweep.sets)
+	base, variant, err := whatif.Base(c, opt.sweep.sets)
 	if err != nil {
 		return err
 	}
@@ -108,6 +108,7 @@ func spreadStudy(ctx context.Context, opt spreadOptions, stdout, stderr io.Write
 	if err != nil {
 		return fmt.Errorf("%s: %w", opt.deck, err)
 	}
+	res.Variant = whatif.VariantMap(variant)
 	return writeSpread(res, report.Meta{Tool: "zapnet", Version: Version, Deck: opt.deck, Title: c.Title}, opt.json, stdout, stderr)
 }
 

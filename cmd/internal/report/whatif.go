@@ -164,6 +164,9 @@ func SensitivityTable(w io.Writer, r *whatif.SensitivityResult, title, deck stri
 	ew := &errWriter{w: w}
 	pct := fmt.Sprintf("%g %%", 100*r.Step)
 	heading(ew, title, deck, fmt.Sprintf("Sensitivity: each parameter ±%s, effect on the worst margin", pct))
+	if len(r.Variant) > 0 {
+		fmt.Fprintf(ew, "Design: %s\n", variantText(r.Variant))
+	}
 	fmt.Fprintf(ew, "Baseline worst margin: %s (%s)\n", percentText(r.Baseline), r.BaselineLimiting)
 	head := []string{"rank", "param", "nominal", "−" + pct, "+" + pct, "effect", "limiting"}
 	t := newTable(ew, head)
@@ -210,6 +213,9 @@ func signedPoints(v float64) string {
 func SpreadTable(w io.Writer, r *whatif.SpreadResult, title, deck string) error {
 	ew := &errWriter{w: w}
 	heading(ew, title, deck, fmt.Sprintf("Spread: %d circuits drawn with seed %d", r.Runs, r.Seed))
+	if len(r.Variant) > 0 {
+		fmt.Fprintf(ew, "Design: %s\n", variantText(r.Variant))
+	}
 	var tol [][]string
 	for _, t := range r.Tolerances {
 		tol = append(tol, []string{t.Param, si(t.Nominal, t.Unit), fmt.Sprintf("±%g %%", t.Percent), t.Dist})

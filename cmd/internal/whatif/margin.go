@@ -187,7 +187,7 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 	}
 	out := make([]Margin, len(mine))
 	for i, sr := range mine {
-		out[i] = Margin{Index: sr.index, Variant: variantMap(variants[sr.variant]), Polarity: sr.polarity,
+		out[i] = Margin{Index: sr.index, Variant: VariantMap(variants[sr.variant]), Polarity: sr.polarity,
 			LevelUnit: unit, variant: variants[sr.variant]}
 	}
 	workers := workerCount(opt.Study.Workers)

@@ -102,7 +102,7 @@ func MergeSensitivities(parts []*SensitivityResult) (*SensitivityResult, error) 
 	var infos []*ShardInfo
 	var idx []int
 	for _, p := range parts {
-		if p.Baseline != out.Baseline || p.Step != out.Step || p.Total != out.Total {
+		if p.Baseline != out.Baseline || p.Step != out.Step || p.Total != out.Total || fmt.Sprint(p.Variant) != fmt.Sprint(out.Variant) {
 			return nil, fmt.Errorf("the sensitivity studies differ in baseline, step or parameters: they are not shards of one study")
 		}
 		infos = append(infos, p.Shard)
@@ -162,7 +162,7 @@ func MergeSpreads(parts []*SpreadResult) (*SpreadResult, error) {
 // spreadSignature is what the shards of one spread share.
 func spreadSignature(r *SpreadResult) string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "%d|%d|%s|%s|%q|", r.Runs, r.Seed, r.Waveform, r.LevelUnit, r.Measures)
+	fmt.Fprintf(&b, "%d|%d|%s|%s|%q|%v|", r.Runs, r.Seed, r.Waveform, r.LevelUnit, r.Measures, r.Variant)
 	for _, t := range r.Tolerances {
 		fmt.Fprintf(&b, "%s %v %v %s;", t.Param, t.Nominal, t.Percent, t.Dist)
 	}

@@ -73,15 +73,18 @@ type Skipped struct {
 type SensitivityResult struct {
 	// Baseline is the worst margin of the unperturbed circuit, %, at
 	// BaselineLimiting ("U1 vmax at 8 kV pos").
-	Baseline         float64       `json:"baseline_margin"`
-	BaselineLimiting string        `json:"baseline_limiting"`
-	Step             float64       `json:"step"`
-	Parameters       []ParamEffect `json:"parameters"` // by |Effect|, largest first
-	Skipped          []Skipped     `json:"skipped"`
-	Total            int           `json:"total"` // parameters of the whole study
-	Notes            []string      `json:"notes,omitempty"`
-	Shard            *ShardInfo    `json:"shard,omitempty"`
-	Interrupted      bool          `json:"interrupted,omitempty"`
+	Baseline float64 `json:"baseline_margin"`
+	// Variant is the design studied: the command line's settings over the
+	// deck ({} for the deck as written). The caller sets it.
+	Variant          map[string]string `json:"variant"`
+	BaselineLimiting string            `json:"baseline_limiting"`
+	Step             float64           `json:"step"`
+	Parameters       []ParamEffect     `json:"parameters"` // by |Effect|, largest first
+	Skipped          []Skipped         `json:"skipped"`
+	Total            int               `json:"total"` // parameters of the whole study
+	Notes            []string          `json:"notes,omitempty"`
+	Shard            *ShardInfo        `json:"shard,omitempty"`
+	Interrupted      bool              `json:"interrupted,omitempty"`
 }
 
 // Sensitivities perturbs each parameter of c by ±Step (one at a time, the
@@ -113,7 +116,7 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 	if err != nil {
 		return nil, err
 	}
-	res := &SensitivityResult{Step: step, Total: len(params) + len(skipped), Parameters: []ParamEffect{}, Skipped: []Skipped{}}
+	res := &SensitivityResult{Variant: map[string]string{}, Step: step, Total: len(params) + len(skipped), Parameters: []ParamEffect{}, Skipped: []Skipped{}}
 	res.Shard = opt.Shard.Info(res.Total)
 	if len(c.Vary) > 0 {
 		res.Notes = append(res.Notes, "the deck's vary lines are left out: a sensitivity perturbs one design (choose it with --set)")
@@ -137,7 +140,7 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 		for _, j := range jobs {
 			r, err := b.Solve(j.Level, j.Polarity, &sopt)
 			if err != nil {
-				return 0, "", fmt.Errorf("%s %s: %w", netlist.FormatSI(j.Level, r0unit(c)), j.Polarity, err)
+				return 0, "", fmt.Errorf("%s %s: %w", netlist.FormatSI(j.Level, levelUnitOf(c)), j.Polarity, err)
 			}
 			if r.Worst != nil && (where == "" || r.Worst.Percent < best) {
 				best = r.Worst.Percent
@@ -201,7 +204,7 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 	return res, nil
 }
 
-func r0unit(c *netlist.Circuit) string { return netlist.LevelUnit(c.Strike().Str["waveform"]) }
+func levelUnitOf(c *netlist.Circuit) string { return netlist.LevelUnit(c.Strike().Str["waveform"]) }
 
 // SortEffects orders parameters by |Effect|, largest first, those with an
 // error last, ties in study order.

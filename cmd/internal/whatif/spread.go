@@ -43,6 +43,10 @@ type SpreadResult struct {
 	// Runs is the number of circuits of the whole study (all shards).
 	Runs int    `json:"runs"`
 	Seed uint64 `json:"seed"`
+	// Variant is the design the draws are around: the command line's
+	// settings over the deck ({} for the deck as written). The caller sets
+	// it.
+	Variant map[string]string `json:"variant"`
 	// Solved counts the circuits in Samples whose every strike was solved;
 	// the statistics are over those. Passed counts those that passed at
 	// every level and polarity.
@@ -145,7 +149,7 @@ func Spreads(ctx context.Context, c *netlist.Circuit, opt *SpreadOptions) (*Spre
 	if len(tols) == 0 {
 		return nil, fmt.Errorf("%s: the deck has no tolerance line: nothing to spread (add for example tolerance C1.value=10%%)", c.File)
 	}
-	res := &SpreadResult{Runs: n, Seed: opt.Seed, Shard: opt.Shard.Info(n)}
+	res := &SpreadResult{Runs: n, Seed: opt.Seed, Variant: map[string]string{}, Shard: opt.Shard.Info(n)}
 	for _, t := range tols {
 		e := c.Element(t.Element)
 		if e == nil || !e.Has(t.Param) {

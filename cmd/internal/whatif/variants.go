@@ -104,8 +104,8 @@ func Base(c *netlist.Circuit, sets []netlist.Vary) (*netlist.Circuit, netlist.Va
 	return b, v, nil
 }
 
-// variantMap is a variant as the JSON of OUTPUT.md writes it.
-func variantMap(v netlist.Variant) map[string]string {
+// VariantMap is a variant as the JSON of OUTPUT.md writes it: {"C1.value": "100n"}.
+func VariantMap(v netlist.Variant) map[string]string {
 	m := map[string]string{}
 	for _, s := range v {
 		m[s.Element+"."+s.Param] = s.Value
