@@ -28,7 +28,6 @@ func (s *System) reset() {
 		}
 	}
 	clear(s.x)
-	clear(s.hist)
 	s.ctx.T = 0
 	s.ctx.Alpha = 0
 	s.ctx.Gmin = 0
@@ -52,7 +51,7 @@ func (s *System) operatingPoint(t *tol) (int, error) {
 		return total, nil
 	}
 	if st == singular {
-		return total, s.dcError(t, "the circuit matrix is singular")
+		return total, s.solveError(-1, st)
 	}
 
 	// Gmin stepping.
@@ -82,7 +81,7 @@ func (s *System) operatingPoint(t *tol) (int, error) {
 	it, st = s.newton(t, t.gmin)
 	total += it
 	if st != converged {
-		return total, s.dcError(t, "Newton iteration did not converge")
+		return total, s.solveError(-1, st)
 	}
 	step := 0.1
 	for c.SourceScale < 1 {
@@ -99,18 +98,28 @@ func (s *System) operatingPoint(t *tol) (int, error) {
 		c.SourceScale = saved
 		step /= 4
 		if step < 1e-4 {
-			return total, s.dcError(t, "Newton iteration did not converge")
+			return total, s.solveError(-1, notConverged)
 		}
 	}
 	return total, nil
 }
 
-func (s *System) dcError(t *tol, reason string) *SolveError {
-	hint := s.hintFor(s.resRow, false)
-	if reason == "the circuit matrix is singular" {
-		hint = s.singularHint(s.resRow)
+// solveError tells why a solution stopped at time now (negative: the
+// operating point), near the unknown of the last largest residual.
+func (s *System) solveError(now float64, st newtonStatus, reason ...string) *SolveError {
+	e := &SolveError{Time: now, Where: s.where(s.resRow), Residual: s.resValue}
+	switch {
+	case st == singular:
+		e.Reason, e.Hint = "the circuit matrix is singular", s.singularHint(s.resRow)
+	case now < 0:
+		e.Reason, e.Hint = "Newton iteration did not converge", s.hintFor(s.resRow, false)
+	default:
+		e.Reason, e.Hint = "Newton iteration did not converge and the time step fell below the minimum step", s.hintFor(s.resRow, true)
 	}
-	return &SolveError{Time: -1, Where: s.where(s.resRow), Residual: s.resValue, Reason: reason, Hint: hint}
+	if len(reason) > 0 {
+		e.Reason = reason[0]
+	}
+	return e
 }
 
 // where names an unknown for a message.

@@ -141,7 +141,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 			hs = 0.5 * rem
 		}
 		if hs < minStep {
-			return nil, s.stepError(now, "the time step fell below the minimum step")
+			return nil, s.solveError(now, notConverged, "the time step fell below the minimum step")
 		}
 		tNew := now + hs
 		if hit {
@@ -169,11 +169,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 			res.Stats.Rejected++
 			h = hs / 2
 			if h < minStep {
-				reason := "Newton iteration did not converge and the time step fell below the minimum step"
-				if st == singular {
-					reason = "the circuit matrix is singular"
-				}
-				return nil, s.stepError(now, reason)
+				return nil, s.solveError(now, st)
 			}
 			continue
 		}
@@ -190,7 +186,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 					res.Stats.Rejected++
 					h = hs * max(1.0/8, min(0.5, safety*math.Pow(r, -p)))
 					if h < minStep {
-						return nil, s.stepError(now, "the truncation error stays too large at the minimum step")
+						return nil, s.solveError(now, notConverged, "the truncation error stays too large at the minimum step")
 					}
 					continue
 				}
@@ -365,13 +361,4 @@ func (s *System) accept(res *Result, cfg *Settings, now, h float64, first bool) 
 			res.P[i] = append(res.P[i], v)
 		}
 	}
-}
-
-// stepError reports a transient failure at time now.
-func (s *System) stepError(now float64, reason string) *SolveError {
-	hint := s.hintFor(s.resRow, true)
-	if reason == "the circuit matrix is singular" {
-		hint = s.singularHint(s.resRow)
-	}
-	return &SolveError{Time: now, Where: s.where(s.resRow), Residual: s.resValue, Reason: reason, Hint: hint}
 }
