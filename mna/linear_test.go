@@ -199,19 +199,25 @@ func sineRC(I, R, C, w float64) func(float64) float64 {
 	}
 }
 
+const sineI, sineR, sineC = 1e-3, 1e3, 1e-9
+
+// sineRCProblem is R ∥ C driven by I·sin(ωt) with ω = 2π/(2RC) over 4RC:
+// the compiled system, the exact node voltage, the node's index, the span.
+func sineRCProblem(t *testing.T) (*System, func(float64) float64, int, float64) {
+	w := 2 * math.Pi / (2 * sineR * sineC)
+	stop := 4 * sineR * sineC
+	s := compile(t,
+		el(testSourceKind, "src", "n", "gnd", 0),
+		el(netlist.Resistor, "R1", "n", "gnd", sineR),
+		el(netlist.Capacitor, "C1", "n", "gnd", sineC))
+	s.SetStimulus(sine(waveforms.Current, sineI, w, 0, stop), 1)
+	return s, sineRC(sineI, sineR, sineC, w), nodeIndex(t, s, "n"), stop
+}
+
 // [pub: circuit-simulation textbooks] The trapezoidal rule is second order:
 // halving a fixed step quarters the global error on a smooth problem.
 func TestTrapezoidalSecondOrder(t *testing.T) {
-	const I, R, C = 1e-3, 1e3, 1e-9
-	w := 2 * math.Pi / (2 * R * C)
-	stop := 4 * R * C
-	s := compile(t,
-		el(testSourceKind, "src", "n", "gnd", 0),
-		el(netlist.Resistor, "R1", "n", "gnd", R),
-		el(netlist.Capacitor, "C1", "n", "gnd", C))
-	s.SetStimulus(sine(waveforms.Current, I, w, 0, stop), 1)
-	want := sineRC(I, R, C, w)
-	n := nodeIndex(t, s, "n")
+	s, want, n, stop := sineRCProblem(t)
 	var errs []float64
 	for _, h := range []float64{stop / 100, stop / 200, stop / 400} {
 		res, err := s.Transient(&Settings{Record: true, FixedStep: h, RelTol: 1e-9, AbsTol: 1e-12})
@@ -234,16 +240,8 @@ func TestTrapezoidalSecondOrder(t *testing.T) {
 // default RelTol the error stays within 10·RelTol of the amplitude
 // [practice], and 100× tighter tolerances cut it at least 10× [calc].
 func TestAdaptiveMeetsTolerance(t *testing.T) {
-	const I, R, C = 1e-3, 1e3, 1e-9
-	w := 2 * math.Pi / (2 * R * C)
-	stop := 4 * R * C
-	s := compile(t,
-		el(testSourceKind, "src", "n", "gnd", 0),
-		el(netlist.Resistor, "R1", "n", "gnd", R),
-		el(netlist.Capacitor, "C1", "n", "gnd", C))
-	s.SetStimulus(sine(waveforms.Current, I, w, 0, stop), 1)
-	want := sineRC(I, R, C, w)
-	n := nodeIndex(t, s, "n")
+	s, want, n, stop := sineRCProblem(t)
+	const I, R = sineI, sineR
 	var errs []float64
 	for _, rel := range []float64{1e-3, 1e-5} {
 		res, err := s.Transient(&Settings{Record: true, RelTol: rel, MaxStep: stop, ChargeTol: 1e-20})
