@@ -35,7 +35,7 @@ type sweepSpec struct {
 // addSweepFlags registers --set and --shard on fs.
 func addSweepFlags(fs *pflag.FlagSet) *sweepFlags {
 	return &sweepFlags{
-		sets:  fs.StringArray("set", nil, "what-if values `ELEMENT.PARAM=v1,v2,...` as on a vary line (repeat for more; replaces the deck's vary line for that parameter)"),
+		sets:  fs.StringArray("set", nil, "what-if values `ELEMENT.PARAM=v1,v2,...` as on a vary line, repeatable; a list makes variants (run, margin), one value sets the design studied (sensitivity, spread)"),
 		shard: fs.String("shard", "", "solve only slice `i/n` of the sweep (i from 1 to n), for a batch scheduler; join the slices' JSON with zapnet merge"),
 	}
 }
