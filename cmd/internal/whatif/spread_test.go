@@ -127,3 +127,45 @@ func TestSpreadNeedsTolerances(t *testing.T) {
 		t.Error("a deck without tolerance lines must be an error")
 	}
 }
+
+// TestSpreadPassFraction draws the clamp-path inductance of a clamp at the
+// pin ±20 % (uniform). The sensitivity table gives 8.6 % of margin at the
+// nominal value and 0.7 % at +10 %; extrapolated, the margin reaches zero
+// near +11 %, so circuits above it fail: about (20−11)/40, a fifth [calc]. The counts must agree with the samples'
+// verdicts, each verdict with the sign of its worst margin, and the
+// interval with Wilson95 of the counts.
+func TestSpreadPassFraction(t *testing.T) {
+	c := parse(t, "testdata/clamp-at-pin.zap")
+	opt := &SpreadOptions{Runs: 40, Seed: 9,
+		Tolerances: []netlist.Tolerance{{Element: "D1", Param: "ls", Percent: 20, Dist: "uniform"}}}
+	r, err := Spreads(context.Background(), c, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	wm := -1
+	for i, m := range r.Measures {
+		if m == "worst_margin" {
+			wm = i
+		}
+	}
+	passed := 0
+	for _, s := range r.Samples {
+		pass := s.Verdicts[0] == "PASS"
+		if pass != (s.Values[0][wm] >= 0) {
+			t.Errorf("circuit %d: verdict %s with worst margin %g %%", s.Index, s.Verdicts[0], s.Values[0][wm])
+		}
+		if pass {
+			passed++
+		}
+	}
+	if r.Passed != passed || r.Solved != 40 || r.PassFraction != float64(passed)/40 {
+		t.Errorf("passed %d of %d (fraction %g); the samples say %d of 40", r.Passed, r.Solved, r.PassFraction, passed)
+	}
+	if !(passed > 20 && passed < 40) {
+		t.Errorf("%d of 40 passed; expected most but not all", passed)
+	}
+	lo, hi := Wilson95(passed, 40)
+	if r.CI95 != [2]float64{lo, hi} || !(lo < r.PassFraction && r.PassFraction < hi) {
+		t.Errorf("interval %v, want [%g, %g] around %g", r.CI95, lo, hi, r.PassFraction)
+	}
+}
