@@ -7,17 +7,19 @@ import (
 	"strings"
 	"sync"
 	"time"
+
+	"github.com/mattn/go-isatty"
 )
 
-// isTerminal reports whether w is a terminal (a character device), where a
-// progress bar helps; in a log file or a pipe it would only be noise.
+// isTerminal reports whether w is a terminal, where a progress bar helps;
+// in a log file, a pipe or /dev/null it would only be noise (a character
+// device is not enough: /dev/null is one too).
 func isTerminal(w io.Writer) bool {
 	f, ok := w.(*os.File)
 	if !ok || os.Getenv("TERM") == "dumb" {
 		return false
 	}
-	fi, err := f.Stat()
-	return err == nil && fi.Mode()&os.ModeCharDevice != 0
+	return isatty.IsTerminal(f.Fd())
 }
 
 // progressBar draws "label [#####.....] done/total  elapsed" on one line of

@@ -249,3 +249,15 @@ func TestWhatIfTablesGolden(t *testing.T) {
 		golden(t, c.name, []byte(out))
 	}
 }
+
+func TestDevNullIsNoTerminal(t *testing.T) {
+	// /dev/null is a character device but no terminal [practice].
+	f, err := os.OpenFile(os.DevNull, os.O_WRONLY, 0)
+	if err != nil {
+		t.Skip(err)
+	}
+	defer f.Close()
+	if isTerminal(f) {
+		t.Error("/dev/null taken for a terminal")
+	}
+}
