@@ -2,6 +2,7 @@ package whatif
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -115,7 +116,7 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 		opt = &MarginOptions{}
 	}
 	if c.Strike() == nil {
-		return nil, fmt.Errorf("%s: the deck has no strike: add a strike line", c.File)
+		return nil, errors.New("the deck has no strike: add a strike line")
 	}
 	plan := c.Plan()
 	levels, pols, variants := plan.Levels, plan.Polarities, plan.Variants

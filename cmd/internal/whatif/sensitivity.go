@@ -2,6 +2,7 @@ package whatif
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -102,10 +103,10 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 		return nil, fmt.Errorf("sensitivity: step %g: give a fraction between 0 and 1", step)
 	}
 	if c.Strike() == nil {
-		return nil, fmt.Errorf("%s: the deck has no strike: add a strike line", c.File)
+		return nil, errors.New("the deck has no strike: add a strike line")
 	}
 	if !hasLimits(c) {
-		return nil, fmt.Errorf("%s: the deck gives no ratings, so there is no margin to rank parameters by", c.File)
+		return nil, errors.New("the deck gives no ratings, so there is no margin to rank parameters by")
 	}
 	params, skipped, err := paramList(c, opt.Params)
 	if err != nil {

@@ -2,6 +2,7 @@ package whatif
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -133,7 +134,7 @@ func Spreads(ctx context.Context, c *netlist.Circuit, opt *SpreadOptions) (*Spre
 		opt = &SpreadOptions{}
 	}
 	if c.Strike() == nil {
-		return nil, fmt.Errorf("%s: the deck has no strike: add a strike line", c.File)
+		return nil, errors.New("the deck has no strike: add a strike line")
 	}
 	n := opt.Runs
 	if n == 0 {
@@ -147,7 +148,7 @@ func Spreads(ctx context.Context, c *netlist.Circuit, opt *SpreadOptions) (*Spre
 		tols = c.Tolerances
 	}
 	if len(tols) == 0 {
-		return nil, fmt.Errorf("%s: the deck has no tolerance line: nothing to spread (add for example tolerance C1.value=10%%)", c.File)
+		return nil, errors.New("the deck has no tolerance line: nothing to spread (add for example tolerance C1.value=10%)")
 	}
 	res := &SpreadResult{Runs: n, Seed: opt.Seed, Variant: map[string]string{}, Shard: opt.Shard.Info(n)}
 	for _, t := range tols {
