@@ -541,3 +541,21 @@ func TestTransientErrorIsNamed(t *testing.T) {
 		t.Error("no error without a stop time")
 	}
 }
+
+// When the error control cannot meet its tolerance above MinStep, the error
+// names the element whose charge or flux it could not follow.
+func TestTruncationErrorIsNamed(t *testing.T) {
+	s := compile(t,
+		el(testSourceKind, "src", "n", "gnd", 0),
+		el(netlist.Resistor, "R1", "n", "gnd", 1.0),
+		el(netlist.Capacitor, "C1", "n", "gnd", 1e-9))
+	s.SetStimulus(step(waveforms.Current, 1, 0, 1e-6), 1)
+	_, err := s.Transient(&Settings{MinStep: 15e-12, RelTol: 1e-6, ChargeTol: 1e-20})
+	var se *SolveError
+	if !errors.As(err, &se) {
+		t.Fatalf("got %v, want a *SolveError", err)
+	}
+	if se.Where != "element C1" || !strings.Contains(se.Reason, "truncation") || !strings.Contains(se.Hint, "C1") {
+		t.Errorf("error %q: want the truncation error of element C1", se)
+	}
+}

@@ -55,6 +55,7 @@ type System struct {
 	power          []float64 // per element at the last accepted point, W
 	dcMethod       string    // how the last operating point was found, for tests
 	factorisations int       // LU factorisations of the transient, for Stats
+	lteWorst       int       // state of the largest truncation error at the last estimate
 
 	pt       Point
 	resRow   int     // row of the largest scaled residual in the last Newton iteration

@@ -186,7 +186,11 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 					res.Stats.Rejected++
 					h = hs * max(1.0/8, min(0.5, safety*math.Pow(r, -p)))
 					if h < minStep {
-						return nil, s.solveError(now, notConverged, "the truncation error stays too large at the minimum step")
+						e := s.solveError(now, notConverged, "the truncation error stays too large at the minimum step")
+						who := s.elements[s.stateDev[s.lteWorst]]
+						e.Where = "element " + who
+						e.Hint = "try a smaller maxstep in the window statement, or add series resistance to " + who
+						return nil, e
 					}
 					continue
 				}
@@ -267,7 +271,8 @@ func (s *System) restartDerivative(head, nHist int) {
 // The error comes from divided differences over the accepted points since
 // the last breakpoint: h³/12·q‴ for the trapezoidal rule (needs three
 // earlier points) and h²/2·q″ for backward Euler (needs two). have is false
-// when there are too few points.
+// when there are too few points. The state with the largest ratio is left
+// in s.lteWorst.
 func (s *System) lteRatio(be bool, tNew float64, head, nHist int, t *tol) (r float64, have bool) {
 	n := len(s.hq)
 	i1 := head
@@ -286,7 +291,9 @@ func (s *System) lteRatio(be bool, tNew float64, head, nHist int, t *tol) (r flo
 			dd2 := (d21 - d10) / (tNew - t0)
 			lte := h * h * dd2
 			tl := trtol * (t.rel*math.Max(math.Abs(q1[k]), math.Abs(q2)) + t.charge)
-			r = math.Max(r, math.Abs(lte)/tl)
+			if e := math.Abs(lte) / tl; e > r {
+				r, s.lteWorst = e, k
+			}
 		}
 		return r, true
 	}
@@ -304,7 +311,9 @@ func (s *System) lteRatio(be bool, tNew float64, head, nHist int, t *tol) (r flo
 		dd3 := (dd31 - dd20) / (tNew - t0)
 		lte := h * h * h * dd3 / 2
 		tl := trtol * (t.rel*math.Max(math.Abs(q2[k]), math.Abs(q3)) + t.charge)
-		r = math.Max(r, math.Abs(lte)/tl)
+		if e := math.Abs(lte) / tl; e > r {
+			r, s.lteWorst = e, k
+		}
 	}
 	return r, true
 }
