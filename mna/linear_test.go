@@ -517,6 +517,13 @@ func TestCompileErrors(t *testing.T) {
 			t.Errorf("error %q does not name %s", err, w)
 		}
 	}
+	// An element without a node is an error, not a silent ground.
+	_, err = Compile(&netlist.Circuit{Elements: []*netlist.Element{
+		el(netlist.Resistor, "R2", "a", "", 1),
+	}})
+	if err == nil || !strings.Contains(err.Error(), "R2") {
+		t.Errorf("got %v, want an error naming R2", err)
+	}
 }
 
 // A transient that cannot keep its step above MinStep stops with a

@@ -117,7 +117,10 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		d := &s.devs[di]
 		lay := d.dev.Layout()
 		name := d.dev.Name()
-		for _, t := range lay.Terminals {
+		for k, t := range lay.Terminals {
+			if t == "" {
+				errs = append(errs, fmt.Errorf("mna: %s: terminal %d has no node", name, k+1))
+			}
 			idx := devices.Ground
 			if t != netlist.Ground && t != "" {
 				var ok bool
