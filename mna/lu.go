@@ -45,16 +45,25 @@ func newLU(n int, first, last []int) *lu {
 	return f
 }
 
+// smallLU is the size up to which the whole matrix is copied in one move:
+// cheaper than a copy and a clear per row for the tens of unknowns of a
+// protection network.
+const smallLU = 48
+
 // factor copies m into the factorisation storage and factors it. It returns
 // the first column whose pivot is exactly zero, or -1. m must be zero outside
 // the structure; only the structure is copied, after the extent the last
 // factorisation filled is cleared.
 func (f *lu) factor(m []float64) int {
 	n, a, hi, lo, lr := f.n, f.a, f.hi, f.lo, f.lr
-	for i := 0; i < n; i++ {
-		row := a[i*n : i*n+n]
-		clear(row[lo[i] : max(hi[i], i)+1])
-		copy(row[f.lo0[i]:f.hi0[i]+1], m[i*n+f.lo0[i]:i*n+f.hi0[i]+1])
+	if n <= smallLU {
+		copy(a, m)
+	} else {
+		for i := 0; i < n; i++ {
+			row := a[i*n : i*n+n]
+			clear(row[lo[i] : max(hi[i], i)+1])
+			copy(row[f.lo0[i]:f.hi0[i]+1], m[i*n+f.lo0[i]:i*n+f.hi0[i]+1])
+		}
 	}
 	copy(hi, f.hi0)
 	copy(lo, f.lo0)
