@@ -48,9 +48,14 @@ func tolerances(set *Settings) tol {
 func (s *System) assemble(g float64) {
 	clear(s.f)
 	// Devices stamp only within the structure (see structure), so only
-	// that part of the Jacobian needs clearing.
-	for i := 0; i < s.n; i++ {
-		clear(s.jac[i*s.n+s.lu.lo0[i] : i*s.n+s.lu.hi0[i]+1])
+	// that part of the Jacobian needs clearing; a small one is cleared in
+	// one move.
+	if s.n <= smallLU {
+		clear(s.jac)
+	} else {
+		for i := 0; i < s.n; i++ {
+			clear(s.jac[i*s.n+s.lu.lo0[i] : i*s.n+s.lu.hi0[i]+1])
+		}
 	}
 	clear(s.scale)
 	clear(s.noise)
