@@ -149,13 +149,13 @@ func (s *System) residualOK(t *tol) bool {
 			}
 			lim += t.abs + t.rel*big
 		}
-		r := math.Abs(s.f[i]) / lim
-		if !(r <= 1) {
+		if a := math.Abs(s.f[i]); !(a <= lim) {
+			// Only a failing row can be the one to name.
 			ok = false
-		}
-		if r > worst || r != r {
-			worst = r
-			s.resRow, s.resValue = i, s.f[i]
+			if r := a / lim; r > worst || r != r {
+				worst = r
+				s.resRow, s.resValue = i, s.f[i]
+			}
 		}
 	}
 	return ok
