@@ -1,6 +1,7 @@
 package whatif
 
 import (
+	"cmp"
 	"context"
 	"errors"
 	"fmt"
@@ -73,8 +74,23 @@ type Margin struct {
 	Solves int `json:"solves"`
 	// Error is why the search stopped: a solve failure at one level.
 	Error string `json:"error,omitempty"`
+	// Curve is every level the search solved with its worst margin, in
+	// rising level: what "margin against level" draws. It stays out of
+	// the JSON so that the document keeps the contract's shape; a merge
+	// of shards does not need it.
+	Curve []CurvePoint `json:"-"`
 
 	variant netlist.Variant
+}
+
+// CurvePoint is one solve of a search.
+type CurvePoint struct {
+	Level float64 // in the waveform's unit
+	// Percent is the worst margin, percent of its limit
+	// (study.Limit.Percent): not negative when the level passes, ±Inf for
+	// a limit of zero, NaN when the deck sets no limit.
+	Percent float64
+	Pass    bool
 }
 
 // VariantSettings is the variant of the search as settings.
@@ -323,8 +339,26 @@ func finishSearch(ctx context.Context, m *Margin, grid []int, scan []scanned, st
 		m.Error = fmt.Sprintf("%s %s: %v", netlist.FormatSI(level(k), m.LevelUnit), m.Polarity, err)
 	}
 	m.Solves = len(grid)
+	m.Curve = m.Curve[:0]
+	record := func(k int, o outcome) {
+		p := CurvePoint{Level: level(k), Percent: math.NaN(), Pass: o.pass}
+		if o.worst != nil {
+			p.Percent = o.worst.Percent
+		}
+		m.Curve = append(m.Curve, p)
+	}
+	// The bisection only ever solves levels strictly inside the bracket,
+	// none of them a scan level, so sorting once at the end is enough.
+	defer func() {
+		slices.SortFunc(m.Curve, func(a, b CurvePoint) int { return cmp.Compare(a.Level, b.Level) })
+	}()
 	results := make([]outcome, len(grid))
 	first := -1
+	for i, sc := range scan {
+		if sc.err == nil {
+			record(grid[i], sc.o)
+		}
+	}
 	for i, sc := range scan {
 		if sc.err != nil {
 			fail(grid[i], sc.err)
@@ -371,6 +405,7 @@ func finishSearch(ctx context.Context, m *Margin, grid []int, scan []scanned, st
 			fail(mid, err)
 			return true
 		}
+		record(mid, o)
 		if o.pass {
 			lo = mid
 		} else {

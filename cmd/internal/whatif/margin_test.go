@@ -23,7 +23,7 @@ func parse(t testing.TB, path string) *netlist.Circuit {
 // itself [calc]: the highest passing level is the last level before the
 // first failure, whatever path the bisection took.
 func TestMarginAgainstBruteForce(t *testing.T) {
-	c := parse(t, "../../../testdata/demo.zap")
+	c := parse(t, "../../../testdata/demo-weak.zap")
 	const top, step = 8000.0, 200.0
 	var levels []float64
 	for k := 1; float64(k)*step <= top; k++ {
@@ -68,6 +68,24 @@ func TestMarginAgainstBruteForce(t *testing.T) {
 		}
 		if !monotonic || !m.Monotonic {
 			t.Errorf("%s: monotonic: search %v, brute force %v", m.Polarity, m.Monotonic, monotonic)
+		}
+		// The curve is the search's own solves: one point per solve, in
+		// rising level, each the worst margin the study finds at that level
+		// on its own [calc].
+		if len(m.Curve) != m.Solves {
+			t.Errorf("%s: %d curve points for %d solves", m.Polarity, len(m.Curve), m.Solves)
+		}
+		for k, p := range m.Curve {
+			if k > 0 && !(p.Level > m.Curve[k-1].Level) {
+				t.Errorf("%s: curve levels not rising at %d: %g after %g", m.Polarity, k, p.Level, m.Curve[k-1].Level)
+			}
+			for _, r := range runs {
+				if r.Polarity == m.Polarity && r.Level == p.Level {
+					if math.Abs(r.Worst.Percent-p.Percent) > 1e-9 || p.Pass != (r.Verdict == study.Pass) {
+						t.Errorf("%s %g V: curve %.6g %% pass %v, study %.6g %% %s", m.Polarity, p.Level, p.Percent, p.Pass, r.Worst.Percent, r.Verdict)
+					}
+				}
+			}
 		}
 		// A bisection needs far fewer solves than the scan of 40 levels.
 		if m.Solves >= len(levels) {
@@ -120,8 +138,48 @@ func TestSearchFindsNonMonotonic(t *testing.T) {
 	}
 }
 
+// TestSearchCurve drives the search with a made-up margin falling linearly
+// from 100 % at no level to 0 at 4.25 kV [calc]: the curve holds every
+// solve once, in rising level, with the margin of that level, and brackets
+// the answer: not negative at the highest pass, negative at the first
+// failure.
+func TestSearchCurve(t *testing.T) {
+	percent := func(level float64) float64 { return 100 * (4250 - level) / 4250 }
+	m := Margin{LevelUnit: "V", Polarity: "pos"}
+	search(context.Background(), &m, 100, 16, 100, func(level float64) (outcome, error) {
+		p := percent(level)
+		return outcome{pass: p >= 0, worst: &study.Limit{Element: "U1", Param: "vmax", Percent: p}}, nil
+	})
+	if ptr(m.MaxPass) != 4200 || ptr(m.FirstFail) != 4300 {
+		t.Fatalf("pass %v fail %v, want 4200 and 4300", ptr(m.MaxPass), ptr(m.FirstFail))
+	}
+	if len(m.Curve) != m.Solves || m.Solves <= 16 {
+		t.Errorf("%d curve points for %d solves; want one per solve, the scan of 16 and a bisection", len(m.Curve), m.Solves)
+	}
+	seen := map[float64]bool{}
+	for k, p := range m.Curve {
+		if k > 0 && !(p.Level > m.Curve[k-1].Level) {
+			t.Errorf("levels not rising at %d: %g after %g", k, p.Level, m.Curve[k-1].Level)
+		}
+		if p.Percent != percent(p.Level) || p.Pass != (p.Percent >= 0) {
+			t.Errorf("%g V: %g %% pass %v, want %g %%", p.Level, p.Percent, p.Pass, percent(p.Level))
+		}
+		seen[p.Level] = true
+	}
+	if !seen[4200] || !seen[4300] {
+		t.Errorf("the curve lacks the highest pass or the first failure: %v", m.Curve)
+	}
+
+	// A deck without limits has no margin to draw: NaN, not zero.
+	m = Margin{LevelUnit: "V"}
+	search(context.Background(), &m, 10, 4, 100, func(float64) (outcome, error) { return outcome{pass: true}, nil })
+	if len(m.Curve) != 4 || !math.IsNaN(m.Curve[0].Percent) {
+		t.Errorf("no limits: curve %v, want 4 points of NaN", m.Curve)
+	}
+}
+
 func TestMarginInterrupted(t *testing.T) {
-	c := parse(t, "../../../testdata/demo.zap")
+	c := parse(t, "../../../testdata/demo-weak.zap")
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
 	res, err := Margins(ctx, c, nil)
