@@ -296,7 +296,7 @@ func TestReadmeExample(t *testing.T) {
 }
 
 func BenchmarkParseDemo(b *testing.B) {
-	path := filepath.Join("..", "testdata", "demo.zap")
+	path := filepath.Join("..", "testdata", "demo-weak.zap")
 	b.ReportAllocs()
 	for b.Loop() {
 		if _, err := ParseFile(path); err != nil {

@@ -199,7 +199,7 @@ const pageFactsJS = `(() => {
 
 // The demo's report loads in Chromium without a console error or a single
 // request beyond the file itself, shows the caution, the summary of its 8
-// runs (testdata/demo.zap: 4 levels × 2 polarities) and 5 figures per run
+// runs (testdata/demo-weak.zap: 4 levels × 2 polarities) and 5 figures per run
 // plus 2 overlays, each drawn with a real size; the screenshot is not blank.
 func TestReportInBrowser(t *testing.T) {
 	ctx, bl := browse(t)
@@ -220,7 +220,7 @@ func TestReportInBrowser(t *testing.T) {
 	}
 	*bl = browserLog{}
 
-	c, err := netlist.ParseFile("../../testdata/demo.zap")
+	c, err := netlist.ParseFile("../../testdata/demo-weak.zap")
 	if err != nil {
 		t.Fatal(err)
 	}

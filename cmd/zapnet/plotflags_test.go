@@ -16,13 +16,13 @@ import (
 )
 
 // `zapnet run --plot DIR --html FILE` writes every run's five figures and
-// the two overlays of the demo (testdata/demo.zap: 8 runs, clamp D1, pin U1),
+// the two overlays of the demo (testdata/demo-weak.zap: 8 runs, clamp D1, pin U1),
 // named after the deck and the run, and one HTML file that embeds them.
 func TestRunPictures(t *testing.T) {
 	dir := t.TempDir()
 	figs := filepath.Join(dir, "figs")
 	page := filepath.Join(dir, "report.html")
-	err := runRun([]string{"../../testdata/demo.zap", "--level", "2k,8k", "--polarity", "pos",
+	err := runRun([]string{"../../testdata/demo-weak.zap", "--level", "2k,8k", "--polarity", "pos",
 		"--plot", figs, "--html", page}, io.Discard, io.Discard)
 	if err != nil && !errors.Is(err, errVerdictFail) {
 		t.Fatal(err)
@@ -38,10 +38,10 @@ func TestRunPictures(t *testing.T) {
 	var want []string
 	for _, run := range []string{"2kV_pos", "8kV_pos"} {
 		for _, f := range []string{"clamps", "ledger", "nodes", "residual-U1", "strike"} {
-			want = append(want, "demo_"+run+"_"+f+".svg")
+			want = append(want, "demo-weak_"+run+"_"+f+".svg")
 		}
 	}
-	want = append(want, "demo_overlay-clamp-D1.svg", "demo_overlay-residual-U1.svg")
+	want = append(want, "demo-weak_overlay-clamp-D1.svg", "demo-weak_overlay-residual-U1.svg")
 	slices.Sort(want)
 	if !slices.Equal(names, want) {
 		t.Errorf("files %q, want %q", names, want)
@@ -60,7 +60,7 @@ func TestRunPictures(t *testing.T) {
 
 // The margin figure goes into the --plot folder and into a report of its own.
 func TestMarginPictures(t *testing.T) {
-	c, err := netlist.ParseFile("../../testdata/demo.zap")
+	c, err := netlist.ParseFile("../../testdata/demo-weak.zap")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -71,11 +71,11 @@ func TestMarginPictures(t *testing.T) {
 	}
 	dir := t.TempDir()
 	o := pictureOptions{plotDir: filepath.Join(dir, "figs"), htmlFile: filepath.Join(dir, "m.html")}
-	meta := report.Meta{Tool: "zapnet", Version: Version, Deck: "testdata/demo.zap", Title: c.Title}
+	meta := report.Meta{Tool: "zapnet", Version: Version, Deck: "testdata/demo-weak.zap", Title: c.Title}
 	if err := writeMarginPictures(o, c, meta, fig); err != nil {
 		t.Fatal(err)
 	}
-	if _, err := os.Stat(filepath.Join(dir, "figs", "demo_margin.svg")); err != nil {
+	if _, err := os.Stat(filepath.Join(dir, "figs", "demo-weak_margin.svg")); err != nil {
 		t.Error(err)
 	}
 	b, err := os.ReadFile(o.htmlFile)

@@ -13,7 +13,7 @@ import (
 )
 
 const (
-	demoDeck   = "../../testdata/demo.zap"
+	demoDeck   = "../../testdata/demo-weak.zap"
 	noClamp    = "../../testdata/fail/no-clamp.zap"
 	brokenDeck = "../../testdata/bad/run-unknown-key.zap"
 )
@@ -204,7 +204,7 @@ func TestRunCSV(t *testing.T) {
 		t.Fatalf("exit %d; stderr:\n%s", code, errs)
 	}
 	for _, pol := range []string{"pos", "neg"} {
-		f, err := os.Open(filepath.Join(dir, "demo_2kV_"+pol+".csv"))
+		f, err := os.Open(filepath.Join(dir, "demo-weak_2kV_"+pol+".csv"))
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -316,4 +316,17 @@ func round4(v any) any {
 		}
 	}
 	return v
+}
+
+// The README's first command runs testdata/demo.zap: it must complete and
+// pass at every level and polarity, so that a new user sees exit status 0
+// and a report whose worst margins say how much room the design has.
+func TestREADMEDemoPasses(t *testing.T) {
+	var out, errs bytes.Buffer
+	if code := Main([]string{"run", "../../testdata/demo.zap"}, &out, &errs); code != exitPass {
+		t.Fatalf("exit %d, want 0; stderr:\n%s\n%s", code, errs.String(), out.String())
+	}
+	if !strings.Contains(out.String(), "8 runs: 8 PASS, 0 FAIL") {
+		t.Errorf("summary line missing or not all PASS:\n%s", out.String())
+	}
 }

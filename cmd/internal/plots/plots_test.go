@@ -17,7 +17,7 @@ import (
 
 // demo solves the demo deck once for every test, with its waveforms.
 var demo = sync.OnceValues(func() (*netlist.Circuit, []study.Run) {
-	c, err := netlist.ParseFile("../../../testdata/demo.zap")
+	c, err := netlist.ParseFile("../../../testdata/demo-weak.zap")
 	if err != nil {
 		panic(err)
 	}
@@ -65,7 +65,7 @@ func svgText(t *testing.T, name string, svg []byte) (texts []string, elems map[s
 	return texts, elems
 }
 
-// The series of each figure are the deck's own names (testdata/demo.zap:
+// The series of each figure are the deck's own names (testdata/demo-weak.zap:
 // strike zap into tip, watch n1 and n2, clamp D1 with ipp=20A, pin U1 with
 // vmax=5.5V and vmin=-1.5V), and every series is written in the legend.
 func TestRunFiguresSeries(t *testing.T) {

@@ -209,11 +209,11 @@ func asFigures(fs []plots.Figure) []Figure {
 	return out
 }
 
-// The demo's report has the summary of its eight runs (testdata/demo.zap:
+// The demo's report has the summary of its eight runs (testdata/demo-weak.zap:
 // levels 2k,4k,6k,8k, polarity both), each run's tables and five figures,
 // the overlays and the deck's listing; the golden file keeps its structure.
 func TestHTMLDemoStructure(t *testing.T) {
-	c, err := netlist.ParseFile("../../../testdata/demo.zap")
+	c, err := netlist.ParseFile("../../../testdata/demo-weak.zap")
 	if err != nil {
 		t.Fatal(err)
 	}

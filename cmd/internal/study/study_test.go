@@ -15,7 +15,7 @@ import (
 )
 
 // demoPath is the deck of README's first command.
-var demoPath = filepath.Join("..", "..", "..", "testdata", "demo.zap")
+var demoPath = filepath.Join("..", "..", "..", "testdata", "demo-weak.zap")
 
 func parse(t *testing.T, src string) *netlist.Circuit {
 	t.Helper()

@@ -79,7 +79,7 @@ func TestRdynRaisesResidual(t *testing.T) {
 }
 
 func TestSensitivityDefaultList(t *testing.T) {
-	c := parse(t, "../../../testdata/demo.zap")
+	c := parse(t, "../../../testdata/demo-weak.zap")
 	ps, skipped, err := paramList(c, nil)
 	if err != nil {
 		t.Fatal(err)

@@ -122,7 +122,7 @@ func num(t *testing.T, s string) float64 {
 }
 
 func TestSpreadNeedsTolerances(t *testing.T) {
-	c := parse(t, "../../../testdata/demo.zap")
+	c := parse(t, "../../../testdata/demo-weak.zap")
 	if _, err := Spreads(context.Background(), c, nil); err == nil {
 		t.Error("a deck without tolerance lines must be an error")
 	}
