@@ -68,7 +68,10 @@ type Result struct {
 	Energy []float64
 	// PeakCurrent is the largest |I| of each element, A.
 	PeakCurrent []float64
-	// Balance is the sum of Energy: the integration error of the ledger, J.
+	// Balance is the sum of Energy, J. Every entry is integrated from the same
+	// terminal currents, so it measures what the solution leaves unbalanced
+	// (the KCL residual Newton accepted, and the current into Gmin), not the
+	// integration error of the charges.
 	Balance float64
 	// Stop is the span actually simulated, s.
 	Stop  float64

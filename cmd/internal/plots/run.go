@@ -155,7 +155,7 @@ func residualFigure(o *Options, c *netlist.Circuit, runs []study.Run, label func
 }
 
 // ledgerFigure draws where the strike's energy went, one bar per element,
-// the strike's delivered energy first and the integration error last.
+// the strike's delivered energy first and the balance (solver residual) last.
 func ledgerFigure(o *Options, r *study.Run) (Figure, error) {
 	names := []string{"strike (delivered)"}
 	vals := plotter.Values{r.Ledger.Strike}

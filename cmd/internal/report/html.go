@@ -270,7 +270,7 @@ func htmlRunTables(id string, r *study.Run) []htmlTable {
 	if r.Ledger.Strike != 0 {
 		bal = percent(100 * r.Ledger.Balance / r.Ledger.Strike)
 	}
-	ledger = append(ledger, []string{"balance (integration error)", si(r.Ledger.Balance, "J"), bal})
+	ledger = append(ledger, []string{"balance (solver residual)", si(r.Ledger.Balance, "J"), bal})
 	add("ledger", "Energy ledger", []string{"where", "energy", "share"}, ledger)
 
 	var limits [][]string

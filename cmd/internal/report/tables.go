@@ -204,7 +204,7 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 	if r.Ledger.Strike != 0 {
 		bal = percent(100 * r.Ledger.Balance / r.Ledger.Strike)
 	}
-	ledger = append(ledger, []string{"balance (integration error)", si(r.Ledger.Balance, "J"), bal})
+	ledger = append(ledger, []string{"balance (solver residual)", si(r.Ledger.Balance, "J"), bal})
 	section(w, "Energy ledger", []string{"where", "energy", "share"}, ledger)
 
 	// Every limit with its margin.

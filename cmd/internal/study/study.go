@@ -150,7 +150,8 @@ type Ledger struct {
 	// Entries are every other element's energy, deck order.
 	Entries []LedgerEntry
 	// Balance is the sum of every entry, strike included with its engine
-	// sign: the integration error, J.
+	// sign: what the solution leaves unbalanced (the accepted KCL residual
+	// and the current into the engine's tiny Gmin), J; ideally zero.
 	Balance float64
 }
 
