@@ -6,9 +6,11 @@ import (
 	"fmt"
 	"io"
 	"maps"
+	"math"
 	"slices"
 	"strings"
 
+	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/report"
 	"zapnet/cmd/internal/whatif"
 	"zapnet/netlist"
@@ -23,19 +25,24 @@ type marginOptions struct {
 	json       string   // file, "-" for stdout, "" for none
 	workers    int
 	sweep      sweepSpec
+	pictures   pictureOptions // --plot and --html: the margin against level
 }
 
 func runMargin(args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("margin",
-		"margin DECK [--max LEVEL] [--resolution LEVEL] [--polarity pos|neg|both] [--set E.P=v1,v2] [--shard i/n] [--json FILE] [--workers N]",
+		"margin DECK [--max LEVEL] [--resolution LEVEL] [--polarity pos|neg|both] [--set E.P=v1,v2] [--shard i/n] [--json FILE] [--plot DIR] [--html FILE] [--workers N]",
 		`  zapnet margin testdata/demo.zap
   zapnet margin testdata/demo.zap --max 30k --set C1.value=10n,100n,1u
+  zapnet margin testdata/demo.zap --plot figs --html margin.html
 
 For every variant and polarity, finds the highest level that still passes:
 first a scan of 16 levels up to --max, then bisection to --resolution
 (0.1 kV for discharges). The scan also checks that the verdict changes only
 once as the level rises; where it passes again above a failure the table
 says "monotonic NO" and names the levels.
+--plot and --html draw the worst margin at every level solved, one line
+per variant and polarity: above 0 % the level passes, below it fails, and
+the table's highest pass sits where a line crosses 0 %.
 Exit status: 0 when every search completed (failures are what it looks
 for), 2 for unusable input or a failed solve.`,
 		stderr)
@@ -45,6 +52,11 @@ for), 2 for unusable input or a failed solve.`,
 	jsonPath := fs.String("json", "", "write the margins as JSON to `FILE` (- for stdout, the table then goes to stderr)")
 	workers := fs.Int("workers", 0, "searches run at once (default: every core)")
 	sweep := addSweepFlags(fs)
+	pictures := addPictureFlags(fs)
+	// The shared help of --plot and --html speaks of runs; a margin search
+	// draws one figure.
+	fs.Lookup("plot").Usage = "write the figure of the worst margin against level to `DIR`/DECK_margin.svg (folder created when missing)"
+	fs.Lookup("html").Usage = "write a self-contained HTML report to `FILE`: caution, the margin figure and the deck (opens offline)"
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
@@ -52,7 +64,7 @@ for), 2 for unusable input or a failed solve.`,
 		fs.Usage()
 		return fmt.Errorf("margin: want one deck, got %d arguments", fs.NArg())
 	}
-	opt := marginOptions{deck: fs.Arg(0), json: *jsonPath, workers: *workers}
+	opt := marginOptions{deck: fs.Arg(0), json: *jsonPath, workers: *workers, pictures: pictures.options()}
 	var errs []error
 	for _, f := range []struct {
 		name string
@@ -114,7 +126,45 @@ func marginStudy(ctx context.Context, opt marginOptions, stdout, stderr io.Write
 	if err != nil {
 		return fmt.Errorf("%s: %w", opt.deck, err)
 	}
-	return writeMargins(res, report.Meta{Tool: "zapnet", Version: Version, Deck: opt.deck, Title: c.Title}, opt.json, stdout, stderr)
+	meta := report.Meta{Tool: "zapnet", Version: Version, Deck: opt.deck, Title: c.Title}
+	err = writeMargins(res, meta, opt.json, stdout, stderr)
+	if opt.pictures.wanted() {
+		if perr := drawMargins(opt.pictures, c, meta, res); perr != nil {
+			err = errors.Join(err, perr)
+		}
+	}
+	return err
+}
+
+// drawMargins draws the worst margin against level of every search, one
+// series per variant and polarity, from the levels the search solved.
+// Points without a finite margin (no limit in the deck, or a limit of
+// zero) cannot be placed and are left out.
+func drawMargins(o pictureOptions, c *netlist.Circuit, meta report.Meta, res *whatif.MarginResult) error {
+	var series []plots.MarginSeries
+	for _, m := range res.Margins {
+		s := plots.MarginSeries{Name: m.Polarity}
+		if len(m.Variant) > 0 {
+			s.Name = variantLabel(m.Variant) + " " + m.Polarity
+		}
+		for _, p := range m.Curve {
+			if !math.IsInf(p.Percent, 0) && !math.IsNaN(p.Percent) {
+				s.Levels = append(s.Levels, p.Level)
+				s.Margins = append(s.Margins, p.Percent)
+			}
+		}
+		if len(s.Levels) > 0 {
+			series = append(series, s)
+		}
+	}
+	if len(series) == 0 {
+		return errors.New("--plot/--html: no level with a finite margin to draw (does the deck set any limit?)")
+	}
+	fig, err := plots.MarginCurve(c.Title, res.LevelUnit, series, nil)
+	if err != nil {
+		return err
+	}
+	return writeMarginPictures(o, c, meta, fig)
 }
 
 // writeMargins prints the table and writes the JSON of a margin search
