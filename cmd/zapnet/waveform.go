@@ -6,13 +6,12 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 
 	"github.com/olekukonko/tablewriter"
 
+	"zapnet/cmd/internal/report"
 	"zapnet/waveforms"
 )
 
@@ -217,43 +216,25 @@ func loadText(s *waveforms.Stimulus, load float64) string {
 // writeWaveformCSV writes the sampled waveform (OUTPUT.md): `time,i(NAME)`
 // and, for Thevenin and network sources, `v(NAME)`, the voltage across the
 // load; one row per sample, SI units, %.9g. The file is written whole or
-// not at all: a temporary file in the same folder is renamed over path only
-// when complete.
-func writeWaveformCSV(path string, s *waveforms.Stimulus, load float64) (err error) {
+// not at all (report.WriteFile).
+func writeWaveformCSV(path string, s *waveforms.Stimulus, load float64) error {
 	t, i, v := waveforms.Sample(s, load, 0)
-	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*.tmp")
-	if err != nil {
-		return err
-	}
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(f.Name())
-		}
-	}()
-	bw := bufio.NewWriter(f)
-	if v == nil {
-		fmt.Fprintf(bw, "time,i(%s)\n", s.Name)
-	} else {
-		fmt.Fprintf(bw, "time,i(%s),v(%s)\n", s.Name, s.Name)
-	}
-	for k := range t {
+	return report.WriteFile(path, func(w io.Writer) error {
+		// The buffered writer's error sticks: WriteFile's flush reports it.
 		if v == nil {
-			fmt.Fprintf(bw, "%.9g,%.9g\n", t[k], i[k])
+			fmt.Fprintf(w, "time,i(%s)\n", s.Name)
 		} else {
-			fmt.Fprintf(bw, "%.9g,%.9g,%.9g\n", t[k], i[k], v[k])
+			fmt.Fprintf(w, "time,i(%s),v(%s)\n", s.Name, s.Name)
 		}
-	}
-	if err = bw.Flush(); err != nil {
-		return err
-	}
-	if err = f.Chmod(0o644); err != nil {
-		return err
-	}
-	if err = f.Close(); err != nil {
-		return err
-	}
-	return os.Rename(f.Name(), path)
+		for k := range t {
+			if v == nil {
+				fmt.Fprintf(w, "%.9g,%.9g\n", t[k], i[k])
+			} else {
+				fmt.Fprintf(w, "%.9g,%.9g,%.9g\n", t[k], i[k], v[k])
+			}
+		}
+		return nil
+	})
 }
 
 // siPrefixes are the multipliers parseSI accepts (no "MEG": M is mega).
