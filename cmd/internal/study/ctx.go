@@ -20,6 +20,30 @@ import (
 // the sweep was stopped before its end. A stopped sweep is thus still usable:
 // the caller reports the runs it got and says that the rest is missing.
 func ExecuteJobsContext(ctx context.Context, c *netlist.Circuit, jobs []Job, opt *Options, done func(finished int)) ([]Run, error) {
+	runs, ok := solvePool(ctx, c, jobs, opt, done)
+	var out []Run
+	var errs []error
+	for k := range runs {
+		if !ok[k] {
+			continue
+		}
+		out = append(out, runs[k])
+		if runs[k].Err != nil {
+			errs = append(errs, fmt.Errorf("%s: %w", runs[k].Label(), runs[k].Err))
+		}
+	}
+	if len(out) < len(jobs) {
+		errs = append(errs, ctx.Err())
+	}
+	return out, errors.Join(errs...)
+}
+
+// solvePool solves jobs across a pool of workers, each compiling a variant
+// once and reusing its Bench while the jobs it draws stay in that variant
+// (plan order makes that the rule). Once ctx is done no worker starts
+// another job; ok[k] says whether jobs[k] ran. done, when not nil, is
+// called after each finished run, never two calls at once.
+func solvePool(ctx context.Context, c *netlist.Circuit, jobs []Job, opt *Options, done func(finished int)) (runs []Run, ok []bool) {
 	if opt == nil {
 		opt = &Options{}
 	}
@@ -27,9 +51,9 @@ func ExecuteJobsContext(ctx context.Context, c *netlist.Circuit, jobs []Job, opt
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	workers = max(1, min(workers, len(jobs)))
-	runs := make([]Run, len(jobs))
-	ok := make([]bool, len(jobs))
+	workers = min(workers, len(jobs))
+	runs = make([]Run, len(jobs))
+	ok = make([]bool, len(jobs))
 	next := make(chan int)
 	var mu sync.Mutex
 	finished := 0
@@ -38,30 +62,34 @@ func ExecuteJobsContext(ctx context.Context, c *netlist.Circuit, jobs []Job, opt
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			// One compiled variant per worker, reused while the jobs it
-			// draws stay in that variant (plan order makes that the rule).
 			var bench *Bench
 			benchVariant := -1
 			for k := range next {
 				j := jobs[k]
-				if bench == nil || benchVariant != j.VariantIndex {
-					b, err := NewBench(c, j.Variant)
-					if err != nil {
-						runs[k] = failedRun(c, j, err)
-						bench, benchVariant = nil, -1
-					} else {
+				runs[k] = func() (run Run) {
+					// A panic is a bug, but the user should get a
+					// sentence and the other runs, not a stack trace.
+					defer func() {
+						if p := recover(); p != nil {
+							bench, benchVariant = nil, -1
+							run = failedRun(c, j, fmt.Errorf("internal error (please report it with the deck): %v", p))
+						}
+					}()
+					if bench == nil || benchVariant != j.VariantIndex {
+						b, err := NewBench(c, j.Variant)
+						if err != nil {
+							bench, benchVariant = nil, -1
+							return failedRun(c, j, err)
+						}
 						bench, benchVariant = b, j.VariantIndex
 					}
-				}
-				if bench != nil {
 					r, err := bench.Solve(j.Level, j.Polarity, opt)
 					if err != nil {
-						runs[k] = failedRun(c, j, err)
-					} else {
-						r.Job = j
-						runs[k] = *r
+						return failedRun(c, j, err)
 					}
-				}
+					r.Job = j
+					return *r
+				}()
 				mu.Lock()
 				ok[k] = true
 				finished++
@@ -82,19 +110,5 @@ feed:
 	}
 	close(next)
 	wg.Wait()
-	var out []Run
-	var errs []error
-	for k := range runs {
-		if !ok[k] {
-			continue
-		}
-		out = append(out, runs[k])
-		if runs[k].Err != nil {
-			errs = append(errs, fmt.Errorf("%s: %w", runs[k].Label(), runs[k].Err))
-		}
-	}
-	if len(out) < len(jobs) {
-		errs = append(errs, ctx.Err())
-	}
-	return out, errors.Join(errs...)
+	return runs, ok
 }

@@ -1,11 +1,10 @@
 package study
 
 import (
+	"context"
 	"errors"
 	"fmt"
-	"runtime"
 	"strings"
-	"sync"
 
 	"zapnet/netlist"
 )
@@ -75,57 +74,8 @@ func Execute(c *netlist.Circuit, opt *Options) ([]Run, error) {
 // worker compiles a variant once and reuses its Bench for the following jobs
 // of the same variant.
 func ExecuteJobs(c *netlist.Circuit, jobs []Job, opt *Options) ([]Run, error) {
-	if opt == nil {
-		opt = &Options{}
-	}
-	workers := opt.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	workers = min(workers, len(jobs))
-	runs := make([]Run, len(jobs))
-	next := make(chan int)
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			var bench *Bench
-			benchVariant := -1
-			for k := range next {
-				j := jobs[k]
-				runs[k] = func() (run Run) {
-					// A panic is a bug, but the user should get a
-					// sentence and the other runs, not a stack trace.
-					defer func() {
-						if p := recover(); p != nil {
-							bench, benchVariant = nil, -1
-							run = failedRun(c, j, fmt.Errorf("internal error (please report it with the deck): %v", p))
-						}
-					}()
-					if bench == nil || benchVariant != j.VariantIndex {
-						b, err := NewBench(c, j.Variant)
-						if err != nil {
-							bench, benchVariant = nil, -1
-							return failedRun(c, j, err)
-						}
-						bench, benchVariant = b, j.VariantIndex
-					}
-					r, err := bench.Solve(j.Level, j.Polarity, opt)
-					if err != nil {
-						return failedRun(c, j, err)
-					}
-					r.Job = j
-					return *r
-				}()
-			}
-		}()
-	}
-	for k := range jobs {
-		next <- k
-	}
-	close(next)
-	wg.Wait()
+	// Nothing cancels the background context: every job runs.
+	runs, _ := solvePool(context.Background(), c, jobs, opt, nil)
 	// One failure told once: runs that fail the same way (every level at
 	// the operating point, say) share one message naming them all.
 	var order []string
