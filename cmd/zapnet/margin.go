@@ -60,11 +60,11 @@ for), 2 for unusable input or a failed solve.`,
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
-	if fs.NArg() != 1 {
-		fs.Usage()
-		return fmt.Errorf("margin: want one deck, got %d arguments", fs.NArg())
+	deck, err := oneDeck(fs, "margin")
+	if err != nil {
+		return err
 	}
-	opt := marginOptions{deck: fs.Arg(0), json: *jsonPath, workers: *workers, pictures: pictures.options()}
+	opt := marginOptions{deck: deck, json: *jsonPath, workers: *workers, pictures: pictures.options()}
 	var errs []error
 	for _, f := range []struct {
 		name string
@@ -84,18 +84,11 @@ for), 2 for unusable input or a failed solve.`,
 		}
 		*f.dst = ls[0]
 	}
-	var err error
 	if opt.polarities, err = parsePolarity(*polarity); err != nil {
 		errs = append(errs, err)
 	}
-	if opt.sweep, err = sweep.spec(); err != nil {
-		errs = append(errs, err)
-	}
-	if *workers < 0 {
-		errs = append(errs, fmt.Errorf("--workers %d: use a positive number, or 0 for every core", *workers))
-	}
-	if len(errs) > 0 {
-		return fmt.Errorf("margin: %w", errors.Join(errs...))
+	if opt.sweep, err = sweep.finish("margin", *workers, errs); err != nil {
+		return err
 	}
 	ctx, stop := interruptible(stderr)
 	defer stop()
@@ -104,12 +97,9 @@ for), 2 for unusable input or a failed solve.`,
 
 // marginStudy runs the search and writes its table and JSON.
 func marginStudy(ctx context.Context, opt marginOptions, stdout, stderr io.Writer) error {
-	c, err := netlist.ParseFile(opt.deck)
+	c, err := loadDeck(opt.deck, stderr)
 	if err != nil {
 		return err
-	}
-	for _, w := range c.Warnings {
-		fmt.Fprintln(stderr, w)
 	}
 	mopt := &whatif.MarginOptions{Max: opt.max, Resolution: opt.resolution, Shard: opt.sweep.shard}
 	mopt.Study.Polarities = opt.polarities
@@ -119,12 +109,12 @@ func marginStudy(ctx context.Context, opt marginOptions, stdout, stderr io.Write
 			return err
 		}
 	}
-	progress, clear := newProgress(stderr, "margin")
-	mopt.Progress = progress
-	res, err := whatif.Margins(ctx, c, mopt)
-	clear()
+	res, err := withProgress(stderr, "margin", opt.deck, func(p whatif.Progress) (*whatif.MarginResult, error) {
+		mopt.Progress = p
+		return whatif.Margins(ctx, c, mopt)
+	})
 	if err != nil {
-		return fmt.Errorf("%s: %w", opt.deck, err)
+		return err
 	}
 	meta := report.Meta{Tool: "zapnet", Version: Version, Deck: opt.deck, Title: c.Title}
 	err = writeMargins(res, meta, opt.json, stdout, stderr)
@@ -171,18 +161,11 @@ func drawMargins(o pictureOptions, c *netlist.Circuit, meta report.Meta, res *wh
 // (also of merged shards), and turns unsolved searches and an interruption
 // into the error the exit status comes from.
 func writeMargins(res *whatif.MarginResult, meta report.Meta, jsonPath string, stdout, stderr io.Writer) error {
-	tables := stdout
-	if jsonPath == "-" {
-		tables = stderr
-	}
-	var errs []error
-	if err := report.MarginTable(tables, res, meta.Title, meta.Deck); err != nil {
+	errs, err := tableThenJSON(jsonPath, stdout, stderr,
+		func(w io.Writer) error { return report.MarginTable(w, res, meta.Title, meta.Deck) },
+		report.MarginDocument{Meta: meta, MarginResult: res})
+	if err != nil {
 		return err
-	}
-	if jsonPath != "" {
-		if err := writeOutput(jsonPath, stdout, report.MarginDocument{Meta: meta, MarginResult: res}); err != nil {
-			errs = append(errs, fmt.Errorf("--json: %w", err))
-		}
 	}
 	for _, m := range res.Margins {
 		if m.Error != "" {
@@ -190,11 +173,7 @@ func writeMargins(res *whatif.MarginResult, meta report.Meta, jsonPath string, s
 		}
 	}
 	if res.Interrupted {
-		n := res.Total
-		if res.Shard != nil {
-			n = len(res.Shard.Items())
-		}
-		errs = append(errs, errInterrupted{len(res.Margins), n})
+		errs = append(errs, sweepInterrupted(len(res.Margins), res.Total, res.Shard))
 	}
 	return errors.Join(errs...)
 }

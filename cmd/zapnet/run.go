@@ -11,7 +11,6 @@ import (
 
 	"zapnet/cmd/internal/report"
 	"zapnet/cmd/internal/study"
-	"zapnet/netlist"
 )
 
 // runOptions are the settings of `zapnet run`; runStudy takes them so that
@@ -54,34 +53,25 @@ failed solve.`,
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
-	if fs.NArg() != 1 {
-		fs.Usage()
-		return fmt.Errorf("run: want one deck, got %d arguments", fs.NArg())
+	deck, err := oneDeck(fs, "run")
+	if err != nil {
+		return err
 	}
-	opt := runOptions{deck: fs.Arg(0), json: *jsonPath, csv: *csvPath, workers: *workers,
+	opt := runOptions{deck: deck, json: *jsonPath, csv: *csvPath, workers: *workers,
 		pictures: pictures.options()}
-	var err error
+	// run stops at its first flag mistake, where the what-if commands
+	// collect them all (sweepFlags.finish).
 	if opt.sweep, err = sweep.spec(); err != nil {
 		return fmt.Errorf("run: %w", err)
 	}
-	if *level != "" {
-		ls, err := levelList(*level)
-		if err != nil {
-			return fmt.Errorf("run: --level: %w", err)
-		}
-		opt.levels = ls
+	if opt.levels, err = parseLevelFlag(*level); err != nil {
+		return fmt.Errorf("run: %w", err)
 	}
-	switch *polarity {
-	case "":
-	case "pos", "neg":
-		opt.polarities = []string{*polarity}
-	case "both":
-		opt.polarities = []string{"pos", "neg"}
-	default:
-		return fmt.Errorf("run: --polarity %q: use pos, neg or both", *polarity)
+	if opt.polarities, err = parsePolarity(*polarity); err != nil {
+		return fmt.Errorf("run: %w", err)
 	}
-	if *workers < 0 {
-		return fmt.Errorf("run: --workers %d: use a positive number, or 0 for every core", *workers)
+	if err := checkWorkers(*workers); err != nil {
+		return fmt.Errorf("run: %w", err)
 	}
 	return runStudy(opt, stdout, stderr)
 }
@@ -90,12 +80,9 @@ failed solve.`,
 // the requested files. It returns errVerdictFail when a run failed its
 // verdict, and any other error for unusable input or a failed solve.
 func runStudy(opt runOptions, stdout, stderr io.Writer) error {
-	c, err := netlist.ParseFile(opt.deck)
+	c, err := loadDeck(opt.deck, stderr)
 	if err != nil {
 		return err
-	}
-	for _, w := range c.Warnings {
-		fmt.Fprintln(stderr, w)
 	}
 	sopt := &study.Options{Levels: opt.levels, Polarities: opt.polarities, Workers: opt.workers,
 		Record: opt.csv != "" || opt.pictures.wanted()}
@@ -110,10 +97,7 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 		}
 	}
 
-	tables := stdout
-	if opt.json == "-" {
-		tables = stderr
-	}
+	tables := tablesOut(opt.json, stdout, stderr)
 	if err := report.Tables(tables, runs, &report.TableOptions{Title: c.Title, Deck: opt.deck}); err != nil {
 		return err
 	}

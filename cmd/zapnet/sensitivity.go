@@ -10,7 +10,6 @@ import (
 
 	"zapnet/cmd/internal/report"
 	"zapnet/cmd/internal/whatif"
-	"zapnet/netlist"
 )
 
 // sensitivityOptions are the settings of `zapnet sensitivity`.
@@ -49,17 +48,14 @@ solve.`,
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
-	if fs.NArg() != 1 {
-		fs.Usage()
-		return fmt.Errorf("sensitivity: want one deck, got %d arguments", fs.NArg())
+	deck, err := oneDeck(fs, "sensitivity")
+	if err != nil {
+		return err
 	}
-	opt := sensitivityOptions{deck: fs.Arg(0), json: *jsonPath, workers: *workers}
+	opt := sensitivityOptions{deck: deck, json: *jsonPath, workers: *workers}
 	var errs []error
-	var err error
-	if *level != "" {
-		if opt.levels, err = levelList(*level); err != nil {
-			errs = append(errs, fmt.Errorf("--level: %w", err))
-		}
+	if opt.levels, err = parseLevelFlag(*level); err != nil {
+		errs = append(errs, err)
 	}
 	if opt.polarities, err = parsePolarity(*polarity); err != nil {
 		errs = append(errs, err)
@@ -72,14 +68,8 @@ solve.`,
 		errs = append(errs, fmt.Errorf("--step %q: give a percentage between 0 and 100", *step))
 	}
 	opt.step = p / 100
-	if opt.sweep, err = sweep.spec(); err != nil {
-		errs = append(errs, err)
-	}
-	if *workers < 0 {
-		errs = append(errs, fmt.Errorf("--workers %d: use a positive number, or 0 for every core", *workers))
-	}
-	if len(errs) > 0 {
-		return fmt.Errorf("sensitivity: %w", errors.Join(errs...))
+	if opt.sweep, err = sweep.finish("sensitivity", *workers, errs); err != nil {
+		return err
 	}
 	ctx, stop := interruptible(stderr)
 	defer stop()
@@ -88,25 +78,18 @@ solve.`,
 
 // sensitivityStudy runs the study and writes its table and JSON.
 func sensitivityStudy(ctx context.Context, opt sensitivityOptions, stdout, stderr io.Writer) error {
-	c, err := netlist.ParseFile(opt.deck)
-	if err != nil {
-		return err
-	}
-	for _, w := range c.Warnings {
-		fmt.Fprintln(stderr, w)
-	}
-	base, variant, err := whatif.Base(c, opt.sweep.sets)
+	c, base, variant, err := loadDesign(opt.deck, opt.sweep.sets, stderr)
 	if err != nil {
 		return err
 	}
 	sopt := &whatif.SensitivityOptions{Params: opt.params, Step: opt.step, Shard: opt.sweep.shard}
 	sopt.Study.Levels, sopt.Study.Polarities, sopt.Study.Workers = opt.levels, opt.polarities, opt.workers
-	progress, clear := newProgress(stderr, "sensitivity")
-	sopt.Progress = progress
-	res, err := whatif.Sensitivities(ctx, base, sopt)
-	clear()
+	res, err := withProgress(stderr, "sensitivity", opt.deck, func(p whatif.Progress) (*whatif.SensitivityResult, error) {
+		sopt.Progress = p
+		return whatif.Sensitivities(ctx, base, sopt)
+	})
 	if err != nil {
-		return fmt.Errorf("%s: %w", opt.deck, err)
+		return err
 	}
 	res.Variant = whatif.VariantMap(variant)
 	return writeSensitivity(res, report.Meta{Tool: "zapnet", Version: Version, Deck: opt.deck, Title: c.Title}, opt.json, stdout, stderr)
@@ -115,18 +98,11 @@ func sensitivityStudy(ctx context.Context, opt sensitivityOptions, stdout, stder
 // writeSensitivity prints and writes a sensitivity result (also of merged
 // shards).
 func writeSensitivity(res *whatif.SensitivityResult, meta report.Meta, jsonPath string, stdout, stderr io.Writer) error {
-	tables := stdout
-	if jsonPath == "-" {
-		tables = stderr
-	}
-	if err := report.SensitivityTable(tables, res, meta.Title, meta.Deck); err != nil {
+	errs, err := tableThenJSON(jsonPath, stdout, stderr,
+		func(w io.Writer) error { return report.SensitivityTable(w, res, meta.Title, meta.Deck) },
+		report.SensitivityDocument{Meta: meta, SensitivityResult: res})
+	if err != nil {
 		return err
-	}
-	var errs []error
-	if jsonPath != "" {
-		if err := writeOutput(jsonPath, stdout, report.SensitivityDocument{Meta: meta, SensitivityResult: res}); err != nil {
-			errs = append(errs, fmt.Errorf("--json: %w", err))
-		}
 	}
 	for _, p := range res.Parameters {
 		if p.Error != "" {
@@ -134,11 +110,7 @@ func writeSensitivity(res *whatif.SensitivityResult, meta report.Meta, jsonPath 
 		}
 	}
 	if res.Interrupted {
-		n := res.Total
-		if res.Shard != nil {
-			n = len(res.Shard.Items())
-		}
-		errs = append(errs, errInterrupted{len(res.Parameters) + len(res.Skipped), n})
+		errs = append(errs, sweepInterrupted(len(res.Parameters)+len(res.Skipped), res.Total, res.Shard))
 	}
 	return errors.Join(errs...)
 }

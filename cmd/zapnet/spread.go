@@ -9,7 +9,6 @@ import (
 
 	"zapnet/cmd/internal/report"
 	"zapnet/cmd/internal/whatif"
-	"zapnet/netlist"
 )
 
 // spreadOptions are the settings of `zapnet spread`.
@@ -51,17 +50,14 @@ input or a failed solve.`,
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
-	if fs.NArg() != 1 {
-		fs.Usage()
-		return fmt.Errorf("spread: want one deck, got %d arguments", fs.NArg())
+	deck, err := oneDeck(fs, "spread")
+	if err != nil {
+		return err
 	}
-	opt := spreadOptions{deck: fs.Arg(0), json: *jsonPath, workers: *workers, runs: *runs}
+	opt := spreadOptions{deck: deck, json: *jsonPath, workers: *workers, runs: *runs}
 	var errs []error
-	var err error
-	if *level != "" {
-		if opt.levels, err = levelList(*level); err != nil {
-			errs = append(errs, fmt.Errorf("--level: %w", err))
-		}
+	if opt.levels, err = parseLevelFlag(*level); err != nil {
+		errs = append(errs, err)
 	}
 	if opt.polarities, err = parsePolarity(*polarity); err != nil {
 		errs = append(errs, err)
@@ -72,14 +68,8 @@ input or a failed solve.`,
 	if *runs < 1 {
 		errs = append(errs, fmt.Errorf("--runs %d: draw at least one circuit", *runs))
 	}
-	if opt.sweep, err = sweep.spec(); err != nil {
-		errs = append(errs, err)
-	}
-	if *workers < 0 {
-		errs = append(errs, fmt.Errorf("--workers %d: use a positive number, or 0 for every core", *workers))
-	}
-	if len(errs) > 0 {
-		return fmt.Errorf("spread: %w", errors.Join(errs...))
+	if opt.sweep, err = sweep.finish("spread", *workers, errs); err != nil {
+		return err
 	}
 	ctx, stop := interruptible(stderr)
 	defer stop()
@@ -88,25 +78,18 @@ input or a failed solve.`,
 
 // spreadStudy draws and solves the circuits and writes the tables and JSON.
 func spreadStudy(ctx context.Context, opt spreadOptions, stdout, stderr io.Writer) error {
-	c, err := netlist.ParseFile(opt.deck)
-	if err != nil {
-		return err
-	}
-	for _, w := range c.Warnings {
-		fmt.Fprintln(stderr, w)
-	}
-	base, variant, err := whatif.Base(c, opt.sweep.sets)
+	c, base, variant, err := loadDesign(opt.deck, opt.sweep.sets, stderr)
 	if err != nil {
 		return err
 	}
 	sopt := &whatif.SpreadOptions{Runs: opt.runs, Seed: opt.seed, Shard: opt.sweep.shard}
 	sopt.Study.Levels, sopt.Study.Polarities, sopt.Study.Workers = opt.levels, opt.polarities, opt.workers
-	progress, clear := newProgress(stderr, "spread")
-	sopt.Progress = progress
-	res, err := whatif.Spreads(ctx, base, sopt)
-	clear()
+	res, err := withProgress(stderr, "spread", opt.deck, func(p whatif.Progress) (*whatif.SpreadResult, error) {
+		sopt.Progress = p
+		return whatif.Spreads(ctx, base, sopt)
+	})
 	if err != nil {
-		return fmt.Errorf("%s: %w", opt.deck, err)
+		return err
 	}
 	res.Variant = whatif.VariantMap(variant)
 	return writeSpread(res, report.Meta{Tool: "zapnet", Version: Version, Deck: opt.deck, Title: c.Title}, opt.json, stdout, stderr)
@@ -115,18 +98,11 @@ func spreadStudy(ctx context.Context, opt spreadOptions, stdout, stderr io.Write
 // writeSpread prints and writes a spread (also of merged shards). It returns
 // errVerdictFail when a drawn circuit failed.
 func writeSpread(res *whatif.SpreadResult, meta report.Meta, jsonPath string, stdout, stderr io.Writer) error {
-	tables := stdout
-	if jsonPath == "-" {
-		tables = stderr
-	}
-	if err := report.SpreadTable(tables, res, meta.Title, meta.Deck); err != nil {
+	errs, err := tableThenJSON(jsonPath, stdout, stderr,
+		func(w io.Writer) error { return report.SpreadTable(w, res, meta.Title, meta.Deck) },
+		report.SpreadDocument{Meta: meta, SpreadResult: res})
+	if err != nil {
 		return err
-	}
-	var errs []error
-	if jsonPath != "" {
-		if err := writeOutput(jsonPath, stdout, report.SpreadDocument{Meta: meta, SpreadResult: res}); err != nil {
-			errs = append(errs, fmt.Errorf("--json: %w", err))
-		}
 	}
 	unsolved := 0
 	for _, s := range res.Samples {
@@ -141,11 +117,7 @@ func writeSpread(res *whatif.SpreadResult, meta report.Meta, jsonPath string, st
 		errs = append(errs, fmt.Errorf("%d circuits in all could not be solved", unsolved))
 	}
 	if res.Interrupted {
-		n := res.Runs
-		if res.Shard != nil {
-			n = len(res.Shard.Items())
-		}
-		errs = append(errs, errInterrupted{len(res.Samples), n})
+		errs = append(errs, sweepInterrupted(len(res.Samples), res.Runs, res.Shard))
 	}
 	if len(errs) > 0 {
 		return errors.Join(errs...)

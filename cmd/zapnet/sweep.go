@@ -193,3 +193,124 @@ func writeOutput(path string, w io.Writer, doc any) error {
 	}
 	return report.WriteFile(path, func(f io.Writer) error { return report.EncodeJSON(f, doc) })
 }
+
+// The plumbing run, margin, sensitivity and spread share: the one deck, the
+// flag checks, the deck's loading, the progress bar and the table and JSON
+// output. Each command keeps only what differs.
+
+// oneDeck returns the deck, the one argument a study command takes.
+func oneDeck(fs *pflag.FlagSet, cmd string) (string, error) {
+	if fs.NArg() != 1 {
+		fs.Usage()
+		return "", fmt.Errorf("%s: want one deck, got %d arguments", cmd, fs.NArg())
+	}
+	return fs.Arg(0), nil
+}
+
+// parseLevelFlag reads --level: "" (the deck's) or a list of levels.
+func parseLevelFlag(s string) ([]float64, error) {
+	if s == "" {
+		return nil, nil
+	}
+	ls, err := levelList(s)
+	if err != nil {
+		return nil, fmt.Errorf("--level: %w", err)
+	}
+	return ls, nil
+}
+
+// checkWorkers refuses a negative --workers; 0 means every core.
+func checkWorkers(n int) error {
+	if n < 0 {
+		return fmt.Errorf("--workers %d: use a positive number, or 0 for every core", n)
+	}
+	return nil
+}
+
+// finish ends the flag checks of a command that collects its flag errors:
+// it adds those of --set, --shard and --workers to errs, which hold the
+// command's own, and names the command once before all of them.
+func (f *sweepFlags) finish(cmd string, workers int, errs []error) (sweepSpec, error) {
+	s, err := f.spec()
+	if err != nil {
+		errs = append(errs, err)
+	}
+	if err := checkWorkers(workers); err != nil {
+		errs = append(errs, err)
+	}
+	if len(errs) > 0 {
+		return s, fmt.Errorf("%s: %w", cmd, errors.Join(errs...))
+	}
+	return s, nil
+}
+
+// loadDeck parses the deck and prints its warnings.
+func loadDeck(path string, stderr io.Writer) (*netlist.Circuit, error) {
+	c, err := netlist.ParseFile(path)
+	if err != nil {
+		return nil, err
+	}
+	for _, w := range c.Warnings {
+		fmt.Fprintln(stderr, w)
+	}
+	return c, nil
+}
+
+// loadDesign loads the deck and applies --set to it (whatif.Base): the
+// design a sensitivity or spread studies, and the values set.
+func loadDesign(path string, sets []netlist.Vary, stderr io.Writer) (c, base *netlist.Circuit, variant netlist.Variant, err error) {
+	if c, err = loadDeck(path, stderr); err != nil {
+		return nil, nil, nil, err
+	}
+	if base, variant, err = whatif.Base(c, sets); err != nil {
+		return nil, nil, nil, err
+	}
+	return c, base, variant, nil
+}
+
+// withProgress runs a what-if sweep with a progress bar named label on
+// stderr (on a terminal only), cleared when the sweep ends. Its error names
+// the deck.
+func withProgress[R any](stderr io.Writer, label, deck string, sweep func(whatif.Progress) (R, error)) (R, error) {
+	progress, clear := newProgress(stderr, label)
+	res, err := sweep(progress)
+	clear()
+	if err != nil {
+		return res, fmt.Errorf("%s: %w", deck, err)
+	}
+	return res, nil
+}
+
+// tablesOut is where the tables go: stdout, or stderr when the JSON takes
+// stdout.
+func tablesOut(jsonPath string, stdout, stderr io.Writer) io.Writer {
+	if jsonPath == "-" {
+		return stderr
+	}
+	return stdout
+}
+
+// tableThenJSON prints a what-if table and writes its JSON document when
+// asked. A table that cannot be printed ends the command at once (err); a
+// JSON that cannot be written is collected (errs) so that the command
+// still says what else went wrong.
+func tableThenJSON(jsonPath string, stdout, stderr io.Writer, table func(io.Writer) error, doc any) (errs []error, err error) {
+	if err := table(tablesOut(jsonPath, stdout, stderr)); err != nil {
+		return nil, err
+	}
+	if jsonPath != "" {
+		if err := writeOutput(jsonPath, stdout, doc); err != nil {
+			errs = append(errs, fmt.Errorf("--json: %w", err))
+		}
+	}
+	return errs, nil
+}
+
+// sweepInterrupted is the error of a what-if sweep cut short after done
+// items: of the shard's items, or of total for the whole sweep.
+func sweepInterrupted(done, total int, shard *whatif.ShardInfo) error {
+	if shard != nil {
+		total = len(shard.Items())
+	}
+	return errInterrupted{done, total}
+}
