@@ -6,11 +6,9 @@ import (
 	"fmt"
 	"html/template"
 	"io"
-	"math"
 	"strings"
 
 	"zapnet/cmd/internal/study"
-	"zapnet/netlist"
 )
 
 // Figure is a picture in the HTML report: an SVG document drawn by package
@@ -77,34 +75,17 @@ func HTML(w io.Writer, runs []study.Run, opt *HTMLOptions) error {
 			page.Variants = true
 		}
 	}
-	pass, fail, errs := 0, 0, 0
 	for i := range runs {
 		r := &runs[i]
 		id := fmt.Sprintf("run-%d", i+1)
 		row := htmlSummaryRow{ID: id, Variant: study.VariantString(r.Variant), Level: si(r.Level, r.LevelUnit),
 			Polarity: r.Polarity, Verdict: string(r.Verdict), Class: verdictClass(r.Verdict), Worst: worstText(r)}
 		page.Summary = append(page.Summary, row)
-		switch r.Verdict {
-		case study.Pass:
-			pass++
-		case study.Fail:
-			fail++
-		default:
-			errs++
-		}
-		hr := htmlRun{ID: id, Class: row.Class, Verdict: row.Verdict,
-			Heading: fmt.Sprintf("Run %d/%d: %s %s %s", i+1, len(runs), r.Waveform, si(r.Level, r.LevelUnit), r.Polarity)}
-		if len(r.Variant) > 0 {
-			hr.Heading += ", " + study.VariantString(r.Variant)
-		}
+		hr := htmlRun{ID: id, Class: row.Class, Verdict: row.Verdict, Heading: runHeading(r, i, len(runs))}
 		if r.Err != nil {
 			hr.Error = r.Err.Error()
 		} else {
-			how := "from the deck's window"
-			if r.Window.Default {
-				how = "default: the waveform and the circuit's slowest response"
-			}
-			hr.Window = fmt.Sprintf("Window: 0 to %s (%s); %d steps, %d rejected", si(r.Window.Stop, "s"), how, r.Stats.Steps, r.Stats.Rejected)
+			hr.Window = fmt.Sprintf("Window: 0 to %s (%s); %d steps, %d rejected", si(r.Window.Stop, "s"), windowHow(r), r.Stats.Steps, r.Stats.Rejected)
 			hr.Tables = htmlRunTables(id, r)
 			if r.Worst != nil {
 				hr.Worst = r.Worst.String()
@@ -118,10 +99,8 @@ func HTML(w io.Writer, runs []study.Run, opt *HTMLOptions) error {
 		}
 		page.Runs = append(page.Runs, hr)
 	}
-	page.Count = fmt.Sprintf("%d runs: %d PASS, %d FAIL", len(runs), pass, fail)
-	if errs > 0 {
-		page.Count += fmt.Sprintf(", %d not solved", errs)
-	}
+	// The page says "runs" even of one run; the text summary says "run".
+	page.Count = verdictCount(runs, "runs")
 	if opt.Source != nil {
 		lines := strings.Split(strings.TrimRight(strings.ReplaceAll(string(opt.Source), "\r\n", "\n"), "\n"), "\n")
 		for k, l := range lines {
@@ -210,34 +189,11 @@ func htmlRunTables(id string, r *study.Run) []htmlTable {
 		ts = append(ts, t)
 	}
 
-	var nodes [][]string
-	for _, nd := range r.Nodes {
-		if !nd.Watched && !nd.Pin {
-			continue
-		}
-		role := "watched"
-		switch {
-		case nd.Watched && nd.Pin:
-			role = "watched, pin"
-		case nd.Pin:
-			role = "pin"
-		}
-		nodes = append(nodes, []string{nd.Name, role, si(nd.Max, "V"), si(nd.TMax, "s"), si(nd.Min, "V"), si(nd.TMin, "s")})
-	}
-	add("nodes", "Nodes", []string{"node", "role", "highest", "at", "lowest", "at"}, nodes)
-
-	kind := map[string]netlist.Kind{}
+	// The pin table shows the ratings beside the residual pulse, unlike
+	// the text report's; the other rows are the text report's.
 	lim := limitsByName(r)
-	var clamps [][]string
-	for _, e := range r.Elements {
-		kind[e.Name] = e.Kind
-		if e.Kind != netlist.Clamp {
-			continue
-		}
-		clamps = append(clamps, []string{e.Name, si(e.PeakCurrent, "A"), si(e.TPeak, "s"),
-			rating(lim[e.Name+" ipp"]), si(e.Energy, "J"), rating(lim[e.Name+" emax"])})
-	}
-	add("clamps", "Clamps", []string{"clamp", "peak current", "at", "ipp", "energy", "emax"}, clamps)
+	add("nodes", "Nodes", []string{"node", "role", "highest", "at", "lowest", "at"}, nodeRows(r))
+	add("clamps", "Clamps", []string{"clamp", "peak current", "at", "ipp", "energy", "emax"}, clampRows(r, lim))
 
 	var pins [][]string
 	for _, p := range r.Pins {
@@ -254,39 +210,9 @@ func htmlRunTables(id string, r *study.Run) []htmlTable {
 	add("pins", "Protected pins (residual pulse)", []string{"pin", "peak", "at", "vmax", "time above",
 		"lowest", "vmin", "time below", "energy in", "internal clamp", "ifail"}, pins)
 
-	var caps [][]string
-	for _, c := range r.Capacitors {
-		if c.HasRating {
-			caps = append(caps, []string{c.Name, si(c.Peak, "V"), si(c.TPeak, "s"), si(c.Rating, "V")})
-		}
-	}
-	add("capacitors", "Capacitors", []string{"capacitor", "peak voltage", "at", "rating"}, caps)
-
-	ledger := [][]string{{"strike (delivered)", si(r.Ledger.Strike, "J"), "100.0 %"}}
-	for _, e := range r.Ledger.Entries {
-		ledger = append(ledger, []string{e.Name + " (" + string(kind[e.Name]) + ")", si(e.Energy, "J"), percent(e.Percent)})
-	}
-	bal := "-"
-	if r.Ledger.Strike != 0 {
-		bal = percent(100 * r.Ledger.Balance / r.Ledger.Strike)
-	}
-	ledger = append(ledger, []string{"balance (solver residual)", si(r.Ledger.Balance, "J"), bal})
-	add("ledger", "Energy ledger", []string{"where", "energy", "share"}, ledger)
-
-	var limits [][]string
-	for _, l := range r.Limits {
-		at := "-"
-		if !math.IsNaN(l.At) {
-			at = si(l.At, "s")
-		}
-		ok := "ok"
-		if l.Failed() {
-			ok = "FAIL"
-		}
-		limits = append(limits, []string{l.Name(), si(l.Measured, l.Unit), at, si(l.Value, l.Unit),
-			si(l.Margin, l.Unit), percentText(l.Percent), ok})
-	}
-	add("limits", "Limits", []string{"limit", "measured", "at", "rating", "margin", "margin %", "verdict"}, limits)
+	add("capacitors", "Capacitors", []string{"capacitor", "peak voltage", "at", "rating"}, capacitorRows(r))
+	add("ledger", "Energy ledger", []string{"where", "energy", "share"}, ledgerRows(r))
+	add("limits", "Limits", []string{"limit", "measured", "at", "rating", "margin", "margin %", "verdict"}, limitRows(r))
 	return ts
 }
 

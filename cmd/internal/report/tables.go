@@ -69,13 +69,29 @@ func Summary(w io.Writer, runs []study.Run) error {
 	}
 	t := newTable(ew, head)
 	t.Header(toAny(head)...)
-	pass, fail, errs := 0, 0, 0
 	for _, r := range runs {
 		row := []string{si(r.Level, r.LevelUnit), r.Polarity, string(r.Verdict), worstText(&r)}
 		if variants {
 			row = append([]string{study.VariantString(r.Variant)}, row...)
 		}
 		t.Append(toAny(row)...)
+	}
+	t.Render()
+	noun := "runs"
+	if len(runs) == 1 {
+		noun = "run"
+	}
+	fmt.Fprintln(ew, verdictCount(runs, noun))
+	fmt.Fprintln(ew)
+	fmt.Fprintln(ew, Caution)
+	return ew.err
+}
+
+// verdictCount counts the runs by verdict: "3 runs: 2 PASS, 1 FAIL", and
+// the runs not solved when there are any.
+func verdictCount(runs []study.Run, noun string) string {
+	pass, fail, errs := 0, 0, 0
+	for _, r := range runs {
 		switch r.Verdict {
 		case study.Pass:
 			pass++
@@ -85,19 +101,29 @@ func Summary(w io.Writer, runs []study.Run) error {
 			errs++
 		}
 	}
-	t.Render()
-	noun := "runs"
-	if len(runs) == 1 {
-		noun = "run"
-	}
 	line := fmt.Sprintf("%d %s: %d PASS, %d FAIL", len(runs), noun, pass, fail)
 	if errs > 0 {
 		line += fmt.Sprintf(", %d not solved", errs)
 	}
-	fmt.Fprintln(ew, line)
-	fmt.Fprintln(ew)
-	fmt.Fprintln(ew, Caution)
-	return ew.err
+	return line
+}
+
+// runHeading heads run i of n: "Run 2/4: WAVEFORM 8 kV neg", and its
+// variant when it has one.
+func runHeading(r *study.Run, i, n int) string {
+	head := fmt.Sprintf("Run %d/%d: %s %s %s", i+1, n, r.Waveform, si(r.Level, r.LevelUnit), r.Polarity)
+	if len(r.Variant) > 0 {
+		head += ", " + study.VariantString(r.Variant)
+	}
+	return head
+}
+
+// windowHow says where a run's time window came from.
+func windowHow(r *study.Run) string {
+	if r.Window.Default {
+		return "default: the waveform and the circuit's slowest response"
+	}
+	return "from the deck's window"
 }
 
 func worstText(r *study.Run) string {
@@ -112,55 +138,23 @@ func worstText(r *study.Run) string {
 
 // runDetail prints one run.
 func runDetail(w io.Writer, r *study.Run, i, n int) {
-	head := fmt.Sprintf("Run %d/%d: %s %s %s", i+1, n, r.Waveform, si(r.Level, r.LevelUnit), r.Polarity)
-	if len(r.Variant) > 0 {
-		head += ", " + study.VariantString(r.Variant)
-	}
+	head := runHeading(r, i, n)
 	fmt.Fprintf(w, "%s\n%s\n", head, strings.Repeat("=", len([]rune(head))))
 	if r.Err != nil {
 		fmt.Fprintf(w, "Not solved: %v\n", r.Err)
 		return
 	}
-	how := "from the deck's window"
-	if r.Window.Default {
-		how = "default: the waveform and the circuit's slowest response"
-	}
 	// Step counts stay in the JSON: they change with every tuning of the
 	// engine and say nothing about the protection.
-	fmt.Fprintf(w, "Window: 0 to %s (%s)\n\n", si(r.Window.Stop, "s"), how)
+	fmt.Fprintf(w, "Window: 0 to %s (%s)\n\n", si(r.Window.Stop, "s"), windowHow(r))
 
-	// Watched nodes and pin lines.
-	var nodes [][]string
-	for _, nd := range r.Nodes {
-		if !nd.Watched && !nd.Pin {
-			continue
-		}
-		role := "watched"
-		switch {
-		case nd.Watched && nd.Pin:
-			role = "watched, pin"
-		case nd.Pin:
-			role = "pin"
-		}
-		nodes = append(nodes, []string{nd.Name, role, si(nd.Max, "V"), si(nd.TMax, "s"), si(nd.Min, "V"), si(nd.TMin, "s")})
-	}
-	if len(nodes) > 0 {
+	// Headers and the pin table are the text report's own; the rows of
+	// the other tables are the HTML report's too.
+	lim := limitsByName(r)
+	if nodes := nodeRows(r); len(nodes) > 0 {
 		section(w, "Nodes", []string{"node", "role", "highest", "at", "lowest", "at"}, nodes)
 	}
-
-	// Clamps against ipp and emax.
-	kind := map[string]netlist.Kind{}
-	var clamps [][]string
-	lim := limitsByName(r)
-	for _, e := range r.Elements {
-		kind[e.Name] = e.Kind
-		if e.Kind != netlist.Clamp {
-			continue
-		}
-		clamps = append(clamps, []string{e.Name, si(e.PeakCurrent, "A"), si(e.TPeak, "s"),
-			rating(lim[e.Name+" ipp"]), si(e.Energy, "J"), rating(lim[e.Name+" emax"])})
-	}
-	if len(clamps) > 0 {
+	if clamps := clampRows(r, lim); len(clamps) > 0 {
 		section(w, "Clamps", []string{"clamp", "peak current", "at", "ipp (margin)", "energy", "emax (margin)"}, clamps)
 	}
 
@@ -183,46 +177,12 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 			"lowest", "at", "time < vmin", "energy in", "internal clamp", "ifail (margin)"}, pins)
 	}
 
-	// Capacitors with a rating.
-	var caps [][]string
-	for _, c := range r.Capacitors {
-		if !c.HasRating {
-			continue
-		}
-		caps = append(caps, []string{c.Name, si(c.Peak, "V"), si(c.TPeak, "s"), si(c.Rating, "V")})
-	}
-	if len(caps) > 0 {
+	if caps := capacitorRows(r); len(caps) > 0 {
 		section(w, "Capacitors", []string{"capacitor", "peak voltage", "at", "rating"}, caps)
 	}
-
-	// Where the strike's energy went.
-	ledger := [][]string{{"strike (delivered)", si(r.Ledger.Strike, "J"), "100.0 %"}}
-	for _, e := range r.Ledger.Entries {
-		ledger = append(ledger, []string{e.Name + " (" + string(kind[e.Name]) + ")", si(e.Energy, "J"), percent(e.Percent)})
-	}
-	bal := "-"
-	if r.Ledger.Strike != 0 {
-		bal = percent(100 * r.Ledger.Balance / r.Ledger.Strike)
-	}
-	ledger = append(ledger, []string{"balance (solver residual)", si(r.Ledger.Balance, "J"), bal})
-	section(w, "Energy ledger", []string{"where", "energy", "share"}, ledger)
-
-	// Every limit with its margin.
-	if len(r.Limits) > 0 {
-		var rows [][]string
-		for _, l := range r.Limits {
-			at := "-"
-			if !math.IsNaN(l.At) {
-				at = si(l.At, "s")
-			}
-			ok := "ok"
-			if l.Failed() {
-				ok = "FAIL"
-			}
-			rows = append(rows, []string{l.Name(), si(l.Measured, l.Unit), at, si(l.Value, l.Unit),
-				si(l.Margin, l.Unit), percentText(l.Percent), ok})
-		}
-		section(w, "Limits", []string{"limit", "measured", "at", "rating", "margin", "margin %", ""}, rows)
+	section(w, "Energy ledger", []string{"where", "energy", "share"}, ledgerRows(r))
+	if limits := limitRows(r); len(limits) > 0 {
+		section(w, "Limits", []string{"limit", "measured", "at", "rating", "margin", "margin %", ""}, limits)
 	}
 
 	verdict := "Verdict: " + string(r.Verdict)
@@ -236,6 +196,88 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 	for _, n := range r.Notes {
 		fmt.Fprintf(w, "Note: %s\n", n)
 	}
+}
+
+// The rows of a run's tables that the text and the HTML report share, one
+// function per table; each report adds its own headers.
+
+// nodeRows are the watched nodes and the pin lines: peaks and when.
+func nodeRows(r *study.Run) [][]string {
+	var rows [][]string
+	for _, nd := range r.Nodes {
+		if !nd.Watched && !nd.Pin {
+			continue
+		}
+		role := "watched"
+		switch {
+		case nd.Watched && nd.Pin:
+			role = "watched, pin"
+		case nd.Pin:
+			role = "pin"
+		}
+		rows = append(rows, []string{nd.Name, role, si(nd.Max, "V"), si(nd.TMax, "s"), si(nd.Min, "V"), si(nd.TMin, "s")})
+	}
+	return rows
+}
+
+// clampRows are the clamps against ipp and emax.
+func clampRows(r *study.Run, lim map[string]*study.Limit) [][]string {
+	var rows [][]string
+	for _, e := range r.Elements {
+		if e.Kind != netlist.Clamp {
+			continue
+		}
+		rows = append(rows, []string{e.Name, si(e.PeakCurrent, "A"), si(e.TPeak, "s"),
+			rating(lim[e.Name+" ipp"]), si(e.Energy, "J"), rating(lim[e.Name+" emax"])})
+	}
+	return rows
+}
+
+// capacitorRows are the capacitors with a rating.
+func capacitorRows(r *study.Run) [][]string {
+	var rows [][]string
+	for _, c := range r.Capacitors {
+		if c.HasRating {
+			rows = append(rows, []string{c.Name, si(c.Peak, "V"), si(c.TPeak, "s"), si(c.Rating, "V")})
+		}
+	}
+	return rows
+}
+
+// ledgerRows say where the strike's energy went, ending with the balance.
+func ledgerRows(r *study.Run) [][]string {
+	kind := map[string]netlist.Kind{}
+	for _, e := range r.Elements {
+		kind[e.Name] = e.Kind
+	}
+	rows := [][]string{{"strike (delivered)", si(r.Ledger.Strike, "J"), "100.0 %"}}
+	for _, e := range r.Ledger.Entries {
+		rows = append(rows, []string{e.Name + " (" + string(kind[e.Name]) + ")", si(e.Energy, "J"), percent(e.Percent)})
+	}
+	bal := "-"
+	if r.Ledger.Strike != 0 {
+		bal = percent(100 * r.Ledger.Balance / r.Ledger.Strike)
+	}
+	return append(rows, []string{"balance (solver residual)", si(r.Ledger.Balance, "J"), bal})
+}
+
+// limitRows are every limit with its margin, "FAIL" in the last column
+// when exceeded.
+func limitRows(r *study.Run) [][]string {
+	var rows [][]string
+	for _, l := range r.Limits {
+		at := "-"
+		if !math.IsNaN(l.At) {
+			at = si(l.At, "s")
+		}
+		ok := "ok"
+		if l.Failed() {
+			ok = "FAIL"
+		}
+		rows = append(rows, []string{l.Name(), si(l.Measured, l.Unit), at, si(l.Value, l.Unit),
+			si(l.Margin, l.Unit), percentText(l.Percent), ok})
+	}
+	return rows
 }
 
 func limitsByName(r *study.Run) map[string]*study.Limit {
