@@ -230,12 +230,10 @@ func (p *parser) statement(st statement) {
 
 // title = "title" quoted .
 func (p *parser) parseTitle(st statement) {
-	t := st.toks[0]
-	if len(st.toks) < 2 || !st.toks[1].quoted {
-		p.errs.Add(t.pos, `title takes one quoted text: title "..."`)
+	if !p.oneQuoted(st, "title", `title takes one quoted text: title "..."`) {
 		return
 	}
-	p.extra(st.toks[2:], "title")
+	t := st.toks[0]
 	if t.pos.File != p.top {
 		return // a library's own title does not name the deck
 	}
@@ -244,6 +242,18 @@ func (p *parser) parseTitle(st statement) {
 		return
 	}
 	p.title, p.titlePos = st.toks[1].text, t.pos
+}
+
+// oneQuoted checks a statement that takes one quoted text (title,
+// include): it reports usage when the text is missing and any token after
+// it, and says whether st.toks[1] is the text.
+func (p *parser) oneQuoted(st statement, what, usage string) bool {
+	if len(st.toks) < 2 || !st.toks[1].quoted {
+		p.errs.Add(st.toks[0].pos, "%s", usage)
+		return false
+	}
+	p.extra(st.toks[2:], what)
+	return true
 }
 
 // extra reports tokens left over at the end of a statement.
@@ -255,12 +265,10 @@ func (p *parser) extra(toks []token, what string) {
 
 // include = "include" quoted .
 func (p *parser) parseInclude(st statement) {
-	t := st.toks[0]
-	if len(st.toks) < 2 || !st.toks[1].quoted {
-		p.errs.Add(t.pos, `include takes one quoted path: include "parts/tvs.zap"`)
+	if !p.oneQuoted(st, "include", `include takes one quoted path: include "parts/tvs.zap"`) {
 		return
 	}
-	p.extra(st.toks[2:], "include")
+	t := st.toks[0]
 	pt := st.toks[1]
 	path := pt.text
 	if path == "" {
