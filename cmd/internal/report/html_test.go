@@ -3,31 +3,17 @@ package report
 import (
 	"bytes"
 	"encoding/xml"
-	"flag"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
+	"zapnet/cmd/internal/golden"
 	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/study"
 	"zapnet/netlist"
 )
-
-// The -update flag rewrites golden files; it is declared here only when no
-// other test file of the package declared it first.
-func init() {
-	if flag.Lookup("update") == nil {
-		flag.Bool("update", false, "rewrite the golden files under testdata")
-	}
-}
-
-func updating() bool {
-	f := flag.Lookup("update")
-	return f != nil && f.Value.String() == "true"
-}
 
 // node is an element of a parsed page.
 type node struct {
@@ -138,37 +124,6 @@ func outline(root *node) string {
 	return b.String()
 }
 
-func goldenFile(t *testing.T, name string, got []byte) {
-	t.Helper()
-	path := filepath.Join("testdata", name)
-	if updating() {
-		if err := os.MkdirAll("testdata", 0o755); err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(path, got, 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (create it with go test -update)", err)
-	}
-	gl, wl := strings.Split(string(got), "\n"), strings.Split(string(want), "\n")
-	for k := 0; k < len(gl) || k < len(wl); k++ {
-		var g, w string
-		if k < len(gl) {
-			g = gl[k]
-		}
-		if k < len(wl) {
-			w = wl[k]
-		}
-		if g != w {
-			t.Fatalf("%s:%d differs (go test -update rewrites it):\n got %q\nwant %q", path, k+1, g, w)
-		}
-	}
-}
-
 // demoReport solves a deck and renders its full report with figures.
 func demoReport(t *testing.T, c *netlist.Circuit, opt *study.Options) ([]byte, []study.Run) {
 	t.Helper()
@@ -219,7 +174,7 @@ func TestHTMLDemoStructure(t *testing.T) {
 	}
 	page, runs := demoReport(t, c, nil)
 	root := parsePage(t, page)
-	goldenFile(t, "html-demo.outline", []byte(outline(root)))
+	golden.Check(t, filepath.Join("testdata", "html-demo.outline"), []byte(outline(root)))
 
 	if n := len(root.find("summary-table").all("tr")) - 1; n != len(runs) || n != 8 {
 		t.Errorf("summary has %d rows for %d runs, want 8", n, len(runs))
