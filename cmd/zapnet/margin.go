@@ -5,10 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"maps"
 	"math"
-	"slices"
-	"strings"
 
 	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/report"
@@ -135,7 +132,7 @@ func drawMargins(o pictureOptions, c *netlist.Circuit, meta report.Meta, res *wh
 	for _, m := range res.Margins {
 		s := plots.MarginSeries{Name: m.Polarity}
 		if len(m.Variant) > 0 {
-			s.Name = variantLabel(m.Variant) + " " + m.Polarity
+			s.Name = report.VariantText(m.Variant) + " " + m.Polarity
 		}
 		for _, p := range m.Curve {
 			if !math.IsInf(p.Percent, 0) && !math.IsNaN(p.Percent) {
@@ -169,24 +166,11 @@ func writeMargins(res *whatif.MarginResult, meta report.Meta, jsonPath string, s
 	}
 	for _, m := range res.Margins {
 		if m.Error != "" {
-			errs = append(errs, fmt.Errorf("%s %s: %s", variantLabel(m.Variant), m.Polarity, m.Error))
+			errs = append(errs, fmt.Errorf("%s %s: %s", report.VariantText(m.Variant), m.Polarity, m.Error))
 		}
 	}
 	if res.Interrupted {
 		errs = append(errs, sweepInterrupted(len(res.Margins), res.Total, res.Shard))
 	}
 	return errors.Join(errs...)
-}
-
-// variantLabel names a JSON variant in messages.
-func variantLabel(v map[string]string) string {
-	if len(v) == 0 {
-		return "deck"
-	}
-	keys := slices.Sorted(maps.Keys(v))
-	s := make([]string, len(keys))
-	for i, k := range keys {
-		s[i] = k + "=" + v[k]
-	}
-	return strings.Join(s, " ")
 }

@@ -123,11 +123,11 @@ func MarginTable(w io.Writer, r *whatif.MarginResult, title, deck string) error 
 		limiting := m.Limiting
 		if m.Error != "" {
 			pass, fail, mono, limiting = "-", "-", "-", "not solved"
-			notes = append(notes, fmt.Sprintf("%s %s: %s", variantText(m.Variant), m.Polarity, m.Error))
+			notes = append(notes, fmt.Sprintf("%s %s: %s", VariantText(m.Variant), m.Polarity, m.Error))
 		} else if m.Note != "" {
-			notes = append(notes, fmt.Sprintf("%s %s: %s", variantText(m.Variant), m.Polarity, m.Note))
+			notes = append(notes, fmt.Sprintf("%s %s: %s", VariantText(m.Variant), m.Polarity, m.Note))
 		}
-		t.Append(toAny([]string{variantText(m.Variant), m.Polarity, pass, fail, limiting, mono, fmt.Sprint(m.Solves)})...)
+		t.Append(toAny([]string{VariantText(m.Variant), m.Polarity, pass, fail, limiting, mono, fmt.Sprint(m.Solves)})...)
 	}
 	t.Render()
 	for _, n := range notes {
@@ -141,8 +141,10 @@ func MarginTable(w io.Writer, r *whatif.MarginResult, title, deck string) error 
 	return ew.err
 }
 
-// variantText renders a JSON variant map in its settings' order of names.
-func variantText(v map[string]string) string {
+// VariantText renders a JSON variant map in its settings' order of names,
+// "deck" for the deck as written; commands name a variant in messages with
+// it too.
+func VariantText(v map[string]string) string {
 	if len(v) == 0 {
 		return "deck"
 	}
@@ -165,7 +167,7 @@ func SensitivityTable(w io.Writer, r *whatif.SensitivityResult, title, deck stri
 	pct := fmt.Sprintf("%g %%", 100*r.Step)
 	heading(ew, title, deck, fmt.Sprintf("Sensitivity: each parameter ±%s, effect on the worst margin", pct))
 	if len(r.Variant) > 0 {
-		fmt.Fprintf(ew, "Design: %s\n", variantText(r.Variant))
+		fmt.Fprintf(ew, "Design: %s\n", VariantText(r.Variant))
 	}
 	fmt.Fprintf(ew, "Baseline worst margin: %s (%s)\n", percentText(r.Baseline), r.BaselineLimiting)
 	head := []string{"rank", "param", "nominal", "−" + pct, "+" + pct, "effect", "limiting"}
@@ -214,7 +216,7 @@ func SpreadTable(w io.Writer, r *whatif.SpreadResult, title, deck string) error 
 	ew := &errWriter{w: w}
 	heading(ew, title, deck, fmt.Sprintf("Spread: %d circuits drawn with seed %d", r.Runs, r.Seed))
 	if len(r.Variant) > 0 {
-		fmt.Fprintf(ew, "Design: %s\n", variantText(r.Variant))
+		fmt.Fprintf(ew, "Design: %s\n", VariantText(r.Variant))
 	}
 	var tol [][]string
 	for _, t := range r.Tolerances {
