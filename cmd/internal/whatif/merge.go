@@ -43,6 +43,16 @@ func short(s []string) string {
 	return strings.Join(s, ", ")
 }
 
+// joinedWhole checks what every merge checks of the joined shards: that
+// they are of one split of total items (sameShards) and that indices name
+// each item once (Complete).
+func joinedWhole(infos []*ShardInfo, indices []int, total int, what string) error {
+	if err := sameShards(infos, total); err != nil {
+		return err
+	}
+	return Complete(indices, total, what)
+}
+
 // sameShards checks that the shard infos are of one split of total items.
 func sameShards(infos []*ShardInfo, total int) error {
 	seen := map[int]bool{}
@@ -81,10 +91,7 @@ func MergeMargins(parts []*MarginResult) (*MarginResult, error) {
 			idx = append(idx, m.Index)
 		}
 	}
-	if err := sameShards(infos, out.Total); err != nil {
-		return nil, err
-	}
-	if err := Complete(idx, out.Total, "searches"); err != nil {
+	if err := joinedWhole(infos, idx, out.Total, "searches"); err != nil {
 		return nil, err
 	}
 	sort.Slice(out.Margins, func(a, b int) bool { return out.Margins[a].Index < out.Margins[b].Index })
@@ -115,10 +122,7 @@ func MergeSensitivities(parts []*SensitivityResult) (*SensitivityResult, error) 
 			idx = append(idx, s.Index)
 		}
 	}
-	if err := sameShards(infos, out.Total); err != nil {
-		return nil, err
-	}
-	if err := Complete(idx, out.Total, "parameters"); err != nil {
+	if err := joinedWhole(infos, idx, out.Total, "parameters"); err != nil {
 		return nil, err
 	}
 	SortEffects(out.Parameters)
@@ -149,10 +153,7 @@ func MergeSpreads(parts []*SpreadResult) (*SpreadResult, error) {
 			idx = append(idx, s.Index)
 		}
 	}
-	if err := sameShards(infos, out.Runs); err != nil {
-		return nil, err
-	}
-	if err := Complete(idx, out.Runs, "circuits"); err != nil {
+	if err := joinedWhole(infos, idx, out.Runs, "circuits"); err != nil {
 		return nil, err
 	}
 	out.summarise()
