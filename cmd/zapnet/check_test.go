@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -9,9 +8,7 @@ import (
 
 func runCheckMain(t *testing.T, args ...string) (stdout, stderr string, code int) {
 	t.Helper()
-	var o, e bytes.Buffer
-	code = Main(append([]string{"check"}, args...), &o, &e)
-	return o.String(), e.String(), code
+	return runCommand(t, "check", args...)
 }
 
 // The listing of every demo deck is a golden file: a change in what the

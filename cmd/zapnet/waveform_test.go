@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"math"
 	"os"
 	"path/filepath"
@@ -14,9 +13,7 @@ import (
 
 func runW(t *testing.T, args ...string) (stdout, stderr string, code int) {
 	t.Helper()
-	var o, e bytes.Buffer
-	code = Main(append([]string{"waveform"}, args...), &o, &e)
-	return o.String(), e.String(), code
+	return runCommand(t, "waveform", args...)
 }
 
 // The 4 kV contact-discharge report: its numbers are those of the annex
