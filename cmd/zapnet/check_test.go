@@ -8,7 +8,7 @@ import (
 
 func runCheckMain(t *testing.T, args ...string) (stdout, stderr string, code int) {
 	t.Helper()
-	return runCommand(t, "check", args...)
+	return zapnet(t, append([]string{"check"}, args...)...)
 }
 
 // The listing of every demo deck is a golden file: a change in what the

@@ -18,18 +18,9 @@ const (
 	brokenDeck = "../../testdata/bad/run-unknown-key.zap"
 )
 
-// runCommand runs `zapnet CMD ARGS...` through Main and returns what it
-// printed and its exit status; the tests of each command call it.
-func runCommand(t *testing.T, cmd string, args ...string) (stdout, stderr string, code int) {
-	t.Helper()
-	var o, e bytes.Buffer
-	code = Main(append([]string{cmd}, args...), &o, &e)
-	return o.String(), e.String(), code
-}
-
 func runMain(t *testing.T, args ...string) (stdout, stderr string, code int) {
 	t.Helper()
-	return runCommand(t, "run", args...)
+	return zapnet(t, append([]string{"run"}, args...)...)
 }
 
 // The demo's report is a golden file: every number in it is printed with

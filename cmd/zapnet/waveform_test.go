@@ -13,7 +13,7 @@ import (
 
 func runW(t *testing.T, args ...string) (stdout, stderr string, code int) {
 	t.Helper()
-	return runCommand(t, "waveform", args...)
+	return zapnet(t, append([]string{"waveform"}, args...)...)
 }
 
 // The 4 kV contact-discharge report: its numbers are those of the annex

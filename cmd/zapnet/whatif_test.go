@@ -19,7 +19,8 @@ const (
 	spreadDeck = "../internal/whatif/testdata/net-a-spread.zap"
 )
 
-// zapnet runs a whole command line through Main, as a user would.
+// zapnet runs a whole command line through Main, as a user would; the
+// run, check and waveform tests call it too.
 func zapnet(t *testing.T, args ...string) (stdout, stderr string, code int) {
 	t.Helper()
 	var o, e bytes.Buffer
