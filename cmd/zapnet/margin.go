@@ -113,7 +113,7 @@ func marginStudy(ctx context.Context, opt marginOptions, stdout, stderr io.Write
 	if err != nil {
 		return err
 	}
-	meta := report.Meta{Tool: "zapnet", Version: Version, Deck: opt.deck, Title: c.Title}
+	meta := deckMeta(opt.deck, c)
 	err = writeMargins(res, meta, opt.json, stdout, stderr)
 	if opt.pictures.wanted() {
 		if perr := drawMargins(opt.pictures, c, meta, res); perr != nil {

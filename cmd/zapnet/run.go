@@ -104,7 +104,7 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 	if err := rankVariants(tables, sw); err != nil {
 		return err
 	}
-	meta := report.Meta{Tool: "zapnet", Version: Version, Deck: opt.deck, Title: c.Title}
+	meta := deckMeta(opt.deck, c)
 	var errs []error
 	switch opt.json {
 	case "":

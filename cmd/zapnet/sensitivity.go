@@ -92,7 +92,7 @@ func sensitivityStudy(ctx context.Context, opt sensitivityOptions, stdout, stder
 		return err
 	}
 	res.Variant = whatif.VariantMap(variant)
-	return writeSensitivity(res, report.Meta{Tool: "zapnet", Version: Version, Deck: opt.deck, Title: c.Title}, opt.json, stdout, stderr)
+	return writeSensitivity(res, deckMeta(opt.deck, c), opt.json, stdout, stderr)
 }
 
 // writeSensitivity prints and writes a sensitivity result (also of merged

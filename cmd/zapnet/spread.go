@@ -92,7 +92,7 @@ func spreadStudy(ctx context.Context, opt spreadOptions, stdout, stderr io.Write
 		return err
 	}
 	res.Variant = whatif.VariantMap(variant)
-	return writeSpread(res, report.Meta{Tool: "zapnet", Version: Version, Deck: opt.deck, Title: c.Title}, opt.json, stdout, stderr)
+	return writeSpread(res, deckMeta(opt.deck, c), opt.json, stdout, stderr)
 }
 
 // writeSpread prints and writes a spread (also of merged shards). It returns

@@ -256,6 +256,11 @@ func loadDeck(path string, stderr io.Writer) (*netlist.Circuit, error) {
 	return c, nil
 }
 
+// deckMeta names the tool, the deck and its title in a report.
+func deckMeta(deck string, c *netlist.Circuit) report.Meta {
+	return report.Meta{Tool: "zapnet", Version: Version, Deck: deck, Title: c.Title}
+}
+
 // loadDesign loads the deck and applies --set to it (whatif.Base): the
 // design a sensitivity or spread studies, and the values set.
 func loadDesign(path string, sets []netlist.Vary, stderr io.Writer) (c, base *netlist.Circuit, variant netlist.Variant, err error) {
