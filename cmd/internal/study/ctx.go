@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"runtime"
-	"sync"
 
 	"zapnet/netlist"
 )
@@ -38,11 +37,11 @@ func ExecuteJobsContext(ctx context.Context, c *netlist.Circuit, jobs []Job, opt
 	return out, errors.Join(errs...)
 }
 
-// solvePool solves jobs across a pool of workers, each compiling a variant
-// once and reusing its Bench while the jobs it draws stay in that variant
-// (plan order makes that the rule). Once ctx is done no worker starts
-// another job; ok[k] says whether jobs[k] ran. done, when not nil, is
-// called after each finished run, never two calls at once.
+// solvePool solves jobs on a pool of workers (ForEach), each compiling a
+// variant once and reusing its Bench while the jobs it draws stay in that
+// variant (plan order makes that the rule). Once ctx is done no worker
+// starts another job; ok[k] says whether jobs[k] ran. done, when not nil,
+// is called after each finished run, never two calls at once.
 func solvePool(ctx context.Context, c *netlist.Circuit, jobs []Job, opt *Options, done func(finished int)) (runs []Run, ok []bool) {
 	if opt == nil {
 		opt = &Options{}
@@ -51,64 +50,40 @@ func solvePool(ctx context.Context, c *netlist.Circuit, jobs []Job, opt *Options
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	workers = min(workers, len(jobs))
+	size := max(1, min(workers, len(jobs))) // ForEach's pool
+	benches := make([]*Bench, size)
+	benchOf := make([]int, size)
 	runs = make([]Run, len(jobs))
-	ok = make([]bool, len(jobs))
-	next := make(chan int)
-	var mu sync.Mutex
-	finished := 0
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			var bench *Bench
-			benchVariant := -1
-			for k := range next {
-				j := jobs[k]
-				runs[k] = func() (run Run) {
-					// A panic is a bug, but the user should get a
-					// sentence and the other runs, not a stack trace.
-					defer func() {
-						if p := recover(); p != nil {
-							bench, benchVariant = nil, -1
-							run = failedRun(c, j, fmt.Errorf("internal error (please report it with the deck): %v", p))
-						}
-					}()
-					if bench == nil || benchVariant != j.VariantIndex {
-						b, err := NewBench(c, j.Variant)
-						if err != nil {
-							bench, benchVariant = nil, -1
-							return failedRun(c, j, err)
-						}
-						bench, benchVariant = b, j.VariantIndex
-					}
-					r, err := bench.Solve(j.Level, j.Polarity, opt)
-					if err != nil {
-						return failedRun(c, j, err)
-					}
-					r.Job = j
-					return *r
-				}()
-				mu.Lock()
-				ok[k] = true
-				finished++
-				if done != nil {
-					done(finished)
+	var progress func(done, total int)
+	if done != nil {
+		progress = func(finished, _ int) { done(finished) }
+	}
+	ok = ForEach(ctx, workers, len(jobs), progress, func(w, k int) {
+		j := jobs[k]
+		runs[k] = func() (run Run) {
+			// A panic is a bug, but the user should get a sentence and
+			// the other runs, not a stack trace.
+			defer func() {
+				if p := recover(); p != nil {
+					benches[w] = nil
+					run = failedRun(c, j, fmt.Errorf("internal error (please report it with the deck): %v", p))
 				}
-				mu.Unlock()
+			}()
+			if benches[w] == nil || benchOf[w] != j.VariantIndex {
+				b, err := NewBench(c, j.Variant)
+				if err != nil {
+					benches[w] = nil
+					return failedRun(c, j, err)
+				}
+				benches[w], benchOf[w] = b, j.VariantIndex
 			}
+			r, err := benches[w].Solve(j.Level, j.Polarity, opt)
+			if err != nil {
+				return failedRun(c, j, err)
+			}
+			r.Job = j
+			return *r
 		}()
-	}
-feed:
-	for k := range jobs {
-		select {
-		case next <- k:
-		case <-ctx.Done():
-			break feed
-		}
-	}
-	close(next)
-	wg.Wait()
+	})
 	return runs, ok
 }

@@ -264,7 +264,7 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 	// The scans of every search at once, so that one search alone still
 	// keeps every worker busy; then each search's bisection.
 	scans := make([]scanned, len(mine)*len(grid))
-	scanDone := forEach(ctx, workers, len(scans), nil, func(w, it int) {
+	scanDone := study.ForEach(ctx, workers, len(scans), nil, func(w, it int) {
 		sr := mine[it/len(grid)]
 		if compileErr[sr.variant] != nil {
 			return
@@ -273,7 +273,7 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 		scans[it] = scanned{o, err}
 	})
 	complete := make([]bool, len(mine))
-	finished := forEach(ctx, workers, len(mine), nil, func(w, i int) {
+	finished := study.ForEach(ctx, workers, len(mine), nil, func(w, i int) {
 		sr := mine[i]
 		if err := compileErr[sr.variant]; err != nil {
 			out[i].Error = err.Error()

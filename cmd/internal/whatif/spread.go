@@ -185,7 +185,7 @@ func Spreads(ctx context.Context, c *netlist.Circuit, opt *SpreadOptions) (*Spre
 	samples := make([]Sample, len(mine))
 	sopt := opt.Study
 	sopt.Record = false
-	finished := forEach(ctx, workerCount(opt.Study.Workers), len(mine), opt.Progress, func(_ int, i int) {
+	finished := study.ForEach(ctx, workerCount(opt.Study.Workers), len(mine), opt.Progress, func(_ int, i int) {
 		k := mine[i]
 		s := Sample{Index: k}
 		defer func() { samples[i] = s }()
