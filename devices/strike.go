@@ -32,6 +32,13 @@ type Strike struct {
 	sign  float64
 
 	node, ref, x, br int
+
+	// The stimulus's value at time fT, kept because Newton evaluates the
+	// strike several times at one time point and the annex waveforms cost
+	// a logarithm and several exponentials each; fOK is false until a value
+	// is stored and after SetStimulus or Reset.
+	fT, fV float64
+	fOK    bool
 }
 
 // Indices of the strike's states.
@@ -77,6 +84,19 @@ func (d *Strike) Bind(n Nodes) []StateRows {
 // not change during a run.
 func (d *Strike) SetStimulus(s *waveforms.Stimulus, sign float64) {
 	d.st, d.sign = s, sign
+	d.fOK = false
+}
+
+// Reset implements Resetter: a new run may come with a stimulus changed in
+// place, so the stored value is dropped.
+func (d *Strike) Reset() { d.fOK = false }
+
+// f is the stimulus's F at t, computed once per time point.
+func (d *Strike) f(t float64) float64 {
+	if !d.fOK || t != d.fT {
+		d.fT, d.fV, d.fOK = t, d.st.F(t), true
+	}
+	return d.fV
 }
 
 // Stimulus is the stimulus in force and its sign.
@@ -106,13 +126,13 @@ func (d *Strike) Eval(c *Context) {
 	switch s.Form {
 	case waveforms.Current:
 		if !c.DC && s.F != nil {
-			c.Inject(d.node, d.ref, d.sign*s.F(c.T))
+			c.Inject(d.node, d.ref, d.sign*d.f(c.T))
 		}
 	case waveforms.Thevenin:
 		r := d.r()
 		c.Conductance(d.node, d.ref, 1/r)
 		if !c.DC && s.F != nil {
-			c.Inject(d.node, d.ref, d.sign*s.F(c.T)/r)
+			c.Inject(d.node, d.ref, d.sign*d.f(c.T)/r)
 		}
 	case waveforms.Network:
 		u := c.V(d.x) - c.V(d.ref)

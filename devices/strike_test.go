@@ -199,3 +199,38 @@ func TestStrikeJacobian(t *testing.T) {
 		}
 	}
 }
+
+// The strike keeps the stimulus's value for the time point Newton is
+// solving; a new time, a new stimulus or a reset (a stimulus changed in
+// place between runs) must each give the current value of F(t) = level·t
+// [calc: the ramp itself].
+func TestStrikeValueFollowsTimeAndStimulus(t *testing.T) {
+	level := 2.0
+	ramp := func(tm float64) float64 { return level * 1e9 * tm }
+	st := &waveforms.Stimulus{Form: waveforms.Current, F: ramp}
+	d, r := strikeRig(t, st, 1, 50)
+	r.c.DC = false
+	x := make([]float64, r.n)
+	injected := func() float64 {
+		r.eval(x, 0)
+		return -r.c.F[0] - x[0]/50 // the strike draws −F from node 0; the load is 0 V
+	}
+	want := func(what string, v float64) {
+		t.Helper()
+		if got := injected(); got != v {
+			t.Errorf("%s: injected %g A, want %g A", what, got, v)
+		}
+	}
+	r.c.T = 1e-9
+	want("first evaluation", 2)
+	want("same time again", 2)
+	r.c.T = 2e-9
+	want("new time", 4)
+	d.SetStimulus(&waveforms.Stimulus{Form: waveforms.Current, F: func(tm float64) float64 { return -ramp(tm) }}, 1)
+	want("new stimulus at the same time", -4)
+	d.SetStimulus(st, 1)
+	want("first stimulus back", 4)
+	level = 3 // the stimulus changed in place, as between two runs
+	d.Reset()
+	want("after a reset", 6)
+}
