@@ -70,10 +70,21 @@ type expTerm struct {
 	dir   float64 // +1: rises with u; −1: rises as u falls
 	off   float64 // V
 	vcrit float64 // critical value of w, V
+	rnvt  float64 // 1/nvt, 1/V
+	gain  float64 // dir·sat/nvt, A/V: dv/du per unit of exp
+
+	// The last evaluation, v and dv at u: Newton often evaluates a junction
+	// at the voltage it evaluated last (the first iteration of a time step
+	// starts from the point the previous one converged on, and a junction
+	// far from its knee sees the same voltage across several iterations),
+	// and the exponential is the dear part of a model.
+	u, v, dv float64
+	memo     bool
 }
 
 func newExpTerm(sat, nvt, dir, off float64) expTerm {
-	t := expTerm{sat: sat, nvt: nvt, dir: dir, off: off, vcrit: math.Inf(1)}
+	t := expTerm{sat: sat, nvt: nvt, dir: dir, off: off, vcrit: math.Inf(1),
+		rnvt: 1 / nvt, gain: dir * sat / nvt}
 	if sat > 0 {
 		t.vcrit = nvt * math.Log(nvt/(math.Sqrt2*sat))
 	}
@@ -82,8 +93,14 @@ func newExpTerm(sat, nvt, dir, off float64) expTerm {
 
 // eval returns sat·exp(w/nvt) and its derivative with respect to u.
 func (t *expTerm) eval(u float64) (v, dv float64) {
-	e, de := expLin((t.dir*u - t.off) / t.nvt)
-	return t.sat * e, t.dir * t.sat * de / t.nvt
+	if t.memo && u == t.u {
+		return t.v, t.dv
+	}
+	// Multiplications by constants formed once: a division costs as much
+	// as the rest of the arithmetic here.
+	e, de := expLin((t.dir*u - t.off) * t.rnvt)
+	t.u, t.v, t.dv, t.memo = u, t.sat*e, t.gain*de, true
+	return t.v, t.dv
 }
 
 // limit damps the step of u from uold; it reports whether it changed u.
@@ -130,6 +147,11 @@ type clampLaw struct {
 	cj    float64 // F
 	vj    float64 // V
 	m     float64
+
+	// The last charge evaluation with a graded junction (m > 0), q and c
+	// at qu: two powers saved whenever the voltage repeats (see expTerm).
+	qu, qv, qc float64
+	qmemo      bool
 }
 
 func newClampLaw(vbr, it, nbr, is, n float64, bi bool) clampLaw {
@@ -176,6 +198,16 @@ func (l *clampLaw) charge(u float64) (q, c float64) {
 	if l.m == 0 {
 		return l.cj * u, l.cj
 	}
+	if l.qmemo && u == l.qu {
+		return l.qv, l.qc
+	}
+	q, c = l.gradedCharge(u)
+	l.qu, l.qv, l.qc, l.qmemo = u, q, c, true
+	return q, c
+}
+
+// gradedCharge is charge for m > 0.
+func (l *clampLaw) gradedCharge(u float64) (q, c float64) {
 	s, au := 1.0, u
 	if u < 0 {
 		s, au = -1, -u

@@ -19,6 +19,7 @@ type lu struct {
 	n   int
 	a   []float64 // n×n row-major
 	piv []int     // row exchanged with row k at step k
+	inv []float64 // reciprocal of each pivot (0 for a zero pivot)
 	hi  []int     // last possibly nonzero column of each row
 	lo  []int     // first possibly nonzero column of each row
 	lr  []int     // last possibly nonzero row of each column
@@ -32,7 +33,7 @@ type lu struct {
 // nonzero outside columns first[i]..last[i] and whose column j none outside
 // rows first[j]..last[j]; nil bounds mean dense.
 func newLU(n int, first, last []int) *lu {
-	f := &lu{n: n, a: make([]float64, n*n), piv: make([]int, n),
+	f := &lu{n: n, a: make([]float64, n*n), piv: make([]int, n), inv: make([]float64, n),
 		hi: make([]int, n), lo: make([]int, n), lr: make([]int, n), lo0: first, hi0: last}
 	if f.hi0 == nil {
 		f.lo0, f.hi0 = make([]int, n), make([]int, n)
@@ -100,9 +101,11 @@ func (f *lu) factor(m []float64) int {
 			if zero < 0 {
 				zero = k
 			}
+			f.inv[k] = 0
 			continue
 		}
 		inv := 1 / d
+		f.inv[k] = inv
 		hk := hi[k]
 		if hk <= k {
 			// Row k ends at the diagonal: the multipliers change nothing.
@@ -120,6 +123,7 @@ func (f *lu) factor(m []float64) int {
 			l *= inv
 			a[i*n+k] = l
 			rowi := a[i*n+k+1 : i*n+hk+1]
+			rowi = rowi[:len(rowk)] // lets the compiler drop the bounds checks
 			for j, v := range rowk {
 				rowi[j] -= l * v
 			}
@@ -153,6 +157,7 @@ func (f *lu) solve(b []float64) {
 		row := a[i*n+j0 : i*n+i]
 		s := b[i]
 		x := b[j0:i]
+		x = x[:len(row)]
 		for j, v := range row {
 			s -= v * x[j]
 		}
@@ -163,9 +168,12 @@ func (f *lu) solve(b []float64) {
 		row := a[i*n+i+1 : i*n+h+1]
 		s := b[i]
 		x := b[i+1 : h+1]
+		x = x[:len(row)]
 		for j, v := range row {
 			s -= v * x[j]
 		}
-		b[i] = s / a[i*n+i]
+		// The reciprocal the elimination already formed: a multiplication
+		// instead of a division on the chain of dependent back-substitutions.
+		b[i] = s * f.inv[i]
 	}
 }

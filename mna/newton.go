@@ -58,18 +58,20 @@ func (s *System) assemble(g float64) {
 		}
 	}
 	clear(s.scale)
-	clear(s.noise)
 	c := &s.ctx
 	c.Limited = false
 	for di := range s.devs {
 		d := &s.devs[di]
-		for k, r := range d.touched {
-			s.snap[k] = s.f[r]
+		for _, k := range d.prior {
+			s.snap[k] = s.f[d.touched[k]]
 		}
 		c.StateBase = d.stateLo
 		d.dev.Eval(c)
 		for k, r := range d.touched {
-			v := s.f[r] - s.snap[k]
+			v := s.f[r]
+			if d.shared[k] {
+				v -= s.snap[k]
+			}
 			s.snap[k] = v
 			if a := math.Abs(v); a > s.scale[r] {
 				s.scale[r] = a
@@ -86,24 +88,22 @@ func (s *System) assemble(g float64) {
 	if c.DC {
 		clear(s.qdot)
 	} else {
+		hist, qdot := s.hist[:len(s.q)], s.qdot[:len(s.q)]
 		for k, r := range s.rows {
-			qd := c.Alpha*s.q[k] + s.hist[k]
-			s.qdot[k] = qd
+			qd := c.Alpha*s.q[k] + hist[k]
+			qdot[k] = qd
 			a := math.Abs(qd)
-			big := math.Abs(s.hist[k])
 			if r.Plus >= 0 {
 				s.f[r.Plus] += qd
 				if a > s.scale[r.Plus] {
 					s.scale[r.Plus] = a
 				}
-				s.noise[r.Plus] += big
 			}
 			if r.Minus >= 0 {
 				s.f[r.Minus] -= qd
 				if a > s.scale[r.Minus] {
 					s.scale[r.Minus] = a
 				}
-				s.noise[r.Minus] += big
 			}
 			st := s.stateTerm[k]
 			if st[0] >= 0 {
@@ -115,10 +115,29 @@ func (s *System) assemble(g float64) {
 		}
 	}
 	n := s.n
-	for i := 0; i < n; i++ {
-		if s.isNode[i] {
-			s.f[i] += g * s.x[i]
-			s.jac[i*n+i] += g
+	for _, i := range s.nodeRows {
+		s.f[i] += g * s.x[i]
+		s.jac[i*n+i] += g
+	}
+}
+
+// setNoise sums on every row the magnitudes of the history terms of the
+// states stamped there, the rounding allowance of residualOK. The history
+// is fixed over the Newton iterations of a step, so this is done once per
+// step, after the history is formed (and cleared for the operating point,
+// which has no state derivatives).
+func (s *System) setNoise() {
+	clear(s.noise)
+	if s.ctx.DC {
+		return
+	}
+	for k, r := range s.rows {
+		big := math.Abs(s.hist[k])
+		if r.Plus >= 0 {
+			s.noise[r.Plus] += big
+		}
+		if r.Minus >= 0 {
+			s.noise[r.Minus] += big
 		}
 	}
 }
@@ -142,7 +161,7 @@ func (s *System) residualOK(t *tol) bool {
 		} else {
 			big := 0.0
 			row := s.jac[i*n : i*n+n]
-			for j := s.lu.lo0[i]; j <= s.lu.hi0[i]; j++ {
+			for _, j := range s.rowCols[i] {
 				if a := math.Abs(row[j] * s.x[j]); a > big {
 					big = a
 				}

@@ -19,6 +19,8 @@ type System struct {
 	nodeIdx     []int    // unknown of each circuit node
 	unknowns    []string // display name of every unknown
 	isNode      []bool   // KCL row (true) or branch row (false)
+	nodeRows    []int    // the KCL rows, which carry the shunt conductance
+	rowCols     [][]int  // for a branch row, the columns its device can stamp
 	owner       []int    // device owning an internal unknown, -1 for circuit nodes
 	circuitNode []int    // circuit node of each unknown, -1 for internal ones
 	nodeDevs    [][]int  // devices touching each circuit node, for hints
@@ -66,9 +68,11 @@ type System struct {
 type device struct {
 	dev       devices.Device
 	nodes     devices.Nodes
-	term      []int // terminal rows (Ground allowed)
-	touched   []int // distinct rows the device may stamp
-	termSnap  []int // for each terminal, its index in touched, or -1
+	term      []int  // terminal rows (Ground allowed)
+	touched   []int  // distinct rows the device may stamp
+	prior     []int  // indices in touched of the rows an earlier device stamps too
+	shared    []bool // for each row in touched, whether it is in prior
+	termSnap  []int  // for each terminal, its index in touched, or -1
 	stateLo   int
 	stateHi   int
 	curBase   int
@@ -185,6 +189,35 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		}
 	}
 	s.n = len(s.unknowns)
+	// A branch row belongs to one device, which alone stamps it, and only
+	// in its own unknowns' columns.
+	s.rowCols = make([][]int, s.n)
+	for i, node := range s.isNode {
+		if !node {
+			s.rowCols[i] = s.devs[s.owner[i]].touched
+		}
+	}
+	// A row that no earlier device stamps holds zero when a device's Eval
+	// starts, so only the others need a snapshot to tell its contribution.
+	stamped := make([]bool, s.n)
+	for di := range s.devs {
+		d := &s.devs[di]
+		d.shared = make([]bool, len(d.touched))
+		for k, r := range d.touched {
+			if stamped[r] {
+				d.prior = append(d.prior, k)
+				d.shared[k] = true
+			}
+		}
+		for _, r := range d.touched {
+			stamped[r] = true
+		}
+	}
+	for i, node := range s.isNode {
+		if node {
+			s.nodeRows = append(s.nodeRows, i)
+		}
+	}
 	for di := range s.devs {
 		d := &s.devs[di]
 		sr := d.dev.Bind(d.nodes)

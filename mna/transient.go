@@ -160,6 +160,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 				s.hist[k] = -c.Alpha*q - s.qdotAcc[k]
 			}
 		}
+		s.setNoise()
 		c.T = tNew
 		copy(s.x, s.xAcc) // start Newton from the last point
 		it, st := s.newton(&t, t.gmin)
@@ -177,14 +178,16 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 		if fixed <= 0 {
 			r, have := s.lteRatio(be > 0, tNew, head, nHist, &t)
 			if have {
-				p := 1.0 / 3
+				// r^(−1/order): a cube root for the trapezoidal rule, a
+				// square root for backward Euler, cheaper than math.Pow.
+				root := math.Cbrt
 				if be > 0 {
-					p = 0.5
+					root = math.Sqrt
 				}
 				if r > 1 {
 					be = max(be, 1)
 					res.Stats.Rejected++
-					h = hs * max(1.0/8, min(0.5, safety*math.Pow(r, -p)))
+					h = hs * max(1.0/8, min(0.5, safety/root(r)))
 					if h < minStep {
 						e := s.solveError(now, notConverged, "the truncation error stays too large at the minimum step")
 						who := s.elements[s.stateDev[s.lteWorst]]
@@ -195,7 +198,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 					continue
 				}
 				if r > 0 {
-					grow = min(2, safety*math.Pow(r, -p))
+					grow = min(2, safety/root(r))
 				}
 			}
 		}
@@ -285,14 +288,18 @@ func (s *System) lteRatio(be bool, tNew float64, head, nHist int, t *tol) (r flo
 		}
 		t0, t1 := s.ht[i2], s.ht[i1]
 		q0, q1 := s.hq[i2], s.hq[i1]
+		q0, q1 = q0[:len(s.q)], q1[:len(s.q)]
+		// Reciprocals of the time differences, formed once for all states.
+		r10, r21, r20 := 1/(t1-t0), 1/(tNew-t1), 1/(tNew-t0)
 		for k, q2 := range s.q {
-			d10 := (q1[k] - q0[k]) / (t1 - t0)
-			d21 := (q2 - q1[k]) / (tNew - t1)
-			dd2 := (d21 - d10) / (tNew - t0)
+			d10 := (q1[k] - q0[k]) * r10
+			d21 := (q2 - q1[k]) * r21
+			dd2 := (d21 - d10) * r20
 			lte := h * h * dd2
 			tl := trtol * (t.rel*math.Max(math.Abs(q1[k]), math.Abs(q2)) + t.charge)
-			if e := math.Abs(lte) / tl; e > r {
-				r, s.lteWorst = e, k
+			// Divide only for a new largest ratio.
+			if e := math.Abs(lte); e > r*tl {
+				r, s.lteWorst = e/tl, k
 			}
 		}
 		return r, true
@@ -302,17 +309,20 @@ func (s *System) lteRatio(be bool, tNew float64, head, nHist int, t *tol) (r flo
 	}
 	t0, t1, t2 := s.ht[i3], s.ht[i2], s.ht[i1]
 	q0, q1, q2 := s.hq[i3], s.hq[i2], s.hq[i1]
+	q0, q1, q2 = q0[:len(s.q)], q1[:len(s.q)], q2[:len(s.q)]
+	r10, r21, r32 := 1/(t1-t0), 1/(t2-t1), 1/(tNew-t2)
+	r20, r31, r30 := 1/(t2-t0), 1/(tNew-t1), 1/(tNew-t0)
 	for k, q3 := range s.q {
-		d10 := (q1[k] - q0[k]) / (t1 - t0)
-		d21 := (q2[k] - q1[k]) / (t2 - t1)
-		d32 := (q3 - q2[k]) / (tNew - t2)
-		dd20 := (d21 - d10) / (t2 - t0)
-		dd31 := (d32 - d21) / (tNew - t1)
-		dd3 := (dd31 - dd20) / (tNew - t0)
+		d10 := (q1[k] - q0[k]) * r10
+		d21 := (q2[k] - q1[k]) * r21
+		d32 := (q3 - q2[k]) * r32
+		dd20 := (d21 - d10) * r20
+		dd31 := (d32 - d21) * r31
+		dd3 := (dd31 - dd20) * r30
 		lte := h * h * h * dd3 / 2
 		tl := trtol * (t.rel*math.Max(math.Abs(q2[k]), math.Abs(q3)) + t.charge)
-		if e := math.Abs(lte) / tl; e > r {
-			r, s.lteWorst = e, k
+		if e := math.Abs(lte); e > r*tl {
+			r, s.lteWorst = e/tl, k
 		}
 	}
 	return r, true
