@@ -2,7 +2,6 @@ package mna_test
 
 import (
 	"encoding/csv"
-	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -154,27 +153,6 @@ func engineValue(t *testing.T, sys *mna.System, res *mna.Result, q string) (v fl
 	return 0, false
 }
 
-// engineIssues are disagreements traced to the engine, not to the
-// reference, that the engine's owner has to settle. Such a quantity is still
-// solved and compared; only a failure of it is reported as a skip, with the
-// numbers, so that the rest of the suite stays meaningful. Delete an entry
-// once the engine is fixed.
-//
-// v(tip) is the strike node behind a series inductor whose current the
-// ideal strike current fixes, so the node's voltage is v(n1) + L·dI/dt and
-// feeds nothing back. The engine's backward-Euler start-up steps give that
-// inductor a first-order voltage (off by about L·I″·h/2: 0.12 V in A, 0.14 V
-// in B at the default first step of 1e-3·MaxStep); the trapezoidal steps
-// that follow take it as their history, v(k+1) = 2L·ΔI/h − v(k), and carry
-// the error to the end of the run undamped, with alternating sign. The step
-// control watches the inductor's flux, which is exact, so it cannot see it,
-// and RelTol does not shrink it (about the same from 1e-3 to 1e-8). A
-// smaller first step shrinks it (MaxStep 10 ps: 2 mV).
-var engineIssues = map[string]string{
-	"net-a/min v(tip)": "engine: undamped trapezoidal alternation on the voltage of the inductor at the strike node, left by the start-up backward-Euler steps",
-	"net-b/max v(tip)": "engine: undamped trapezoidal alternation on the voltage of the inductor at the strike node, left by the start-up backward-Euler steps",
-}
-
 // compare runs both decks with set and checks every compared quantity of
 // summary.csv against the engine: voltages and currents within peakTol,
 // energies within energyTol (relative).
@@ -223,12 +201,8 @@ func compare(t *testing.T, set mna.Settings, peakTol, energyTol float64) {
 					if rel <= tol {
 						return
 					}
-					msg := fmt.Sprintf("%s %s: zapnet %.6g %s, reference %.6g %s (at %.4g s): %.3g %% apart, want under %.2g %%",
+					t.Errorf("%s %s: zapnet %.6g %s, reference %.6g %s (at %.4g s): %.3g %% apart, want under %.2g %%",
 						name, r.quantity, got, r.unit, r.value, r.unit, r.time, 100*rel, 100*tol)
-					if why, known := engineIssues[name+"/"+r.quantity]; known {
-						t.Skipf("%s; known, for the engine's owner to decide: %s", msg, why)
-					}
-					t.Error(msg)
 				})
 			}
 			if n < 8 {
