@@ -213,3 +213,49 @@ func TestOperatingPointFallbacks(t *testing.T) {
 		t.Errorf("MaxIter 2: got %v, want an operating-point *SolveError with a hint", err)
 	}
 }
+
+// The nonlinear models and the strike keep values between evaluations (the
+// stimulus at the time point being solved, the last junction evaluation):
+// two runs of one system, with a run of another stimulus between them, and
+// a run of a fresh system still agree bit for bit [practice: a solution
+// depends only on its circuit, stimulus and settings].
+func TestReproducibleNonlinear(t *testing.T) {
+	set := &Settings{Stop: 100e-9, Record: true}
+	s := referenceNetwork(t)
+	a, err := s.Transient(set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	other, _ := waveforms.New("iec61000-4-2", 4000, nil, nil)
+	s.SetStimulus(other, -1)
+	if _, err := s.Transient(set); err != nil {
+		t.Fatal(err)
+	}
+	st, _ := waveforms.New("iec61000-4-2", 8000, nil, nil)
+	s.SetStimulus(st, 1)
+	b, err := s.Transient(set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, err := referenceNetwork(t).Transient(set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for name, r := range map[string]*Result{"second run": b, "fresh system": c} {
+		if len(r.Time) != len(a.Time) || r.Stats.Newton != a.Stats.Newton || r.Balance != a.Balance {
+			t.Fatalf("%s: %d points, %d Newton iterations; first run %d, %d", name, len(r.Time), r.Stats.Newton, len(a.Time), a.Stats.Newton)
+		}
+		for i := range a.V {
+			for k := range a.V[i] {
+				if a.V[i][k] != r.V[i][k] {
+					t.Fatalf("%s: node %s differs at %g s", name, s.Nodes()[i], a.Time[k])
+				}
+			}
+		}
+		for i := range a.Energy {
+			if a.Energy[i] != r.Energy[i] {
+				t.Fatalf("%s: energy of %s differs", name, s.Elements()[i])
+			}
+		}
+	}
+}
