@@ -27,6 +27,11 @@ type lu struct {
 	// The circuit's structure: the first and last column of each row (and,
 	// the structure being symmetric, the first and last row of each column).
 	lo0, hi0 []int
+
+	// tiny is the pivot magnitude at or below which factor reports a column
+	// in weak (the first such, or -1): set it before factor.
+	tiny float64
+	weak int
 }
 
 // newLU prepares the factorisation of n×n matrices whose row i has no
@@ -70,6 +75,7 @@ func (f *lu) factor(m []float64) int {
 	copy(lo, f.lo0)
 	copy(lr, f.hi0)
 	zero := -1
+	f.weak = -1
 	for k := 0; k < n; k++ {
 		end := lr[k]
 		p, mx := k, math.Abs(a[k*n+k])
@@ -97,6 +103,9 @@ func (f *lu) factor(m []float64) int {
 			}
 		}
 		d := a[k*n+k]
+		if f.weak < 0 && !(math.Abs(d) > f.tiny) {
+			f.weak = k
+		}
 		if d == 0 {
 			if zero < 0 {
 				zero = k

@@ -223,11 +223,16 @@ func (s *System) newton(t *tol, g float64) (int, newtonStatus) {
 			}
 		}
 		s.factorisations++
+		// Node rows carry at least the shunt g, so a pivot far below it
+		// means a dependent unknown (a loop of supplies or inductors, a
+		// node held only by branch equations), not a weakly tied node:
+		// factor names the first such column in weak.
+		s.lu.tiny = 1e-6 * g
 		if k := s.lu.factor(s.jac); k >= 0 {
 			s.resRow, s.resValue = k, s.f[k]
 			return it, singular
 		}
-		if k := s.zeroPivot(g); k >= 0 {
+		if k := s.lu.weak; k >= 0 {
 			s.resRow, s.resValue = k, s.f[k]
 			return it, singular
 		}
@@ -271,19 +276,4 @@ func (s *System) update(t *tol, apply bool) (ok bool, bad int) {
 		}
 	}
 	return ok, bad
-}
-
-// zeroPivot returns the unknown whose pivot vanished in the factorisation,
-// or -1. Node rows carry at least the shunt g, so a pivot far below it
-// means a dependent unknown (a loop of supplies or inductors, a node held
-// only by branch equations), not a weakly tied node.
-func (s *System) zeroPivot(g float64) int {
-	lim := 1e-6 * g
-	for k := 0; k < s.n; k++ {
-		p := s.lu.pivot(k)
-		if !(math.Abs(p) > lim) {
-			return k
-		}
-	}
-	return -1
 }
