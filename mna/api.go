@@ -17,6 +17,13 @@ type Settings struct {
 	Stop float64
 	// MaxStep bounds the time step, s. Zero: Stop/50.
 	MaxStep float64
+	// FirstStep bounds the first step after t = 0 and after every
+	// breakpoint, s. That step is taken with backward Euler and accepted
+	// without an error estimate (there is no history yet), so it must
+	// resolve the stimulus's rise: a study sets it from the stimulus's own
+	// time scale. Zero: a thousandth of the interval it starts (itself at
+	// most MaxStep).
+	FirstStep float64
 	// MinStep is the step below which the solver gives up with a
 	// *SolveError, s. Zero: 1e-16 s.
 	MinStep float64

@@ -82,6 +82,14 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 		minStep = 1e-16
 	}
 	fixed := cfg.FixedStep
+	// first is the first step after t = 0 and after each breakpoint.
+	first := func(interval float64) float64 {
+		h := min(maxStep, interval) * firstFraction
+		if cfg.FirstStep > 0 {
+			h = min(h, cfg.FirstStep)
+		}
+		return h
+	}
 
 	ne := len(s.devs)
 	res := &Result{Energy: make([]float64, ne), PeakCurrent: make([]float64, ne), Stop: stop}
@@ -125,7 +133,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 		return stop, false
 	}
 	target, _ := nextTarget()
-	h := min(maxStep, target) * firstFraction
+	h := first(target)
 	if fixed > 0 {
 		h = fixed
 	}
@@ -227,7 +235,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 			be = beSteps
 			nHist = 1
 			next, _ := nextTarget()
-			h = min(maxStep, next-now) * firstFraction
+			h = first(next - now)
 		default:
 			if be > 0 {
 				be--

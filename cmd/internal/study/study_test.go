@@ -14,7 +14,7 @@ import (
 	"zapnet/waveforms"
 )
 
-// demoPath is the deck of README's first command.
+// demoPath is the first try of the README demo, which fails at 6 kV.
 var demoPath = filepath.Join("..", "..", "..", "testdata", "demo-weak.zap")
 
 func parse(t *testing.T, src string) *netlist.Circuit {
