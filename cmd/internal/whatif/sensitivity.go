@@ -28,6 +28,14 @@ type SensitivityOptions struct {
 	Params []string
 	// Step is the relative perturbation. Zero: 0.10 (±10 %).
 	Step float64
+	// Limit names the one limit whose margin ranks the parameters, as
+	// "ELEMENT PARAM" or "ELEMENT.PARAM" ("U1 vmax", "D1.ipp"): the
+	// smallest margin of that limit over every level and polarity. Empty:
+	// the worst margin over every limit. A limit such as a clamp's ipp is
+	// set almost wholly by the strike current, so while it is the worst the
+	// ranking says little about the rest of the design; naming the pin's
+	// limit asks what buys margin there.
+	Limit string
 	// Shard selects the parameters (by index in Params order) this process
 	// perturbs. Zero: all.
 	Shard Shard
@@ -79,13 +87,16 @@ type SensitivityResult struct {
 	// deck ({} for the deck as written). The caller sets it.
 	Variant          map[string]string `json:"variant"`
 	BaselineLimiting string            `json:"baseline_limiting"`
-	Step             float64           `json:"step"`
-	Parameters       []ParamEffect     `json:"parameters"` // by |Effect|, largest first
-	Skipped          []Skipped         `json:"skipped"`
-	Total            int               `json:"total"` // parameters of the whole study
-	Notes            []string          `json:"notes,omitempty"`
-	Shard            *ShardInfo        `json:"shard,omitempty"`
-	Interrupted      bool              `json:"interrupted,omitempty"`
+	// Limit is the limit that ranks, as asked (SensitivityOptions.Limit);
+	// empty for the worst over every limit.
+	Limit       string        `json:"limit,omitempty"`
+	Step        float64       `json:"step"`
+	Parameters  []ParamEffect `json:"parameters"` // by |Effect|, largest first
+	Skipped     []Skipped     `json:"skipped"`
+	Total       int           `json:"total"` // parameters of the whole study
+	Notes       []string      `json:"notes,omitempty"`
+	Shard       *ShardInfo    `json:"shard,omitempty"`
+	Interrupted bool          `json:"interrupted,omitempty"`
 }
 
 // Sensitivities perturbs each parameter of c by ±Step (one at a time, the
@@ -117,7 +128,7 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 	if err != nil {
 		return nil, err
 	}
-	res := &SensitivityResult{Variant: map[string]string{}, Step: step, Total: len(params) + len(skipped), Parameters: []ParamEffect{}, Skipped: []Skipped{}}
+	res := &SensitivityResult{Variant: map[string]string{}, Step: step, Limit: opt.Limit, Total: len(params) + len(skipped), Parameters: []ParamEffect{}, Skipped: []Skipped{}}
 	res.Shard = opt.Shard.Info(res.Total)
 	if len(c.Vary) > 0 {
 		res.Notes = append(res.Notes, "the deck's vary lines are left out: a sensitivity perturbs one design (choose it with --set)")
@@ -129,6 +140,20 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 	}
 	sopt := opt.Study
 	sopt.Record = false
+	limit := strings.Replace(strings.TrimSpace(opt.Limit), ".", " ", 1)
+	// marginOf is the margin that ranks: the run's worst, or the named
+	// limit's.
+	marginOf := func(r *study.Run) *study.Limit {
+		if limit == "" {
+			return r.Worst
+		}
+		for i := range r.Limits {
+			if r.Limits[i].Name() == limit {
+				return &r.Limits[i]
+			}
+		}
+		return nil
+	}
 
 	// worstOf solves every job on circuit x and returns the smallest
 	// percentage margin with its place.
@@ -143,10 +168,13 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 			if err != nil {
 				return 0, "", fmt.Errorf("%s %s: %w", netlist.FormatSI(j.Level, levelUnitOf(c)), j.Polarity, err)
 			}
-			if r.Worst != nil && (where == "" || r.Worst.Percent < best) {
-				best = r.Worst.Percent
-				where = fmt.Sprintf("%s at %s %s", r.Worst.Name(), netlist.FormatSI(j.Level, r.LevelUnit), j.Polarity)
+			if m := marginOf(r); m != nil && (where == "" || m.Percent < best) {
+				best = m.Percent
+				where = fmt.Sprintf("%s at %s %s", m.Name(), netlist.FormatSI(j.Level, r.LevelUnit), j.Polarity)
 			}
+		}
+		if where == "" && limit != "" {
+			return 0, "", fmt.Errorf("no limit %q in the deck (name one as ELEMENT PARAM, e.g. \"U1 vmax\")", opt.Limit)
 		}
 		return jsonSafe(best), where, nil
 	}
