@@ -124,15 +124,22 @@ func reportFigures(fs []plots.Figure) []report.Figure {
 // as o asks: "DECK_margin.svg" in the --plot folder, and an HTML report of
 // the figure with the caution and the deck.
 func writeMarginPictures(o pictureOptions, c *netlist.Circuit, meta report.Meta, fig plots.Figure) error {
+	return writeStudyPictures(o, c, meta, "Margin against level", []plots.Figure{fig})
+}
+
+// writeStudyPictures writes the figures of a what-if study that has no
+// recorded runs (margin, sensitivity, spread) as o asks: each figure as
+// "DECK_NAME.svg" in the --plot folder, and one HTML report with the
+// caution, the figures under the heading kind, and the deck.
+func writeStudyPictures(o pictureOptions, c *netlist.Circuit, meta report.Meta, kind string, figs []plots.Figure) error {
 	var errs []error
 	if o.plotDir != "" {
-		if err := writeSVGs(o.plotDir, meta.Deck, nil, nil, []plots.Figure{fig}); err != nil {
+		if err := writeSVGs(o.plotDir, meta.Deck, nil, nil, figs); err != nil {
 			errs = append(errs, fmt.Errorf("--plot: %w", err))
 		}
 	}
 	if o.htmlFile != "" {
-		hopt := &report.HTMLOptions{Meta: meta, Source: c.Source, Overlays: reportFigures([]plots.Figure{fig}),
-			OverlaysTitle: "Margin against level"}
+		hopt := &report.HTMLOptions{Meta: meta, Source: c.Source, Overlays: reportFigures(figs), OverlaysTitle: kind}
 		if err := report.WriteFile(o.htmlFile, func(w io.Writer) error { return report.HTML(w, nil, hopt) }); err != nil {
 			errs = append(errs, fmt.Errorf("--html: %w", err))
 		}

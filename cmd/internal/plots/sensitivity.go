@@ -1,0 +1,155 @@
+package plots
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"zapnet/cmd/internal/whatif"
+)
+
+// MaxBars bounds the parameters SensitivityBars draws: past about fifteen
+// rows the names no longer fit a page, and the ranking puts the ones that
+// matter first.
+const MaxBars = 15
+
+// SensitivityBars draws a sensitivity study as a ranked bar chart: one row
+// per parameter, in the ranking's order from the top (at most MaxBars), each
+// row two horizontal bars from the baseline worst margin to the worst margin
+// with the parameter lowered and raised by the step. The baseline is a
+// vertical line; where the bars reach both sides of 0 %, the zero line where
+// PASS turns into FAIL is drawn too. Parameters whose perturbed circuit
+// failed to solve, or whose margin is unbounded (a zero limit), cannot be
+// placed: they are left out and the caption says how many. title is the
+// deck's title; the figure is named "sensitivity".
+func SensitivityBars(title string, res *whatif.SensitivityResult, opt *Options) (Figure, error) {
+	if res == nil {
+		return Figure{}, fmt.Errorf("plots: sensitivity: nothing to draw")
+	}
+	finite := func(v float64) bool { return !math.IsNaN(v) && math.Abs(v) < 1e300 }
+	var rows []whatif.ParamEffect
+	left := 0
+	for _, p := range res.Parameters {
+		if p.Error != "" || !finite(p.Minus10) || !finite(p.Plus10) {
+			left++
+			continue
+		}
+		rows = append(rows, p)
+	}
+	if len(rows) == 0 || !finite(res.Baseline) {
+		return Figure{}, fmt.Errorf("plots: sensitivity: no parameter with a finite margin to draw")
+	}
+	what := "Worst margin with each parameter changed by ±" + stepText(res.Step)
+	caption := what
+	if len(rows) > MaxBars {
+		caption += fmt.Sprintf(" (the first %d of %d parameters)", MaxBars, len(rows))
+		rows = rows[:MaxBars]
+	}
+	if left > 0 {
+		caption += fmt.Sprintf("; %d left out (unsolved or unbounded)", left)
+	}
+
+	var o Options
+	if opt != nil {
+		o = *opt
+	}
+	// A row needs room for two bars and its name: grow the figure with the
+	// number of rows rather than squeeze them.
+	if o.Height == 0 {
+		o.Height = vg.Length(math.Max(9, 3.5+0.7*float64(len(rows)))) * vg.Centimeter
+	}
+	o = o.withDefaults()
+	o.Title = title
+
+	p := newPlot("")
+	p.X.Label.Text = "worst margin (% of the limit)"
+	names := make([]string, len(rows))
+	n := len(rows)
+	minus := &plotter.Polygon{Color: palette[0]}
+	plus := &plotter.Polygon{Color: palette[1]}
+	const half = 0.36 // of a row: the two bars and a gap between rows
+	for i, r := range rows {
+		// The ranking reads from the top: the first row sits highest.
+		y := float64(n - 1 - i)
+		names[n-1-i] = clip(r.Param, 24)
+		minus.XYs = append(minus.XYs, bar(res.Baseline, r.Minus10, y, y+half))
+		plus.XYs = append(plus.XYs, bar(res.Baseline, r.Plus10, y-half, y))
+	}
+	minus.LineStyle.Width, plus.LineStyle.Width = 0, 0
+	p.Add(minus, plus)
+	p.NominalY(names...)
+	p.Y.Min, p.Y.Max = -0.6, float64(n)-0.4
+
+	lo, hi := res.Baseline, res.Baseline
+	for _, r := range rows {
+		lo = math.Min(lo, math.Min(r.Minus10, r.Plus10))
+		hi = math.Max(hi, math.Max(r.Minus10, r.Plus10))
+	}
+	if hi-lo < 1e-9*math.Max(1, math.Abs(hi)) {
+		// No parameter moves the margin: give the axis a width to draw.
+		lo, hi = lo-1, hi+1
+	}
+	pad := 0.05 * (hi - lo)
+	p.X.Min, p.X.Max = lo-pad, hi+pad
+
+	step := stepText(res.Step)
+	entries := []legendEntry{{"−" + step, minus}, {"+" + step, plus}}
+	fig := Figure{Name: "sensitivity", Caption: caption, Series: []string{"−" + step, "+" + step}}
+
+	baseName := "baseline " + percent(res.Baseline) // as the table prints it
+	base, err := vline(res.Baseline, p.Y.Min, p.Y.Max, draw.LineStyle{Color: palette[6], Width: vg.Points(1.2)})
+	if err != nil {
+		return Figure{}, fmt.Errorf("plots: sensitivity: %w", err)
+	}
+	p.Add(base)
+	entries = append(entries, legendEntry{baseName, base})
+	fig.Series = append(fig.Series, baseName)
+	if lo < 0 && hi > 0 {
+		zero, err := vline(0, p.Y.Min, p.Y.Max, draw.LineStyle{Color: limitColor, Width: vg.Points(1),
+			Dashes: []vg.Length{vg.Points(5), vg.Points(3)}})
+		if err != nil {
+			return Figure{}, fmt.Errorf("plots: sensitivity: %w", err)
+		}
+		p.Add(zero)
+		entries = append(entries, legendEntry{"0 %: PASS right, FAIL left", zero})
+		fig.Series = append(fig.Series, "0 %: PASS right, FAIL left")
+	}
+	svg, err := render(&o, heading(title, what), []*plot.Plot{p}, entries)
+	if err != nil {
+		return Figure{}, fmt.Errorf("plots: sensitivity: %w", err)
+	}
+	fig.SVG = svg
+	return fig, nil
+}
+
+// bar is the rectangle from x0 to x1 between heights y0 and y1.
+func bar(x0, x1, y0, y1 float64) plotter.XYs {
+	return plotter.XYs{{X: x0, Y: y0}, {X: x1, Y: y0}, {X: x1, Y: y1}, {X: x0, Y: y1}}
+}
+
+// vline is a vertical line at x from y0 to y1.
+func vline(x, y0, y1 float64, s draw.LineStyle) (*plotter.Line, error) {
+	l, err := plotter.NewLine(plotter.XYs{{X: x, Y: y0}, {X: x, Y: y1}})
+	if err != nil {
+		return nil, err
+	}
+	l.LineStyle = s
+	return l, nil
+}
+
+// stepText writes a fraction as a percentage for a legend: 0.1 → "10 %".
+func stepText(f float64) string {
+	return strconv.FormatFloat(round4(100*f), 'g', -1, 64) + " %"
+}
+
+// round4 keeps four significant digits, as the tables print.
+func round4(v float64) float64 {
+	s := strconv.FormatFloat(v, 'g', 4, 64)
+	r, _ := strconv.ParseFloat(s, 64)
+	return r
+}
