@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -25,7 +26,8 @@ const MaxBars = 15
 // vertical line; where the bars reach both sides of 0 %, the zero line where
 // PASS turns into FAIL is drawn too. Parameters whose perturbed circuit
 // failed to solve, or whose margin is unbounded (a zero limit), cannot be
-// placed: they are left out and the caption says how many. title is the
+// placed: they are left out and the caption says how many. With a named
+// limit (SensitivityResult.Limit) the axis is that limit's margin. title is the
 // deck's title; the figure is named "sensitivity".
 func SensitivityBars(title string, res *whatif.SensitivityResult, opt *Options) (Figure, error) {
 	if res == nil {
@@ -44,7 +46,12 @@ func SensitivityBars(title string, res *whatif.SensitivityResult, opt *Options) 
 	if len(rows) == 0 || !finite(res.Baseline) {
 		return Figure{}, fmt.Errorf("plots: sensitivity: no parameter with a finite margin to draw")
 	}
-	what := "Worst margin with each parameter changed by ±" + stepText(res.Step)
+	// With a named limit the ranking is by that limit's margin alone.
+	quantity := "worst margin"
+	if res.Limit != "" {
+		quantity = "margin of " + strings.Replace(strings.TrimSpace(res.Limit), ".", " ", 1)
+	}
+	what := strings.ToUpper(quantity[:1]) + quantity[1:] + " with each parameter changed by ±" + stepText(res.Step)
 	caption := what
 	if len(rows) > MaxBars {
 		caption += fmt.Sprintf(" (the first %d of %d parameters)", MaxBars, len(rows))
@@ -67,7 +74,7 @@ func SensitivityBars(title string, res *whatif.SensitivityResult, opt *Options) 
 	o.Title = title
 
 	p := newPlot("")
-	p.X.Label.Text = "worst margin (% of the limit)"
+	p.X.Label.Text = quantity + " (% of the limit)"
 	names := make([]string, len(rows))
 	n := len(rows)
 	minus := &plotter.Polygon{Color: palette[0]}

@@ -66,6 +66,16 @@ func TestSensitivityBars(t *testing.T) {
 	if want := []string{"−5 %", "+5 %", "baseline 12.5 %", "0 %: PASS right, FAIL left"}; !slices.Equal(f.Series, want) {
 		t.Errorf("series %q, want %q", f.Series, want)
 	}
+
+	// Ranked by a named limit, the axis says which.
+	res.Limit = "U1.vmax"
+	f, err = SensitivityBars("", res, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if texts, _ := svgText(t, "sensitivity", f.SVG); !slices.Contains(texts, "margin of U1 vmax (% of the limit)") {
+		t.Errorf("the axis does not name the limit: %q", texts)
+	}
 }
 
 // More than MaxBars parameters: the first MaxBars in ranking order are
