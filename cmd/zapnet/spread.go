@@ -7,8 +7,10 @@ import (
 	"io"
 	"strconv"
 
+	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/report"
 	"zapnet/cmd/internal/whatif"
+	"zapnet/netlist"
 )
 
 // spreadOptions are the settings of `zapnet spread`.
@@ -21,13 +23,15 @@ type spreadOptions struct {
 	json       string
 	workers    int
 	sweep      sweepSpec
+	pictures   pictureOptions // --plot and --html: the histograms
 }
 
 func runSpread(args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("spread",
-		"spread DECK [--runs N] [--seed S] [--level LIST] [--polarity pos|neg|both] [--set E.P=v] [--shard i/n] [--json FILE] [--workers N]",
+		"spread DECK [--runs N] [--seed S] [--level LIST] [--polarity pos|neg|both] [--set E.P=v] [--shard i/n] [--json FILE] [--plot DIR] [--html FILE] [--workers N]",
 		`  zapnet spread testdata/signal-connector.zap --runs 2000 --seed 7 --level 8k
   zapnet spread deck.zap --runs 10000 --seed 1 --shard 3/10 --json part3.json
+  zapnet spread testdata/signal-connector.zap --runs 500 --level 8k --plot figs --html spread.html
 
 Draws N circuits from the deck's tolerance lines (uniform: ±x %; normal: x %
 is three standard deviations, truncated there), strikes each at every level
@@ -37,6 +41,9 @@ circuits that pass everywhere with its Wilson 95 % interval. Circuit k draws
 from a generator seeded by (seed, k): the same seed gives the same result on
 any number of cores and shards. The JSON keeps every circuit's values
 ("samples") so that zapnet merge recomputes the percentiles exactly.
+--plot and --html draw a histogram of each pin's residual peak and each
+clamp's energy over the circuits, with p1, p50, p99 and the pin's vmax
+(the clamp's emax) marked.
 Exit status: 0 every drawn circuit passed, 1 at least one failed, 2 unusable
 input or a failed solve.`,
 		stderr)
@@ -47,6 +54,11 @@ input or a failed solve.`,
 	jsonPath := fs.String("json", "", "write the distribution as JSON to `FILE` (- for stdout, the tables then go to stderr)")
 	workers := fs.Int("workers", 0, "circuits solved at once (default: every core)")
 	sweep := addSweepFlags(fs)
+	pictures := addPictureFlags(fs)
+	// The shared help of --plot and --html speaks of runs; a spread draws
+	// one histogram per quantity.
+	fs.Lookup("plot").Usage = "write histograms of each pin's residual peak and each clamp's energy to `DIR`/DECK_spread-U1-peak.svg, DECK_spread-D1-energy.svg, ... (folder created when missing)"
+	fs.Lookup("html").Usage = "write a self-contained HTML report to `FILE`: caution, the histograms and the deck (opens offline)"
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
@@ -54,7 +66,7 @@ input or a failed solve.`,
 	if err != nil {
 		return err
 	}
-	opt := spreadOptions{deck: deck, json: *jsonPath, workers: *workers, runs: *runs}
+	opt := spreadOptions{deck: deck, json: *jsonPath, workers: *workers, runs: *runs, pictures: pictures.options()}
 	var errs []error
 	if opt.levels, err = parseLevelFlag(*level); err != nil {
 		errs = append(errs, err)
@@ -92,7 +104,25 @@ func spreadStudy(ctx context.Context, opt spreadOptions, stdout, stderr io.Write
 		return err
 	}
 	res.Variant = whatif.VariantMap(variant)
-	return writeSpread(res, deckMeta(opt.deck, c), opt.json, stdout, stderr)
+	meta := deckMeta(opt.deck, c)
+	err = writeSpread(res, meta, opt.json, stdout, stderr)
+	if opt.pictures.wanted() {
+		// The ratings drawn are those of the design the circuits were
+		// drawn around (--set may change them); the page shows the deck.
+		if perr := drawSpread(opt.pictures, c, base, meta, res); perr != nil {
+			err = errors.Join(err, perr)
+		}
+	}
+	return err
+}
+
+// drawSpread draws the histograms of a spread.
+func drawSpread(o pictureOptions, c, design *netlist.Circuit, meta report.Meta, res *whatif.SpreadResult) error {
+	figs, err := plots.SpreadHistograms(c.Title, design, res, nil)
+	if err != nil {
+		return fmt.Errorf("--plot/--html: %w", err)
+	}
+	return writeStudyPictures(o, c, meta, "Spread over the drawn circuits", figs)
 }
 
 // writeSpread prints and writes a spread (also of merged shards). It returns

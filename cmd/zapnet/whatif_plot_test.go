@@ -5,6 +5,7 @@ import (
 	"os"
 	"path/filepath"
 	"slices"
+	"strings"
 	"testing"
 
 	"zapnet/cmd/internal/report"
@@ -48,6 +49,62 @@ func TestSensitivityPlotCommand(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, w := range []string{`id="fig-sensitivity"`, "<svg", "Sensitivity of the worst margin", report.Caution, "clamp     D1"} {
+		if !bytes.Contains(html, []byte(w)) {
+			t.Errorf("the HTML report lacks %q", w)
+		}
+	}
+}
+
+// `zapnet spread --plot DIR --html FILE` draws a histogram per pin peak and
+// clamp energy, and leaves the tables and the JSON exactly as without the
+// flags: the tables are the golden file of TestWhatIfTablesGolden
+// [practice: drawing must not change a result].
+func TestSpreadPlotCommand(t *testing.T) {
+	args := []string{"spread", spreadDeck, "--runs", "20", "--seed", "5"}
+	dir := t.TempDir()
+	figs, page := filepath.Join(dir, "figs"), filepath.Join(dir, "sp.html")
+	plain, drawn := filepath.Join(dir, "plain.json"), filepath.Join(dir, "drawn.json")
+
+	out, e, code := zapnet(t, append(args, "--plot", figs, "--html", page, "--json", drawn)...)
+	if code != exitFail { // every drawn circuit fails (TestSpreadCommand)
+		t.Fatalf("exit %d, want 1\n%s", code, e)
+	}
+	golden(t, "spread-net-a.txt", []byte(out))
+	if _, e, code := zapnet(t, append(args, "--json", plain)...); code != exitFail {
+		t.Fatalf("exit %d, want 1\n%s", code, e)
+	}
+	if a, b := readJSON(t, plain), readJSON(t, drawn); a != b {
+		t.Errorf("--plot and --html changed the JSON:\nwithout:\n%s\nwith:\n%s", a, b)
+	}
+
+	// Reference network A rates U1 at vmax 5.5 V (testdata/reference/net-a.zap).
+	for file, want := range map[string][]string{
+		"net-a-spread_spread-U1-peak.svg":   {"residual peak (V)", "Residual peak of U1", "circuits (20)", "circuits", "vmax 5.5 V, off scale"},
+		"net-a-spread_spread-D1-energy.svg": {"energy (µJ)", "Energy of D1", "circuits (20)"},
+	} {
+		svg, err := os.ReadFile(filepath.Join(figs, file))
+		if err != nil {
+			t.Error(err)
+			continue
+		}
+		texts := svgTexts(t, svg)
+		for _, w := range want {
+			if !slices.Contains(texts, w) {
+				t.Errorf("%s has no text %q; it has %q", file, w, texts)
+			}
+		}
+		if !slices.ContainsFunc(texts, func(s string) bool { return strings.HasPrefix(s, "20 circuits, seed 5, pass 0.0 %") }) {
+			t.Errorf("%s: the heading lacks the count, seed and pass fraction: %q", file, texts)
+		}
+		if !slices.ContainsFunc(texts, func(s string) bool { return strings.HasPrefix(s, "p99 ") }) {
+			t.Errorf("%s: no p99 line in the legend: %q", file, texts)
+		}
+	}
+	html, err := os.ReadFile(page)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, w := range []string{`id="fig-spread-U1-peak"`, `id="fig-spread-D1-energy"`, "Spread over the drawn circuits", report.Caution, "tolerance D1.vbr"} {
 		if !bytes.Contains(html, []byte(w)) {
 			t.Errorf("the HTML report lacks %q", w)
 		}

@@ -1,0 +1,206 @@
+package plots
+
+import (
+	"fmt"
+	"image/color"
+	"math"
+	"strings"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"zapnet/cmd/internal/whatif"
+	"zapnet/netlist"
+)
+
+// SpreadHistograms draws the distribution of a spread: one histogram per
+// protected pin's residual peak ("spread-U1-peak", V) and per clamp's
+// energy ("spread-D1-energy", J), each of the circuits' worst value over
+// their levels and polarities (the values the spread's percentiles are of).
+// Vertical lines mark p1, p50 and p99, and the rating where c gives one (a
+// pin's vmax, a clamp's emax); a rating far beyond the data is named in the
+// legend but left off the scale, so that the histogram stays readable. The
+// heading says how many circuits, the seed, and the pass fraction with its
+// 95 % interval. c is the design the circuits were drawn around (for its
+// ratings); title is the deck's title.
+func SpreadHistograms(title string, c *netlist.Circuit, res *whatif.SpreadResult, opt *Options) ([]Figure, error) {
+	if res == nil || res.Solved == 0 {
+		return nil, fmt.Errorf("plots: spread: no solved circuit to draw")
+	}
+	o := opt.withDefaults()
+	o.Title = title
+	// Short enough to fit beside the legend on one line.
+	stats := fmt.Sprintf("%d circuits, seed %d, pass %s (95 %%: %s–%s)",
+		res.Solved, res.Seed, percent(100*res.PassFraction), strings.TrimSuffix(percent(100*res.CI95[0]), " %"), percent(100*res.CI95[1]))
+	if res.Solved < res.Runs {
+		stats = fmt.Sprintf("%d of %d", res.Solved, res.Runs) + strings.TrimPrefix(stats, fmt.Sprint(res.Solved))
+	}
+	over := ""
+	if len(res.Conditions) > 1 {
+		over = ", worst over each circuit's strikes"
+	}
+	var figs []Figure
+	for mi, m := range res.Measures {
+		var elem, quantity, unit, name, rating string
+		switch {
+		case strings.HasSuffix(m, ".residual.peak"):
+			elem = strings.TrimSuffix(m, ".residual.peak")
+			quantity, unit, name, rating = "residual peak", "V", "spread-"+elem+"-peak", "vmax"
+		case strings.HasSuffix(m, ".energy"):
+			elem = strings.TrimSuffix(m, ".energy")
+			quantity, unit, name, rating = "energy", "J", "spread-"+elem+"-energy", "emax"
+		default:
+			continue
+		}
+		values := worstValues(res, mi)
+		var lim *limitLine
+		if c != nil {
+			if e := c.Element(elem); e != nil && e.Has(rating) {
+				lim = &limitLine{rating + " " + netlist.FormatSI(e.Num[rating], unit), e.Num[rating]}
+			}
+		}
+		what := strings.ToUpper(quantity[:1]) + quantity[1:] + " of " + elem + over
+		f, err := histogram(&o, name, what, stats, quantity, unit, values, res.Percentiles[m], lim)
+		if err != nil {
+			return nil, err
+		}
+		figs = append(figs, f)
+	}
+	if len(figs) == 0 {
+		return nil, fmt.Errorf("plots: spread: the deck has no protected pin and no clamp to draw")
+	}
+	return figs, nil
+}
+
+// worstValues is measure mi of every solved circuit, the worst over its
+// conditions: the highest, as for every measure drawn here.
+func worstValues(res *whatif.SpreadResult, mi int) []float64 {
+	var out []float64
+	for _, s := range res.Samples {
+		if s.Error != "" || len(s.Values) != len(res.Conditions) || len(s.Values) == 0 {
+			continue
+		}
+		w := s.Values[0][mi]
+		for _, row := range s.Values[1:] {
+			w = math.Max(w, row[mi])
+		}
+		out = append(out, w)
+	}
+	return out
+}
+
+// histogram draws values as a histogram with the percentile lines and the
+// rating lim (nil: none).
+func histogram(o *Options, name, what, stats, quantity, unit string, values []float64, pc whatif.Percentiles, lim *limitLine) (Figure, error) {
+	if len(values) == 0 {
+		return Figure{}, fmt.Errorf("plots: %s: nothing to draw", name)
+	}
+	lo, hi := values[0], values[0]
+	for _, v := range values {
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	}
+	// A rating within a few spans of the data is drawn to scale; one far
+	// off would squeeze the histogram into a sliver, so it is only named.
+	span := hi - lo
+	if span < 1e-6*math.Max(math.Abs(hi), 1e-30) {
+		// Every circuit gave the same value: give the bins a width.
+		span = math.Max(math.Abs(hi)*1e-3, 1e-30)
+		lo, hi = lo-span/2, hi+span/2
+	}
+	drawLim := lim != nil && lim.value >= lo-3*span && lim.value <= hi+3*span
+	xMax := math.Max(math.Abs(lo), math.Abs(hi))
+	if drawLim {
+		xMax = math.Max(xMax, math.Abs(lim.value))
+	}
+	xs, xp := engineering(xMax)
+
+	// About the square root of the count of bins, 5 to 40: enough to show
+	// the shape, few enough that each bin holds several circuits.
+	nb := int(math.Ceil(math.Sqrt(float64(len(values)))))
+	nb = max(5, min(nb, 40))
+	w := (hi - lo) / float64(nb)
+	bins := make([]plotter.HistogramBin, nb)
+	for i := range bins {
+		bins[i] = plotter.HistogramBin{Min: (lo + float64(i)*w) * xs, Max: (lo + float64(i+1)*w) * xs}
+	}
+	top := 0.0
+	for _, v := range values {
+		i := min(int((v-lo)/w), nb-1)
+		bins[i].Weight++
+		top = math.Max(top, bins[i].Weight)
+	}
+	h := &plotter.Histogram{Bins: bins, Width: w * xs, FillColor: palette[5],
+		LineStyle: draw.LineStyle{Color: color.White, Width: vg.Points(0.5)}}
+
+	p := newPlot("")
+	p.X.Label.Text = quantity + " (" + xp + unit + ")"
+	p.Y.Label.Text = "circuits"
+	p.Y.Tick.Marker = countTicks{}
+	p.Add(h)
+	p.Y.Min, p.Y.Max = 0, top*1.08
+	fig := Figure{Name: name, Caption: what + "; " + stats}
+	entries := []legendEntry{{fmt.Sprintf("circuits (%d)", len(values)), h}}
+	fig.Series = append(fig.Series, entries[0].name)
+
+	marks := []struct {
+		name  string
+		value float64
+		style draw.LineStyle
+	}{
+		{"p1 " + netlist.FormatSI(pc.P1, unit), pc.P1, draw.LineStyle{Color: palette[0], Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}},
+		{"p50 " + netlist.FormatSI(pc.P50, unit), pc.P50, draw.LineStyle{Color: palette[6], Width: vg.Points(1.2)}},
+		{"p99 " + netlist.FormatSI(pc.P99, unit), pc.P99, draw.LineStyle{Color: palette[1], Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(6), vg.Points(3)}}},
+	}
+	for _, m := range marks {
+		l, err := vline(m.value*xs, 0, p.Y.Max, m.style)
+		if err != nil {
+			return Figure{}, fmt.Errorf("plots: %s: %w", name, err)
+		}
+		p.Add(l)
+		entries = append(entries, legendEntry{m.name, l})
+		fig.Series = append(fig.Series, m.name)
+	}
+	if lim != nil {
+		s := draw.LineStyle{Color: limitColor, Width: vg.Points(1.5), Dashes: []vg.Length{vg.Points(5), vg.Points(3)}}
+		l, err := vline(lim.value*xs, 0, p.Y.Max, s)
+		if err != nil {
+			return Figure{}, fmt.Errorf("plots: %s: %w", name, err)
+		}
+		n := lim.name
+		if drawLim {
+			p.Add(l)
+		} else {
+			n += ", off scale" // named, with its line style, not drawn
+		}
+		entries = append(entries, legendEntry{n, l})
+		fig.Series = append(fig.Series, n)
+	}
+	// Room on both sides so that no line sits on the frame.
+	pad := 0.04 * (p.X.Max - p.X.Min)
+	p.X.Min, p.X.Max = p.X.Min-pad, p.X.Max+pad
+	p.Y.Min, p.Y.Max = 0, top*1.08
+
+	svg, err := render(o, heading(o.Title, what+"\n"+stats), []*plot.Plot{p}, entries)
+	if err != nil {
+		return Figure{}, fmt.Errorf("plots: %s: %w", name, err)
+	}
+	fig.SVG = svg
+	return fig, nil
+}
+
+// countTicks are niceTicks for a count: no label between whole numbers.
+type countTicks struct{}
+
+func (countTicks) Ticks(min, max float64) []plot.Tick {
+	ts := niceTicks{}.Ticks(min, max)
+	for i := range ts {
+		if ts[i].Value != math.Round(ts[i].Value) {
+			ts[i].Label = ""
+		} else if ts[i].Label != "" {
+			ts[i].Label = tickLabel(ts[i].Value, 0)
+		}
+	}
+	return ts
+}

@@ -1,0 +1,106 @@
+package plots
+
+import (
+	"slices"
+	"strings"
+	"testing"
+
+	"zapnet/cmd/internal/whatif"
+	"zapnet/netlist"
+)
+
+// An invented deck for the ratings the histograms draw: vmax on the pin,
+// emax on the clamp.
+const spreadTestDeck = `title "Histogram test"
+strike    zap   tip  gnd  waveform=iec61000-4-2 level=4k polarity=pos
+inductor  Lpad  tip  n1   1n
+clamp     D1    n1   gnd  vbr=6.8V rdyn=0.5ohm ls=1n cj=5p polarity=bi emax=1m
+pin       U1    n1   gnd  cin=5p vmax=45V
+`
+
+// spreadOf builds a spread of the given per-circuit values, two conditions
+// each, as whatif.Spreads would (measures in its order).
+func spreadOf(peaks, energies [][2]float64) *whatif.SpreadResult {
+	res := &whatif.SpreadResult{Seed: 9, Runs: len(peaks),
+		Conditions: []whatif.Condition{{Level: 4e3, Polarity: "pos"}, {Level: 4e3, Polarity: "neg"}},
+		Measures:   []string{"U1.residual.peak", "U1.residual.min", "D1.energy", "D1.peak_current", "worst_margin"}}
+	var wp, we []float64
+	for k := range peaks {
+		s := whatif.Sample{Index: k, Verdicts: []string{"PASS", "PASS"}}
+		for ci := 0; ci < 2; ci++ {
+			s.Values = append(s.Values, []float64{peaks[k][ci], -1, energies[k][ci], 10, 5})
+		}
+		res.Samples = append(res.Samples, s)
+		wp = append(wp, max(peaks[k][0], peaks[k][1]))
+		we = append(we, max(energies[k][0], energies[k][1]))
+	}
+	res.Solved, res.Passed, res.PassFraction = len(peaks), len(peaks), 1
+	res.CI95[0], res.CI95[1] = whatif.Wilson95(len(peaks), len(peaks))
+	res.Percentiles = map[string]whatif.Percentiles{"U1.residual.peak": whatif.Summarise(wp), "D1.energy": whatif.Summarise(we)}
+	return res
+}
+
+// One histogram per pin peak and clamp energy, named as the files will be;
+// each circuit counts with its worst strike (the spread's percentiles are of
+// those, OUTPUT.md [practice]); a rating near the data is drawn, one far
+// off is only named.
+func TestSpreadHistograms(t *testing.T) {
+	c, err := netlist.Parse("h.zap", []byte(spreadTestDeck))
+	if err != nil {
+		t.Fatal(err)
+	}
+	peaks := [][2]float64{{40, 41}, {42, 39}, {43.5, 38}, {41, 41.2}, {40.5, 44}, {39, 42.5}}
+	energies := [][2]float64{{2e-6, 3e-6}, {4e-6, 1e-6}, {3.5e-6, 3e-6}, {2.5e-6, 5e-6}, {3e-6, 2e-6}, {1e-6, 4.5e-6}}
+	res := spreadOf(peaks, energies)
+
+	// The worst of {40, 41}, {42, 39}, ... is the larger of each pair.
+	if got, want := worstValues(res, 0), []float64{41, 42, 43.5, 41.2, 44, 42.5}; !slices.Equal(got, want) {
+		t.Errorf("worst peaks %v, want %v", got, want)
+	}
+
+	figs, err := SpreadHistograms(c.Title, c, res, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var names []string
+	for _, f := range figs {
+		names = append(names, f.Name)
+	}
+	if want := []string{"spread-U1-peak", "spread-D1-energy"}; !slices.Equal(names, want) {
+		t.Fatalf("figures %q, want %q", names, want)
+	}
+	peak, energy := figs[0], figs[1]
+	// The median of the six worst peaks (41, 41.2, 42, 42.5, 43.5, 44) is
+	// the mean of the middle two, 42.25 [calc: the sample median of an
+	// even count].
+	for _, w := range []string{"circuits (6)", "p50 42.25 V", "vmax 45 V"} {
+		if !slices.Contains(peak.Series, w) {
+			t.Errorf("peak series %q lack %q", peak.Series, w)
+		}
+	}
+	texts, _ := svgText(t, "peak", peak.SVG)
+	for _, w := range []string{"Histogram test", "Residual peak of U1, worst over each circuit's strikes", "residual peak (V)", "circuits", "vmax 45 V"} {
+		if !slices.Contains(texts, w) {
+			t.Errorf("peak figure: no text %q in %q", w, texts)
+		}
+	}
+	if !slices.ContainsFunc(texts, func(s string) bool { return strings.HasPrefix(s, "6 circuits, seed 9, pass 100.0 %") }) {
+		t.Errorf("peak figure: the heading does not give the count, seed and pass fraction: %q", texts)
+	}
+	// Energies of a few µJ against emax = 1 mJ: off the scale, named.
+	texts, _ = svgText(t, "energy", energy.SVG)
+	for _, w := range []string{"energy (µJ)", "emax 1 mJ, off scale"} {
+		if !slices.Contains(texts, w) {
+			t.Errorf("energy figure: no text %q in %q", w, texts)
+		}
+	}
+
+	// Every circuit alike: the bins still get a width.
+	same := spreadOf([][2]float64{{40, 40}, {40, 40}}, [][2]float64{{1e-6, 1e-6}, {1e-6, 1e-6}})
+	if _, err := SpreadHistograms("", c, same, nil); err != nil {
+		t.Errorf("identical circuits: %v", err)
+	}
+	if _, err := SpreadHistograms("", c, &whatif.SpreadResult{}, nil); err == nil {
+		t.Error("a spread without solved circuits drew figures")
+	}
+}
