@@ -79,7 +79,7 @@ func TestSpreadPlotCommand(t *testing.T) {
 
 	// Reference network A rates U1 at vmax 5.5 V (testdata/reference/net-a.zap).
 	for file, want := range map[string][]string{
-		"net-a-spread_spread-U1-peak.svg":   {"residual peak (V)", "Residual peak of U1", "circuits (20)", "circuits", "vmax 5.5 V, off scale"},
+		"net-a-spread_spread-U1-peak.svg":   {"residual peak (V)", "Residual peak of U1", "circuits (20)", "circuits", "vmax 5.5 V, off scale right"},
 		"net-a-spread_spread-D1-energy.svg": {"energy (µJ)", "Energy of D1", "circuits (20)"},
 	} {
 		svg, err := os.ReadFile(filepath.Join(figs, file))

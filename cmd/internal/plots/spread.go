@@ -172,7 +172,11 @@ func histogram(o *Options, name, what, stats, quantity, unit string, values []fl
 		if drawLim {
 			p.Add(l)
 		} else {
-			n += ", off scale" // named, with its line style, not drawn
+			// Named, with its line style and the side it lies on, not drawn.
+			n += ", off scale right"
+			if lim.value < lo {
+				n = lim.name + ", off scale left"
+			}
 		}
 		entries = append(entries, legendEntry{n, l})
 		fig.Series = append(fig.Series, n)

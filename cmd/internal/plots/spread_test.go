@@ -89,10 +89,20 @@ func TestSpreadHistograms(t *testing.T) {
 	}
 	// Energies of a few µJ against emax = 1 mJ: off the scale, named.
 	texts, _ = svgText(t, "energy", energy.SVG)
-	for _, w := range []string{"energy (µJ)", "emax 1 mJ, off scale"} {
+	for _, w := range []string{"energy (µJ)", "emax 1 mJ, off scale right"} {
 		if !slices.Contains(texts, w) {
 			t.Errorf("energy figure: no text %q in %q", w, texts)
 		}
+	}
+
+	// A rating far below every circuit lies off the scale on the left.
+	c.Element("U1").Num["vmax"] = 5
+	figs, err = SpreadHistograms("", c, res, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Contains(figs[0].Series, "vmax 5 V, off scale left") {
+		t.Errorf("peak series %q lack the vmax off scale on the left", figs[0].Series)
 	}
 
 	// Every circuit alike: the bins still get a width.
