@@ -21,6 +21,7 @@ type sensitivityOptions struct {
 	polarities []string  // nil: the deck's
 	params     []string  // nil: every design parameter
 	step       float64   // fraction; 0: 0.10
+	limit      string    // "ELEMENT PARAM" whose margin ranks; "": the worst
 	json       string
 	workers    int
 	sweep      sweepSpec
@@ -29,15 +30,20 @@ type sensitivityOptions struct {
 
 func runSensitivity(args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("sensitivity",
-		"sensitivity DECK [--param E.P,...] [--step PERCENT] [--level LIST] [--polarity pos|neg|both] [--set E.P=v] [--shard i/n] [--json FILE] [--plot DIR] [--html FILE] [--workers N]",
+		"sensitivity DECK [--param E.P,...] [--step PERCENT] [--limit E.P] [--level LIST] [--polarity pos|neg|both] [--set E.P=v] [--shard i/n] [--json FILE] [--plot DIR] [--html FILE] [--workers N]",
 		`  zapnet sensitivity testdata/demo.zap --level 4k
   zapnet sensitivity testdata/demo.zap --param D1.ls,Lpad.value,C1.value
   zapnet sensitivity testdata/demo.zap --level 8k --plot figs --html sensitivity.html
+  zapnet sensitivity testdata/demo-weak.zap --level 8k --limit U1.vmax
 
 Perturbs every numeric design parameter (or those named) by ±10 %, one at a
 time, solves the study (every level and polarity) for each, and ranks the
 parameters by how much they move the worst margin: what buys the most
-margin. Ratings (vmax, ipp, ...) are left out unless named. --set gives the
+margin. --limit ranks by one limit's margin instead (its smallest over
+the levels and polarities): while a clamp's ipp is the worst limit, the
+ranking only says how the strike current moves, and --limit U1.vmax asks
+what buys margin at the pin. Ratings (vmax, ipp, ...) are left out unless
+named. --set gives the
 design to start from (one value each); the deck's vary lines are ignored.
 --plot and --html draw the ranking as bars: per parameter (the first 15),
 the worst margin with it lowered and raised by the step, against the
@@ -47,6 +53,7 @@ solve.`,
 		stderr)
 	params := fs.String("param", "", "parameters to perturb, `LIST` of ELEMENT.PARAM (default: every design parameter)")
 	step := fs.String("step", "10", "perturbation in `PERCENT`")
+	limit := fs.String("limit", "", "rank by the margin of one `LIMIT`, ELEMENT.PARAM such as U1.vmax or D1.ipp (default: the worst margin over every limit)")
 	level := fs.String("level", "", "levels to run instead of the deck's, e.g. 4k,8k")
 	polarity := fs.String("polarity", "", "polarity instead of the deck's: pos, neg or both")
 	jsonPath := fs.String("json", "", "write the ranking as JSON to `FILE` (- for stdout, the table then goes to stderr)")
@@ -64,7 +71,7 @@ solve.`,
 	if err != nil {
 		return err
 	}
-	opt := sensitivityOptions{deck: deck, json: *jsonPath, workers: *workers, pictures: pictures.options()}
+	opt := sensitivityOptions{deck: deck, json: *jsonPath, workers: *workers, limit: *limit, pictures: pictures.options()}
 	var errs []error
 	if opt.levels, err = parseLevelFlag(*level); err != nil {
 		errs = append(errs, err)
@@ -94,7 +101,7 @@ func sensitivityStudy(ctx context.Context, opt sensitivityOptions, stdout, stder
 	if err != nil {
 		return err
 	}
-	sopt := &whatif.SensitivityOptions{Params: opt.params, Step: opt.step, Shard: opt.sweep.shard}
+	sopt := &whatif.SensitivityOptions{Params: opt.params, Step: opt.step, Limit: opt.limit, Shard: opt.sweep.shard}
 	sopt.Study.Levels, sopt.Study.Polarities, sopt.Study.Workers = opt.levels, opt.polarities, opt.workers
 	res, err := withProgress(stderr, "sensitivity", opt.deck, func(p whatif.Progress) (*whatif.SensitivityResult, error) {
 		sopt.Progress = p

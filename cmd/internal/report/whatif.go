@@ -165,11 +165,15 @@ func VariantText(v map[string]string) string {
 func SensitivityTable(w io.Writer, r *whatif.SensitivityResult, title, deck string) error {
 	ew := &errWriter{w: w}
 	pct := fmt.Sprintf("%g %%", 100*r.Step)
-	heading(ew, title, deck, fmt.Sprintf("Sensitivity: each parameter ±%s, effect on the worst margin", pct))
+	which := "worst margin"
+	if r.Limit != "" {
+		which = "margin of " + strings.Replace(r.Limit, ".", " ", 1)
+	}
+	heading(ew, title, deck, fmt.Sprintf("Sensitivity: each parameter ±%s, effect on the %s", pct, which))
 	if len(r.Variant) > 0 {
 		fmt.Fprintf(ew, "Design: %s\n", VariantText(r.Variant))
 	}
-	fmt.Fprintf(ew, "Baseline worst margin: %s (%s)\n", percentText(r.Baseline), r.BaselineLimiting)
+	fmt.Fprintf(ew, "Baseline %s: %s (%s)\n", which, percentText(r.Baseline), r.BaselineLimiting)
 	head := []string{"rank", "param", "nominal", "−" + pct, "+" + pct, "effect", "limiting"}
 	t := newTable(ew, head)
 	t.Header(toAny(head)...)
@@ -186,7 +190,7 @@ func SensitivityTable(w io.Writer, r *whatif.SensitivityResult, title, deck stri
 			percentText(p.Minus10), percentText(p.Plus10), signedPoints(p.Effect), lim})...)
 	}
 	t.Render()
-	fmt.Fprintf(ew, "effect: percentage points of worst margin gained by raising the parameter %s (negative: lowering it buys margin).\n", pct)
+	fmt.Fprintf(ew, "effect: percentage points of %s gained by raising the parameter %s (negative: lowering it buys margin).\n", which, pct)
 	fmt.Fprintln(ew, "Effects of a few hundredths of a point are within the solver's tolerance.")
 	for _, s := range r.Skipped {
 		fmt.Fprintf(ew, "Skipped %s: %s\n", s.Param, s.Reason)
