@@ -2,7 +2,8 @@
 // gonum.org/v1/plot: what the strike drove, what the watched nodes saw, the
 // clamp current, the residual pulse at each protected pin with its vmax and
 // vmin drawn, the energy ledger as bars, overlays of one quantity across the
-// runs of a sweep, and a margin-against-level curve for a margin search.
+// runs of a sweep, a margin-against-level curve for a margin search, and the
+// figures of a sensitivity study and a tolerance spread.
 //
 // It measures nothing and decides nothing: every number comes from a
 // study.Run solved with study.Options.Record (or, for MarginCurve, from the
@@ -22,6 +23,12 @@
 //   - MarginCurve(title, unit, curves, opt) draws the worst margin found at
 //     each level a margin search tried, one line per polarity or variant,
 //     with the zero line where PASS turns into FAIL.
+//   - SensitivityBars(title, res, opt) draws a sensitivity study: per
+//     parameter, the margin with it lowered and raised by the step, against
+//     the baseline margin drawn as a vertical line.
+//   - SpreadHistograms(title, c, res, opt) draws a tolerance spread: each
+//     pin's residual peak and each clamp's energy over the drawn circuits,
+//     with p1, p50, p99 and the rating where the deck gives one.
 //
 // Axes are in engineering units: each axis picks the SI prefix that keeps its
 // tick labels between 0.1 and 1000 (ns or µs, mV or V or kV, mA or A, µJ), and
