@@ -194,21 +194,46 @@ func TestLargerDecouplingLowersResidual(t *testing.T) {
 	}
 }
 
-// The energy ledger balances: the strike's energy equals the sum of the
-// others' to within the integration error [pub: NUMERICS.md, energy is
-// conserved by the circuit equations], and the clamp takes most of it.
+// The energy ledger balances on every demo deck, at every level, polarity
+// and variant: the strike's energy equals the sum of the others' to within
+// 0.1 % [pub: NUMERICS.md and MODELS.md, energy is conserved by the circuit
+// equations; the 0.1 % is issue 3's bound], and on the demo the clamp takes
+// most of it.
 func TestLedgerBalances(t *testing.T) {
+	decks, err := filepath.Glob(filepath.Join("..", "..", "..", "testdata", "*.zap"))
+	if err != nil || len(decks) < 4 {
+		t.Fatalf("demo decks: %v %v", decks, err)
+	}
+	for _, deck := range decks {
+		c, err := netlist.ParseFile(deck)
+		if err != nil {
+			t.Fatalf("%s: %v", deck, err)
+		}
+		runs, err := Execute(c, nil)
+		if err != nil {
+			t.Fatalf("%s: %v", deck, err)
+		}
+		for _, r := range runs {
+			if r.Err != nil {
+				t.Fatalf("%s %s: %v", deck, r.Label(), r.Err)
+			}
+			// A strike into a node a supply holds can take energy as well
+			// as give it (an ideal current drawn from a 12 V rail), so the
+			// scale is the largest flow in the ledger.
+			sum, scale := -r.Ledger.Strike, math.Abs(r.Ledger.Strike)
+			for _, e := range r.Ledger.Entries {
+				sum += e.Energy
+				scale = max(scale, math.Abs(e.Energy))
+			}
+			if math.Abs(sum-r.Ledger.Balance) > 1e-9*scale {
+				t.Errorf("%s %s: entries sum to %.4g J, balance says %.4g J", deck, r.Label(), sum, r.Ledger.Balance)
+			}
+			if !(scale > 0) || math.Abs(r.Ledger.Balance) > 1e-3*scale {
+				t.Errorf("%s %s: balance %.3g J against the largest flow %.3g J (want within 0.1 %%)", deck, r.Label(), r.Ledger.Balance, scale)
+			}
+		}
+	}
 	r := solve(t, demo(t), nil, 8000, "pos")
-	sum := -r.Ledger.Strike
-	for _, e := range r.Ledger.Entries {
-		sum += e.Energy
-	}
-	if math.Abs(sum-r.Ledger.Balance) > 1e-9*r.Ledger.Strike {
-		t.Errorf("entries sum to %.4g J, balance says %.4g J", sum, r.Ledger.Balance)
-	}
-	if math.Abs(r.Ledger.Balance) > 1e-3*r.Ledger.Strike {
-		t.Errorf("balance %.3g J is over 0.1 %% of the strike's %.3g J", r.Ledger.Balance, r.Ledger.Strike)
-	}
 	for _, e := range r.Ledger.Entries {
 		if e.Name == "D1" && e.Percent < 50 {
 			t.Errorf("the clamp took %.1f %% of the energy, want most of it", e.Percent)
