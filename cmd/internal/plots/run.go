@@ -159,7 +159,10 @@ func residualFigure(o *Options, c *netlist.Circuit, runs []study.Run, label func
 func ledgerFigure(o *Options, r *study.Run) (Figure, error) {
 	names := []string{"strike (delivered)"}
 	vals := plotter.Values{r.Ledger.Strike}
-	shares := []string{"100 %"}
+	shares := []string{""}
+	if r.Ledger.Delivered > 0 {
+		shares[0] = percent(100 * r.Ledger.Strike / r.Ledger.Delivered)
+	}
 	kind := map[string]netlist.Kind{}
 	for _, e := range r.Elements {
 		kind[e.Name] = e.Kind
@@ -171,7 +174,7 @@ func ledgerFigure(o *Options, r *study.Run) (Figure, error) {
 		}
 		names = append(names, name)
 		vals = append(vals, e.Energy)
-		shares = append(shares, percent(e.Percent))
+		shares = append(shares, percent(math.Abs(e.Percent)))
 	}
 	names = append(names, "balance")
 	vals = append(vals, r.Ledger.Balance)

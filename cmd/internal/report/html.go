@@ -211,7 +211,7 @@ func htmlRunTables(id string, r *study.Run) []htmlTable {
 		"lowest", "vmin", "time below", "energy in", "internal clamp", "ifail"}, pins)
 
 	add("capacitors", "Capacitors", []string{"capacitor", "peak voltage", "at", "rating"}, capacitorRows(r))
-	add("ledger", "Energy ledger", []string{"where", "energy", "share"}, ledgerRows(r))
+	add("ledger", "Energy ledger", ledgerHead, ledgerRows(r))
 	add("limits", "Limits", []string{"limit", "measured", "at", "rating", "margin", "margin %", "verdict"}, limitRows(r))
 	return ts
 }

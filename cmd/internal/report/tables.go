@@ -180,7 +180,7 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 	if caps := capacitorRows(r); len(caps) > 0 {
 		section(w, "Capacitors", []string{"capacitor", "peak voltage", "at", "rating"}, caps)
 	}
-	section(w, "Energy ledger", []string{"where", "energy", "share"}, ledgerRows(r))
+	section(w, "Energy ledger", ledgerHead, ledgerRows(r))
 	if limits := limitRows(r); len(limits) > 0 {
 		section(w, "Limits", []string{"limit", "measured", "at", "rating", "margin", "margin %", ""}, limits)
 	}
@@ -244,21 +244,39 @@ func capacitorRows(r *study.Run) [][]string {
 	return rows
 }
 
-// ledgerRows say where the strike's energy went, ending with the balance.
+// ledgerHead is the energy ledger's header, shared by the text and HTML
+// reports.
+var ledgerHead = []string{"where", "delivered", "absorbed", "share"}
+
+// ledgerRows say where the energy went: each element's energy in the column
+// of its direction (a source delivers, a clamp absorbs; a capacitor absorbs
+// what it still holds, or delivers what it gave back), and its share of all
+// the energy delivered, ending with the balance.
 func ledgerRows(r *study.Run) [][]string {
 	kind := map[string]netlist.Kind{}
 	for _, e := range r.Elements {
 		kind[e.Name] = e.Kind
 	}
-	rows := [][]string{{"strike (delivered)", si(r.Ledger.Strike, "J"), "100.0 %"}}
+	// row renders an energy into the element (negative: it delivered).
+	row := func(name string, in float64) []string {
+		share := "-"
+		if r.Ledger.Delivered > 0 {
+			share = percent(100 * math.Abs(in) / r.Ledger.Delivered)
+		}
+		if in < 0 {
+			return []string{name, si(-in, "J"), "", share}
+		}
+		return []string{name, "", si(in, "J"), share}
+	}
+	rows := [][]string{row("strike", -r.Ledger.Strike)}
 	for _, e := range r.Ledger.Entries {
-		rows = append(rows, []string{e.Name + " (" + string(kind[e.Name]) + ")", si(e.Energy, "J"), percent(e.Percent)})
+		rows = append(rows, row(e.Name+" ("+string(kind[e.Name])+")", e.Energy))
 	}
 	bal := "-"
-	if r.Ledger.Strike != 0 {
-		bal = percent(100 * r.Ledger.Balance / r.Ledger.Strike)
+	if r.Ledger.Delivered > 0 {
+		bal = percent(100 * r.Ledger.Balance / r.Ledger.Delivered)
 	}
-	return append(rows, []string{"balance (solver residual)", si(r.Ledger.Balance, "J"), bal})
+	return append(rows, []string{"balance (solver residual)", "", si(r.Ledger.Balance, "J"), bal})
 }
 
 // limitRows are every limit with its margin, "FAIL" in the last column

@@ -378,6 +378,12 @@ func (b *Bench) measure(r *Run, res *mna.Result) {
 		r.Ledger.Strike = -res.Energy[b.strIdx]
 	}
 	r.Ledger.Balance = res.Balance
+	r.Ledger.Delivered = max(0, r.Ledger.Strike)
+	for i := range b.elems {
+		if i != b.strIdx {
+			r.Ledger.Delivered += max(0, -res.Energy[i])
+		}
+	}
 	for i, name := range b.elems {
 		if i == b.strIdx {
 			continue
@@ -386,8 +392,8 @@ func (b *Bench) measure(r *Run, res *mna.Result) {
 		r.Elements = append(r.Elements, ElementResult{Name: name, Kind: kinds[name],
 			PeakCurrent: pk, TPeak: tpk, Energy: res.Energy[i]})
 		le := LedgerEntry{Name: name, Energy: res.Energy[i]}
-		if r.Ledger.Strike != 0 {
-			le.Percent = 100 * le.Energy / r.Ledger.Strike
+		if r.Ledger.Delivered > 0 {
+			le.Percent = 100 * le.Energy / r.Ledger.Delivered
 		}
 		r.Ledger.Entries = append(r.Ledger.Entries, le)
 	}

@@ -144,9 +144,14 @@ type CapacitorResult struct {
 
 // Ledger is where the strike's energy went.
 type Ledger struct {
-	// Strike is the energy the strike delivered, J (positive; the engine's
-	// ledger entry for the strike is its negative).
+	// Strike is the energy the strike delivered, J: the negative of the
+	// engine's ledger entry. Usually positive; a strike drawing current out
+	// of a node a supply holds up can take energy instead (negative).
 	Strike float64
+	// Delivered is all the energy the sources gave the circuit, J: the
+	// strike's when positive, plus what every other element gave back
+	// (a supply, a charged capacitor discharging). Shares are of this.
+	Delivered float64
 	// Entries are every other element's energy, deck order.
 	Entries []LedgerEntry
 	// Balance is the sum of every entry, strike included with its engine
@@ -159,7 +164,7 @@ type Ledger struct {
 type LedgerEntry struct {
 	Name    string
 	Energy  float64 // J
-	Percent float64 // of Ledger.Strike (0 when the strike delivered nothing)
+	Percent float64 // of Ledger.Delivered (0 when nothing was delivered); negative for an element that gave energy
 }
 
 // Limit is one rating compared with one measurement. Margin is positive on

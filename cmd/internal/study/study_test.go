@@ -228,6 +228,14 @@ func TestLedgerBalances(t *testing.T) {
 			if math.Abs(sum-r.Ledger.Balance) > 1e-9*scale {
 				t.Errorf("%s %s: entries sum to %.4g J, balance says %.4g J", deck, r.Label(), sum, r.Ledger.Balance)
 			}
+			// What the sources delivered, the elements absorbed.
+			absorbed := max(0, -r.Ledger.Strike)
+			for _, e := range r.Ledger.Entries {
+				absorbed += max(0, e.Energy)
+			}
+			if math.Abs(absorbed-r.Ledger.Delivered) > 1e-3*scale {
+				t.Errorf("%s %s: delivered %.4g J, absorbed %.4g J", deck, r.Label(), r.Ledger.Delivered, absorbed)
+			}
 			if !(scale > 0) || math.Abs(r.Ledger.Balance) > 1e-3*scale {
 				t.Errorf("%s %s: balance %.3g J against the largest flow %.3g J (want within 0.1 %%)", deck, r.Label(), r.Ledger.Balance, scale)
 			}
