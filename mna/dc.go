@@ -136,7 +136,11 @@ func (s *System) where(i int) string {
 
 func (s *System) singularHint(i int) string {
 	if i >= 0 && i < len(s.isNode) && !s.isNode[i] {
-		return "a loop of supplies or inductors fixes no current there; break it with series resistance"
+		// The deck checks reject loops of ideal supplies and inductors
+		// before any solve, so the likelier cause here is a supply forcing
+		// a junction so far into conduction that its conductance swamps
+		// the matrix.
+		return "either the supply drives a clamp or junction far into conduction (a supply above a clamp's vbr with no series resistance), or a loop of supplies or inductors fixes no current there; give the supply a series r=, or check the clamp's vbr"
 	}
 	return "a node with no DC path to gnd, or held only by supplies; connect it through a resistor"
 }
