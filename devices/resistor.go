@@ -54,14 +54,7 @@ func linearParasitic(e *netlist.Element, key, unit string) (float64, error) {
 // from node p to node m, with flux λ = l·i as local state k:
 // KCL +i leaving p, −i leaving m; branch row v(p) − v(m) − dλ/dt = 0.
 func stampBranch(c *Context, k, p, m, br int, l float64) {
-	i := c.V(br)
-	c.AddF(p, i)
-	c.AddF(m, -i)
-	c.AddJ(p, br, 1)
-	c.AddJ(m, br, -1)
-	c.AddF(br, c.V(p)-c.V(m))
-	c.AddJ(br, p, 1)
-	c.AddJ(br, m, -1)
-	c.Charge(k, l*i)
+	branchKCL(c, p, m, br)
+	c.Charge(k, l*c.V(br))
 	c.ChargeDeriv(k, br, l)
 }
