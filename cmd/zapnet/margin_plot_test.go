@@ -18,6 +18,37 @@ import (
 	"zapnet/netlist"
 )
 
+// figureHas reads the SVG file at path and reports each of want that is
+// not the text of one of its <text> elements.
+func figureHas(t *testing.T, path string, want ...string) []string {
+	t.Helper()
+	svg, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	texts := svgTexts(t, svg)
+	for _, w := range want {
+		if !slices.Contains(texts, w) {
+			t.Errorf("%s has no text %q; it has %q", filepath.Base(path), w, texts)
+		}
+	}
+	return texts
+}
+
+// pageHas reads the HTML file at path and reports each of want it lacks.
+func pageHas(t *testing.T, path string, want ...string) {
+	t.Helper()
+	html, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, w := range want {
+		if !bytes.Contains(html, []byte(w)) {
+			t.Errorf("the HTML report lacks %q", w)
+		}
+	}
+}
+
 // svgTexts parses an SVG document as XML (it must be well-formed) and
 // returns the text of its <text> elements.
 func svgTexts(t *testing.T, svg []byte) []string {
@@ -58,25 +89,8 @@ func TestMarginPlotCommand(t *testing.T) {
 	if code != exitPass {
 		t.Fatalf("exit %d\n%s", code, e)
 	}
-	svg, err := os.ReadFile(filepath.Join(figs, "demo-weak_margin.svg"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	texts := svgTexts(t, svg)
-	for _, w := range []string{"pos", "neg", "0 %: PASS above, FAIL below", "level (kV)", "Worst margin against level"} {
-		if !slices.Contains(texts, w) {
-			t.Errorf("the figure has no text %q; it has %q", w, texts)
-		}
-	}
-	html, err := os.ReadFile(page)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for _, w := range []string{`id="fig-margin"`, "<svg", "Margin against level", report.Caution, "strike    zap"} {
-		if !bytes.Contains(html, []byte(w)) {
-			t.Errorf("the HTML report lacks %q", w)
-		}
-	}
+	figureHas(t, filepath.Join(figs, "demo-weak_margin.svg"), "pos", "neg", "0 %: PASS above, FAIL below", "level (kV)", "Worst margin against level")
+	pageHas(t, page, `id="fig-margin"`, "<svg", "Margin against level", report.Caution, "strike    zap")
 
 	// The search is deterministic: solved again through the package, its
 	// curve must agree with the table the command wrote. Where the verdict

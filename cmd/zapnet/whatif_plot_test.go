@@ -1,8 +1,6 @@
 package main
 
 import (
-	"bytes"
-	"os"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -34,25 +32,8 @@ func TestSensitivityPlotCommand(t *testing.T) {
 		t.Errorf("--plot and --html changed the JSON:\nwithout:\n%s\nwith:\n%s", a, b)
 	}
 
-	svg, err := os.ReadFile(filepath.Join(figs, "clamp-at-pin_sensitivity.svg"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	texts := svgTexts(t, svg)
-	for _, w := range []string{"D1.ls", "D1.rdyn", "D1.vbr", "Lpad.value", "−10 %", "+10 %", "worst margin (% of the limit)"} {
-		if !slices.Contains(texts, w) {
-			t.Errorf("the figure has no text %q; it has %q", w, texts)
-		}
-	}
-	html, err := os.ReadFile(page)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for _, w := range []string{`id="fig-sensitivity"`, "<svg", "Sensitivity of the worst margin", report.Caution, "clamp     D1"} {
-		if !bytes.Contains(html, []byte(w)) {
-			t.Errorf("the HTML report lacks %q", w)
-		}
-	}
+	figureHas(t, filepath.Join(figs, "clamp-at-pin_sensitivity.svg"), "D1.ls", "D1.rdyn", "D1.vbr", "Lpad.value", "−10 %", "+10 %", "worst margin (% of the limit)")
+	pageHas(t, page, `id="fig-sensitivity"`, "<svg", "Sensitivity of the worst margin", report.Caution, "clamp     D1")
 }
 
 // `zapnet spread --plot DIR --html FILE` draws a histogram per pin peak and
@@ -82,17 +63,7 @@ func TestSpreadPlotCommand(t *testing.T) {
 		"net-a-spread_spread-U1-peak.svg":   {"residual peak (V)", "Residual peak of U1", "circuits (20)", "circuits", "vmax 5.5 V, off scale right"},
 		"net-a-spread_spread-D1-energy.svg": {"energy (µJ)", "Energy of D1", "circuits (20)"},
 	} {
-		svg, err := os.ReadFile(filepath.Join(figs, file))
-		if err != nil {
-			t.Error(err)
-			continue
-		}
-		texts := svgTexts(t, svg)
-		for _, w := range want {
-			if !slices.Contains(texts, w) {
-				t.Errorf("%s has no text %q; it has %q", file, w, texts)
-			}
-		}
+		texts := figureHas(t, filepath.Join(figs, file), want...)
 		if !slices.ContainsFunc(texts, func(s string) bool { return strings.HasPrefix(s, "20 circuits, seed 5, pass 0.0 %") }) {
 			t.Errorf("%s: the heading lacks the count, seed and pass fraction: %q", file, texts)
 		}
@@ -100,13 +71,5 @@ func TestSpreadPlotCommand(t *testing.T) {
 			t.Errorf("%s: no p99 line in the legend: %q", file, texts)
 		}
 	}
-	html, err := os.ReadFile(page)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for _, w := range []string{`id="fig-spread-U1-peak"`, `id="fig-spread-D1-energy"`, "Spread over the drawn circuits", report.Caution, "tolerance D1.vbr"} {
-		if !bytes.Contains(html, []byte(w)) {
-			t.Errorf("the HTML report lacks %q", w)
-		}
-	}
+	pageHas(t, page, `id="fig-spread-U1-peak"`, `id="fig-spread-D1-energy"`, "Spread over the drawn circuits", report.Caution, "tolerance D1.vbr")
 }
