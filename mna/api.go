@@ -20,9 +20,11 @@ type Settings struct {
 	// FirstStep bounds the first step after t = 0 and after every
 	// breakpoint, s. That step is taken with backward Euler and accepted
 	// without an error estimate (there is no history yet), so it must
-	// resolve the stimulus's rise: a study sets it from the stimulus's own
-	// time scale. Zero: a thousandth of the interval it starts (itself at
-	// most MaxStep).
+	// resolve the stimulus's rise. Zero: a thousandth of the interval it
+	// starts (itself at most MaxStep), and no more than the step the
+	// stimulus's own span would give (a thousandth of Stimulus.Stop/50), so
+	// that a window stretched for a slow circuit does not coarsen the first
+	// nanosecond.
 	FirstStep float64
 	// MinStep is the step below which the solver gives up with a
 	// *SolveError, s. Zero: 1e-16 s.

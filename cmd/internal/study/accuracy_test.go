@@ -14,7 +14,8 @@ import (
 // these values by less than 0.1 %]. The default window of demo-weak.zap is
 // stretched to microseconds by its bead and capacitor, yet the pin's first
 // overshoot comes in the strike's first nanosecond: the study's first step
-// must resolve it (firstStep), or the peak is reported low, on the unsafe
+// must resolve it (the engine bounds it by the stimulus's own span), or the
+// peak is reported low, on the unsafe
 // side.
 func TestDefaultAccuracyOnTheFirstNanosecond(t *testing.T) {
 	c := demo(t)

@@ -251,9 +251,6 @@ func (b *Bench) Solve(level float64, polarity string, opt *Options) (*Run, error
 			set = *opt.Settings
 		}
 		set.Stop, set.MaxStep, set.RelTol, set.AbsTol = stop, w.MaxStep, w.RelTol, w.AbsTol
-		if set.FirstStep == 0 {
-			set.FirstStep = firstStep(st.Stop)
-		}
 		set.Record = opt.Record
 		set.Observe = b.observe
 		b.reset()

@@ -85,14 +85,3 @@ func DefaultStop(c *netlist.Circuit, stimStop float64) float64 {
 func Cap(stimStop float64) float64 {
 	return math.Max(DefaultCap, CapSpans*stimStop)
 }
-
-// firstStep is the engine's first step after t = 0 and after each breakpoint
-// for a stimulus whose own span is stimStop: the step the engine would take
-// if the window were the stimulus's alone (a thousandth of a fiftieth of it,
-// 4 ps for the 200 ns contact discharge). A default window stretched to
-// microseconds for a slow bead-capacitor ring would otherwise start with a
-// step of tens of picoseconds, accepted without an error estimate, and miss
-// the pin's first overshoot in the strike's first nanosecond (measured on
-// testdata/demo-weak.zap at 2 kV: 1.027 V reported against 1.089 V converged;
-// 1.076 V with this first step).
-func firstStep(stimStop float64) float64 { return stimStop / 50 * 1e-3 }
