@@ -15,8 +15,7 @@ import (
 // stretched to microseconds by its bead and capacitor, yet the pin's first
 // overshoot comes in the strike's first nanosecond: the study's first step
 // must resolve it (the engine bounds it by the stimulus's own span), or the
-// peak is reported low, on the unsafe
-// side.
+// peak is reported low, on the unsafe side.
 func TestDefaultAccuracyOnTheFirstNanosecond(t *testing.T) {
 	c := demo(t)
 	for _, pol := range []string{"pos", "neg"} {
