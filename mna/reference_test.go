@@ -176,6 +176,9 @@ func compare(t *testing.T, set mna.Settings, peakTol, energyTol float64) {
 				if r.network != name {
 					continue
 				}
+				if strings.HasPrefix(r.quantity, "peak |") && r.quantity != "peak |i(D1)|" {
+					continue // the clamp's current is the one compared here
+				}
 				got, ok := engineValue(t, sys, res, r.quantity)
 				if !ok {
 					continue
