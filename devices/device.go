@@ -77,9 +77,18 @@ type Context struct {
 	T  float64   // time of the point being solved, s
 	DC bool      // operating point: strike off, d/dt q = 0
 
-	F []float64 // residual, one entry per unknown
-	J []float64 // Jacobian, N×N row-major
+	F []float64 // residual, one entry per unknown (see Local)
+	J []float64 // Jacobian, N×N row-major (see Local)
 	N int
+
+	// Local, when set, makes F and J the device's own: the engine sets
+	// Local[u] to the place of unknown u among the rows the device being
+	// evaluated may stamp (its terminals, internal nodes and branches), F
+	// to that many entries and J to that many squared, row-major, with N
+	// their count. The engine then adds them into its sparse matrix itself,
+	// so that no dense N×N Jacobian is needed for a large deck. Devices
+	// never see the difference: they stamp through the methods below.
+	Local []int32
 
 	// Integration: d/dt q_k ≈ Alpha·q_k + Hist[k]. Alpha is 0 at DC.
 	Alpha     float64
@@ -110,6 +119,9 @@ func (c *Context) V(i int) float64 {
 // AddF adds v to the residual of row.
 func (c *Context) AddF(row int, v float64) {
 	if row >= 0 {
+		if c.Local != nil {
+			row = int(c.Local[row])
+		}
 		c.F[row] += v
 	}
 }
@@ -117,6 +129,9 @@ func (c *Context) AddF(row int, v float64) {
 // AddJ adds v to the Jacobian entry (row, col).
 func (c *Context) AddJ(row, col int, v float64) {
 	if row >= 0 && col >= 0 {
+		if c.Local != nil {
+			row, col = int(c.Local[row]), int(c.Local[col])
+		}
 		c.J[row*c.N+col] += v
 	}
 }
@@ -124,12 +139,29 @@ func (c *Context) AddJ(row, col int, v float64) {
 // Current stamps a two-terminal current i flowing from a to b through the
 // device, with g = di/du where u = v(a) − v(b).
 func (c *Context) Current(a, b int, i, g float64) {
-	c.AddF(a, i)
-	c.AddF(b, -i)
-	c.AddJ(a, a, g)
-	c.AddJ(a, b, -g)
-	c.AddJ(b, a, -g)
-	c.AddJ(b, b, g)
+	if c.Local != nil {
+		c.AddF(a, i)
+		c.AddF(b, -i)
+		c.AddJ(a, a, g)
+		c.AddJ(a, b, -g)
+		c.AddJ(b, a, -g)
+		c.AddJ(b, b, g)
+		return
+	}
+	// The engine's most frequent stamp, written out for the plain form.
+	F, J, n := c.F, c.J, c.N
+	if a >= 0 {
+		F[a] += i
+		J[a*n+a] += g
+		if b >= 0 {
+			J[a*n+b] -= g
+			J[b*n+a] -= g
+		}
+	}
+	if b >= 0 {
+		F[b] -= i
+		J[b*n+b] += g
+	}
 }
 
 // Conductance stamps a linear conductance g between a and b.
@@ -155,8 +187,9 @@ func (c *Context) ChargeDeriv(k, col int, dq float64) {
 		return
 	}
 	r := c.Rows[c.StateBase+k]
-	c.AddJ(r.Plus, col, c.Alpha*dq)
-	c.AddJ(r.Minus, col, -c.Alpha*dq)
+	v := c.Alpha * dq
+	c.AddJ(r.Plus, col, v)
+	c.AddJ(r.Minus, col, -v)
 }
 
 // Capacitance is a charge q between a and b with dq/du = cap, u = v(a) − v(b).

@@ -289,13 +289,31 @@ func stampJunction(c *Context, law junctionLaw, a, b int, uold *float64) float64
 // The caller adds the rest of the branch equation (−R·i, the flux state).
 func branchKCL(c *Context, a, b, br int) {
 	i := c.V(br)
-	c.AddF(a, i)
-	c.AddF(b, -i)
-	c.AddJ(a, br, 1)
-	c.AddJ(b, br, -1)
-	c.AddF(br, c.V(a)-c.V(b))
-	c.AddJ(br, a, 1)
-	c.AddJ(br, b, -1)
+	va, vb := c.V(a), c.V(b)
+	if c.Local != nil || br < 0 {
+		c.AddF(a, i)
+		c.AddF(b, -i)
+		c.AddJ(a, br, 1)
+		c.AddJ(b, br, -1)
+		c.AddF(br, va-vb)
+		c.AddJ(br, a, 1)
+		c.AddJ(br, b, -1)
+		return
+	}
+	// Every inductive branch goes through here: written out for the plain
+	// form.
+	F, J, n := c.F, c.J, c.N
+	F[br] += va - vb
+	if a >= 0 {
+		F[a] += i
+		J[a*n+br]++
+		J[br*n+a]++
+	}
+	if b >= 0 {
+		F[b] -= i
+		J[b*n+br]--
+		J[br*n+b]--
+	}
 }
 
 // modelParams reads an element's numeric parameters with defaults and
