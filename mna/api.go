@@ -11,17 +11,42 @@ import (
 
 // Settings tune a solution. A nil *Settings means every default; a zero
 // field means that field's default.
+//
+// Most callers give Stop and at most Accuracy and Resolve: the other
+// tolerances follow from Accuracy, and exist for verification and for
+// experts who want one mechanism at a time.
 type Settings struct {
 	// Stop is the simulated span, s. Zero: the stimulus's default span
 	// (waveforms.Stimulus.Stop); an error when there is no stimulus.
 	Stop float64
-	// MaxStep bounds the time step, s. Zero: Stop/50.
+	// Accuracy is the relative accuracy wanted on what a report reads:
+	// every extreme of a node voltage, element current or probe and every
+	// energy of the ledger, against a converged solution of the same
+	// equations. Zero: DefaultAccuracy (0.2 %). A tenfold smaller Accuracy
+	// gives about a tenfold smaller error (at about three times the
+	// steps), so the difference between a run and one at Accuracy/10 is
+	// the first run's error to within about a tenth: its error bar.
+	//
+	// The step control holds the local error of every unknown, mapped from
+	// the truncation error of the charges and fluxes through the circuit's
+	// own matrix, below a share of Accuracy times the largest magnitude the
+	// unknown has reached on its side of zero (at least a millivolt or a
+	// milliampere); extremes are refined between points by the observer
+	// (see Point.Corner and waveforms.Tracker.Refine).
+	Accuracy float64
+	// Resolve is the finest time detail the run must show: no step is
+	// longer, s. Zero: no bound but the error control's and Stop/50. It
+	// costs steps, and is for features the error control cannot see
+	// coming (a narrow event in a quiet stretch), not for accuracy.
+	Resolve float64
+	// MaxStep is the older name of Resolve: when both are set the smaller
+	// applies.
 	MaxStep float64
 	// FirstStep bounds the first step after t = 0 and after every
 	// breakpoint, s. That step is taken with backward Euler and accepted
 	// without an error estimate (there is no history yet), so it must
 	// resolve the stimulus's rise. Zero: a thousandth of the interval it
-	// starts (itself at most MaxStep), and no more than the step the
+	// starts (itself at most the step bound), and no more than the step the
 	// stimulus's own span would give (a thousandth of Stimulus.Stop/50), so
 	// that a window stretched for a slow circuit does not coarsen the first
 	// nanosecond.
@@ -29,35 +54,18 @@ type Settings struct {
 	// MinStep is the step below which the solver gives up with a
 	// *SolveError, s. Zero: 1e-16 s.
 	MinStep float64
-	// RelTol is the relative tolerance of Newton and of the step control.
-	// Zero: 1e-3.
-	//
-	// 1e-3 is a cheap default for sweeps and tests, not an accurate one for
-	// the first nanosecond of a strike, and no change of the error test
-	// alone makes it so. Measured on testdata/demo-weak.zap at 2 kV against
-	// a converged solution (RelTol 1e-8, ChargeTol 1e-19 C, MaxStep 0.2 ns):
-	// the clamp node's extreme comes out 3 % short (13.53 V for 13.98 V,
-	// −13.75 V for −14.15 V negative) and the pin's first overshoot (1.089 V
-	// at 184 ps) 6 % short, under the pin's later slow maximum (1.026 V). A
-	// tighter ChargeTol (1e-16, 1e-18 C), or dropping the widening of the
-	// truncation-error tolerance (trtol), cost 2 to 5 times the steps and
-	// leave those peaks where they were; so does RelTol 1e-5 on its own. What
-	// moves them most is the first step after t = 0: a fraction of MaxStep
-	// (40 ps for a 2 µs window), taken with backward Euler and accepted
-	// without an error estimate (there is no history yet), it sets off the
-	// gigahertz ringing of the first nanosecond damped and late. With
-	// MaxStep 1 ns (a first step of 1 ps) RelTol 1e-4 is within 1 % of the
-	// converged peaks and 1e-3 within 3.5 %. Estimating that first step from
-	// the slope at the breakpoint is no general cure: where a source switches
-	// (a network strike, a step) the slope jumps there and the estimate
-	// forces the step to the minimum. A study should set RelTol 1e-4 or
-	// tighter and a MaxStep that resolves the stimulus's rise.
+	// RelTol, when positive, replaces the local relative error per step
+	// that Accuracy sets (a share of Accuracy): the error control's bound
+	// on each unknown relative to its scale. Newton converges to a
+	// tenth of it. For verification and experts.
 	RelTol float64
-	// AbsTol is the absolute tolerance on node voltages, V (and on branch
-	// currents, A). Zero: 1e-6.
+	// AbsTol is the absolute tolerance on node voltages, V, and branch
+	// currents, A, in Newton's test and the error control. Zero: 1e-6.
 	AbsTol float64
-	// ChargeTol is the absolute tolerance on the local truncation error of
-	// charges and fluxes, C or Wb. Zero: 1e-14.
+	// ChargeTol, when positive, also bounds the truncation error of every
+	// charge and flux by itself, ChargeTol plus RelTol times its
+	// magnitude, C or Wb: a second, stricter error control for
+	// verification. Zero: none.
 	ChargeTol float64
 	// Gmin is the conductance from every node to gnd, S, which ties nodes
 	// reached only through capacitors. Zero: 1e-12 S.
@@ -76,12 +84,19 @@ type Settings struct {
 	Observe func(p *Point)
 }
 
+// DefaultAccuracy is the Accuracy of a zero Settings: 0.2 %.
+const DefaultAccuracy = 0.002
+
 // Point is one accepted solution point.
 type Point struct {
 	T float64
 	V []float64 // node voltages, in System.Nodes order, V
 	I []float64 // current into each element's first terminal, System.Elements order, A
 	P []float64 // probe values, System.Probes order
+	// Corner is true at t = 0 and at every breakpoint of the stimulus: a
+	// value may change its slope, or jump, at this point, so no
+	// interpolation of the points may span it (waveforms.Tracker.Corner).
+	Corner bool
 }
 
 // Result is a transient solution.
@@ -96,7 +111,8 @@ type Result struct {
 	// Energy is ∫ Σ v·i dt into each element over the run, J, in
 	// System.Elements order; the strike's entry is negative (it delivers).
 	Energy []float64
-	// PeakCurrent is the largest |I| of each element, A.
+	// PeakCurrent is the largest |I| of each element, A, refined between
+	// the points as waveforms.Tracker refines it.
 	PeakCurrent []float64
 	// Balance is the sum of Energy, J. Every entry is integrated from the same
 	// terminal currents, so it measures what the solution leaves unbalanced

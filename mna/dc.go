@@ -1,5 +1,7 @@
 package mna
 
+import "fmt"
+
 // OperatingPoint solves the DC state (strike off, supplies on) and returns
 // the node voltages in Nodes order.
 //
@@ -28,6 +30,13 @@ func (s *System) reset() {
 		}
 	}
 	clear(s.x)
+	// The factorisation's pivot order is the first analysis's of each run,
+	// not whatever an earlier run of the same system left: otherwise a run's
+	// rounding would depend on the runs before it.
+	s.lu.ok, s.luOK = false, false
+	for i := range s.curTr {
+		s.curTr[i].Reset()
+	}
 	s.ctx.T = 0
 	s.ctx.Alpha = 0
 	s.ctx.Gmin = 0
@@ -46,12 +55,12 @@ func (s *System) operatingPoint(t *tol) (int, error) {
 
 	clear(s.x)
 	s.dcMethod = "newton"
-	it, st := s.newton(t, t.gmin)
+	it, st := s.newton(t, t.gmin, false)
 	total += it
 	if st == converged {
 		return total, nil
 	}
-	if st == singular {
+	if st == singular || st == runaway {
 		return total, s.solveError(-1, st)
 	}
 
@@ -60,7 +69,7 @@ func (s *System) operatingPoint(t *tol) (int, error) {
 	s.dcMethod = "gmin stepping"
 	ok := true
 	for g := 1e-2; g > t.gmin; g /= 10 {
-		it, st = s.newton(t, g+t.gmin)
+		it, st = s.newton(t, g+t.gmin, false)
 		total += it
 		if st != converged {
 			ok = false
@@ -68,7 +77,7 @@ func (s *System) operatingPoint(t *tol) (int, error) {
 		}
 	}
 	if ok {
-		it, st = s.newton(t, t.gmin)
+		it, st = s.newton(t, t.gmin, false)
 		total += it
 		if st == converged {
 			return total, nil
@@ -79,7 +88,7 @@ func (s *System) operatingPoint(t *tol) (int, error) {
 	clear(s.x)
 	s.dcMethod = "source stepping"
 	c.SourceScale = 0
-	it, st = s.newton(t, t.gmin)
+	it, st = s.newton(t, t.gmin, false)
 	total += it
 	if st != converged {
 		return total, s.solveError(-1, st)
@@ -89,7 +98,7 @@ func (s *System) operatingPoint(t *tol) (int, error) {
 		saved := c.SourceScale
 		copy(s.xAcc, s.x) // xAcc is free before the transient: keep the last good point
 		c.SourceScale = min(1, saved+step)
-		it, st = s.newton(t, t.gmin)
+		it, st = s.newton(t, t.gmin, false)
 		total += it
 		if st == converged {
 			step = min(2*step, 0.5)
@@ -112,6 +121,9 @@ func (s *System) solveError(now float64, st newtonStatus, reason ...string) *Sol
 	switch {
 	case st == singular:
 		e.Reason, e.Hint = "the circuit matrix is singular", s.singularHint(s.resRow)
+	case st == runaway:
+		e.Reason = fmt.Sprintf("the solution needs an impossible %s (%.3g)", s.quantityOf(s.resRow), s.x[s.resRow])
+		e.Hint = s.singularHint(s.resRow)
 	case now < 0:
 		e.Reason, e.Hint = "Newton iteration did not converge", s.hintFor(s.resRow, false)
 	default:
@@ -121,6 +133,14 @@ func (s *System) solveError(now float64, st newtonStatus, reason ...string) *Sol
 		e.Reason = reason[0]
 	}
 	return e
+}
+
+// quantityOf is what unknown i is, for a message.
+func (s *System) quantityOf(i int) string {
+	if i >= 0 && i < len(s.isNode) && s.isNode[i] {
+		return "voltage, V,"
+	}
+	return "current, A,"
 }
 
 // where names an unknown for a message.

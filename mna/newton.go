@@ -4,8 +4,28 @@ import "math"
 
 // tol are the tolerances of one solution, defaults filled in.
 type tol struct {
-	rel, abs, charge, current, gmin float64
-	maxIter                         int
+	rel     float64 // local error per step, relative to each unknown's scale
+	newton  float64 // Newton's relative tolerance
+	abs     float64 // V and A
+	charge  float64 // the optional test of ChargeTol, C or Wb; 0: none
+	current float64 // A
+	gmin    float64 // S
+	maxIter int
+	edge    bool // the step lies on a stimulus edge (see edgeShare)
+	newton0 float64
+	// slackMax is the largest slack of the error control (see slackK).
+	slackMax float64
+}
+
+// setEdge tightens Newton's tolerance on a stimulus edge as the error
+// control tightens its bound there: Newton's error must stay below the
+// truncation error allowed, or it would decide the estimate.
+func (t *tol) setEdge(on bool) {
+	t.edge = on
+	t.newton = t.newton0
+	if on {
+		t.newton *= edgeShare
+	}
 }
 
 // currentTol is the absolute tolerance on the KCL residual, A. It is far
@@ -18,13 +38,22 @@ const currentTol = 1e-9
 const roundoff = 16 * 0x1p-52
 
 func tolerances(set *Settings) tol {
-	t := tol{rel: 1e-3, abs: 1e-6, charge: 1e-14, current: currentTol, gmin: 1e-12, maxIter: 50}
+	t := tol{rel: localRel(DefaultAccuracy), abs: 1e-6, current: currentTol, gmin: 1e-12, maxIter: 50,
+		slackMax: slackOf(DefaultAccuracy)}
 	if set == nil {
+		t.newton = newtonShare * t.rel
+		t.newton0 = t.newton
 		return t
+	}
+	if set.Accuracy > 0 {
+		t.rel = localRel(set.Accuracy)
+		t.slackMax = slackOf(set.Accuracy)
 	}
 	if set.RelTol > 0 {
 		t.rel = set.RelTol
 	}
+	t.newton = newtonShare * t.rel
+	t.newton0 = t.newton
 	if set.AbsTol > 0 {
 		t.abs = set.AbsTol
 	}
@@ -40,51 +69,40 @@ func tolerances(set *Settings) tol {
 	return t
 }
 
-// assemble evaluates every device at s.x into F and J, forms the state
-// derivatives and adds them, and adds the shunt conductances. Along the way
-// it records each device's terminal currents (the change its Eval and its
-// own states make on its terminal rows) and each row's largest single
-// contribution.
+// denseMax is the largest circuit whose devices stamp into a dense
+// Jacobian (see System.dense): up to here clearing n² numbers and gathering
+// the pattern from them costs less than adding in each device's block.
+const denseMax = 64
+
+// slackOf is the largest slack of the error control for an Accuracy: full
+// at the default and above, fading as the square of Accuracy below it.
+func slackOf(acc float64) float64 {
+	f := min(1, acc/DefaultAccuracy)
+	return 1 + (slackMax-1)*f*f
+}
+
+// localRel is the error control's relative bound per step for an
+// Accuracy (see localShare).
+func localRel(acc float64) float64 {
+	return localShare * acc * math.Sqrt(acc/DefaultAccuracy)
+}
+
+// assemble evaluates every device at s.x into F and the Jacobian's
+// entries, forms the state derivatives and adds them, and adds the shunt
+// conductances. Along the way it records each device's terminal currents
+// (its own stamps on its terminal rows, with its states' below) and each
+// row's largest single contribution.
 func (s *System) assemble(g float64) {
 	clear(s.f)
-	// Devices stamp only within the structure (see structure), so only
-	// that part of the Jacobian needs clearing; a small one is cleared in
-	// one move.
-	if s.n <= smallLU {
-		clear(s.jac)
-	} else {
-		for i := 0; i < s.n; i++ {
-			clear(s.jac[i*s.n+s.lu.lo0[i] : i*s.n+s.lu.hi0[i]+1])
-		}
-	}
 	clear(s.scale)
 	c := &s.ctx
 	c.Limited = false
-	for di := range s.devs {
-		d := &s.devs[di]
-		for _, k := range d.prior {
-			s.snap[k] = s.f[d.touched[k]]
-		}
-		c.StateBase = d.stateLo
-		d.dev.Eval(c)
-		for k, r := range d.touched {
-			v := s.f[r]
-			if d.shared[k] {
-				v -= s.snap[k]
-			}
-			s.snap[k] = v
-			if a := math.Abs(v); a > s.scale[r] {
-				s.scale[r] = a
-			}
-		}
-		for t, k := range d.termSnap {
-			if k >= 0 {
-				s.termCur[d.curBase+t] = s.snap[k]
-			} else {
-				s.termCur[d.curBase+t] = 0
-			}
-		}
+	if s.dense != nil {
+		s.stampDense()
+	} else {
+		s.stampLocal()
 	}
+	f, scale := s.f, s.scale
 	if c.DC {
 		clear(s.qdot)
 	} else {
@@ -94,15 +112,15 @@ func (s *System) assemble(g float64) {
 			qdot[k] = qd
 			a := math.Abs(qd)
 			if r.Plus >= 0 {
-				s.f[r.Plus] += qd
-				if a > s.scale[r.Plus] {
-					s.scale[r.Plus] = a
+				f[r.Plus] += qd
+				if a > scale[r.Plus] {
+					scale[r.Plus] = a
 				}
 			}
 			if r.Minus >= 0 {
-				s.f[r.Minus] -= qd
-				if a > s.scale[r.Minus] {
-					s.scale[r.Minus] = a
+				f[r.Minus] -= qd
+				if a > scale[r.Minus] {
+					scale[r.Minus] = a
 				}
 			}
 			st := s.stateTerm[k]
@@ -114,10 +132,84 @@ func (s *System) assemble(g float64) {
 			}
 		}
 	}
-	n := s.n
+	jac, diag := s.jacBuf, s.jacDiag
 	for _, i := range s.nodeRows {
-		s.f[i] += g * s.x[i]
-		s.jac[i*n+i] += g
+		f[i] += g * s.x[i]
+		jac[diag[i]] += g
+	}
+}
+
+// stampDense evaluates the devices into the dense Jacobian (which the
+// factorisation and the residual test read through jacSrc); a device's
+// contribution to a row that an earlier device stamps too is told by a
+// snapshot of that row before its Eval.
+func (s *System) stampDense() {
+	c := &s.ctx
+	clear(s.dense)
+	f, scale, snap := s.f, s.scale, s.snap
+	for di := range s.devs {
+		d := &s.devs[di]
+		for _, k := range d.prior {
+			snap[k] = f[d.touched[k]]
+		}
+		c.StateBase = d.stateLo
+		d.dev.Eval(c)
+		for k, r := range d.touched {
+			v := f[r]
+			if d.shared[k] {
+				v -= snap[k]
+			}
+			snap[k] = v
+			if a := math.Abs(v); a > scale[r] {
+				scale[r] = a
+			}
+		}
+		for t, k := range d.termSnap {
+			v := 0.0
+			if k >= 0 {
+				v = snap[k]
+			}
+			s.termCur[d.curBase+t] = v
+		}
+	}
+}
+
+// stampLocal evaluates each device into its own rows (Context.Local) and
+// adds them into F and the Jacobian's entries.
+func (s *System) stampLocal() {
+	c := &s.ctx
+	clear(s.jac)
+	f, scale, jac, local := s.f, s.scale, s.jac, s.local
+	for di := range s.devs {
+		d := &s.devs[di]
+		m := len(d.touched)
+		for k, r := range d.touched {
+			local[r] = int32(k)
+		}
+		fl, jl := s.floc[:m], s.jloc[:m*m]
+		clear(fl)
+		clear(jl)
+		c.F, c.J, c.N = fl, jl, m
+		c.StateBase = d.stateLo
+		d.dev.Eval(c)
+		for k, r := range d.touched {
+			v := fl[k]
+			f[r] += v
+			if a := math.Abs(v); a > scale[r] {
+				scale[r] = a
+			}
+		}
+		for t, k := range d.termSnap {
+			v := 0.0
+			if k >= 0 {
+				v = fl[k]
+			}
+			s.termCur[d.curBase+t] = v
+		}
+		pos := d.jpos[:len(jl)]
+		for e, v := range jl {
+			jac[pos[e]] += v
+		}
 	}
 }
 
@@ -151,29 +243,45 @@ func (s *System) setNoise() {
 // at a picosecond step), which leaves an error of a few ulps of the history
 // that no iteration removes.
 func (s *System) residualOK(t *tol) bool {
-	n := s.n
+	p := s.pat
 	ok := true
 	worst := -1.0
-	for i, node := range s.isNode {
-		lim := roundoff * s.noise[i]
+	jac, src := s.jacBuf, s.jacSrc
+	f, noise, scale := s.f[:s.n], s.noise[:s.n], s.scale[:s.n]
+	for i, node := range s.isNode[:s.n] {
+		a := math.Abs(f[i])
+		lim := roundoff * noise[i]
+		// Most rows pass on the simple bound; only the others need the
+		// allowances below.
 		if node {
-			lim += t.current + t.rel*s.scale[i]
+			lim += t.current + t.newton*scale[i]
+		} else {
+			lim += t.abs
+		}
+		if a <= lim {
+			continue
+		}
+		if node {
+			// A row whose own conductance is large turns even a large
+			// residual into a small error of its voltage (a conducting
+			// clamp's junction: amperes per millivolt), which the update
+			// test bounds; the residual need only be small beside that.
+			lim = max(lim, roundoff*noise[i]+t.current+math.Abs(jac[src[p.diag[i]]])*s.xtol[i])
 		} else {
 			big := 0.0
-			row := s.jac[i*n : i*n+n]
-			for _, j := range s.rowCols[i] {
-				if a := math.Abs(row[j] * s.x[j]); a > big {
-					big = a
+			for e := p.ptr[i]; e < p.ptr[i+1]; e++ {
+				if v := math.Abs(jac[src[e]] * s.x[p.col[e]]); v > big {
+					big = v
 				}
 			}
-			lim += t.abs + t.rel*big
+			lim += t.newton * big
 		}
-		if a := math.Abs(s.f[i]); !(a <= lim) {
+		if !(a <= lim) {
 			// Only a failing row can be the one to name.
 			ok = false
 			if r := a / lim; r > worst || r != r {
 				worst = r
-				s.resRow, s.resValue = i, s.f[i]
+				s.resRow, s.resValue = i, f[i]
 			}
 		}
 	}
@@ -187,39 +295,75 @@ const (
 	converged newtonStatus = iota
 	notConverged
 	singular
+	runaway
 )
 
+// impossible is a magnitude no voltage (V) or current (A) of a protection
+// network reaches: a solution beyond it is the arithmetic of a junction
+// driven far past its knee by an ideal source (a supply straight across a
+// clamp), whose matrix is singular in all but rounding.
+const impossible = 1e9
+
 // newton iterates from s.x at the context's time and integration rule. g is
-// the total shunt on every node row. It returns the iterations used (device
+// the total shunt on every node row. With reuse, the factors left in s.lu
+// (of this step's other stage, whose matrix coefficient is the same) serve
+// until they stop converging. It returns the iterations used (device
 // evaluations).
 //
-// An iterate is converged when an update was within tolerance on every
-// unknown, the residual is within tolerance on every row and no device
-// limited its junction step. The test is made at the start of an iteration,
-// on the residual of the freshly evaluated point, so the last iteration needs
-// no factorisation and the states and terminal currents left by the
-// evaluation belong to the accepted point. When the residual passes but the
-// last update was large (the first iteration of a step), the update the
-// previous factors give (a chord step, a back-substitution only) decides: on
-// the linear stretches of a circuit it is already negligible, which saves the
-// second factorisation of every step. An update within tolerance from a point
-// whose residual already passed is also accepted.
-func (s *System) newton(t *tol, g float64) (int, newtonStatus) {
-	prevOK := false
+// An iterate is converged when the update the present factors give from it
+// is within tolerance on every unknown, the residual is within tolerance on
+// every row and no device limited its junction step. The test is made at the
+// start of an iteration, on the freshly evaluated point, so the states and
+// terminal currents left by the evaluation belong to the accepted point.
+// The update comes from the factors in hand: those of the previous iterate
+// (a Newton step) or older ones (a chord step, a back-substitution only);
+// a chord step that does not at least halve the previous update is not
+// trusted, and the matrix is factored afresh.
+func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
+	s.setTolerances(t)
+	have := reuse && s.luOK // factors in hand
+	fresh := false          // ... formed at the previous iterate
+	prev := math.Inf(1)     // size of the last update, in tolerances
 	for it := 1; it <= t.maxIter; it++ {
 		s.assemble(g)
 		resOK := s.residualOK(t)
-		if resOK && !s.ctx.Limited {
-			if prevOK {
+		if have {
+			s.negF()
+			s.lu.solve(s.dx)
+			r, bad := s.update(t, false)
+			if bad >= 0 {
+				s.resRow, s.resValue = bad, s.f[bad]
+				return it, notConverged
+			}
+			// A Newton update bounds the error left (the next one is far
+			// smaller); a chord update converging at rate ρ leaves
+			// ρ/(1−ρ) of itself, and with no rate known yet only a tenth
+			// of the tolerance is trusted.
+			err := r
+			if !fresh {
+				if rho := r / prev; rho < 1 {
+					err = r * max(1, rho/(1-rho))
+				} else {
+					err = math.Inf(1)
+				}
+				if math.IsInf(prev, 1) {
+					err = 10 * r
+				}
+			}
+			if err <= 1 && resOK && !s.ctx.Limited {
+				s.update(t, true)
+				for i, v := range s.x {
+					if !(math.Abs(v) < impossible) {
+						s.resRow, s.resValue = i, s.f[i]
+						return it, runaway
+					}
+				}
 				return it, converged
 			}
-			if it > 1 {
-				s.negF()
-				s.lu.solve(s.dx)
-				if ok, _ := s.update(t, false); ok {
-					s.update(t, true)
-					return it, converged
-				}
+			if r <= 0.5*prev {
+				s.update(t, true)
+				prev, fresh = r, false
+				continue
 			}
 		}
 		s.factorisations++
@@ -228,7 +372,8 @@ func (s *System) newton(t *tol, g float64) (int, newtonStatus) {
 		// node held only by branch equations), not a weakly tied node:
 		// factor names the first such column in weak.
 		s.lu.tiny = 1e-6 * g
-		if k := s.lu.factor(s.jac); k >= 0 {
+		s.luOK = false
+		if k := s.lu.factor(s.jacBuf); k >= 0 {
 			s.resRow, s.resValue = k, s.f[k]
 			return it, singular
 		}
@@ -236,17 +381,15 @@ func (s *System) newton(t *tol, g float64) (int, newtonStatus) {
 			s.resRow, s.resValue = k, s.f[k]
 			return it, singular
 		}
+		s.luOK, have, fresh = true, true, true
 		s.negF()
 		s.lu.solve(s.dx)
-		dxOK, bad := s.update(t, true)
+		r, bad := s.update(t, true)
 		if bad >= 0 {
 			s.resRow, s.resValue = bad, s.f[bad]
 			return it, notConverged
 		}
-		if dxOK && resOK && !s.ctx.Limited {
-			return it, converged
-		}
-		prevOK = dxOK
+		prev = r
 	}
 	return t.maxIter, notConverged
 }
@@ -258,22 +401,45 @@ func (s *System) negF() {
 	}
 }
 
-// update tests the step dx against rel·|x| + abs on every unknown and, with
-// apply, adds it to x. bad is an unknown whose update is not finite, or -1.
-func (s *System) update(t *tol, apply bool) (ok bool, bad int) {
-	ok, bad = true, -1
-	for i, d := range s.dx {
-		x := s.x[i]
-		xn := x + d
-		if !(math.Abs(d) <= t.rel*max(math.Abs(x), math.Abs(xn))+t.abs) {
-			ok = false
-			if d != d || math.IsInf(xn, 0) {
-				bad = i
-			}
+// setTolerances sets Newton's tolerance on every unknown, newton·scale +
+// abs, the scale being the error control's (see localShare) at the point
+// Newton starts from (|x| at the operating point, at least scaleFloor).
+// One evaluation per solve: the scale moves little over its iterations.
+func (s *System) setTolerances(t *tol) {
+	n := len(s.xtol)
+	x, sc, hi, lo := s.x[:n], s.xScale[:n], s.xMax[:n], s.xMin[:n]
+	if s.ctx.DC {
+		for i, v := range x {
+			s.xtol[i] = t.newton*max(math.Abs(v), scaleFloor) + t.abs
 		}
-		if apply {
-			s.x[i] = xn
+		return
+	}
+	for i, v := range x {
+		s.xtol[i] = t.newton*s.scaleOf(v, v, hi[i], lo[i], sc[i]) + t.abs
+	}
+}
+
+// update measures the step dx against the tolerance of every unknown (see
+// setTolerances) and, with apply, adds it to x. r is the largest ratio of
+// a step to its tolerance (within tolerance: r ≤ 1); bad is an unknown
+// whose update is not finite, or -1.
+func (s *System) update(t *tol, apply bool) (r float64, bad int) {
+	bad = -1
+	n := len(s.dx)
+	x, xtol := s.x[:n], s.xtol[:n]
+	for i, d := range s.dx {
+		if a := math.Abs(d); !(a <= r*xtol[i]) {
+			if a != a || math.IsInf(a, 0) {
+				bad, r = i, math.Inf(1)
+				continue
+			}
+			r = a / xtol[i]
 		}
 	}
-	return ok, bad
+	if apply {
+		for i, d := range s.dx {
+			x[i] += d
+		}
+	}
+	return r, bad
 }

@@ -194,7 +194,7 @@ func TestOperatingPointFallbacks(t *testing.T) {
 	for _, c := range []struct {
 		maxIter int
 		method  string
-	}{{50, "newton"}, {4, "source stepping"}} {
+	}{{50, "newton"}, {6, "source stepping"}} {
 		v, err := s.OperatingPoint(&Settings{MaxIter: c.maxIter})
 		if err != nil {
 			t.Fatalf("MaxIter %d: %v", c.maxIter, err)

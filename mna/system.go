@@ -20,7 +20,6 @@ type System struct {
 	unknowns    []string // display name of every unknown
 	isNode      []bool   // KCL row (true) or branch row (false)
 	nodeRows    []int    // the KCL rows, which carry the shunt conductance
-	rowCols     [][]int  // for a branch row, the columns its device can stamp
 	owner       []int    // device owning an internal unknown, -1 for circuit nodes
 	circuitNode []int    // circuit node of each unknown, -1 for internal ones
 	nodeDevs    [][]int  // devices touching each circuit node, for hints
@@ -31,33 +30,74 @@ type System struct {
 	striker devices.Striker
 	stim    *waveforms.Stimulus // for the breakpoints and the default span
 
-	n     int
-	ctx   devices.Context
-	x     []float64 // iterate
-	xAcc  []float64 // last accepted solution
-	dx    []float64
-	f     []float64
-	jac   []float64
-	lu    *lu
-	scale []float64 // largest single contribution on each row, for the residual test
-	noise []float64 // size of the cancelling state terms on each row, for the same
-	snap  []float64 // per-device scratch: rows before its Eval
+	n    int
+	ctx  devices.Context
+	x    []float64 // iterate
+	xAcc []float64 // last accepted solution
+	dx   []float64
+	f    []float64
+	pat  *pattern
+	jac  []float64 // the Jacobian's entries, in pat's order (local stamping)
+	// The Jacobian as the factorisation and the residual test read it:
+	// entry e of the pattern is jacBuf[jacSrc[e]], and row i's diagonal
+	// jacBuf[jacDiag[i]] (jac with the identity, or the dense matrix).
+	jacBuf          []float64
+	jacSrc, jacDiag []int32
+	lu              *sparseLU
+	luOK            bool      // lu holds the factors of a recent matrix
+	scale           []float64 // largest single contribution on each row, for the residual test
+	noise           []float64 // size of the cancelling state terms on each row, for the same
+	// Devices stamp in one of two ways. A small circuit (n ≤ denseMax)
+	// stamps into a dense n×n Jacobian, dense, from which the pattern's
+	// entries are gathered: the fastest way for tens of unknowns. A large
+	// one stamps each device's own block (Context.Local) and adds it in,
+	// so that it never holds n² numbers.
+	dense []float64 // n×n, or nil
+	snap  []float64 // per-device scratch: shared rows before its Eval (dense)
+	local []int32   // Context.Local: each unknown's place among the current device's rows
+	floc  []float64 // the current device's residual rows (local)
+	jloc  []float64 // ... and its Jacobian block
 
 	// States: q set by the devices at the last evaluation, hist the
 	// integration history, qdot the derivative formed at the last
-	// evaluation, qdotAcc at the last accepted point.
-	q, hist, qdot, qdotAcc []float64
-	rows                   []devices.StateRows
-	stateDev               []int // device of each state
-	stateTerm              [][2]int
-	hq                     [3][]float64 // accepted charge history (ring)
-	ht                     [3]float64
+	// evaluation, qAcc and qdotAcc at the last accepted point, qG and
+	// qdotG at the trapezoidal stage of the step being taken.
+	q, hist, qdot, qAcc, qdotAcc []float64
+	qG                           []float64
+	rows                         []devices.StateRows
+	stateDev                     []int // device of each state
+	stateTerm                    [][2]int
+	lte                          []float64 // truncation error of each state at the last estimate
+	errx                         []float64 // that error mapped onto the unknowns
+	xScale                       []float64 // largest magnitude of each unknown so far (at least scaleFloor)
+	xMax, xMin                   []float64
+	// The voltage across each device, terminal pair by pair (first
+	// terminal to each other one, neither at gnd), and the largest it has
+	// reached: an energy is ∫ v·i across the device, and a small voltage
+	// across a device between two nodes that swing high (a bead beside a
+	// clamp) needs its own accuracy.
+	pairs     [][2]int
+	pairScale []float64
+	xtol      []float64 // Newton's tolerance on each unknown, see setTolerances
+
+	// The trapezoidal stage's solution and terminal currents, and its time.
+	xG, termG []float64
+	stageT    float64
+
+	// The last reported points, for the predictor and the error estimate:
+	// a ring of hLen points (since the last corner), the newest at hHead.
+	hx, hq      [3][]float64
+	ht          [3]float64
+	hHead, hLen int
 
 	termCur        []float64 // current into every device terminal (flattened), A
-	power          []float64 // per element at the last accepted point, W
-	dcMethod       string    // how the last operating point was found, for tests
-	factorisations int       // LU factorisations of the transient, for Stats
-	lteWorst       int       // state of the largest truncation error at the last estimate
+	termV, termI   []float64 // every terminal's voltage and current at the last accepted point
+	curTr          []waveforms.Tracker
+	dcMethod       string // how the last operating point was found, for tests
+	factorisations int    // LU factorisations of the transient, for Stats
+	// lteWorst is the unknown of the largest error ratio at the last
+	// estimate, or −1−k for state k when ChargeTol's test was the worst.
+	lteWorst int
 
 	pt       Point
 	resRow   int     // row of the largest scaled residual in the last Newton iteration
@@ -68,11 +108,12 @@ type System struct {
 type device struct {
 	dev       devices.Device
 	nodes     devices.Nodes
-	term      []int  // terminal rows (Ground allowed)
-	touched   []int  // distinct rows the device may stamp
-	prior     []int  // indices in touched of the rows an earlier device stamps too
-	shared    []bool // for each row in touched, whether it is in prior
-	termSnap  []int  // for each terminal, its index in touched, or -1
+	term      []int   // terminal rows (Ground allowed)
+	touched   []int   // distinct rows the device may stamp
+	jpos      []int32 // position in the Jacobian's entries of each (touched, touched) pair
+	prior     []int   // indices in touched of the rows an earlier device stamps too
+	shared    []bool  // for each row in touched, whether it is in prior
+	termSnap  []int   // for each terminal, its index in touched, or -1
 	stateLo   int
 	stateHi   int
 	curBase   int
@@ -189,16 +230,9 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		}
 	}
 	s.n = len(s.unknowns)
-	// A branch row belongs to one device, which alone stamps it, and only
-	// in its own unknowns' columns.
-	s.rowCols = make([][]int, s.n)
-	for i, node := range s.isNode {
-		if !node {
-			s.rowCols[i] = s.devs[s.owner[i]].touched
-		}
-	}
 	// A row that no earlier device stamps holds zero when a device's Eval
-	// starts, so only the others need a snapshot to tell its contribution.
+	// starts, so only the others need a snapshot to tell its contribution
+	// (dense stamping).
 	stamped := make([]bool, s.n)
 	for di := range s.devs {
 		d := &s.devs[di]
@@ -246,54 +280,104 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.xAcc = make([]float64, n)
 	s.dx = make([]float64, n)
 	s.f = make([]float64, n)
-	s.jac = make([]float64, n*n)
-	first, last := s.structure()
-	s.lu = newLU(n, first, last)
+	s.checkStateRows()
+	blocks := make([][]int, len(s.devs))
+	for di := range s.devs {
+		blocks[di] = s.devs[di].touched
+	}
+	s.pat = newPattern(n, blocks)
 	s.scale = make([]float64, n)
 	s.noise = make([]float64, n)
 	maxTouched := 0
-	for _, d := range s.devs {
-		maxTouched = max(maxTouched, len(d.touched))
+	for di := range s.devs {
+		d := &s.devs[di]
+		m := len(d.touched)
+		maxTouched = max(maxTouched, m)
+		d.jpos = make([]int32, m*m)
+		for k, r := range d.touched {
+			for l, c := range d.touched {
+				d.jpos[k*m+l] = int32(s.pat.at(r, c))
+			}
+		}
 	}
-	s.snap = make([]float64, maxTouched)
+	s.jacSrc = make([]int32, s.pat.nnz())
+	if n <= denseMax {
+		s.dense = make([]float64, n*n)
+		for i := 0; i < n; i++ {
+			for e := s.pat.ptr[i]; e < s.pat.ptr[i+1]; e++ {
+				s.jacSrc[e] = int32(i*n) + s.pat.col[e]
+			}
+		}
+		s.jacBuf = s.dense
+		s.snap = make([]float64, maxTouched)
+	} else {
+		s.jac = make([]float64, s.pat.nnz())
+		for e := range s.jacSrc {
+			s.jacSrc[e] = int32(e)
+		}
+		s.jacBuf = s.jac
+		s.local = make([]int32, n)
+		s.floc = make([]float64, maxTouched)
+		s.jloc = make([]float64, maxTouched*maxTouched)
+	}
+	s.jacDiag = make([]int32, n)
+	for i := range s.jacDiag {
+		s.jacDiag[i] = s.jacSrc[s.pat.diag[i]]
+	}
+	s.lu = newSparseLU(s.pat, s.jacSrc)
 	s.q = make([]float64, ns)
 	s.hist = make([]float64, ns)
 	s.qdot = make([]float64, ns)
 	s.qdotAcc = make([]float64, ns)
-	for i := range s.hq {
+	s.qAcc = make([]float64, ns)
+	s.qG = make([]float64, ns)
+	for i := range s.hx {
+		s.hx[i] = make([]float64, n)
 		s.hq[i] = make([]float64, ns)
 	}
+	s.xG = make([]float64, n)
+	s.termG = make([]float64, nTerm)
+	s.lte = make([]float64, ns)
+	s.errx = make([]float64, n)
+	s.xScale = make([]float64, n)
+	s.xMax = make([]float64, n)
+	s.xtol = make([]float64, n)
+	for di := range s.devs {
+		d := &s.devs[di]
+		for t := 1; t < len(d.term); t++ {
+			a, b := d.term[0], d.term[t]
+			if a >= 0 && b >= 0 && a != b {
+				s.pairs = append(s.pairs, [2]int{a, b})
+			}
+		}
+	}
+	s.pairScale = make([]float64, len(s.pairs))
+	s.xMin = make([]float64, n)
 	s.termCur = make([]float64, nTerm)
-	s.power = make([]float64, len(s.devs))
+	s.termV = make([]float64, nTerm)
+	s.termI = make([]float64, nTerm)
+	s.curTr = make([]waveforms.Tracker, len(s.devs))
+	for i := range s.curTr {
+		s.curTr[i].Refine = true
+	}
 	s.pt = Point{
 		V: make([]float64, len(s.nodeNames)),
 		I: make([]float64, len(s.devs)),
 		P: make([]float64, nProbe),
 	}
 	s.ctx = devices.Context{
-		X: s.x, F: s.f, J: s.jac, N: n,
+		X: s.x, F: s.f, J: s.dense, N: n, Local: s.local,
 		Q: s.q, Rows: s.rows, SourceScale: 1,
 	}
 	return s, nil
 }
 
-// structure is the first and last column each row of the Jacobian can
-// reach: a device stamps only among its own unknowns, the engine only on the
-// diagonal. The structure is symmetric, so it bounds the columns too.
-func (s *System) structure() (first, last []int) {
-	first, last = make([]int, s.n), make([]int, s.n)
-	for i := range last {
-		first[i], last[i] = i, i
-	}
+// checkStateRows panics unless every state of a device enters only rows
+// among the device's own unknowns: the matrix's pattern (and the engine's
+// stamping of the state derivatives) rely on it.
+func (s *System) checkStateRows() {
 	for di := range s.devs {
 		d := &s.devs[di]
-		lo, hi := s.n, -1
-		for _, r := range d.touched {
-			lo, hi = min(lo, r), max(hi, r)
-		}
-		for _, r := range d.touched {
-			first[r], last[r] = min(first[r], lo), max(last[r], hi)
-		}
 		for k := d.stateLo; k < d.stateHi; k++ {
 			for _, r := range [2]int{s.rows[k].Plus, s.rows[k].Minus} {
 				if r >= 0 && !slices.Contains(d.touched, r) {
@@ -302,7 +386,6 @@ func (s *System) structure() (first, last []int) {
 			}
 		}
 	}
-	return first, last
 }
 
 // addUnknown numbers a new unknown.

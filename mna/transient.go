@@ -6,48 +6,137 @@ import (
 	"time"
 )
 
-// trtol widens the truncation-error tolerance: the divided-difference
-// estimate overstates the error the solution actually carries, and a factor
-// of about 7 is the common practice [practice] that keeps the step from
-// being needlessly small while the Newton tolerances still govern accuracy.
-const trtol = 7
+// The error control. Each step's local error is estimated for every
+// unknown (errorRatio) and held below
+//
+//	rel·b·w + AbsTol,   rel = localShare·Accuracy·√(Accuracy/DefaultAccuracy),
+//
+// b being the unknown's scale and w a slack.
+//
+// The scale b is the largest magnitude the unknown has reached on the side
+// of zero where it now is (at least its present magnitude, and at least
+// sideFloor of its largest magnitude on either side, and scaleFloor): the
+// extremes of a report are relative to themselves, and a clamp node that
+// swings to +27 V and −7 V must get its −7 V right to 0.2 % of 7 V, not of
+// 27 V.
+//
+// The errors of a second-order method go as the step squared and its steps
+// as the cube root of the local bound, so a bound proportional to Accuracy
+// would leave errors that shrink only as Accuracy^(2/3): rel goes as
+// Accuracy^(3/2) instead, so that the error a run leaves goes as Accuracy
+// itself and a run at Accuracy/10 is ten times closer (about three times
+// the steps). Its difference from the run at Accuracy is then the first
+// run's error to within about a tenth: an error bar.
+//
+// The slack w = min(1 + slackK·(d/b)², slackMax) grows with the distance d
+// from the value to the nearest extreme it has reached so far: a value in
+// the middle of its range cannot make a new extreme now, and the ringing of
+// a decoupling capacitor's esl with a pin's cin, which fills tens of
+// nanoseconds of a strike a few hundred millivolts from any extreme, need
+// not be followed to a part in ten thousand of its phase. Near an extreme
+// (a ringing whose crests climb, the first nanosecond) d is small and w is
+// 1. An error made in the middle of the range can still reach a later
+// extreme in a circuit with a long memory, which is why the slack stays
+// small; and it fades as the square of Accuracy below the default, so that
+// a run at Accuracy/10 has none and its difference from the first run shows
+// whatever the slack cost. Measured on the reference networks: the slack
+// saves a third of network A's steps.
+//
+// During a stimulus edge (see edgeSpan) the bound is edgeShare of itself,
+// without slack: what the circuit does just after an edge (the undershoot
+// and rebound when a pulse ends) depends on the phase of all its ringing at
+// the corner, and edges are short.
+//
+// localShare, sideFloor, edgeShare and the slack were calibrated on the
+// reference networks of testdata/reference (mna/reference_test.go): with
+// them every compared quantity stays within Accuracy with a margin.
+const (
+	localShare = 0.1
+	sideFloor  = 0.05
+	edgeShare  = 0.02
+	slackK     = 1000.0
+	slackMax   = 4.0
+)
+
+var ZZSlackMax = 30.0
+
+// newtonShare is Newton's relative tolerance as a share of the local error
+// per step: the iteration error must stay below the truncation error the
+// step control allows, or it would decide the answer [practice: a tenth].
+const newtonShare = 0.1
+
+// scaleFloor is the smallest scale of an unknown, V or A: signals below a
+// millivolt or a milliampere are of no consequence to a protection network,
+// so their relative accuracy buys nothing.
+const scaleFloor = 1e-3
+
+// edgeSpan is the longest interval between two breakpoints of a stimulus
+// that counts as an edge, as a fraction of the stimulus's span: a pulse's
+// rise and fall (0.5 ns of a 75 ns pulse), not its flat top.
+const edgeSpan = 0.02
 
 // firstFraction is the first step after t = 0 and after every breakpoint, as
-// a fraction of the interval it starts (itself at most MaxStep): small
-// enough to follow a corner, and the error control then grows it at most 2×
-// a step.
-const firstFraction = 1e-3
+// a fraction of the interval it starts (itself at most the step bound). That
+// step is backward Euler without an error estimate (there is no history), so
+// it must be small enough that its first-order error is negligible; the
+// error control then grows the step at most 2× a step.
+var firstFraction = 1e-4
 
-// safety scales the step the error estimate allows. The divided-difference
-// estimate is noisy on the ringing of a clamp network; 0.8 rather than the
-// textbook 0.9 cut the rejected steps of the reference network by two
-// thirds and the total work by a quarter (measured; 0.7 took more steps).
-const safety = 0.8
+// The step-size controller. After an accepted step with error ratio r (error
+// over tolerance) the next step is
+//
+//	h·safety·r^(−kI/3)·rPrev^(kP/3):
+//
+// the proportional-integral controller, which follows the error's trend as
+// well as its size and so keeps the step from oscillating between
+// acceptance and rejection on a ringing circuit [pub: Gustafsson 1991;
+// Hairer & Wanner, Solving ODEs II, IV.2, with kI = 0.7, kP = 0.4]; the 3
+// is the order plus one. A step grows at most maxGrow and a rejected one
+// shrinks at most to minShrink of itself.
+const (
+	safety    = 0.9
+	kI        = 0.7
+	kP        = 0.4
+	maxGrow   = 2.0
+	minShrink = 0.2
+	rFloor    = 1e-2
+)
 
-// beSteps is the number of backward-Euler steps after t = 0 and after each
-// breakpoint: they damp the step-to-step ringing the trapezoidal rule
-// leaves after a discontinuity (it is not L-stable). A rejected step is
-// retried with one backward-Euler step too: the rejection is the sign of an
-// event the step did not resolve, a corner the stimulus did not announce (a
-// clamp switching on or off). On the reference network that damping halved
-// the work and removed a 14 V excursion of the clamp node that the
-// trapezoidal rule alone left at reltol = 3e-3 (measured against a
-// reltol = 1e-6 solution); one step rather than two keeps the first-order
-// steps few, which the energy ledger notices at tight tolerances.
-const beSteps = 2
+// The step is TR-BDF2 [pub: Bank et al. 1985; Hosea & Shampine 1996]: a
+// trapezoidal stage over gamma·h, then a second-order backward
+// differentiation stage over the rest through the three points. It is
+// second order like the trapezoidal rule, and L-stable: whatever the
+// trapezoidal rule would leave ringing from step to step (a stiff
+// junction, the voltage across an inductor whose current a source forces,
+// a derivative that jumps at a corner) the second stage damps within the
+// step, so no backward-Euler step is needed inside a ringing, where it
+// would take (ω·h)²/2 of the amplitude. A resolved ringing loses about
+// (ω·h)⁴/3000 of its amplitude a step (3e-5 at 25 steps a period): the
+// pin's sub-nanosecond ringing keeps its peaks. With gamma = 2 − √2 both
+// stages have the same matrix coefficient, so they can share one
+// factorisation, and the truncation error constant is the smallest of the
+// family.
+const gamma = 2 - math.Sqrt2
+
+// lteC is the constant of TR-BDF2's local truncation error, C·h³·q‴
+// [pub: Bank et al. 1985, with gamma as above: about −0.0404].
+const lteC = (-3*gamma*gamma + 4*gamma - 2) / (12 * (2 - gamma))
 
 // Transient solves from the operating point to the stop time.
 //
 // The initial state is the operating point (strike off, supplies on): its
-// charges and fluxes, with zero derivatives. Each step is solved by Newton
-// with the trapezoidal rule, after t = 0 and after each breakpoint first with
-// two backward-Euler steps. The step follows the local truncation error of
-// every charge and flux; a step whose error is too large or whose Newton
-// iteration fails is shrunk and retried with one backward-Euler step. Before
-// the trapezoidal rule resumes, the derivatives are re-estimated to second
-// order. Breakpoints of the stimulus are hit exactly. The energy ledger
-// integrates Σ v·i of every element over the accepted points with the
-// trapezoidal rule.
+// charges and fluxes, with zero derivatives. The first step after t = 0 and
+// after each breakpoint is a small backward-Euler step, which sets the
+// derivatives the corner left behind; every other step is a TR-BDF2 step
+// (see gamma) solved by Newton from values extrapolated from the last
+// points. The step follows the local truncation error of every charge and
+// flux, mapped through the circuit's matrix onto the unknowns (see
+// Settings.Accuracy); a step whose error is too large, or whose Newton
+// iteration fails, is shrunk and retried. Breakpoints of the stimulus are
+// hit exactly. Both points of a step, the stage's and the end's, are
+// reported (Observe, Record): the first lies at gamma·h, so the points of a
+// run come in uneven pairs. The energy ledger integrates Σ v·i of every
+// element over the reported points.
 //
 // Transient resets the system first, so one System serves any number of
 // runs; it allocates per run, never per step (unless Record keeps the
@@ -66,9 +155,11 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 	if !(stop > 0) || math.IsInf(stop, 0) {
 		return nil, errors.New("mna: no stop time: give one in the settings or set a stimulus with a default span")
 	}
-	maxStep := cfg.MaxStep
-	if maxStep <= 0 {
-		maxStep = stop / 50
+	maxStep := stop / 50
+	for _, m := range []float64{cfg.Resolve, cfg.MaxStep} {
+		if m > 0 && m < maxStep {
+			maxStep = m
+		}
 	}
 	for _, d := range s.devs {
 		if d.limiter != nil {
@@ -92,7 +183,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 			// slow circuit, sets how fine the first step must be.
 			h = min(h, s.stim.Stop/50*firstFraction)
 		}
-		return h
+		return max(h, minStep)
 	}
 
 	ne := len(s.devs)
@@ -114,11 +205,18 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 	s.factorisations = 0
 
 	copy(s.xAcc, s.x)
-	head, nHist := 0, 1
-	copy(s.hq[head], s.q)
-	s.ht[head] = 0
+	for i, v := range s.x {
+		s.xScale[i] = max(scaleFloor, math.Abs(v))
+	}
+	copy(s.xMax, s.x)
+	copy(s.xMin, s.x)
+	for k := range s.pairScale {
+		s.pairScale[k] = scaleFloor
+	}
+	copy(s.qAcc, s.q)
 	clear(s.qdotAcc)
-	s.accept(res, &cfg, 0, 0, true)
+	s.pushPoint(0, s.x, s.q, true)
+	s.accept(res, &cfg, s.x, s.termCur, 0, 0, true, true)
 
 	now := 0.0
 	bi := 0 // next candidate breakpoint in s.stim.Breakpoints
@@ -139,9 +237,21 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 	target, _ := nextTarget()
 	h := first(target)
 	if fixed > 0 {
-		h = fixed
+		h = min(h, fixed)
 	}
-	be := beSteps
+	// hFloor is the step below which the error control no longer rejects:
+	// a hundredth of the first step, which is taken with no estimate at all.
+	// Where a node without capacitance is held by a junction that switches
+	// off (a clamp fed through an inductor, its current running out) its
+	// voltage falls on a time scale that shrinks with the junction's
+	// conductance, a corner in all but name; the estimate of a step across
+	// it is a fixed share of the fall however short the step, and without
+	// a floor the run would stop there.
+	hFloor := first(stop) / 100
+	restart := true // the next step is the backward-Euler step after a corner
+	logPrev := 0.0  // log of the error ratio of the last accepted step (PI memory)
+	const a2 = (1 - gamma) * (1 - gamma) / (gamma * (2 - gamma))
+	const a1 = 1 / (gamma * (2 - gamma))
 	for now < stop {
 		target, isBP := nextTarget()
 		hs := min(h, maxStep)
@@ -159,96 +269,127 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 		if hit {
 			tNew = target
 		}
-
-		hn := s.hq[head]
-		if be > 0 {
+		corner := hit && isBP
+		// A stimulus edge: the interval between the last breakpoint and the
+		// next is short against the stimulus's span.
+		t.setEdge(bi > 0 && bi < len(bps) && s.stim != nil && bps[bi]-bps[bi-1] < edgeSpan*s.stim.Stop)
+		qn := s.qAcc[:len(s.q)]
+		var it int
+		var st newtonStatus
+		if restart {
+			// Backward Euler: q' = (q − q_n)/h.
 			c.Alpha = 1 / hs
-			for k, q := range hn {
+			for k, q := range qn {
 				s.hist[k] = -q / hs
 			}
+			s.setNoise()
+			c.T = tNew
+			s.predict(tNew, false)
+			it, st = s.newton(&t, t.gmin, false)
+			res.Stats.Newton += it
 		} else {
-			c.Alpha = 2 / hs
-			for k, q := range hn {
+			// TR-BDF2: the trapezoidal stage to now + gamma·hs, ...
+			h1 := gamma * hs
+			c.Alpha = 2 / h1
+			for k, q := range qn {
 				s.hist[k] = -c.Alpha*q - s.qdotAcc[k]
 			}
+			s.setNoise()
+			c.T = now + h1
+			s.predict(c.T, false)
+			it, st = s.newton(&t, t.gmin, false)
+			res.Stats.Newton += it
+			if st == converged {
+				copy(s.xG, s.x)
+				copy(s.qG, s.q)
+				copy(s.termG, s.termCur)
+				s.stageT = c.T
+				// ... then second-order backward differentiation through
+				// q_n, q_G and the end: q' = Alpha·(q − a1·q_G + a2·q_n),
+				// the same Alpha.
+				for k, q := range qn {
+					s.hist[k] = c.Alpha * (a2*q - a1*s.qG[k])
+				}
+				s.setNoise()
+				c.T = tNew
+				s.predict(tNew, true)
+				it, st = s.newton(&t, t.gmin, true)
+				res.Stats.Newton += it
+			}
 		}
-		s.setNoise()
-		c.T = tNew
-		copy(s.x, s.xAcc) // start Newton from the last point
-		it, st := s.newton(&t, t.gmin)
-		res.Stats.Newton += it
 		if st != converged {
-			be = max(be, 1)
 			res.Stats.Rejected++
 			h = hs / 2
+			logPrev = 0
 			if h < minStep {
 				return nil, s.solveError(now, st)
 			}
 			continue
 		}
-		grow := 2.0
-		if fixed <= 0 {
-			r, have := s.lteRatio(be > 0, tNew, head, nHist, &t)
-			if have {
-				// r^(−1/order): a cube root for the trapezoidal rule, a
-				// square root for backward Euler, cheaper than math.Pow.
-				root := math.Cbrt
-				if be > 0 {
-					root = math.Sqrt
-				}
-				if r > 1 {
-					be = max(be, 1)
+		grow := maxGrow
+		if fixed <= 0 && !restart {
+			if r, have := s.errorRatio(hs, &t); have {
+				if r > 1 && hs > hFloor {
 					res.Stats.Rejected++
-					h = hs * max(1.0/8, min(0.5, safety/root(r)))
+					h = hs * max(minShrink, safety*math.Exp(-math.Log(r)/3))
+					logPrev = 0
 					if h < minStep {
-						e := s.solveError(now, notConverged, "the truncation error stays too large at the minimum step")
-						who := s.elements[s.stateDev[s.lteWorst]]
-						e.Where = "element " + who
-						e.Hint = "try a smaller maxstep in the window statement, or add series resistance to " + who
-						return nil, e
+						return nil, s.truncationError(now)
 					}
 					continue
 				}
-				if r > 0 {
-					grow = min(2, safety/root(r))
+				// Far below its bound the estimate is rounding, and its
+				// trend from one step to the next means nothing.
+				lr := math.Log(max(r, rFloor))
+				if r > rFloor {
+					grow = min(maxGrow, safety*math.Exp((-kI*lr+kP*logPrev)/3))
+				}
+				logPrev = lr
+				if r > 1 {
+					// Accepted at the floor: try the floor again.
+					grow, logPrev = hFloor/hs, 0
 				}
 			}
 		}
 
-		// Accept.
-		wasBE := be > 0
-		head = (head + 1) % len(s.hq)
-		copy(s.hq[head], s.q)
-		s.ht[head] = tNew
-		nHist = min(nHist+1, len(s.hq))
+		// Accept: the stage's point, then the end's.
+		if !restart {
+			s.pushPoint(s.stageT, s.xG, s.qG, false)
+			s.scaleWith(s.xG)
+			s.accept(res, &cfg, s.xG, s.termG, s.stageT, s.stageT-now, false, false)
+			now = s.stageT
+		}
+		copy(s.qAcc, s.q)
 		copy(s.qdotAcc, s.qdot)
 		copy(s.xAcc, s.x)
+		s.scaleWith(s.x)
+		s.pushPoint(tNew, s.x, s.q, corner)
+		s.accept(res, &cfg, s.x, s.termCur, tNew, tNew-now, false, corner)
 		now = tNew
 		res.Stats.Steps++
-		s.accept(res, &cfg, now, hs, false)
 
 		switch {
-		case fixed > 0:
-			h = fixed
-			if hit && isBP {
-				be = beSteps
-			} else if be > 0 {
-				be--
-			}
-		case hit && isBP:
-			be = beSteps
-			nHist = 1
+		case corner:
+			restart = true
+			logPrev = 0
 			next, _ := nextTarget()
 			h = first(next - now)
+		case restart:
+			// The step after backward Euler takes twice its length: its
+			// estimate needs the restart's point, and one of that size is
+			// as safe as the restart.
+			restart = false
+			h = 2 * hs
+			logPrev = 0
 		default:
-			if be > 0 {
-				be--
-			}
 			h = hs * grow
 		}
-		if be == 0 && wasBE {
-			s.restartDerivative(head, nHist)
+		if fixed > 0 {
+			h = fixed
 		}
+	}
+	for i := range s.curTr {
+		res.PeakCurrent[i], _ = s.curTr[i].AbsPeak()
 	}
 	for _, e := range res.Energy {
 		res.Balance += e
@@ -258,123 +399,277 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 	return res, nil
 }
 
-// restartDerivative replaces the state derivatives of the last accepted
-// point by the slope of the parabola through the last three points before
-// the trapezoidal rule takes over from backward Euler. The trapezoidal rule
-// carries the derivative from step to step, and an error in it alternates in
-// sign ever after without decay wherever a derivative is forced (the
-// voltage of an inductor whose current a source imposes): the first-order
-// derivative of backward Euler left such an alternation of about 1 % on the
-// strike node; a second-order one shrinks it by the step ratio again.
-func (s *System) restartDerivative(head, nHist int) {
-	if nHist < 3 {
-		return
+// scaleWith raises each unknown's scale to its magnitude in x.
+func (s *System) scaleWith(x []float64) {
+	sc := s.xScale[:len(x)]
+	for i, v := range x {
+		if a := math.Abs(v); a > sc[i] {
+			sc[i] = a
+		}
+		if v > s.xMax[i] {
+			s.xMax[i] = v
+		}
+		if v < s.xMin[i] {
+			s.xMin[i] = v
+		}
 	}
-	n := len(s.hq)
-	i2, i1, i0 := head, (head+n-1)%n, (head+n-2)%n
-	t0, t1, t2 := s.ht[i0], s.ht[i1], s.ht[i2]
-	q0, q1, q2 := s.hq[i0], s.hq[i1], s.hq[i2]
-	for k := range s.qdotAcc {
-		d21 := (q2[k] - q1[k]) / (t2 - t1)
-		d10 := (q1[k] - q0[k]) / (t1 - t0)
-		s.qdotAcc[k] = d21 + (d21-d10)/(t2-t0)*(t2-t1)
+	for k, p := range s.pairs {
+		if a := math.Abs(x[p[0]] - x[p[1]]); a > s.pairScale[k] {
+			s.pairScale[k] = a
+		}
 	}
 }
 
-// lteRatio is the largest ratio of estimated local truncation error to
-// tolerance over the states, for a step to tNew whose charges are in s.q.
-// The error comes from divided differences over the accepted points since
-// the last breakpoint: h³/12·q‴ for the trapezoidal rule (needs three
-// earlier points) and h²/2·q″ for backward Euler (needs two). have is false
-// when there are too few points. The state with the largest ratio is left
-// in s.lteWorst.
-func (s *System) lteRatio(be bool, tNew float64, head, nHist int, t *tol) (r float64, have bool) {
-	n := len(s.hq)
-	i1 := head
-	i2 := (head + n - 1) % n
-	i3 := (head + n - 2) % n
-	h := tNew - s.ht[i1]
-	if be {
-		if nHist < 2 {
-			return 0, false
-		}
-		t0, t1 := s.ht[i2], s.ht[i1]
-		q0, q1 := s.hq[i2], s.hq[i1]
-		q0, q1 = q0[:len(s.q)], q1[:len(s.q)]
-		// Reciprocals of the time differences, formed once for all states.
-		r10, r21, r20 := 1/(t1-t0), 1/(tNew-t1), 1/(tNew-t0)
-		for k, q2 := range s.q {
-			d10 := (q1[k] - q0[k]) * r10
-			d21 := (q2 - q1[k]) * r21
-			dd2 := (d21 - d10) * r20
-			lte := h * h * dd2
-			tl := trtol * (t.rel*math.Max(math.Abs(q1[k]), math.Abs(q2)) + t.charge)
-			// Divide only for a new largest ratio.
-			if e := math.Abs(lte); e > r*tl {
-				r, s.lteWorst = e/tl, k
-			}
-		}
-		return r, true
+// pushPoint adds a reported point to the history of the predictor and the
+// error estimate; a corner starts the history afresh with that point.
+func (s *System) pushPoint(t float64, x, q []float64, corner bool) {
+	n := len(s.hx)
+	s.hHead = (s.hHead + 1) % n
+	copy(s.hx[s.hHead], x)
+	copy(s.hq[s.hHead], q)
+	s.ht[s.hHead] = t
+	if corner {
+		s.hLen = 1
+	} else {
+		s.hLen = min(s.hLen+1, n)
 	}
-	if nHist < 3 {
+}
+
+// point is the k-th newest reported point (k = 0 the newest).
+func (s *System) point(k int) (t float64, x, q []float64) {
+	j := (s.hHead - k + len(s.hx)) % len(s.hx)
+	return s.ht[j], s.hx[j], s.hq[j]
+}
+
+// predict sets Newton's starting point at tNew: the polynomial through the
+// last reported points since the last corner (up to three; a line through
+// two, the last point alone), the newest being, with stage, the TR-BDF2
+// step's trapezoidal stage in s.xG.
+func (s *System) predict(tNew float64, stage bool) {
+	var ts [3]float64
+	var xs [3][]float64
+	m := 0
+	if stage {
+		ts[0], xs[0] = s.stageT, s.xG
+		m = 1
+	}
+	for k := 0; k < s.hLen && m < 3; k++ {
+		ts[m], xs[m], _ = s.point(k)
+		m++
+	}
+	x := s.x[:len(s.xAcc)]
+	switch m {
+	case 1:
+		copy(x, xs[0])
+	case 2:
+		f := (tNew - ts[0]) / (ts[0] - ts[1])
+		x0, x1 := xs[0][:len(x)], xs[1][:len(x)]
+		for i := range x {
+			x[i] = x0[i] + f*(x0[i]-x1[i])
+		}
+	default:
+		t0, t1, t2 := ts[0], ts[1], ts[2]
+		w0 := (tNew - t1) * (tNew - t2) / ((t0 - t1) * (t0 - t2))
+		w1 := (tNew - t0) * (tNew - t2) / ((t1 - t0) * (t1 - t2))
+		w2 := (tNew - t0) * (tNew - t1) / ((t2 - t0) * (t2 - t1))
+		x0, x1, x2 := xs[0][:len(x)], xs[1][:len(x)], xs[2][:len(x)]
+		for i := range x {
+			x[i] = w0*x0[i] + w1*x1[i] + w2*x2[i]
+		}
+	}
+}
+
+// errorRatio is the largest ratio of estimated local error to tolerance
+// over the unknowns for the TR-BDF2 step of length h just solved (its
+// stage in s.qG at s.stageT), and have = false when too few points since
+// the last corner allow an estimate.
+//
+// Each charge's truncation error is C·h³·q‴ (lteC), q‴ being six times the
+// third divided difference of the charge over the step's stage, its end
+// and the two points reported before them. The charges, not their
+// derivatives: a derivative that a corner or a singular start (the t^1.8
+// onset of the contact-discharge current) left wrong would otherwise enter
+// every later estimate as an error no step could reduce. A charge computed
+// with an error d enters its rows as a companion current off by Alpha·d;
+// the error that leaves in the solution is the matrix's answer to those
+// currents, J⁻¹·(Alpha·d), found with the factors Newton left (those of
+// this step or of a recent one: an estimate needs no more). Mapping the
+// errors this way weighs each by its effect on the voltages and currents a
+// report reads, and filters out the stiff parts (a conducting junction's
+// charge, whose error its own conductance absorbs) that a test on the
+// charges themselves would chase with ever smaller steps [pub: Hosea &
+// Shampine 1996 filter TR-BDF2's estimate the same way]. Each unknown's
+// error is then held to its bound (see localShare). The unknown of the
+// largest ratio is left in s.lteWorst.
+func (s *System) errorRatio(h float64, t *tol) (r float64, have bool) {
+	if s.hLen < 2 {
 		return 0, false
 	}
-	t0, t1, t2 := s.ht[i3], s.ht[i2], s.ht[i1]
-	q0, q1, q2 := s.hq[i3], s.hq[i2], s.hq[i1]
-	q0, q1, q2 = q0[:len(s.q)], q1[:len(s.q)], q2[:len(s.q)]
-	r10, r21, r32 := 1/(t1-t0), 1/(t2-t1), 1/(tNew-t2)
-	r20, r31, r30 := 1/(t2-t0), 1/(tNew-t1), 1/(tNew-t0)
-	for k, q3 := range s.q {
+	t0, _, q0 := s.point(1)
+	t1, _, q1 := s.point(0)
+	t2, q2 := s.stageT, s.qG
+	t3 := t1 + h
+	r10, r21, r32 := 1/(t1-t0), 1/(t2-t1), 1/(t3-t2)
+	r20, r31, r30 := 1/(t2-t0), 1/(t3-t1), 1/(t3-t0)
+	f := -6 * lteC * h * h * h * r30
+	lte := s.lte[:len(s.q)]
+	q0, q1, q2 = q0[:len(lte)], q1[:len(lte)], q2[:len(lte)]
+	for k, q3 := range s.q[:len(lte)] {
 		d10 := (q1[k] - q0[k]) * r10
 		d21 := (q2[k] - q1[k]) * r21
 		d32 := (q3 - q2[k]) * r32
-		dd20 := (d21 - d10) * r20
-		dd31 := (d32 - d21) * r31
-		dd3 := (dd31 - dd20) * r30
-		lte := h * h * h * dd3 / 2
-		tl := trtol * (t.rel*math.Max(math.Abs(q2[k]), math.Abs(q3)) + t.charge)
-		if e := math.Abs(lte); e > r*tl {
-			r, s.lteWorst = e/tl, k
+		lte[k] = f * ((d32-d21)*r31 - (d21-d10)*r20)
+	}
+	e := s.errx
+	clear(e)
+	a := s.ctx.Alpha
+	for k, rw := range s.rows {
+		d := a * lte[k]
+		if rw.Plus >= 0 {
+			e[rw.Plus] += d
+		}
+		if rw.Minus >= 0 {
+			e[rw.Minus] -= d
+		}
+	}
+	s.lu.solve(e)
+	rel := t.rel
+	if t.edge {
+		rel *= edgeShare
+	}
+	x, xo := s.x[:len(e)], s.xAcc[:len(e)]
+	hi, lo, sc := s.xMax[:len(e)], s.xMin[:len(e)], s.xScale[:len(e)]
+	wmax := t.slackMax
+	if t.edge {
+		wmax = 1
+	}
+	for i, v := range e {
+		b := s.scaleOf(x[i], xo[i], hi[i], lo[i], sc[i])
+		w := 1.0
+		if d := min(hi[i]-x[i], x[i]-lo[i]); d > 0 && wmax > 1 {
+			d /= b
+			w = min(1+slackK*d*d, wmax)
+		}
+		tl := rel*b*w + t.abs
+		if a := math.Abs(v); a > r*tl {
+			r, s.lteWorst = a/tl, i
+		}
+	}
+	for k, p := range s.pairs {
+		d := e[p[0]] - e[p[1]]
+		tl := rel*max(s.pairScale[k], math.Abs(x[p[0]]-x[p[1]])) + t.abs
+		if a := math.Abs(d); a > r*tl {
+			r, s.lteWorst = a/tl, p[0]
+		}
+	}
+	if t.charge > 0 {
+		for k, d := range lte {
+			tl := t.rel*math.Abs(s.q[k]) + t.charge
+			if a := math.Abs(d); a > r*tl {
+				r, s.lteWorst = a/tl, -1-k
+			}
 		}
 	}
 	return r, true
 }
 
+// scaleOf is the scale of an unknown whose value is x (xo before the step),
+// which has reached hi and lo so far and whose largest magnitude is sc: the
+// largest magnitude on the side of zero where x lies, at least |x|, |xo|
+// and sideFloor·sc (see localShare).
+func (s *System) scaleOf(x, xo, hi, lo, sc float64) float64 {
+	side := hi
+	if x < 0 {
+		side = -lo
+	}
+	return max(side, math.Abs(x), math.Abs(xo), sideFloor*sc, scaleFloor)
+}
+
+// truncationError is the error of a step that the error control keeps
+// rejecting at the minimum step. It names the element whose charge or flux
+// error weighs most on the worst unknown: each state's error of the last
+// estimate mapped alone (a costly search, but only on the way out).
+func (s *System) truncationError(now float64) *SolveError {
+	e := s.solveError(now, notConverged, "the truncation error stays too large at the minimum step")
+	worst := -1
+	if s.lteWorst < 0 {
+		worst = -1 - s.lteWorst
+	} else {
+		big := -1.0
+		for k, rw := range s.rows {
+			clear(s.errx)
+			d := s.ctx.Alpha * s.lte[k]
+			if rw.Plus >= 0 {
+				s.errx[rw.Plus] += d
+			}
+			if rw.Minus >= 0 {
+				s.errx[rw.Minus] -= d
+			}
+			s.lu.solve(s.errx)
+			if a := math.Abs(s.errx[s.lteWorst]); a > big {
+				big, worst = a, k
+			}
+		}
+	}
+	if worst >= 0 {
+		who := s.elements[s.stateDev[worst]]
+		e.Where = "element " + who
+		e.Hint = "try a smaller maxstep in the window statement, or add series resistance to " + who
+	}
+	return e
+}
+
 // accept books an accepted point: element currents and powers, the energy
-// ledger (trapezoidal over the step h), peaks, probes, the devices'
-// Acceptors, Observe and Record.
-func (s *System) accept(res *Result, cfg *Settings, now, h float64, first bool) {
+// ledger over the step h, peaks, probes, the devices' Acceptors, Observe and
+// Record. corner says the point is t = 0 or a breakpoint.
+//
+// The ledger takes each terminal's voltage and current averaged over the
+// step: Σ h·v̄·ī. For a linear capacitor or inductor integrated by the
+// trapezoidal rule that sum is exactly the change of its stored energy
+// (v̄·h·ī = v̄·Δq, and the rule makes h·ī = Δq), so an element that ends as
+// it began gets zero, as it must; the trapezoidal sum of v·i instead left
+// an alternating error of the rule's forced derivatives in it (an
+// inductor carrying the strike current booked 1e5 times its true entry).
+// For a resistor or a clamp both sums are second order.
+func (s *System) accept(res *Result, cfg *Settings, x, termCur []float64, now, h float64, first, corner bool) {
 	pt := &s.pt
 	pt.T = now
+	pt.Corner = corner
 	for i, k := range s.nodeIdx {
-		pt.V[i] = s.x[k]
+		pt.V[i] = x[k]
 	}
 	for di := range s.devs {
 		d := &s.devs[di]
-		p := 0.0
+		e := 0.0
 		for ti, r := range d.term {
+			k := d.curBase + ti
+			v, i := 0.0, termCur[k]
 			if r >= 0 {
-				p += s.x[r] * s.termCur[d.curBase+ti]
+				v = x[r]
 			}
+			e += (v + s.termV[k]) * (i + s.termI[k])
+			s.termV[k], s.termI[k] = v, i
 		}
 		if !first {
-			res.Energy[di] += 0.5 * h * (s.power[di] + p)
+			res.Energy[di] += 0.25 * h * e
 		}
-		s.power[di] = p
 		i := 0.0
 		switch {
 		case len(d.term) > 0 && d.term[0] >= 0:
-			i = s.termCur[d.curBase]
+			i = termCur[d.curBase]
 		case len(d.term) > 1:
-			i = -s.termCur[d.curBase+1]
+			i = -termCur[d.curBase+1]
 		}
 		pt.I[di] = i
-		res.PeakCurrent[di] = math.Max(res.PeakCurrent[di], math.Abs(i))
+		s.curTr[di].Add(now, i)
+		if corner {
+			s.curTr[di].Corner()
+		}
 		if d.prober != nil {
-			d.prober.Probe(s.x, pt.P[d.probeBase:d.probeBase+d.nProbe])
+			d.prober.Probe(x, pt.P[d.probeBase:d.probeBase+d.nProbe])
 		}
 		if d.acceptor != nil {
-			d.acceptor.Accept(now, s.x)
+			d.acceptor.Accept(now, x)
 		}
 	}
 	if cfg.Observe != nil {

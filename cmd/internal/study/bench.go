@@ -227,9 +227,6 @@ func (b *Bench) Solve(level float64, polarity string, opt *Options) (*Run, error
 	if opt.Window.AbsTol > 0 {
 		w.AbsTol = opt.Window.AbsTol
 	}
-	if w.RelTol == 0 {
-		w.RelTol = DefaultRelTol
-	}
 	r := &Run{
 		Job:       Job{Variant: b.Variant, Level: level, Polarity: polarity},
 		Waveform:  wf,

@@ -72,8 +72,7 @@
 // excursion from its value at t = 0, so a tail settling by microvolts does
 // not stretch the window.
 //
-// Without a `window reltol=` the study solves at DefaultRelTol (1e-4), tighter
-// than the engine's generic default: the report's numbers are peaks of
-// nanosecond ringing, and they are only as good as the steps that sample
-// them.
+// Without a `window reltol=` the study solves at the engine's default
+// accuracy (mna.DefaultAccuracy, 0.2 % on every reported extreme and
+// energy).
 package study

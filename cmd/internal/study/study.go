@@ -35,8 +35,8 @@ type Options struct {
 	Record bool
 	// Window overrides the deck's window statement field by field: a zero
 	// field keeps the deck's value (and, when that is zero too, the
-	// default: the span of DefaultStop, RelTol DefaultRelTol, the engine's
-	// MaxStep and AbsTol). Pos is ignored.
+	// default: the span of DefaultStop, the engine's accuracy, MaxStep and
+	// AbsTol). Pos is ignored.
 	Window netlist.Window
 	// Settings tunes the engine beyond the window (MinStep, Gmin, MaxIter,
 	// ChargeTol). Nil: engine defaults. Stop, MaxStep, RelTol, AbsTol,

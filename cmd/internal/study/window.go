@@ -24,14 +24,6 @@ const (
 	RCTaus    = 3.0
 )
 
-// DefaultRelTol is the study's relative tolerance when neither the deck's
-// window nor Options set one. It is tighter than the engine's generic
-// default because a report's numbers are peaks of nanosecond ringing: on the
-// demo deck, 1e-4 brings the clamp node's extremes within 0.2 % of a
-// solution with a hundred times smaller tolerance (1e-3 left them 6 % off)
-// for about 15 % more steps.
-const DefaultRelTol = 1e-4
-
 // DefaultStop is the default span for circuit c struck by a stimulus whose
 // own span is stimStop: the longest of that span, LCPeriods periods
 // 2π√(L·C) of the largest inductance with the largest capacitance, and RCTaus
