@@ -8,6 +8,9 @@ import (
 	"strings"
 	"unicode"
 	"unicode/utf8"
+
+	"zapnet/devices"
+	"zapnet/devices/spec"
 )
 
 // maxDeckSize bounds a deck or an included file: a deck is a page of text,
@@ -28,7 +31,7 @@ type rawParam struct {
 
 // rawElement is an element statement before its parameters are checked.
 type rawElement struct {
-	kind     Kind
+	kind     *devices.Kind
 	kindPos  Pos
 	name     string
 	namePos  Pos
@@ -45,7 +48,7 @@ type rawElement struct {
 type rawPart struct {
 	name    string
 	namePos Pos
-	kind    Kind
+	kind    *devices.Kind
 	params  []rawParam
 	pos     Pos
 }
@@ -87,6 +90,7 @@ type parser struct {
 	stack    []string // absolute paths of the files being read, outermost first
 	shown    []string // the same files as shown in messages
 	done     map[string]bool
+	included []string // absolute paths of every file read, in order
 	elements []*rawElement
 	parts    []*rawPart
 	watches  []rawWatch
@@ -177,6 +181,7 @@ func absPath(path string) string {
 // asked for it (invalid for the top deck).
 func (p *parser) file(name string, src []byte, from Pos) {
 	abs := absPath(name)
+	p.included = append(p.included, abs)
 	p.stack = append(p.stack, abs)
 	p.shown = append(p.shown, name)
 	defer func() {
@@ -213,17 +218,17 @@ func (p *parser) statement(st statement) {
 	case "window":
 		p.parseWindow(st)
 	default:
-		if _, ok := specs[Kind(word)]; ok || Kind(word) == Strike {
-			p.parseElement(st)
+		if k := devices.Lookup(word); k != nil {
+			p.parseElement(st, k)
 			return
 		}
 		switch {
 		case strings.HasPrefix(word, "."):
-			p.errs.Add(t.pos, "unknown statement %s: statements have no leading dot%s", word, didYouMean(word[1:], statementWords))
+			p.errs.Add(t.pos, "unknown statement %s: statements have no leading dot%s", word, didYouMean(word[1:], statementWords()))
 		case strings.HasPrefix(word, "+"):
 			p.errs.Add(t.pos, "a line cannot continue with +; end the previous line with \\ instead")
 		default:
-			p.errs.Add(t.pos, "unknown statement %s%s", word, didYouMean(word, statementWords))
+			p.errs.Add(t.pos, "unknown statement %s%s", word, didYouMean(word, statementWords()))
 		}
 	}
 }
@@ -400,9 +405,8 @@ func nameProblem(s string) string {
 }
 
 // element = kind name node node [value] { key "=" value } .
-func (p *parser) parseElement(st statement) {
+func (p *parser) parseElement(st statement, kind *devices.Kind) {
 	t := st.toks[0]
-	kind := Kind(t.raw)
 	e := &rawElement{kind: kind, kindPos: t.pos, written: map[string]bool{}}
 	for _, t := range st.toks[1:] {
 		if t.isKV {
@@ -413,7 +417,7 @@ func (p *parser) parseElement(st statement) {
 	e.params = kv
 	e.ok = true
 	if len(pos) < 1 {
-		p.errs.Add(t.pos, "%s needs a name and two nodes: %s", kind, usageOf(kind))
+		p.errs.Add(t.pos, "%s needs a name and two nodes: %s", kind.Name, usageOf(kind))
 		return
 	}
 	e.name, e.namePos = pos[0].raw, pos[0].pos
@@ -421,7 +425,7 @@ func (p *parser) parseElement(st statement) {
 		e.ok = false
 	}
 	if len(pos) < 3 {
-		p.errs.Add(e.namePos, "%s %s needs two nodes: %s", kind, e.name, usageOf(kind))
+		p.errs.Add(e.namePos, "%s %s needs two nodes: %s", kind.Name, e.name, usageOf(kind))
 		e.ok = false
 	}
 	for i := 0; i < 2 && i+1 < len(pos); i++ {
@@ -431,30 +435,30 @@ func (p *parser) parseElement(st statement) {
 		}
 	}
 	rest := pos[min(len(pos), 3):]
-	spec := specs[kind]
-	if len(rest) > 0 && spec != nil && spec.hasValue {
+	positional := kind.Positional() != nil
+	if len(rest) > 0 && positional {
 		e.value, e.valuePos, e.hasValue = rest[0].raw, rest[0].pos, true
 		rest = rest[1:]
 	}
 	for _, r := range rest {
-		if spec != nil && spec.hasValue {
-			p.errs.Add(r.pos, "unexpected %s: %s takes one value, then key=value parameters", r.raw, kind)
+		if positional {
+			p.errs.Add(r.pos, "unexpected %s: %s takes one value, then key=value parameters", r.raw, kind.Name)
 		} else {
-			p.errs.Add(r.pos, "unexpected %s: %s takes no positional value, only key=value parameters", r.raw, kind)
+			p.errs.Add(r.pos, "unexpected %s: %s takes no positional value, only key=value parameters", r.raw, kind.Name)
 		}
 	}
 	p.elements = append(p.elements, e)
 }
 
 // usageOf is the synopsis of an element statement, for messages.
-func usageOf(k Kind) string {
-	switch k {
-	case Strike:
-		return "strike NAME NODE REF waveform=W level=L1,L2 [polarity=pos|neg|both]"
-	case Resistor, Capacitor, Inductor, Supply:
-		return string(k) + " NAME A B VALUE [key=value ...]"
+func usageOf(k *devices.Kind) string {
+	switch {
+	case k.Role == spec.Stimulus:
+		return k.Name + " NAME NODE REF waveform=W level=L1,L2 [polarity=pos|neg|both]"
+	case k.Positional() != nil:
+		return k.Name + " NAME A B VALUE [key=value ...]"
 	}
-	return string(k) + " NAME A B [key=value ...]"
+	return k.Name + " NAME A B [key=value ...]"
 }
 
 // part = "part" name kind { key "=" value } .
@@ -465,21 +469,17 @@ func (p *parser) parsePart(st statement) {
 		p.errs.Add(t.pos, "part needs a name and a kind: part NAME KIND key=value ...")
 		return
 	}
-	pt := &rawPart{name: pos[0].raw, namePos: pos[0].pos, kind: Kind(pos[1].raw), params: kv, pos: t.pos}
+	pt := &rawPart{name: pos[0].raw, namePos: pos[0].pos, kind: devices.Lookup(pos[1].raw), params: kv, pos: t.pos}
 	p.extra(pos[2:], "part")
 	if !p.checkName("part", pt.name, pt.namePos) {
 		return
 	}
-	if specs[pt.kind] == nil {
-		var kinds []string
-		for _, k := range kindOrder[:len(kindOrder)-1] {
-			kinds = append(kinds, string(k))
-		}
-		if pt.kind == Strike {
-			p.errs.Add(pos[1].pos, "a strike cannot be a part")
-		} else {
-			p.errs.Add(pos[1].pos, "unknown element kind %s%s", pos[1].raw, didYouMean(pos[1].raw, kinds))
-		}
+	switch {
+	case pt.kind == nil:
+		p.errs.Add(pos[1].pos, "unknown element kind %s%s", pos[1].raw, didYouMean(pos[1].raw, kindNames()))
+		return
+	case pt.kind.Role == spec.Stimulus:
+		p.errs.Add(pos[1].pos, "a %s cannot be a part", pt.kind.Name)
 		return
 	}
 	p.parts = append(p.parts, pt)
@@ -500,16 +500,15 @@ func (p *parser) parseWatch(st statement) {
 	p.watches = append(p.watches, rawWatch{node: pos[0].raw, nodePos: pos[0].pos, params: kv, pos: t.pos})
 }
 
-// splitTarget splits ELEMENT.PARAM at the last dot: element names may hold
-// dots, parameter names never do.
+// splitTarget splits ELEMENT.PARAM (SplitTarget) and places PARAM.
 func splitTarget(key string, pos Pos) (elem, param string, paramPos Pos, ok bool) {
-	k := strings.LastIndexByte(key, '.')
-	if k <= 0 || k == len(key)-1 {
+	elem, param, ok = SplitTarget(key)
+	if !ok {
 		return "", "", pos, false
 	}
 	paramPos = pos
-	paramPos.Col += utf8.RuneCountInString(key[:k+1])
-	return key[:k], key[k+1:], paramPos, true
+	paramPos.Col += utf8.RuneCountInString(elem) + 1
+	return elem, param, paramPos, true
 }
 
 // vary = "vary" element "." param "=" value { "," value } .

@@ -5,6 +5,9 @@ import (
 	"maps"
 	"slices"
 	"strings"
+
+	"zapnet/devices/spec"
+	"zapnet/waveforms"
 )
 
 func (p *parser) checkWatches(c *Circuit) {
@@ -32,7 +35,7 @@ func (p *parser) checkWatches(c *Circuit) {
 		for _, kv := range rw.params {
 			switch kv.key {
 			case "max", "min":
-				v, msg := numValue(kv.key+" of a watch", "V", anyValue, kv.val)
+				v, msg := numValue(kv.key+" of a watch", spec.Volt, spec.Any, kv.val)
 				if msg != "" {
 					p.errs.Add(kv.valPos, "%s", msg)
 					ok = false
@@ -49,7 +52,7 @@ func (p *parser) checkWatches(c *Circuit) {
 			}
 		}
 		if w.HasMax && w.HasMin && !(w.Min < w.Max) {
-			p.errs.Add(rw.nodePos, "watch %s: min %s is not below max %s", rw.node, FormatSI(w.Min, "V"), FormatSI(w.Max, "V"))
+			p.errs.Add(rw.nodePos, "watch %s: min %s is not below max %s", rw.node, spec.FormatSI(w.Min, "V"), spec.FormatSI(w.Max, "V"))
 			ok = false
 		}
 		if ok {
@@ -67,16 +70,16 @@ func (p *parser) checkWindow(c *Circuit) {
 		w := Window{Pos: rw.pos}
 		for _, kv := range rw.params {
 			var dst *float64
-			unit, r := "s", positive
+			unit, r := spec.Second, spec.Positive
 			switch kv.key {
 			case "stop":
 				dst = &w.Stop
 			case "maxstep":
 				dst = &w.MaxStep
 			case "reltol":
-				dst, unit = &w.RelTol, ""
+				dst, unit = &w.RelTol, spec.Dimensionless
 			case "abstol":
-				dst, unit = &w.AbsTol, "V"
+				dst, unit = &w.AbsTol, spec.Volt
 			default:
 				p.errs.Add(kv.keyPos, "unknown parameter %s for a window%s", kv.key, didYouMean(kv.key, []string{"stop", "maxstep", "reltol", "abstol"}))
 				continue
@@ -92,7 +95,7 @@ func (p *parser) checkWindow(c *Circuit) {
 			*dst = v
 		}
 		if w.Stop > 0 && w.MaxStep > w.Stop {
-			p.errs.Add(rw.pos, "window: maxstep %s is longer than stop %s", FormatSI(w.MaxStep, "s"), FormatSI(w.Stop, "s"))
+			p.errs.Add(rw.pos, "window: maxstep %s is longer than stop %s", spec.FormatSI(w.MaxStep, "s"), spec.FormatSI(w.Stop, "s"))
 		}
 		c.Window = w
 	}
@@ -108,50 +111,103 @@ func settable(c *Circuit, elem, param string) (string, *Element) {
 		}
 		return fmt.Sprintf("no element %s%s", elem, didYouMean(elem, names)), nil
 	}
-	if e.Kind == Strike {
+	if e.IsStrike() {
 		switch param {
 		case "level", "polarity":
 			return "levels and polarities are already axes of the study; list them on the strike", e
-		case "waveform", "file", "part":
+		case "waveform", "part":
 			return fmt.Sprintf("the strike's %s cannot be varied", param), e
 		}
-		sp, ok := strikeParams[param]
-		if !ok {
-			return fmt.Sprintf("a strike has no parameter %s%s", param, didYouMean(param, keysOf(Strike))), e
+		if e.Waveform.Word(param) != nil {
+			return fmt.Sprintf("the strike's %s cannot be varied", param), e
 		}
-		if _, ok := sp.waveforms[e.Str["waveform"]]; !ok {
-			return fmt.Sprintf("%s is a parameter of waveform %s, not of %s", param, strings.Join(waveformsTaking(param), ", "), e.Str["waveform"]), e
+		taking := waveforms.Taking(param)
+		if len(taking) == 0 {
+			return fmt.Sprintf("a strike has no parameter %s%s", param, didYouMean(param, keysOf(e.Kind))), e
+		}
+		if e.Waveform.Param(param) == nil {
+			return fmt.Sprintf("%s is a parameter of waveform %s, not of %s", param, strings.Join(taking, ", "), e.Waveform.Name), e
 		}
 		return "", e
 	}
-	if param == "rail" {
-		return "a pin's rail changes the circuit's nodes and cannot be varied", e
+	if w := e.Kind.Word(param); w != nil && w.Fixed {
+		return fmt.Sprintf("a %s's %s changes the circuit's nodes and cannot be varied", e.Kind.Name, param), e
 	}
-	if param == "part" || hasWord(e.Kind, param) || specOf(e.Kind, param) != nil {
+	if param == "part" || e.Kind.Word(param) != nil || e.Kind.Param(param) != nil {
 		return "", e
 	}
-	return fmt.Sprintf("a %s has no parameter %s%s", e.Kind, param, didYouMean(param, keysOf(e.Kind))), e
+	return fmt.Sprintf("a %s has no parameter %s%s", e.Kind.Name, param, didYouMean(param, keysOf(e.Kind))), e
+}
+
+// isNumeric reports whether the parameter param of e takes a number (not a
+// part or a word).
+func isNumeric(e *Element, param string) bool { return e.Param(param) != nil }
+
+// parseSetting reads the text of a setting of param of e (already settable)
+// as the deck would: a number in the parameter's unit, a part of the
+// element's kind or one of a word parameter's words. It returns a message
+// when the text does not fit.
+func (c *Circuit) parseSetting(e *Element, param, text string) (Setting, string) {
+	s := Setting{Element: e.Name, Param: param, Text: text}
+	switch {
+	case isNumeric(e, param):
+		sp := e.Param(param)
+		what := paramOf(e.Kind, param)
+		if e.IsStrike() {
+			what = param + " of waveform " + e.Waveform.Name
+		}
+		v, msg := numValue(what, sp.Unit, sp.Rule, text)
+		if msg != "" {
+			return s, msg
+		}
+		s.Num = v
+	case param == "part":
+		if _, msg := lookupPart(c, e.Kind, text); msg != "" {
+			return s, msg
+		}
+	default:
+		if m := wordProblem(e.Kind, e.Kind.Word(param), text); m != "" {
+			return s, m
+		}
+	}
+	return s, ""
+}
+
+// Setting reads ELEMENT.PARAM=TEXT against the circuit, as a vary line's
+// value would be read: the element and parameter must exist and be
+// settable, and the text must fit the parameter. The error says why not,
+// without a deck position (the text did not come from the deck).
+func (c *Circuit) Setting(target, text string) (Setting, error) {
+	elem, param, ok := SplitTarget(target)
+	if !ok {
+		return Setting{}, fmt.Errorf("%s: write ELEMENT.PARAM", target)
+	}
+	msg, e := settable(c, elem, param)
+	if msg != "" {
+		return Setting{}, fmt.Errorf("%s: %s", target, msg)
+	}
+	s, msg := c.parseSetting(e, param, text)
+	if msg != "" {
+		return Setting{}, fmt.Errorf("%s=%s: %s", target, text, msg)
+	}
+	return s, nil
 }
 
 // apply sets one parameter of e (an element of c, already cloned by the
-// caller) from deck text and merges again; it returns a message when the
-// setting is not usable. It returns the element's own parameters after the
-// change, for the caller to keep when it keeps e.
-func (c *Circuit) apply(e *Element, param, text string) (*ownParams, string) {
+// caller) and merges again; it returns a message when the setting is not
+// usable. It returns the element's own parameters after the change, for the
+// caller to keep when it keeps e.
+func (c *Circuit) apply(e *Element, s Setting) (*ownParams, string) {
 	own := c.own[e.Name]
 	if own == nil {
 		return nil, fmt.Sprintf("element %s cannot be changed", e.Name)
 	}
 	next := *own
-	if e.Kind == Strike {
-		sp := strikeParams[param]
-		v, msg := numValue(param+" of waveform "+e.Str["waveform"], sp.unit, sp.rule, text)
-		if msg != "" {
-			return nil, msg
+	if e.IsStrike() {
+		if err := e.Values.Set(s.Param, s.Num); err != nil {
+			return nil, fmt.Sprintf("%s of waveform %s %s", s.Param, e.Waveform.Name, err.(*spec.RuleError).Says)
 		}
-		e.Num[param] = v
-		next.num = maps.Clone(own.num)
-		next.num[param] = v
+		next.vals.Set(s.Param, s.Num)
 		return &next, ""
 	}
 	var part *Part
@@ -159,28 +215,27 @@ func (c *Circuit) apply(e *Element, param, text string) (*ownParams, string) {
 		part = c.Parts[own.part]
 	}
 	switch {
-	case param == "part":
-		pt, msg := lookupPart(c, e.Kind, text)
+	case s.Param == "part":
+		pt, msg := lookupPart(c, e.Kind, s.Text)
 		if msg != "" {
 			return nil, msg
 		}
 		part, next.part = pt, pt.Name
-	case hasWord(e.Kind, param):
-		if m := wordParam(e.Kind, param, text); m != "" {
+	case isNumeric(e, s.Param):
+		if err := next.vals.Set(s.Param, s.Num); err != nil {
+			return nil, fmt.Sprintf("%s %s", paramOf(e.Kind, s.Param), err.(*spec.RuleError).Says)
+		}
+	default:
+		if m := wordProblem(e.Kind, e.Kind.Word(s.Param), s.Text); m != "" {
 			return nil, m
 		}
-		next.str = maps.Clone(own.str)
-		next.str[param] = text
-	default:
-		sp := specOf(e.Kind, param)
-		v, msg := numValue(paramOf(e.Kind, param), sp.unit, sp.rule, text)
-		if msg != "" {
-			return nil, msg
-		}
-		next.num = maps.Clone(own.num)
-		next.num[param] = v
+		next.vals.SetWord(s.Param, s.Text)
 	}
-	e.Num, e.Str = merge(e.Kind, part, &next)
+	e.Values = merge(e.Kind, part, &next)
+	e.Part = ""
+	if part != nil {
+		e.Part = part.Name
+	}
 	if ps := problems(e, nil); len(ps) > 0 {
 		return nil, strings.Join(ps, "; ")
 	}
@@ -208,12 +263,15 @@ func (p *parser) checkVary(c *Circuit) {
 		v := Vary{Element: rv.elem, Param: rv.param, Pos: rv.targetPos}
 		ok := true
 		for _, it := range rv.values {
-			x := e.clone()
-			if _, m := c.apply(x, rv.param, it.text); m != "" {
+			s, m := c.parseSetting(e, rv.param, it.text)
+			if m == "" {
+				_, m = c.apply(e.clone(), s)
+			}
+			if m != "" {
 				p.errs.Add(it.pos, "vary %s: %s", target, m)
 				ok = false
 			}
-			v.Values = append(v.Values, it.text)
+			v.Values = append(v.Values, s)
 		}
 		if ok {
 			c.Vary = append(c.Vary, v)
@@ -235,10 +293,10 @@ func (p *parser) checkTolerances(c *Circuit) {
 				}
 				p.errs.Add(pos, "tolerance: %s", msg)
 				continue
-			case rt.param == "part" || hasWord(e.Kind, rt.param):
+			case !isNumeric(e, rt.param):
 				p.errs.Add(rt.paramPos, "tolerance: %s is not a number to spread", target)
 				continue
-			case !e.Has(rt.param):
+			case !e.Values.Has(rt.param):
 				p.errs.Add(rt.paramPos, "tolerance: %s has no %s to spread (give it a value first)", rt.elem, rt.param)
 				continue
 			}
@@ -267,10 +325,20 @@ func (p *parser) checkTolerances(c *Circuit) {
 // clone deep-copies an element.
 func (e *Element) clone() *Element {
 	x := *e
-	x.Num = maps.Clone(e.Num)
-	x.Str = maps.Clone(e.Str)
 	x.Levels = slices.Clone(e.Levels)
 	return &x
+}
+
+// Polarities are the polarities the strike runs, in order: "both" is pos
+// then neg.
+func (e *Element) Polarities() []string {
+	switch e.Polarity {
+	case "neg":
+		return []string{"neg"}
+	case "both":
+		return []string{"pos", "neg"}
+	}
+	return []string{"pos"}
 }
 
 // Plan is the study the deck describes: its levels in deck order, the
@@ -280,30 +348,30 @@ func (e *Element) clone() *Element {
 func (c *Circuit) Plan() Plan {
 	var pl Plan
 	if s := c.Strike(); s != nil {
-		pl.Waveform = s.Str["waveform"]
+		pl.Waveform = s.Waveform
 		pl.Levels = slices.Clone(s.Levels)
-		switch s.Str["polarity"] {
-		case "neg":
-			pl.Polarities = []string{"neg"}
-		case "both":
-			pl.Polarities = []string{"pos", "neg"}
-		default:
-			pl.Polarities = []string{"pos"}
-		}
+		pl.Polarities = s.Polarities()
 	}
-	pl.Variants = []Variant{{}}
-	for _, v := range c.Vary {
-		next := make([]Variant, 0, len(pl.Variants)*len(v.Values))
-		for _, base := range pl.Variants {
-			for _, val := range v.Values {
+	pl.Variants = Product(c.Vary)
+	return pl
+}
+
+// Product is the cartesian product of vary lines, the first line varying
+// slowest; no lines give one empty variant.
+func Product(lines []Vary) []Variant {
+	out := []Variant{{}}
+	for _, v := range lines {
+		next := make([]Variant, 0, len(out)*len(v.Values))
+		for _, base := range out {
+			for _, s := range v.Values {
 				x := make(Variant, len(base), len(base)+1)
 				copy(x, base)
-				next = append(next, append(x, Setting{Element: v.Element, Param: v.Param, Value: val}))
+				next = append(next, append(x, s))
 			}
 		}
-		pl.Variants = next
+		out = next
 	}
-	return pl
+	return out
 }
 
 // With returns a deep copy of c with the settings applied in order and
@@ -329,15 +397,14 @@ func (c *Circuit) With(settings ...Setting) (*Circuit, error) {
 	}
 	var errs ErrorList
 	for _, s := range settings {
-		msg, _ := settable(&x, s.Element, s.Param)
-		e := x.Element(s.Element)
+		msg, e := settable(&x, s.Element, s.Param)
 		pos := Pos{File: c.File}
 		if e != nil {
 			pos = e.Pos
 		}
 		if msg == "" {
 			var own *ownParams
-			if own, msg = x.apply(e, s.Param, s.Value); own != nil {
+			if own, msg = x.apply(e, s); own != nil {
 				x.own[e.Name] = own
 			}
 		}

@@ -3,6 +3,7 @@ package waveforms
 import (
 	"fmt"
 	"math"
+	"zapnet/devices/spec"
 )
 
 // Check is one published check point of a waveform compared with what the
@@ -351,34 +352,18 @@ func checksEFT(s *Stimulus, load float64) []Check {
 	}
 }
 
-// siFormat writes v with an SI prefix and four significant digits, in a
-// fixed format so that reports compare stably.
+// siFormat writes v with an SI prefix and four significant digits
+// (spec.FormatSI), "-" for a value that is not a number.
 func siFormat(v float64, unit string) string {
-	if math.IsNaN(v) {
+	switch {
+	case math.IsNaN(v):
 		return "-"
-	}
-	if math.IsInf(v, 0) {
-		if v > 0 {
-			return "inf " + unit
-		}
+	case math.IsInf(v, 1):
+		return "inf " + unit
+	case math.IsInf(v, -1):
 		return "-inf " + unit
 	}
-	if v == 0 {
-		return "0 " + unit
-	}
-	prefixes := []struct {
-		p string
-		m float64
-	}{{"T", 1e12}, {"G", 1e9}, {"M", 1e6}, {"k", 1e3}, {"", 1}, {"m", 1e-3}, {"µ", 1e-6}, {"n", 1e-9}, {"p", 1e-12}, {"f", 1e-15}}
-	a := math.Abs(v)
-	for _, p := range prefixes {
-		if a >= p.m*0.99995 || p.p == "f" {
-			x := v / p.m
-			s := fmt.Sprintf("%.4g", x)
-			return s + " " + p.p + unit
-		}
-	}
-	return fmt.Sprintf("%.4g %s", v, unit)
+	return spec.FormatSI(v, spec.Unit(unit))
 }
 
 // FormatValue writes v in unit with an SI prefix and four significant

@@ -1,6 +1,10 @@
 package waveforms
 
-import "math"
+import (
+	"math"
+
+	"zapnet/devices/spec"
+)
 
 // Constants of the ideal contact-discharge current of IEC 61000-4-2 Ed. 2.0,
 // informative annex, at 4 kV (CHECKS.md) [pub in secondary sources].
@@ -29,7 +33,7 @@ func iecK(ta, tb float64) float64 {
 // behaves close to a current source for the low-impedance loads that matter
 // (a clamped line), so the form is Current. I1 and I2 scale linearly with
 // the level.
-func newIEC61000_4_2(level float64, _ params) (*Stimulus, error) {
+func newIEC61000_4_2(level float64, _ *spec.Values) (*Stimulus, error) {
 	scale := level / iecRefLevel
 	a1 := scale * iecI1 / iecK(iecTau1, iecTau2)
 	a2 := scale * iecI2 / iecK(iecTau3, iecTau4)

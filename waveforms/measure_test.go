@@ -124,7 +124,7 @@ func TestMeasureExponential(t *testing.T) {
 // The streaming meters add the same terms in the same order as the slice
 // functions, so the results must be identical, not merely close.
 func TestStreamingEqualsSlices(t *testing.T) {
-	s, err := New("iec61000-4-2", 8000, nil, nil)
+	s, err := mk("iec61000-4-2", 8000, nil, nil)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,6 +1,10 @@
 package waveforms
 
-import "math"
+import (
+	"math"
+
+	"zapnet/devices/spec"
+)
 
 // Human-body model network of ANSI/ESDA/JEDEC JS-001 [pub]: 100 pF through
 // 1.5 kΩ.
@@ -26,10 +30,10 @@ const (
 
 // newHBM is the JS-001 network: C charged to the level, discharging through
 // R and a series L (key l, henries, default hbmL; l = 0 gives the ideal RC).
-func newHBM(level float64, p params) (*Stimulus, error) {
-	l, err := p.nonNegative("l", hbmL)
-	if err != nil {
-		return nil, err
+func newHBM(level float64, v *spec.Values) (*Stimulus, error) {
+	l, ok := v.Lookup("l")
+	if !ok {
+		l = hbmL
 	}
 	return newNetwork(level, hbmC, hbmR, l), nil
 }
@@ -38,20 +42,8 @@ func newHBM(level float64, p params) (*Stimulus, error) {
 // 330 Ω) and an optional series l (default 0). The simple RC lacks the first
 // fast spike of a real generator; its later points (30 and 60 ns at
 // 150 pF/330 Ω, and so on) follow the RC time constant.
-func newISO10605(level float64, p params) (*Stimulus, error) {
-	c, err := p.positive("c", isoC)
-	if err != nil {
-		return nil, err
-	}
-	r, err := p.positive("r", isoR)
-	if err != nil {
-		return nil, err
-	}
-	l, err := p.nonNegative("l", 0)
-	if err != nil {
-		return nil, err
-	}
-	return newNetwork(level, c, r, l), nil
+func newISO10605(level float64, v *spec.Values) (*Stimulus, error) {
+	return newNetwork(level, v.Num("c"), v.Num("r"), v.Num("l")), nil
 }
 
 // newNetwork builds a Network stimulus. Its default span is 5·R·C + 10·L/R:

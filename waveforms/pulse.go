@@ -3,6 +3,8 @@ package waveforms
 import (
 	"fmt"
 	"math"
+
+	"zapnet/devices/spec"
 )
 
 // Transmission-line pulse (ANSI/ESD STM5.5.1) [pub]: a 50 Ω system, 100 ns
@@ -19,15 +21,8 @@ const (
 // (0→100 %, so the 10–90 % rise is 0.8·rise); width is the full width at half
 // maximum: the ramp starts at 0, the flat top runs from rise to width, the
 // fall ends at width + rise. The span adds half a width after the pulse.
-func newTLP(level float64, p params) (*Stimulus, error) {
-	width, err := p.positive("width", tlpWidth)
-	if err != nil {
-		return nil, err
-	}
-	rise, err := p.positive("rise", tlpRise)
-	if err != nil {
-		return nil, err
-	}
+func newTLP(level float64, v *spec.Values) (*Stimulus, error) {
+	width, rise := v.Num("width"), v.Num("rise")
 	if rise >= width {
 		return nil, fmt.Errorf("tlp: rise (%g s) must be shorter than width (%g s)", rise, width)
 	}
@@ -75,19 +70,9 @@ const (
 // newEFT is one 5/50 ns pulse of open-circuit peak level (volts; into 50 Ω
 // the peak is half) or, with count > 1, a burst of count pulses at rate
 // (Hz, default 5 kHz). The span ends eftTail after the last pulse starts.
-func newEFT(level float64, p params) (*Stimulus, error) {
-	cnt, err := p.positive("count", 1)
-	if err != nil {
-		return nil, err
-	}
-	if cnt != math.Trunc(cnt) || cnt > 1e6 {
-		return nil, fmt.Errorf("eft: count must be a whole number of pulses from 1 to 1e6, got %g", cnt)
-	}
-	rate, err := p.positive("rate", eftRate)
-	if err != nil {
-		return nil, err
-	}
-	count := int(cnt)
+func newEFT(level float64, v *spec.Values) (*Stimulus, error) {
+	rate := v.Num("rate")
+	count := int(v.Num("count"))
 	period := 1 / rate
 	if count > 1 && period < 2*eftTail {
 		return nil, fmt.Errorf("eft: rate %g Hz puts pulses %g s apart; they need at least %g s (rate up to %g Hz)", rate, period, 2*eftTail, 1/(2*eftTail))

@@ -1,6 +1,10 @@
 package waveforms
 
-import "math"
+import (
+	"math"
+
+	"zapnet/devices/spec"
+)
 
 // IEC 61000-4-5 combination-wave shapes (CHECKS.md).
 const (
@@ -28,7 +32,7 @@ const Surge12_50Note = "surge-1.2-50 is a simplification: the 1.2/50 µs open-ci
 
 // newSurge8_20 is the 8/20 µs short-circuit current as an ideal current
 // source; level is the peak current Ip in amperes.
-func newSurge8_20(level float64, _ params) (*Stimulus, error) {
+func newSurge8_20(level float64, _ *spec.Values) (*Stimulus, error) {
 	a := surgeI_A * level
 	f := func(t float64) float64 {
 		if t <= 0 {
@@ -42,11 +46,8 @@ func newSurge8_20(level float64, _ params) (*Stimulus, error) {
 
 // newSurge1_2_50 is the 1.2/50 µs open-circuit voltage (peak = level, volts)
 // behind r ohms (key r, default 2 Ω). See Surge12_50Note.
-func newSurge1_2_50(level float64, p params) (*Stimulus, error) {
-	r, err := p.positive("r", surgeR)
-	if err != nil {
-		return nil, err
-	}
+func newSurge1_2_50(level float64, v *spec.Values) (*Stimulus, error) {
+	r := v.Num("r")
 	a := surgeV_A * level
 	f := func(t float64) float64 {
 		if t <= 0 {

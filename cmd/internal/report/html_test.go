@@ -2,6 +2,7 @@ package report
 
 import (
 	"bytes"
+	"context"
 	"encoding/xml"
 	"fmt"
 	"io"
@@ -11,7 +12,7 @@ import (
 
 	"zapnet/cmd/internal/golden"
 	"zapnet/cmd/internal/plots"
-	"zapnet/cmd/internal/study"
+	"zapnet/mna/study"
 	"zapnet/netlist"
 )
 
@@ -131,12 +132,16 @@ func demoReport(t *testing.T, c *netlist.Circuit, opt *study.Options) ([]byte, [
 		opt = &study.Options{}
 	}
 	opt.Record = true
-	runs, err := study.Execute(c, opt)
+	jobs, err := study.Jobs(c, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	runs, err := study.Execute(context.Background(), c, jobs, opt, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
 	popt := &plots.Options{Title: c.Title}
-	hopt := &HTMLOptions{Meta: Meta{Tool: "zapnet", Version: "test", Deck: c.File, Title: c.Title}, Source: c.Source}
+	hopt := &HTMLOptions{Meta: study.Meta{Tool: "zapnet", Version: "test", Deck: c.File, Title: c.Title}, Source: c.Source}
 	for i := range runs {
 		figs, err := plots.RunFigures(c, &runs[i], popt)
 		if err != nil {
