@@ -120,13 +120,6 @@ const (
 	Completed
 )
 
-func (s Status) String() string {
-	if s == Completed {
-		return "completed"
-	}
-	return "failed"
-}
-
 // Stats count the work of a solution.
 type Stats struct {
 	Steps    int // accepted time steps

@@ -26,7 +26,7 @@ func referenceNetwork(t testing.TB) *struck {
 		el("bead", "FB1", "n1", "n2", 0, "rdc", 0.15, "rac", 520.0, "l", 1.1e-6, "c", 1.3e-12),
 		el("capacitor", "C1", "n2", "gnd", 100e-9, "esr", 20e-3, "esl", 0.5e-9),
 		el("pin", "U1", "n2", "gnd", 0, "cin", 6e-12))
-	st, err := waveforms.New("iec61000-4-2", 8000, nil)
+	st, err := waveforms.Lookup("iec61000-4-2").New(8000, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -41,7 +41,7 @@ func referenceNetwork(t testing.TB) *struck {
 func TestReferenceNetwork(t *testing.T) {
 	s := referenceNetwork(t)
 	for _, sign := range []float64{1, -1} {
-		st, _ := waveforms.New("iec61000-4-2", 8000, nil)
+		st, _ := waveforms.Lookup("iec61000-4-2").New(8000, nil)
 		s.SetStimulus(st, sign)
 		res, err := s.Transient(&Settings{Stop: 400e-9, Record: true})
 		if err != nil {

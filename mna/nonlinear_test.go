@@ -225,12 +225,12 @@ func TestReproducibleNonlinear(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	other, _ := waveforms.New("iec61000-4-2", 4000, nil)
+	other, _ := waveforms.Lookup("iec61000-4-2").New(4000, nil)
 	s.SetStimulus(other, -1)
 	if _, err := s.Transient(set); err != nil {
 		t.Fatal(err)
 	}
-	st, _ := waveforms.New("iec61000-4-2", 8000, nil)
+	st, _ := waveforms.Lookup("iec61000-4-2").New(8000, nil)
 	s.SetStimulus(st, 1)
 	b, err := s.Transient(set)
 	if err != nil {

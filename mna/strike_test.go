@@ -118,7 +118,7 @@ func TestEveryStimulusSolves(t *testing.T) {
 			lv = []float64{2000, 8000}
 		}
 		for _, level := range lv {
-			st, err := waveforms.New(name, level, nil)
+			st, err := waveforms.Lookup(name).New(level, nil)
 			if err != nil {
 				t.Fatal(err)
 			}

@@ -1,12 +1,17 @@
 package waveforms
 
+import (
+	"fmt"
+	"strings"
+)
+
 // mk builds waveform name at level as a deck's strike line would: num and
 // str are its parameters, each through the waveform's table (its rule
 // checked), the others at their defaults.
 func mk(name string, level float64, num map[string]float64, str map[string]string) (*Stimulus, error) {
 	w := Lookup(name)
 	if w == nil {
-		return New(name, level, nil)
+		return nil, fmt.Errorf("unknown waveform %q (known: %s)", name, strings.Join(Names(), ", "))
 	}
 	v := w.Values()
 	for k, x := range num {

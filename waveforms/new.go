@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"sort"
-	"strings"
 
 	"zapnet/devices/spec"
 )
@@ -108,15 +107,6 @@ func Taking(key string) []string {
 		}
 	}
 	return out
-}
-
-// New builds the waveform name at level; see Waveform.New.
-func New(name string, level float64, v *spec.Values) (*Stimulus, error) {
-	w := Lookup(name)
-	if w == nil {
-		return nil, fmt.Errorf("unknown waveform %q (known: %s)", name, strings.Join(Names(), ", "))
-	}
-	return w.New(level, v)
 }
 
 // New builds the stimulus at level (in the waveform's Unit), of positive

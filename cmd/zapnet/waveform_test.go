@@ -95,7 +95,7 @@ func TestWaveformCSV(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	s, _ := waveforms.New("iec61000-4-2", 4000, nil)
+	s, _ := waveforms.Lookup("iec61000-4-2").New(4000, nil)
 	for k := range ts {
 		if want := s.F(ts[k]); math.Abs(is[k]-want) > 1e-8*math.Abs(want)+1e-12 {
 			t.Fatalf("row %d: i(%g) = %g, want %g", k+2, ts[k], is[k], want)

@@ -51,14 +51,6 @@ func (s Shard) Items(n int) []int {
 	return out
 }
 
-// String renders "i/n", or "" for the whole sweep.
-func (s Shard) String() string {
-	if s.Whole() {
-		return ""
-	}
-	return fmt.Sprintf("%d/%d", s.Index, s.Count)
-}
-
 // ShardInfo is written into a shard's JSON so that merge can check that the
 // slices belong together and that none is missing.
 type ShardInfo struct {

@@ -70,7 +70,7 @@ func pin(t *testing.T, r *Run, name string) Residual {
 // its first 10 ns (the annex waveform's front is over by then).
 func maxSlope(t *testing.T, name string, level float64) float64 {
 	t.Helper()
-	st, err := waveforms.New(name, level, nil)
+	st, err := waveforms.Lookup(name).New(level, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -493,13 +493,17 @@ func TestStreamingMatchesRecording(t *testing.T) {
 		idx[n] = i
 	}
 	n2 := w.V[idx["n2"]]
-	hi, thi := waveforms.Peak(w.Time, n2)
-	lo, tlo := waveforms.Min(w.Time, n2)
+	tr := waveforms.Tracker{Below: -1.5}
+	for k, v := range n2 {
+		tr.Add(w.Time[k], v)
+	}
+	hi, thi := tr.Max()
+	lo, tlo := tr.Min()
 	p := pin(t, rec, "U1")
 	if p.Peak != hi || p.TPeak != thi || p.Min != lo || p.TMin != tlo {
 		t.Errorf("streamed residual %g@%g / %g@%g, recorded %g@%g / %g@%g", p.Peak, p.TPeak, p.Min, p.TMin, hi, thi, lo, tlo)
 	}
-	if got := waveforms.WidthBelow(w.Time, n2, -1.5); got != p.BelowVmin {
+	if got := tr.WidthBelow(); got != p.BelowVmin {
 		t.Errorf("time below vmin: streamed %g, recorded %g", p.BelowVmin, got)
 	}
 	// The same bench gives the same answer whether or not it records.
@@ -508,7 +512,11 @@ func TestStreamingMatchesRecording(t *testing.T) {
 	}
 	// The strike column is the waveform with its sign: −30 A ±15 % at
 	// 8 kV [pub: IEC 61000-4-2 table].
-	if pk, _ := waveforms.Min(w.Time, w.Strike); math.Abs(pk+30) > 4.5 {
+	var strike waveforms.Tracker
+	for k, v := range w.Strike {
+		strike.Add(w.Time[k], v)
+	}
+	if pk, _ := strike.Min(); math.Abs(pk+30) > 4.5 {
 		t.Errorf("strike current peak %.3g A, want about −30 A", pk)
 	}
 }

@@ -309,22 +309,6 @@ type scanned struct {
 	err error
 }
 
-// search is the scan and the bisection over the levels k·step, k = 1…steps,
-// one solve after the other, with solveAt telling the verdict at a level.
-// It returns false when ctx stopped it before the end.
-func search(ctx context.Context, m *Margin, steps, scan int, step float64, solveAt func(level float64) (outcome, error)) bool {
-	grid := scanGrid(steps, scan)
-	res := make([]scanned, len(grid))
-	for i, g := range grid {
-		if ctx.Err() != nil {
-			return false
-		}
-		o, err := solveAt(float64(g) * step)
-		res[i] = scanned{o, err}
-	}
-	return finishSearch(ctx, m, grid, res, step, solveAt)
-}
-
 // finishSearch reads the scan, checks that the verdict is monotonic on it,
 // and bisects the bracket of the first failure. It returns false when ctx
 // stopped it before the end.

@@ -194,3 +194,18 @@ func TestMarginInterrupted(t *testing.T) {
 		t.Errorf("cancelled before the start: interrupted %v with %d searches; want true and 0", res.Interrupted, len(res.Margins))
 	}
 }
+
+// search is the scan and the bisection done one solve after the other,
+// as the parallel search does them (finishSearch after the scan).
+func search(ctx context.Context, m *Margin, steps, scan int, step float64, solveAt func(level float64) (outcome, error)) bool {
+	grid := scanGrid(steps, scan)
+	res := make([]scanned, len(grid))
+	for i, g := range grid {
+		if ctx.Err() != nil {
+			return false
+		}
+		o, err := solveAt(float64(g) * step)
+		res[i] = scanned{o, err}
+	}
+	return finishSearch(ctx, m, grid, res, step, solveAt)
+}

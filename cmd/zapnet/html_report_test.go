@@ -1,4 +1,4 @@
-package report
+package main
 
 import (
 	"bytes"
@@ -6,12 +6,11 @@ import (
 	"encoding/xml"
 	"fmt"
 	"io"
-	"path/filepath"
 	"strings"
 	"testing"
 
-	"zapnet/cmd/internal/golden"
 	"zapnet/cmd/internal/plots"
+	"zapnet/cmd/internal/report"
 	"zapnet/mna/study"
 	"zapnet/netlist"
 )
@@ -107,7 +106,7 @@ func outline(root *node) string {
 			for _, tr := range n.all("tr")[1:] {
 				var cells []string
 				for k, td := range tr.all("td") {
-					if k < len(head) && cellClass(head[k].text.String()) == "num" {
+					if k < len(head) && (head[k].attr["class"] == "num" || head[k].text.String() == "run") {
 						continue
 					}
 					if k < len(head) && head[k].text.String() == "worst margin" {
@@ -141,7 +140,7 @@ func demoReport(t *testing.T, c *netlist.Circuit, opt *study.Options) ([]byte, [
 		t.Fatal(err)
 	}
 	popt := &plots.Options{Title: c.Title}
-	hopt := &HTMLOptions{Meta: study.Meta{Tool: "zapnet", Version: "test", Deck: c.File, Title: c.Title}, Source: c.Source}
+	hopt := &report.HTMLOptions{Meta: study.Meta{Tool: "zapnet", Version: "test", Deck: c.File, Title: c.Title}, Source: c.Source}
 	for i := range runs {
 		figs, err := plots.RunFigures(c, &runs[i], popt)
 		if err != nil {
@@ -155,16 +154,16 @@ func demoReport(t *testing.T, c *netlist.Circuit, opt *study.Options) ([]byte, [
 	}
 	hopt.Overlays = asFigures(ov)
 	var buf bytes.Buffer
-	if err := HTML(&buf, runs, hopt); err != nil {
+	if err := report.HTML(&buf, runs, hopt); err != nil {
 		t.Fatal(err)
 	}
 	return buf.Bytes(), runs
 }
 
-func asFigures(fs []plots.Figure) []Figure {
-	var out []Figure
+func asFigures(fs []plots.Figure) []report.Figure {
+	var out []report.Figure
 	for _, f := range fs {
-		out = append(out, Figure{Name: f.Name, Caption: f.Caption, SVG: f.SVG})
+		out = append(out, report.Figure{Name: f.Name, Caption: f.Caption, SVG: f.SVG})
 	}
 	return out
 }
@@ -173,13 +172,13 @@ func asFigures(fs []plots.Figure) []Figure {
 // levels 2k,4k,6k,8k, polarity both), each run's tables and five figures,
 // the overlays and the deck's listing; the golden file keeps its structure.
 func TestHTMLDemoStructure(t *testing.T) {
-	c, err := netlist.ParseFile("../../../testdata/demo-weak.zap")
+	c, err := netlist.ParseFile("../../testdata/demo-weak.zap")
 	if err != nil {
 		t.Fatal(err)
 	}
 	page, runs := demoReport(t, c, nil)
 	root := parsePage(t, page)
-	golden.Check(t, filepath.Join("testdata", "html-demo.outline"), []byte(outline(root)))
+	golden(t, "html-demo.outline", []byte(outline(root)))
 
 	if n := len(root.find("summary-table").all("tr")) - 1; n != len(runs) || n != 8 {
 		t.Errorf("summary has %d rows for %d runs, want 8", n, len(runs))
@@ -192,7 +191,7 @@ func TestHTMLDemoStructure(t *testing.T) {
 			}
 		}
 	}
-	if got := root.find("caution").text.String(); !strings.Contains(got, Caution) {
+	if got := root.find("caution").text.String(); !strings.Contains(got, report.Caution) {
 		t.Errorf("caution %q", got)
 	}
 	listing := root.find("deck-listing")
@@ -302,12 +301,12 @@ func TestHTMLRefusesActiveSVG(t *testing.T) {
 		`<svg><g></svg>`,
 		`no svg at all`,
 	} {
-		err := HTML(io.Discard, nil, &HTMLOptions{Overlays: []Figure{{Name: "x", SVG: []byte(svg)}}})
+		err := report.HTML(io.Discard, nil, &report.HTMLOptions{Overlays: []report.Figure{{Name: "x", SVG: []byte(svg)}}})
 		if err == nil {
 			t.Errorf("accepted %s", svg)
 		}
 	}
-	err := HTML(io.Discard, nil, &HTMLOptions{Overlays: []Figure{
+	err := report.HTML(io.Discard, nil, &report.HTMLOptions{Overlays: []report.Figure{
 		{Name: "x", SVG: []byte(`<?xml version="1.0"?><svg xmlns="http://www.w3.org/2000/svg"><g><path d="M0 0L1 1"/><text>a &lt; b</text></g></svg>`)}}})
 	if err != nil {
 		t.Errorf("refused a plain drawing: %v", err)
