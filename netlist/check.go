@@ -74,18 +74,18 @@ func contains(list []string, s string) bool {
 func (p *parser) readParam(k *devices.Kind, kv rawParam, vals *spec.Values, skip map[string]bool) bool {
 	if w := k.Word(kv.key); w != nil {
 		if m := wordProblem(k, w, kv.val); m != "" {
-			p.errs.Add(kv.valPos, "%s", m)
+			p.errs.Add(kv.valPos, ErrValue, "%s", m)
 			return false
 		}
 		if err := vals.SetWord(kv.key, kv.val); err != nil {
-			p.errs.Add(kv.valPos, "%v", err)
+			p.errs.Add(kv.valPos, ErrValue, "%v", err)
 			return false
 		}
 		return true
 	}
 	sp := k.Param(kv.key)
 	if sp == nil {
-		p.errs.Add(kv.keyPos, "unknown parameter %s for %s%s", kv.key, aKind(k), didYouMean(kv.key, keysOf(k)))
+		p.errs.Add(kv.keyPos, ErrUnknown, "unknown parameter %s for %s%s", kv.key, aKind(k), didYouMean(kv.key, keysOf(k)))
 		if skip != nil {
 			// The slip is reported once, not again as a missing parameter.
 			if g := suggest(kv.key, keysOf(k)); g != "" {
@@ -95,7 +95,7 @@ func (p *parser) readParam(k *devices.Kind, kv rawParam, vals *spec.Values, skip
 		return false
 	}
 	if kv.quoted {
-		p.errs.Add(kv.valPos, "%s takes a number, not a quoted text", kv.key)
+		p.errs.Add(kv.valPos, ErrValue, "%s takes a number, not a quoted text", kv.key)
 		if skip != nil {
 			skip[kv.key] = true
 		}
@@ -103,7 +103,7 @@ func (p *parser) readParam(k *devices.Kind, kv rawParam, vals *spec.Values, skip
 	}
 	v, msg := numValue(paramOf(k, kv.key), sp.Unit, sp.Rule, kv.val)
 	if msg != "" {
-		p.errs.Add(kv.valPos, "%s", msg)
+		p.errs.Add(kv.valPos, ErrValue, "%s", msg)
 		if skip != nil {
 			skip[kv.key] = true
 		}
@@ -144,9 +144,10 @@ func partValues(part *Part) *spec.Values {
 }
 
 // problems lists what makes a merged element unusable: missing required
-// parameters and parameters that contradict each other.
-func problems(e *Element, skip map[string]bool) []string {
-	var out []string
+// parameters (ErrMissing) and parameters that contradict each other
+// (ErrValue).
+func problems(e *Element, skip map[string]bool) []*Error {
+	var out []*Error
 	k := e.Kind
 	for _, sp := range k.Params {
 		if sp.Required && !e.Values.Has(sp.Key) && !skip[sp.Key] {
@@ -156,11 +157,11 @@ func problems(e *Element, skip map[string]bool) []string {
 			} else if sp.Unit != "" {
 				what += " (" + sp.Unit.Word() + ")"
 			}
+			msg := fmt.Sprintf("%s %s needs %s", k.Name, e.Name, what)
 			if e.Part != "" && sp.Key != "value" {
-				out = append(out, fmt.Sprintf("%s %s needs %s; neither it nor part %s gives it", k.Name, e.Name, what, e.Part))
-			} else {
-				out = append(out, fmt.Sprintf("%s %s needs %s", k.Name, e.Name, what))
+				msg += fmt.Sprintf("; neither it nor part %s gives it", e.Part)
 			}
+			out = append(out, &Error{Err: ErrMissing, Msg: msg})
 		}
 	}
 	// A window of two ratings must be open: its low side below its high.
@@ -177,7 +178,7 @@ func problems(e *Element, skip map[string]bool) []string {
 		l, okl := e.Values.Lookup(lo.Key)
 		h, okh := e.Values.Lookup(hi.Key)
 		if okl && okh && !(l < h) {
-			out = append(out, fmt.Sprintf("%s %s: %s %s is not below %s %s", k.Name, e.Name, lo.Key, spec.FormatSI(l, lo.Unit), hi.Key, spec.FormatSI(h, hi.Unit)))
+			out = append(out, &Error{Err: ErrValue, Msg: fmt.Sprintf("%s %s: %s %s is not below %s %s", k.Name, e.Name, lo.Key, spec.FormatSI(l, lo.Unit), hi.Key, spec.FormatSI(h, hi.Unit))})
 		}
 	}
 	return out
@@ -210,7 +211,7 @@ func (p *parser) check(src []byte) *Circuit {
 			continue
 		}
 		if first, dup := names[re.name]; dup {
-			p.errs.Add(re.namePos, "element %s already defined at %s", re.name, first)
+			p.errs.Add(re.namePos, ErrDuplicate, "element %s already defined at %s", re.name, first)
 			// Its connections still count, or its nodes would be
 			// reported as dangling too.
 			p.dups = append(p.dups, conn{re.name, re.nodePos[0]}, conn{re.name, re.nodePos[1]})
@@ -225,10 +226,10 @@ func (p *parser) check(src []byte) *Circuit {
 	}
 	switch {
 	case written == 0:
-		p.errs.Add(Pos{File: p.top, Line: 1, Col: 1}, "deck has no strike: add one, for example strike zap IN gnd waveform=iec61000-4-2 level=8k")
+		p.errs.Add(Pos{File: p.top, Line: 1, Col: 1}, ErrMissing, "deck has no strike: add one, for example strike zap IN gnd waveform=iec61000-4-2 level=8k")
 	case len(strikes) > 1:
 		for _, s := range strikes[1:] {
-			p.errs.Add(c.own[s.Name].name, "second strike %s; a deck has exactly one (the first is %s at %s)", s.Name, strikes[0].Name, c.own[strikes[0].Name].name)
+			p.errs.Add(c.own[s.Name].name, ErrDuplicate, "second strike %s; a deck has exactly one (the first is %s at %s)", s.Name, strikes[0].Name, c.own[strikes[0].Name].name)
 		}
 	}
 	p.checkTopology(c)
@@ -271,7 +272,7 @@ func (p *parser) checkVariants(c *Circuit) {
 			if l, ok := err.(ErrorList); ok && len(l) > 0 {
 				msg = l[0].Msg
 			}
-			p.errs.Add(where[v[len(v)-1].Element], "the variant %s does not hold together: %s", strings.Join(s, " "), msg)
+			p.errs.Add(where[v[len(v)-1].Element], ErrValue, "the variant %s does not hold together: %s", strings.Join(s, " "), msg)
 			return
 		}
 	}
@@ -280,13 +281,13 @@ func (p *parser) checkVariants(c *Circuit) {
 func (p *parser) checkParts(c *Circuit) {
 	for _, rp := range p.parts {
 		if prev, dup := c.Parts[rp.name]; dup {
-			p.errs.Add(rp.namePos, "part %s already defined at %s", rp.name, prev.Pos)
+			p.errs.Add(rp.namePos, ErrDuplicate, "part %s already defined at %s", rp.name, prev.Pos)
 			continue
 		}
 		part := &Part{Name: rp.name, Kind: rp.kind, Values: rp.kind.Values(), Pos: rp.namePos}
 		for _, kv := range rp.params {
 			if kv.key == "part" {
-				p.errs.Add(kv.keyPos, "a part cannot take another part")
+				p.errs.Add(kv.keyPos, ErrValue, "a part cannot take another part")
 				continue
 			}
 			p.readParam(rp.kind, kv, &part.Values, nil)
@@ -307,16 +308,17 @@ func partsOfKind(c *Circuit, k *devices.Kind) []string {
 	return out
 }
 
-// lookupPart finds the part name for an element of kind k, or says why not.
-func lookupPart(c *Circuit, k *devices.Kind, name string) (*Part, string) {
+// lookupPart finds the part name for an element of kind k, or says why not
+// (ErrUnknown or ErrValue).
+func lookupPart(c *Circuit, k *devices.Kind, name string) (*Part, *Error) {
 	pt := c.Parts[name]
 	switch {
 	case pt == nil:
-		return nil, fmt.Sprintf("no part %s%s", name, didYouMean(name, partsOfKind(c, k)))
+		return nil, &Error{Err: ErrUnknown, Msg: fmt.Sprintf("no part %s%s", name, didYouMean(name, partsOfKind(c, k)))}
 	case pt.Kind != k:
-		return nil, fmt.Sprintf("part %s is a %s, not a %s (defined at %s)", name, pt.Kind.Name, k.Name, pt.Pos)
+		return nil, &Error{Err: ErrValue, Msg: fmt.Sprintf("part %s is a %s, not a %s (defined at %s)", name, pt.Kind.Name, k.Name, pt.Pos)}
 	}
-	return pt, ""
+	return pt, nil
 }
 
 func (p *parser) checkElement(re *rawElement, c *Circuit) *Element {
@@ -330,7 +332,7 @@ func (p *parser) checkElement(re *rawElement, c *Circuit) *Element {
 		sp := k.Positional()
 		v, msg := numValue(paramOf(k, "value"), sp.Unit, sp.Rule, re.value)
 		if msg != "" {
-			p.errs.Add(re.valuePos, "%s", msg)
+			p.errs.Add(re.valuePos, ErrValue, "%s", msg)
 			skip["value"] = true
 		} else {
 			own.vals.Set("value", v)
@@ -342,15 +344,15 @@ func (p *parser) checkElement(re *rawElement, c *Circuit) *Element {
 		own.pos[kv.key] = kv.valPos
 		switch {
 		case kv.key == "part":
-			pt, msg := lookupPart(c, k, kv.val)
-			if msg != "" {
-				p.errs.Add(kv.valPos, "%s", msg)
+			pt, perr := lookupPart(c, k, kv.val)
+			if perr != nil {
+				p.errs.Add(kv.valPos, perr.Err, "%s", perr.Msg)
 				own.part = "?"
 				continue
 			}
 			part, own.part = pt, kv.val
 		case kv.key == "value" && re.hasValue:
-			p.errs.Add(kv.keyPos, "value given twice: once after the nodes and once as value=")
+			p.errs.Add(kv.keyPos, ErrDuplicate, "value given twice: once after the nodes and once as value=")
 		default:
 			p.readParam(k, kv, &own.vals, skip)
 		}
@@ -361,16 +363,16 @@ func (p *parser) checkElement(re *rawElement, c *Circuit) *Element {
 	}
 	if own.part != "?" && re.nodePos[1].IsValid() {
 		for _, m := range problems(e, skip) {
-			p.errs.Add(re.namePos, "%s", m)
+			p.errs.Add(re.namePos, m.Err, "%s", m.Msg)
 		}
 	}
 	if re.ok && re.nodes[0] == re.nodes[1] {
-		p.errs.Add(re.nodePos[1], "%s %s connects node %s to itself", k.Name, re.name, re.nodes[0])
+		p.errs.Add(re.nodePos[1], ErrCircuit, "%s %s connects node %s to itself", k.Name, re.name, re.nodes[0])
 		re.ok = false
 	}
 	for _, w := range k.Words {
 		if n := own.vals.Word(w.Key); w.Node && n != "" && re.ok && n == re.nodes[0] {
-			p.errs.Add(own.pos[w.Key], "%s %s: %s %s is the %s's own node", k.Name, re.name, w.Key, n, k.Name)
+			p.errs.Add(own.pos[w.Key], ErrCircuit, "%s %s: %s %s is the %s's own node", k.Name, re.name, w.Key, n, k.Name)
 			re.ok = false
 		}
 	}
@@ -423,12 +425,12 @@ func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
 			continue
 		}
 		if w = waveforms.Lookup(kv.val); w == nil {
-			p.errs.Add(kv.valPos, "unknown waveform %s%s; the waveforms are %s", kv.val, didYouMean(kv.val, names), strings.Join(catalogueNames(), ", "))
+			p.errs.Add(kv.valPos, ErrUnknown, "unknown waveform %s%s; the waveforms are %s", kv.val, didYouMean(kv.val, names), strings.Join(catalogueNames(), ", "))
 			bad = true
 		}
 	}
 	if w == nil && !bad && !re.written["waveform"] {
-		p.errs.Add(re.namePos, "strike %s needs waveform= (one of %s)", re.name, strings.Join(catalogueNames(), ", "))
+		p.errs.Add(re.namePos, ErrMissing, "strike %s needs waveform= (one of %s)", re.name, strings.Join(catalogueNames(), ", "))
 	}
 	bad = bad || w == nil
 	own := &ownParams{pos: map[string]Pos{}, name: re.namePos, nodes: re.nodePos}
@@ -445,23 +447,23 @@ func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
 			p.strikeLevels(e, w, bad, kv)
 		case "polarity":
 			if !contains(polarityWords, kv.val) {
-				p.errs.Add(kv.valPos, "strike polarity is pos, neg or both, not %s%s", kv.val, didYouMean(kv.val, polarityWords))
+				p.errs.Add(kv.valPos, ErrValue, "strike polarity is pos, neg or both, not %s%s", kv.val, didYouMean(kv.val, polarityWords))
 				continue
 			}
 			e.Polarity = kv.val
 		case "part":
-			p.errs.Add(kv.keyPos, "a strike takes no part")
+			p.errs.Add(kv.keyPos, ErrValue, "a strike takes no part")
 		default:
 			p.strikeParam(re, w, bad, kv, own)
 		}
 	}
 	if !hasLevel && !re.written["level"] {
-		p.errs.Add(re.namePos, "strike %s needs level= (a list such as level=2k,4k,8k)", re.name)
+		p.errs.Add(re.namePos, ErrMissing, "strike %s needs level= (a list such as level=2k,4k,8k)", re.name)
 	}
 	if w != nil {
 		for _, wd := range w.Words {
 			if wd.Path && own.vals.Word(wd.Key) == "" && !re.written[wd.Key] {
-				p.errs.Add(re.namePos, `strike %s: waveform %s needs %s="path" (a CSV of time and value)`, re.name, w.Name, wd.Key)
+				p.errs.Add(re.namePos, ErrMissing, `strike %s: waveform %s needs %s="path" (a CSV of time and value)`, re.name, w.Name, wd.Key)
 			}
 		}
 		e.Waveform = w
@@ -470,9 +472,9 @@ func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
 	}
 	if re.ok && re.nodes[0] == re.nodes[1] {
 		if re.nodes[0] == Ground {
-			p.errs.Add(re.nodePos[0], "strike %s is on gnd and gnd: it must hit a node of the circuit", re.name)
+			p.errs.Add(re.nodePos[0], ErrCircuit, "strike %s is on gnd and gnd: it must hit a node of the circuit", re.name)
 		} else {
-			p.errs.Add(re.nodePos[1], "strike %s connects node %s to itself", re.name, re.nodes[0])
+			p.errs.Add(re.nodePos[1], ErrCircuit, "strike %s connects node %s to itself", re.name, re.nodes[0])
 		}
 		re.ok = false
 	}
@@ -480,7 +482,7 @@ func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
 		// The stimulus is built now, with the rule the run uses, so that
 		// what the run would refuse the check refuses too.
 		if _, err := w.New(e.Levels[0], &e.Values); err != nil {
-			p.errs.Add(re.namePos, "strike %s: %v", re.name, err)
+			p.errs.Add(re.namePos, ErrValue, "strike %s: %v", re.name, err)
 		}
 	}
 	if re.ok {
@@ -509,12 +511,12 @@ func (p *parser) strikeParam(re *rawElement, w *waveforms.Waveform, bad bool, kv
 	taking := waveforms.Taking(kv.key)
 	switch {
 	case len(taking) == 0:
-		p.errs.Add(kv.keyPos, "unknown parameter %s for a strike%s", kv.key, didYouMean(kv.key, keysOf(re.kind)))
+		p.errs.Add(kv.keyPos, ErrUnknown, "unknown parameter %s for a strike%s", kv.key, didYouMean(kv.key, keysOf(re.kind)))
 		return
 	case bad:
 		return
 	case w.Param(kv.key) == nil && w.Word(kv.key) == nil:
-		p.errs.Add(kv.keyPos, "%s is a parameter of waveform %s, not of %s", kv.key, strings.Join(taking, ", "), w.Name)
+		p.errs.Add(kv.keyPos, ErrUnknown, "%s is a parameter of waveform %s, not of %s", kv.key, strings.Join(taking, ", "), w.Name)
 		return
 	}
 	if wd := w.Word(kv.key); wd != nil {
@@ -523,7 +525,7 @@ func (p *parser) strikeParam(re *rawElement, w *waveforms.Waveform, bad bool, kv
 			path = filepath.Join(filepath.Dir(kv.keyPos.File), path)
 		}
 		if fi, err := os.Stat(path); path == "" || err != nil || fi.IsDir() {
-			p.errs.Add(kv.valPos, "waveform file %s: no such file", kv.val)
+			p.errs.Add(kv.valPos, ErrFile, "waveform file %s: no such file", kv.val)
 			return
 		}
 		own.vals.SetWord(kv.key, path)
@@ -532,7 +534,7 @@ func (p *parser) strikeParam(re *rawElement, w *waveforms.Waveform, bad bool, kv
 	sp := w.Param(kv.key)
 	v, msg := numValue(kv.key+" of waveform "+w.Name, sp.Unit, sp.Rule, kv.val)
 	if msg != "" {
-		p.errs.Add(kv.valPos, "%s", msg)
+		p.errs.Add(kv.valPos, ErrValue, "%s", msg)
 		return
 	}
 	own.vals.Set(kv.key, v)
@@ -545,7 +547,7 @@ func (p *parser) strikeLevels(e *Element, w *waveforms.Waveform, bad bool, kv ra
 	for _, it := range splitList(kv.val, kv.valPos, &p.errs) {
 		v, msg := levelValue(it.text, w)
 		if msg != "" {
-			p.errs.Add(it.pos, "%s", msg)
+			p.errs.Add(it.pos, ErrValue, "%s", msg)
 			continue
 		}
 		if w != nil && w.Discharge && v > 30e3 {
@@ -608,7 +610,7 @@ func (p *parser) checkTopology(c *Circuit) {
 	}
 	for _, n := range c.Nodes {
 		if cs := conns[n]; len(cs) == 1 {
-			p.errs.Add(cs[0].pos, "node %s has only one connection (%s); connect it to something else or remove it", n, cs[0].elem)
+			p.errs.Add(cs[0].pos, ErrCircuit, "node %s has only one connection (%s); connect it to something else or remove it", n, cs[0].elem)
 		}
 	}
 	p.idealLoops(c, ideal)
@@ -659,7 +661,7 @@ func (p *parser) idealLoops(c *Circuit, ideal []edge) {
 		if ra == rb {
 			path := pathBetween(adj, ed.b, ed.a)
 			chain := append(path, ed.elem)
-			p.errs.Add(c.own[ed.elem].name, "loop of supplies and inductors with no resistance: %s; at DC it is a short circuit (give one of them a series resistance, r= or rdc=)", strings.Join(chain, " → "))
+			p.errs.Add(c.own[ed.elem].name, ErrCircuit, "loop of supplies and inductors with no resistance: %s; at DC it is a short circuit (give one of them a series resistance, r= or rdc=)", strings.Join(chain, " → "))
 			continue
 		}
 		parent[ra] = rb

@@ -478,3 +478,39 @@ func TestStrikeDefaults(t *testing.T) {
 		}
 	}
 }
+
+// Every problem carries its kind, which a caller tests with errors.Is on the
+// whole list or on one problem (the encoding/csv manner).
+func TestErrorKinds(t *testing.T) {
+	for _, c := range []struct {
+		deck string
+		kind error
+	}{
+		{"strike s a gnd waveform=hbm level=1k\nclamp D1 a gnd vbrr=5\n", ErrUnknown},
+		{"strike s a gnd waveform=hbm level=1k\ncapacitor C1 a gnd 1nH\n", ErrValue},
+		{"strike s a gnd waveform=hbm level=1k\nclamp D1 a gnd\n", ErrMissing},
+		{"strike s a gnd waveform=hbm level=1k\nresistor R a gnd 1\nresistor R a gnd 2\n", ErrDuplicate},
+		{"strike s a gnd waveform=hbm level=1k\nresistor R a b 1\n", ErrCircuit},
+		{"strike s a gnd waveform=hbm level=1k\nresistor R a gnd 1 \"x\n", ErrSyntax},
+		{"include \"nowhere.zap\"\nstrike s a gnd waveform=hbm level=1k\nresistor R a gnd 1\n", ErrFile},
+	} {
+		_, err := Parse("t.zap", []byte(c.deck))
+		if !errors.Is(err, c.kind) {
+			t.Errorf("%q: %v is not %v", c.deck, err, c.kind)
+		}
+		var l ErrorList
+		if !errors.As(err, &l) {
+			t.Fatalf("%q: %T is not an ErrorList", c.deck, err)
+		}
+		for _, e := range l {
+			if !e.Warning && (e.Err == nil || !errors.Is(e, e.Err)) {
+				t.Errorf("%q: problem without a kind: %v", c.deck, e)
+			}
+		}
+	}
+	// A setting from the command line names no deck position.
+	c := mustParse(t, "strike s a gnd waveform=hbm level=1k\ncapacitor C1 a gnd 1n\n")
+	if _, err := c.Setting("C1.value", "1nH"); !errors.Is(err, ErrValue) || strings.Contains(err.Error(), "t.zap") {
+		t.Errorf("Setting error %v", err)
+	}
+}

@@ -114,7 +114,7 @@ func ParseFile(path string) (*Circuit, error) {
 	src, err := readDeck(path)
 	if err != nil {
 		var l ErrorList
-		l.Add(Pos{File: path}, "%v", err)
+		l.Add(Pos{File: path}, ErrFile, "%v", err)
 		return nil, l
 	}
 	return Parse(path, src)
@@ -199,7 +199,7 @@ func (p *parser) statement(st statement) {
 	t := st.toks[0]
 	word := t.raw
 	if t.quoted || t.isKV {
-		p.errs.Add(t.pos, "a statement starts with a keyword such as %s, not %s", "resistor", t.raw)
+		p.errs.Add(t.pos, ErrSyntax, "a statement starts with a keyword such as %s, not %s", "resistor", t.raw)
 		return
 	}
 	switch word {
@@ -224,11 +224,11 @@ func (p *parser) statement(st statement) {
 		}
 		switch {
 		case strings.HasPrefix(word, "."):
-			p.errs.Add(t.pos, "unknown statement %s: statements have no leading dot%s", word, didYouMean(word[1:], statementWords()))
+			p.errs.Add(t.pos, ErrUnknown, "unknown statement %s: statements have no leading dot%s", word, didYouMean(word[1:], statementWords()))
 		case strings.HasPrefix(word, "+"):
-			p.errs.Add(t.pos, "a line cannot continue with +; end the previous line with \\ instead")
+			p.errs.Add(t.pos, ErrSyntax, "a line cannot continue with +; end the previous line with \\ instead")
 		default:
-			p.errs.Add(t.pos, "unknown statement %s%s", word, didYouMean(word, statementWords()))
+			p.errs.Add(t.pos, ErrUnknown, "unknown statement %s%s", word, didYouMean(word, statementWords()))
 		}
 	}
 }
@@ -243,7 +243,7 @@ func (p *parser) parseTitle(st statement) {
 		return // a library's own title does not name the deck
 	}
 	if p.titlePos.IsValid() {
-		p.errs.Add(t.pos, "second title; the first is at %s", p.titlePos)
+		p.errs.Add(t.pos, ErrDuplicate, "second title; the first is at %s", p.titlePos)
 		return
 	}
 	p.title, p.titlePos = st.toks[1].text, t.pos
@@ -254,7 +254,7 @@ func (p *parser) parseTitle(st statement) {
 // it, and says whether st.toks[1] is the text.
 func (p *parser) oneQuoted(st statement, what, usage string) bool {
 	if len(st.toks) < 2 || !st.toks[1].quoted {
-		p.errs.Add(st.toks[0].pos, "%s", usage)
+		p.errs.Add(st.toks[0].pos, ErrSyntax, "%s", usage)
 		return false
 	}
 	p.extra(st.toks[2:], what)
@@ -264,7 +264,7 @@ func (p *parser) oneQuoted(st statement, what, usage string) bool {
 // extra reports tokens left over at the end of a statement.
 func (p *parser) extra(toks []token, what string) {
 	for _, t := range toks {
-		p.errs.Add(t.pos, "unexpected %s at the end of the %s statement", t.raw, what)
+		p.errs.Add(t.pos, ErrSyntax, "unexpected %s at the end of the %s statement", t.raw, what)
 	}
 }
 
@@ -277,7 +277,7 @@ func (p *parser) parseInclude(st statement) {
 	pt := st.toks[1]
 	path := pt.text
 	if path == "" {
-		p.errs.Add(pt.pos, "include of an empty path")
+		p.errs.Add(pt.pos, ErrFile, "include of an empty path")
 		return
 	}
 	if !filepath.IsAbs(path) {
@@ -287,7 +287,7 @@ func (p *parser) parseInclude(st statement) {
 	for i, s := range p.stack {
 		if s == abs {
 			chain := append(append([]string(nil), p.shown[i:]...), path)
-			p.errs.Add(pt.pos, "include cycle: %s", strings.Join(chain, " → "))
+			p.errs.Add(pt.pos, ErrFile, "include cycle: %s", strings.Join(chain, " → "))
 			return
 		}
 	}
@@ -295,12 +295,12 @@ func (p *parser) parseInclude(st statement) {
 		return // a library included twice is read once
 	}
 	if len(p.stack) >= maxIncludeDepth {
-		p.errs.Add(pt.pos, "includes nested more than %d deep", maxIncludeDepth)
+		p.errs.Add(pt.pos, ErrFile, "includes nested more than %d deep", maxIncludeDepth)
 		return
 	}
 	src, err := readDeck(path)
 	if err != nil {
-		p.errs.Add(pt.pos, "%v", err)
+		p.errs.Add(pt.pos, ErrFile, "%v", err)
 		return
 	}
 	p.file(path, src, pt.pos)
@@ -322,7 +322,7 @@ func (p *parser) params(toks []token) (pos []token, kv []rawParam) {
 		}
 		if n, ok := next(1); ok && !t.isKV && !t.quoted && n.isKV && n.key == "" {
 			// key =value or key = value
-			p.errs.Add(n.pos, "no spaces around = in key=value")
+			p.errs.Add(n.pos, ErrSyntax, "no spaces around = in key=value")
 			t = token{raw: t.raw + "=" + n.val, isKV: true, key: t.raw, pos: t.pos, val: n.val, valPos: n.valPos, valQuoted: n.valQuoted}
 			i++
 			if n.val == "" && !n.valQuoted {
@@ -334,14 +334,14 @@ func (p *parser) params(toks []token) (pos []token, kv []rawParam) {
 		} else if t.isKV && t.key != "" && t.val == "" && !t.valQuoted {
 			if v, ok := next(1); ok && !v.isKV {
 				// key= value
-				p.errs.Add(v.pos, "no spaces around = in key=value")
+				p.errs.Add(v.pos, ErrSyntax, "no spaces around = in key=value")
 				t.val, t.valPos, t.valQuoted = v.text, v.pos, v.quoted
 				i++
 			}
 		}
 		if t.isKV && strings.HasSuffix(t.val, ",") {
 			if v, ok := next(1); ok && !v.isKV && !v.quoted {
-				p.errs.Add(v.pos, "no spaces in a list: write level=2k,4k")
+				p.errs.Add(v.pos, ErrSyntax, "no spaces in a list: write level=2k,4k")
 				for ok && !v.isKV && !v.quoted && strings.HasSuffix(t.val, ",") {
 					t.val += v.raw
 					i++
@@ -351,7 +351,7 @@ func (p *parser) params(toks []token) (pos []token, kv []rawParam) {
 		}
 		if !t.isKV {
 			if len(kv) > 0 {
-				p.errs.Add(t.pos, "unexpected %s after the key=value parameters", t.raw)
+				p.errs.Add(t.pos, ErrSyntax, "unexpected %s after the key=value parameters", t.raw)
 				continue
 			}
 			pos = append(pos, t)
@@ -359,14 +359,14 @@ func (p *parser) params(toks []token) (pos []token, kv []rawParam) {
 		}
 		switch {
 		case t.key == "":
-			p.errs.Add(t.pos, "no spaces around = in key=value")
+			p.errs.Add(t.pos, ErrSyntax, "no spaces around = in key=value")
 			continue
 		case t.val == "" && !t.valQuoted:
-			p.errs.Add(t.pos, "%s= has no value", t.key)
+			p.errs.Add(t.pos, ErrMissing, "%s= has no value", t.key)
 			continue
 		}
 		if first, dup := seen[t.key]; dup {
-			p.errs.Add(t.pos, "%s given twice (first at %d:%d)", t.key, first.Line, first.Col)
+			p.errs.Add(t.pos, ErrDuplicate, "%s given twice (first at %d:%d)", t.key, first.Line, first.Col)
 			continue
 		}
 		seen[t.key] = t.pos
@@ -384,7 +384,7 @@ func (p *parser) checkName(what, s string, pos Pos) bool {
 	if what == "node" && (s == "0" || s == "GND" || s == "Gnd") {
 		msg += "; the reference node is gnd"
 	}
-	p.errs.Add(pos, "%s name %s %s", what, s, msg)
+	p.errs.Add(pos, ErrSyntax, "%s name %s %s", what, s, msg)
 	return false
 }
 
@@ -417,7 +417,7 @@ func (p *parser) parseElement(st statement, kind *devices.Kind) {
 	e.params = kv
 	e.ok = true
 	if len(pos) < 1 {
-		p.errs.Add(t.pos, "%s needs a name and two nodes: %s", kind.Name, usageOf(kind))
+		p.errs.Add(t.pos, ErrMissing, "%s needs a name and two nodes: %s", kind.Name, usageOf(kind))
 		return
 	}
 	e.name, e.namePos = pos[0].raw, pos[0].pos
@@ -425,7 +425,7 @@ func (p *parser) parseElement(st statement, kind *devices.Kind) {
 		e.ok = false
 	}
 	if len(pos) < 3 {
-		p.errs.Add(e.namePos, "%s %s needs two nodes: %s", kind.Name, e.name, usageOf(kind))
+		p.errs.Add(e.namePos, ErrMissing, "%s %s needs two nodes: %s", kind.Name, e.name, usageOf(kind))
 		e.ok = false
 	}
 	for i := 0; i < 2 && i+1 < len(pos); i++ {
@@ -442,9 +442,9 @@ func (p *parser) parseElement(st statement, kind *devices.Kind) {
 	}
 	for _, r := range rest {
 		if positional {
-			p.errs.Add(r.pos, "unexpected %s: %s takes one value, then key=value parameters", r.raw, kind.Name)
+			p.errs.Add(r.pos, ErrSyntax, "unexpected %s: %s takes one value, then key=value parameters", r.raw, kind.Name)
 		} else {
-			p.errs.Add(r.pos, "unexpected %s: %s takes no positional value, only key=value parameters", r.raw, kind.Name)
+			p.errs.Add(r.pos, ErrSyntax, "unexpected %s: %s takes no positional value, only key=value parameters", r.raw, kind.Name)
 		}
 	}
 	p.elements = append(p.elements, e)
@@ -466,7 +466,7 @@ func (p *parser) parsePart(st statement) {
 	t := st.toks[0]
 	pos, kv := p.params(st.toks[1:])
 	if len(pos) < 2 {
-		p.errs.Add(t.pos, "part needs a name and a kind: part NAME KIND key=value ...")
+		p.errs.Add(t.pos, ErrMissing, "part needs a name and a kind: part NAME KIND key=value ...")
 		return
 	}
 	pt := &rawPart{name: pos[0].raw, namePos: pos[0].pos, kind: devices.Lookup(pos[1].raw), params: kv, pos: t.pos}
@@ -476,10 +476,10 @@ func (p *parser) parsePart(st statement) {
 	}
 	switch {
 	case pt.kind == nil:
-		p.errs.Add(pos[1].pos, "unknown element kind %s%s", pos[1].raw, didYouMean(pos[1].raw, kindNames()))
+		p.errs.Add(pos[1].pos, ErrUnknown, "unknown element kind %s%s", pos[1].raw, didYouMean(pos[1].raw, kindNames()))
 		return
 	case pt.kind.Role == spec.Stimulus:
-		p.errs.Add(pos[1].pos, "a %s cannot be a part", pt.kind.Name)
+		p.errs.Add(pos[1].pos, ErrValue, "a %s cannot be a part", pt.kind.Name)
 		return
 	}
 	p.parts = append(p.parts, pt)
@@ -490,7 +490,7 @@ func (p *parser) parseWatch(st statement) {
 	t := st.toks[0]
 	pos, kv := p.params(st.toks[1:])
 	if len(pos) < 1 {
-		p.errs.Add(t.pos, "watch needs a node: watch NODE [max=V] [min=V]")
+		p.errs.Add(t.pos, ErrMissing, "watch needs a node: watch NODE [max=V] [min=V]")
 		return
 	}
 	p.extra(pos[1:], "watch")
@@ -517,17 +517,17 @@ func (p *parser) parseVary(st statement) {
 	pos, kv := p.params(st.toks[1:])
 	p.extra(pos, "vary")
 	if len(kv) == 0 {
-		p.errs.Add(t.pos, "vary needs ELEMENT.PARAM=v1,v2,...")
+		p.errs.Add(t.pos, ErrMissing, "vary needs ELEMENT.PARAM=v1,v2,...")
 		return
 	}
 	for i, r := range kv {
 		if i > 0 {
-			p.errs.Add(r.keyPos, "one ELEMENT.PARAM a vary line; put %s on a line of its own", r.key)
+			p.errs.Add(r.keyPos, ErrSyntax, "one ELEMENT.PARAM a vary line; put %s on a line of its own", r.key)
 			continue
 		}
 		elem, param, ppos, ok := splitTarget(r.key, r.keyPos)
 		if !ok {
-			p.errs.Add(r.keyPos, "vary takes ELEMENT.PARAM=v1,v2,..., not %s", r.key)
+			p.errs.Add(r.keyPos, ErrSyntax, "vary takes ELEMENT.PARAM=v1,v2,..., not %s", r.key)
 			continue
 		}
 		vals := splitList(r.val, r.valPos, &p.errs)
@@ -548,20 +548,20 @@ func (p *parser) parseTolerance(st statement) {
 		if r.key == "dist" {
 			line.dPos = r.valPos
 			if r.val != "uniform" && r.val != "normal" {
-				p.errs.Add(r.valPos, "dist is uniform or normal, not %s%s", r.val, didYouMean(r.val, []string{"uniform", "normal"}))
+				p.errs.Add(r.valPos, ErrValue, "dist is uniform or normal, not %s%s", r.val, didYouMean(r.val, []string{"uniform", "normal"}))
 			}
 			line.dist = r.val
 			continue
 		}
 		elem, param, ppos, ok := splitTarget(r.key, r.keyPos)
 		if !ok {
-			p.errs.Add(r.keyPos, "tolerance takes ELEMENT.PARAM=x%%, not %s", r.key)
+			p.errs.Add(r.keyPos, ErrSyntax, "tolerance takes ELEMENT.PARAM=x%%, not %s", r.key)
 			continue
 		}
 		line.pairs = append(line.pairs, rawTol{elem: elem, param: param, targetPos: r.keyPos, paramPos: ppos, percent: r.val, percentPos: r.valPos})
 	}
 	if len(line.pairs) == 0 {
-		p.errs.Add(t.pos, "tolerance needs ELEMENT.PARAM=x%% (for example C1.value=10%%)")
+		p.errs.Add(t.pos, ErrMissing, "tolerance needs ELEMENT.PARAM=x%% (for example C1.value=10%%)")
 		return
 	}
 	p.tols = append(p.tols, line)
@@ -573,7 +573,7 @@ func (p *parser) parseWindow(st statement) {
 	pos, kv := p.params(st.toks[1:])
 	p.extra(pos, "window")
 	if len(kv) == 0 {
-		p.errs.Add(t.pos, "window needs at least one of stop=, maxstep=, reltol=, abstol=")
+		p.errs.Add(t.pos, ErrMissing, "window needs at least one of stop=, maxstep=, reltol=, abstol=")
 		return
 	}
 	p.windows = append(p.windows, rawParamsAt{params: kv, pos: t.pos})

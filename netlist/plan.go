@@ -20,14 +20,14 @@ func (p *parser) checkWatches(c *Circuit) {
 		w := Watch{Node: rw.node, Pos: rw.nodePos}
 		switch {
 		case rw.node == Ground:
-			p.errs.Add(rw.nodePos, "gnd is the reference: it is always 0 V")
+			p.errs.Add(rw.nodePos, ErrCircuit, "gnd is the reference: it is always 0 V")
 			continue
 		case !known[rw.node]:
-			p.errs.Add(rw.nodePos, "watch: no node %s in the deck%s", rw.node, didYouMean(rw.node, c.Nodes))
+			p.errs.Add(rw.nodePos, ErrUnknown, "watch: no node %s in the deck%s", rw.node, didYouMean(rw.node, c.Nodes))
 			continue
 		}
 		if first, dup := seen[rw.node]; dup {
-			p.errs.Add(rw.nodePos, "node %s is already watched at %s", rw.node, first)
+			p.errs.Add(rw.nodePos, ErrDuplicate, "node %s is already watched at %s", rw.node, first)
 			continue
 		}
 		seen[rw.node] = rw.nodePos
@@ -37,7 +37,7 @@ func (p *parser) checkWatches(c *Circuit) {
 			case "max", "min":
 				v, msg := numValue(kv.key+" of a watch", spec.Volt, spec.Any, kv.val)
 				if msg != "" {
-					p.errs.Add(kv.valPos, "%s", msg)
+					p.errs.Add(kv.valPos, ErrValue, "%s", msg)
 					ok = false
 					continue
 				}
@@ -47,12 +47,12 @@ func (p *parser) checkWatches(c *Circuit) {
 					w.Min, w.HasMin = v, true
 				}
 			default:
-				p.errs.Add(kv.keyPos, "unknown parameter %s for a watch%s", kv.key, didYouMean(kv.key, []string{"max", "min"}))
+				p.errs.Add(kv.keyPos, ErrUnknown, "unknown parameter %s for a watch%s", kv.key, didYouMean(kv.key, []string{"max", "min"}))
 				ok = false
 			}
 		}
 		if w.HasMax && w.HasMin && !(w.Min < w.Max) {
-			p.errs.Add(rw.nodePos, "watch %s: min %s is not below max %s", rw.node, spec.FormatSI(w.Min, "V"), spec.FormatSI(w.Max, "V"))
+			p.errs.Add(rw.nodePos, ErrValue, "watch %s: min %s is not below max %s", rw.node, spec.FormatSI(w.Min, "V"), spec.FormatSI(w.Max, "V"))
 			ok = false
 		}
 		if ok {
@@ -64,7 +64,7 @@ func (p *parser) checkWatches(c *Circuit) {
 func (p *parser) checkWindow(c *Circuit) {
 	for i, rw := range p.windows {
 		if i > 0 {
-			p.errs.Add(rw.pos, "second window; the first is at %s", p.windows[0].pos)
+			p.errs.Add(rw.pos, ErrDuplicate, "second window; the first is at %s", p.windows[0].pos)
 			continue
 		}
 		w := Window{Pos: rw.pos}
@@ -81,7 +81,7 @@ func (p *parser) checkWindow(c *Circuit) {
 			case "abstol":
 				dst, unit = &w.AbsTol, spec.Volt
 			default:
-				p.errs.Add(kv.keyPos, "unknown parameter %s for a window%s", kv.key, didYouMean(kv.key, []string{"stop", "maxstep", "reltol", "abstol"}))
+				p.errs.Add(kv.keyPos, ErrUnknown, "unknown parameter %s for a window%s", kv.key, didYouMean(kv.key, []string{"stop", "maxstep", "reltol", "abstol"}))
 				continue
 			}
 			v, msg := numValue(kv.key+" of a window", unit, r, kv.val)
@@ -89,54 +89,60 @@ func (p *parser) checkWindow(c *Circuit) {
 				msg = fmt.Sprintf("reltol is a fraction below 1 (got %s)", kv.val)
 			}
 			if msg != "" {
-				p.errs.Add(kv.valPos, "%s", msg)
+				p.errs.Add(kv.valPos, ErrValue, "%s", msg)
 				continue
 			}
 			*dst = v
 		}
 		if w.Stop > 0 && w.MaxStep > w.Stop {
-			p.errs.Add(rw.pos, "window: maxstep %s is longer than stop %s", spec.FormatSI(w.MaxStep, "s"), spec.FormatSI(w.Stop, "s"))
+			p.errs.Add(rw.pos, ErrValue, "window: maxstep %s is longer than stop %s", spec.FormatSI(w.MaxStep, "s"), spec.FormatSI(w.Stop, "s"))
 		}
 		c.Window = w
 	}
 }
 
-// settable reports why ELEMENT.PARAM cannot be set, or "" when it can.
-func settable(c *Circuit, elem, param string) (string, *Element) {
+// problem is a deck error without a position yet.
+func problem(kind error, format string, args ...any) *Error {
+	return &Error{Err: kind, Msg: fmt.Sprintf(format, args...)}
+}
+
+// settable says why ELEMENT.PARAM cannot be set (ErrUnknown, ErrValue), or
+// nil when it can.
+func settable(c *Circuit, elem, param string) (*Error, *Element) {
 	e := c.Element(elem)
 	if e == nil {
 		var names []string
 		for _, x := range c.Elements {
 			names = append(names, x.Name)
 		}
-		return fmt.Sprintf("no element %s%s", elem, didYouMean(elem, names)), nil
+		return problem(ErrUnknown, "no element %s%s", elem, didYouMean(elem, names)), nil
 	}
 	if e.IsStrike() {
 		switch param {
 		case "level", "polarity":
-			return "levels and polarities are already axes of the study; list them on the strike", e
+			return problem(ErrValue, "levels and polarities are already axes of the study; list them on the strike"), e
 		case "waveform", "part":
-			return fmt.Sprintf("the strike's %s cannot be varied", param), e
+			return problem(ErrValue, "the strike's %s cannot be varied", param), e
 		}
 		if e.Waveform.Word(param) != nil {
-			return fmt.Sprintf("the strike's %s cannot be varied", param), e
+			return problem(ErrValue, "the strike's %s cannot be varied", param), e
 		}
 		taking := waveforms.Taking(param)
 		if len(taking) == 0 {
-			return fmt.Sprintf("a strike has no parameter %s%s", param, didYouMean(param, keysOf(e.Kind))), e
+			return problem(ErrUnknown, "a strike has no parameter %s%s", param, didYouMean(param, keysOf(e.Kind))), e
 		}
 		if e.Waveform.Param(param) == nil {
-			return fmt.Sprintf("%s is a parameter of waveform %s, not of %s", param, strings.Join(taking, ", "), e.Waveform.Name), e
+			return problem(ErrUnknown, "%s is a parameter of waveform %s, not of %s", param, strings.Join(taking, ", "), e.Waveform.Name), e
 		}
-		return "", e
+		return nil, e
 	}
 	if w := e.Kind.Word(param); w != nil && w.Fixed {
-		return fmt.Sprintf("a %s's %s changes the circuit's nodes and cannot be varied", e.Kind.Name, param), e
+		return problem(ErrValue, "a %s's %s changes the circuit's nodes and cannot be varied", e.Kind.Name, param), e
 	}
 	if param == "part" || e.Kind.Word(param) != nil || e.Kind.Param(param) != nil {
-		return "", e
+		return nil, e
 	}
-	return fmt.Sprintf("a %s has no parameter %s%s", e.Kind.Name, param, didYouMean(param, keysOf(e.Kind))), e
+	return problem(ErrUnknown, "a %s has no parameter %s%s", e.Kind.Name, param, didYouMean(param, keysOf(e.Kind))), e
 }
 
 // isNumeric reports whether the parameter param of e takes a number (not a
@@ -145,9 +151,9 @@ func isNumeric(e *Element, param string) bool { return e.Param(param) != nil }
 
 // parseSetting reads the text of a setting of param of e (already settable)
 // as the deck would: a number in the parameter's unit, a part of the
-// element's kind or one of a word parameter's words. It returns a message
-// when the text does not fit.
-func (c *Circuit) parseSetting(e *Element, param, text string) (Setting, string) {
+// element's kind or one of a word parameter's words. It says why when the
+// text does not fit.
+func (c *Circuit) parseSetting(e *Element, param, text string) (Setting, *Error) {
 	s := Setting{Element: e.Name, Param: param, Text: text}
 	switch {
 	case isNumeric(e, param):
@@ -158,57 +164,60 @@ func (c *Circuit) parseSetting(e *Element, param, text string) (Setting, string)
 		}
 		v, msg := numValue(what, sp.Unit, sp.Rule, text)
 		if msg != "" {
-			return s, msg
+			return s, problem(ErrValue, "%s", msg)
 		}
 		s.Num = v
 	case param == "part":
-		if _, msg := lookupPart(c, e.Kind, text); msg != "" {
-			return s, msg
+		if _, perr := lookupPart(c, e.Kind, text); perr != nil {
+			return s, perr
 		}
 	default:
 		if m := wordProblem(e.Kind, e.Kind.Word(param), text); m != "" {
-			return s, m
+			return s, problem(ErrValue, "%s", m)
 		}
 	}
-	return s, ""
+	return s, nil
 }
 
 // Setting reads ELEMENT.PARAM=TEXT against the circuit, as a vary line's
 // value would be read: the element and parameter must exist and be
-// settable, and the text must fit the parameter. The error says why not,
-// without a deck position (the text did not come from the deck).
+// settable, and the text must fit the parameter. The error, an *Error
+// without a deck position (the text did not come from the deck), says why
+// not.
 func (c *Circuit) Setting(target, text string) (Setting, error) {
 	elem, param, ok := SplitTarget(target)
 	if !ok {
-		return Setting{}, fmt.Errorf("%s: write ELEMENT.PARAM", target)
+		return Setting{}, problem(ErrSyntax, "%s: write ELEMENT.PARAM", target)
 	}
-	msg, e := settable(c, elem, param)
-	if msg != "" {
-		return Setting{}, fmt.Errorf("%s: %s", target, msg)
+	perr, e := settable(c, elem, param)
+	if perr != nil {
+		perr.Msg = target + ": " + perr.Msg
+		return Setting{}, perr
 	}
-	s, msg := c.parseSetting(e, param, text)
-	if msg != "" {
-		return Setting{}, fmt.Errorf("%s=%s: %s", target, text, msg)
+	s, perr := c.parseSetting(e, param, text)
+	if perr != nil {
+		perr.Msg = target + "=" + text + ": " + perr.Msg
+		return Setting{}, perr
 	}
 	return s, nil
 }
 
 // apply sets one parameter of e (an element of c, already cloned by the
-// caller) and merges again; it returns a message when the setting is not
-// usable. It returns the element's own parameters after the change, for the
-// caller to keep when it keeps e.
-func (c *Circuit) apply(e *Element, s Setting) (*ownParams, string) {
+// caller) and merges again; it says why when the setting is not usable. It
+// returns the element's own parameters after the change, for the caller to
+// keep when it keeps e.
+func (c *Circuit) apply(e *Element, s Setting) (*ownParams, *Error) {
 	own := c.own[e.Name]
 	if own == nil {
-		return nil, fmt.Sprintf("element %s cannot be changed", e.Name)
+		return nil, problem(ErrValue, "element %s cannot be changed", e.Name)
 	}
 	next := *own
 	if e.IsStrike() {
 		if err := e.Values.Set(s.Param, s.Num); err != nil {
-			return nil, fmt.Sprintf("%s of waveform %s %s", s.Param, e.Waveform.Name, err.(*spec.RuleError).Says)
+			return nil, problem(ErrValue, "%s of waveform %s %s", s.Param, e.Waveform.Name, err.(*spec.RuleError).Says)
 		}
 		next.vals.Set(s.Param, s.Num)
-		return &next, ""
+		return &next, nil
 	}
 	var part *Part
 	if own.part != "" {
@@ -216,18 +225,18 @@ func (c *Circuit) apply(e *Element, s Setting) (*ownParams, string) {
 	}
 	switch {
 	case s.Param == "part":
-		pt, msg := lookupPart(c, e.Kind, s.Text)
-		if msg != "" {
-			return nil, msg
+		pt, perr := lookupPart(c, e.Kind, s.Text)
+		if perr != nil {
+			return nil, perr
 		}
 		part, next.part = pt, pt.Name
 	case isNumeric(e, s.Param):
 		if err := next.vals.Set(s.Param, s.Num); err != nil {
-			return nil, fmt.Sprintf("%s %s", paramOf(e.Kind, s.Param), err.(*spec.RuleError).Says)
+			return nil, problem(ErrValue, "%s %s", paramOf(e.Kind, s.Param), err.(*spec.RuleError).Says)
 		}
 	default:
 		if m := wordProblem(e.Kind, e.Kind.Word(s.Param), s.Text); m != "" {
-			return nil, m
+			return nil, problem(ErrValue, "%s", m)
 		}
 		next.vals.SetWord(s.Param, s.Text)
 	}
@@ -237,9 +246,13 @@ func (c *Circuit) apply(e *Element, s Setting) (*ownParams, string) {
 		e.Part = part.Name
 	}
 	if ps := problems(e, nil); len(ps) > 0 {
-		return nil, strings.Join(ps, "; ")
+		msgs := make([]string, len(ps))
+		for i, p := range ps {
+			msgs[i] = p.Msg
+		}
+		return nil, problem(ps[0].Err, "%s", strings.Join(msgs, "; "))
 	}
-	return &next, ""
+	return &next, nil
 }
 
 func (p *parser) checkVary(c *Circuit) {
@@ -247,28 +260,28 @@ func (p *parser) checkVary(c *Circuit) {
 	for _, rv := range p.varies {
 		target := rv.elem + "." + rv.param
 		if first, dup := seen[target]; dup {
-			p.errs.Add(rv.targetPos, "%s is already varied at %s", target, first)
+			p.errs.Add(rv.targetPos, ErrDuplicate, "%s is already varied at %s", target, first)
 			continue
 		}
 		seen[target] = rv.targetPos
-		msg, e := settable(c, rv.elem, rv.param)
-		if msg != "" {
+		perr, e := settable(c, rv.elem, rv.param)
+		if perr != nil {
 			pos := rv.paramPos
 			if e == nil {
 				pos = rv.targetPos
 			}
-			p.errs.Add(pos, "vary: %s", msg)
+			p.errs.Add(pos, perr.Err, "vary: %s", perr.Msg)
 			continue
 		}
 		v := Vary{Element: rv.elem, Param: rv.param, Pos: rv.targetPos}
 		ok := true
 		for _, it := range rv.values {
-			s, m := c.parseSetting(e, rv.param, it.text)
-			if m == "" {
-				_, m = c.apply(e.clone(), s)
+			s, perr := c.parseSetting(e, rv.param, it.text)
+			if perr == nil {
+				_, perr = c.apply(e.clone(), s)
 			}
-			if m != "" {
-				p.errs.Add(it.pos, "vary %s: %s", target, m)
+			if perr != nil {
+				p.errs.Add(it.pos, perr.Err, "vary %s: %s", target, perr.Msg)
 				ok = false
 			}
 			v.Values = append(v.Values, s)
@@ -284,37 +297,37 @@ func (p *parser) checkTolerances(c *Circuit) {
 	for _, line := range p.tols {
 		for _, rt := range line.pairs {
 			target := rt.elem + "." + rt.param
-			msg, e := settable(c, rt.elem, rt.param)
+			perr, e := settable(c, rt.elem, rt.param)
 			switch {
-			case msg != "":
+			case perr != nil:
 				pos := rt.paramPos
 				if e == nil {
 					pos = rt.targetPos
 				}
-				p.errs.Add(pos, "tolerance: %s", msg)
+				p.errs.Add(pos, perr.Err, "tolerance: %s", perr.Msg)
 				continue
 			case !isNumeric(e, rt.param):
-				p.errs.Add(rt.paramPos, "tolerance: %s is not a number to spread", target)
+				p.errs.Add(rt.paramPos, ErrValue, "tolerance: %s is not a number to spread", target)
 				continue
 			case !e.Values.Has(rt.param):
-				p.errs.Add(rt.paramPos, "tolerance: %s has no %s to spread (give it a value first)", rt.elem, rt.param)
+				p.errs.Add(rt.paramPos, ErrMissing, "tolerance: %s has no %s to spread (give it a value first)", rt.elem, rt.param)
 				continue
 			}
 			if first, dup := seen[target]; dup {
-				p.errs.Add(rt.targetPos, "%s already has a tolerance at %s", target, first)
+				p.errs.Add(rt.targetPos, ErrDuplicate, "%s already has a tolerance at %s", target, first)
 				continue
 			}
 			seen[target] = rt.targetPos
 			n, m := parseNumber(rt.percent, true)
 			switch {
 			case m != "":
-				p.errs.Add(rt.percentPos, "%s", m)
+				p.errs.Add(rt.percentPos, ErrValue, "%s", m)
 				continue
 			case !n.percent:
-				p.errs.Add(rt.percentPos, "a tolerance is a percentage such as 5%%, not %s", rt.percent)
+				p.errs.Add(rt.percentPos, ErrValue, "a tolerance is a percentage such as 5%%, not %s", rt.percent)
 				continue
 			case !(n.val > 0 && n.val < 100):
-				p.errs.Add(rt.percentPos, "a tolerance must be above 0%% and below 100%% (got %s)", rt.percent)
+				p.errs.Add(rt.percentPos, ErrValue, "a tolerance must be above 0%% and below 100%% (got %s)", rt.percent)
 				continue
 			}
 			c.Tolerances = append(c.Tolerances, Tolerance{Element: rt.elem, Param: rt.param, Percent: n.val, Dist: line.dist, Pos: rt.targetPos})
@@ -397,19 +410,19 @@ func (c *Circuit) With(settings ...Setting) (*Circuit, error) {
 	}
 	var errs ErrorList
 	for _, s := range settings {
-		msg, e := settable(&x, s.Element, s.Param)
+		perr, e := settable(&x, s.Element, s.Param)
 		pos := Pos{File: c.File}
 		if e != nil {
 			pos = e.Pos
 		}
-		if msg == "" {
+		if perr == nil {
 			var own *ownParams
-			if own, msg = x.apply(e, s); own != nil {
+			if own, perr = x.apply(e, s); own != nil {
 				x.own[e.Name] = own
 			}
 		}
-		if msg != "" {
-			errs.Add(pos, "%s: %s", s, msg)
+		if perr != nil {
+			errs.Add(pos, perr.Err, "%s: %s", s, perr.Msg)
 		}
 	}
 	if len(errs) > 0 {
