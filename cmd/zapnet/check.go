@@ -73,9 +73,14 @@ func writeListing(w io.Writer, deck string, c *netlist.Circuit) {
 		title = "(untitled)"
 	}
 	fmt.Fprintf(w, "%s\ndeck %s\n\n", title, deck)
-
 	fmt.Fprintf(w, "Nodes (%d besides gnd)\n  %s\n\n", len(c.Nodes), strings.Join(c.Nodes, " "))
+	for _, section := range []func(io.Writer, *netlist.Circuit){listElements, listWatches, listWindow, listTolerances, listStudy, listWarnings} {
+		section(w, c)
+	}
+}
 
+// listElements lists every element with its parameters, defaults filled in.
+func listElements(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintf(w, "Elements (%d)\n", len(c.Elements))
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	for _, e := range c.Elements {
@@ -83,12 +88,15 @@ func writeListing(w io.Writer, deck string, c *netlist.Circuit) {
 	}
 	tw.Flush()
 	fmt.Fprintln(w)
+}
 
+// listWatches lists the watched nodes and their limits.
+func listWatches(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintln(w, "Watches")
 	if len(c.Watches) == 0 {
 		fmt.Fprintln(w, "  none")
 	}
-	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	for _, wt := range c.Watches {
 		var lim []string
 		if wt.HasMax {
@@ -104,7 +112,10 @@ func writeListing(w io.Writer, deck string, c *netlist.Circuit) {
 	}
 	tw.Flush()
 	fmt.Fprintln(w)
+}
 
+// listWindow says what span and accuracy the deck asks for.
+func listWindow(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintln(w, "Window")
 	win := c.Window
 	field := func(name string, v float64, unit spec.Unit, zero string) {
@@ -119,12 +130,15 @@ func writeListing(w io.Writer, deck string, c *netlist.Circuit) {
 	field("reltol", win.RelTol, "", "solver default")
 	field("abstol", win.AbsTol, "V", "solver default")
 	fmt.Fprintln(w)
+}
 
+// listTolerances lists the manufacturing spreads.
+func listTolerances(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintln(w, "Tolerances")
 	if len(c.Tolerances) == 0 {
 		fmt.Fprintln(w, "  none")
 	}
-	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	for _, t := range c.Tolerances {
 		dist := "uniform"
 		if t.Dist == "normal" {
@@ -134,7 +148,10 @@ func writeListing(w io.Writer, deck string, c *netlist.Circuit) {
 	}
 	tw.Flush()
 	fmt.Fprintln(w)
+}
 
+// listStudy counts the runs of the study and lists its levels, polarities and variants.
+func listStudy(w io.Writer, c *netlist.Circuit) {
 	pl := c.Plan()
 	unit := pl.Waveform.Unit
 	levels := make([]string, len(pl.Levels))
@@ -163,7 +180,10 @@ func writeListing(w io.Writer, deck string, c *netlist.Circuit) {
 		fmt.Fprintf(w, "%s%*d  %s\n", head, 2, i+1, text)
 	}
 	fmt.Fprintln(w)
+}
 
+// listWarnings lists the warnings.
+func listWarnings(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintln(w, "Warnings")
 	if len(c.Warnings) == 0 {
 		fmt.Fprintln(w, "  none")

@@ -203,21 +203,46 @@ func (b *Bench) Solve(level float64, polarity string, opt *Options) (*Run, error
 	if opt == nil {
 		opt = &Options{}
 	}
-	var sign float64
-	switch polarity {
-	case "pos":
-		sign = 1
-	case "neg":
-		sign = -1
-	default:
-		return nil, fmt.Errorf("polarity %q: use pos or neg", polarity)
+	sign, err := polaritySign(polarity)
+	if err != nil {
+		return nil, err
 	}
 	wf := b.strike.Waveform
 	st, err := wf.New(level, &b.strike.Values)
 	if err != nil {
 		return nil, fmt.Errorf("%s: strike %s: %v", b.strike.Pos, b.strike.Name, err)
 	}
+	run := newRun(Job{Variant: b.Variant, Level: level, Polarity: polarity})
+	r := &run
+	r.Waveform, r.LevelUnit = wf.Name, wf.Unit
+	res, err := b.solveWindow(r, st, sign, opt)
+	if err != nil {
+		return nil, err
+	}
+	b.measure(r, res)
+	if opt.Record {
+		r.Waves = b.waves(res)
+	}
+	Judge(r)
+	if len(r.Limits) == 0 {
+		r.Notes = append(r.Notes, "the deck gives no ratings ("+strings.Join(ratingKeys(), ", ")+", watch max/min): nothing was judged")
+	}
+	return r, nil
+}
 
+// polaritySign is +1 for "pos" and −1 for "neg".
+func polaritySign(polarity string) (float64, error) {
+	switch polarity {
+	case "pos":
+		return 1, nil
+	case "neg":
+		return -1, nil
+	}
+	return 0, fmt.Errorf("polarity %q: use pos or neg", polarity)
+}
+
+// window is the deck's window with the fields Options.Window sets replaced.
+func (b *Bench) window(opt *Options) netlist.Window {
 	w := b.Circuit.Window
 	if opt.Window.Stop > 0 {
 		w.Stop = opt.Window.Stop
@@ -234,12 +259,17 @@ func (b *Bench) Solve(level float64, polarity string, opt *Options) (*Run, error
 	if w.RelTol == 0 {
 		w.RelTol = DefaultRelTol
 	}
-	run := newRun(Job{Variant: b.Variant, Level: level, Polarity: polarity})
-	r := &run
-	r.Waveform, r.LevelUnit = wf.Name, wf.Unit
+	return w
+}
+
+// solveWindow solves the strike st over the run's window: the deck's, or
+// the default span, doubled up to its cap while an extreme sits at its end.
+// It records the window in r, with a note when the span was extended or an
+// extreme may still be rising at its end.
+func (b *Bench) solveWindow(r *Run, st *waveforms.Stimulus, sign float64, opt *Options) (*mna.Result, error) {
+	w := b.window(opt)
 	explicit := w.Stop > 0
-	stop := w.Stop
-	limit := Cap(st.Stop)
+	stop, limit := w.Stop, Cap(st.Stop)
 	if !explicit {
 		stop = DefaultStop(b.Circuit, st.Stop)
 		r.Window.Default = true
@@ -256,6 +286,7 @@ func (b *Bench) Solve(level float64, polarity string, opt *Options) (*Run, error
 		set.Record = opt.Record
 		set.Observe = b.observe
 		b.reset()
+		var err error
 		res, err = b.sys.Transient(st, sign, &set)
 		if res != nil {
 			r.Stats.add(res.Stats)
@@ -278,26 +309,19 @@ func (b *Bench) Solve(level float64, polarity string, opt *Options) (*Run, error
 		r.Notes = append(r.Notes, fmt.Sprintf("the default window was extended from %s to %s because the response was still developing at its end",
 			spec.FormatSI(first, "s"), spec.FormatSI(stop, "s")))
 	}
-	if len(late) > 0 {
-		what := strings.Join(late, ", ")
-		if explicit {
-			r.Window.Suggest = niceCeil(math.Max(2*stop, DefaultStop(b.Circuit, st.Stop)))
-			r.Notes = append(r.Notes, fmt.Sprintf("%s: in the last %.0f %% of the window, possibly still rising, so not a peak; try window stop=%s",
-				what, 100*EndFraction, spec.DeckNumber(r.Window.Suggest, "s")))
-		} else {
-			r.Notes = append(r.Notes, fmt.Sprintf("%s: in the last %.0f %% of the window even at the default's %s limit, possibly still rising; set a longer window stop= to see the peak",
-				what, 100*EndFraction, spec.FormatSI(stop, "s")))
-		}
+	if len(late) == 0 {
+		return res, nil
 	}
-	b.measure(r, res)
-	if opt.Record {
-		r.Waves = b.waves(res)
+	what := strings.Join(late, ", ")
+	if explicit {
+		r.Window.Suggest = niceCeil(math.Max(2*stop, DefaultStop(b.Circuit, st.Stop)))
+		r.Notes = append(r.Notes, fmt.Sprintf("%s: in the last %.0f %% of the window, possibly still rising, so not a peak; try window stop=%s",
+			what, 100*EndFraction, spec.DeckNumber(r.Window.Suggest, "s")))
+	} else {
+		r.Notes = append(r.Notes, fmt.Sprintf("%s: in the last %.0f %% of the window even at the default's %s limit, possibly still rising; set a longer window stop= to see the peak",
+			what, 100*EndFraction, spec.FormatSI(stop, "s")))
 	}
-	Judge(r)
-	if len(r.Limits) == 0 {
-		r.Notes = append(r.Notes, "the deck gives no ratings ("+strings.Join(ratingKeys(), ", ")+", watch max/min): nothing was judged")
-	}
-	return r, nil
+	return res, nil
 }
 
 // lateExtremes names the reported extremes that sit in the last EndFraction

@@ -55,9 +55,7 @@ func solvePool(ctx context.Context, c *netlist.Circuit, jobs []Job, opt *Options
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	size := max(1, min(workers, len(jobs))) // ForEach's pool
-	benches := make([]*Bench, size)
-	benchOf := make([]int, size)
+	benches := NewBenches(c, max(1, min(workers, len(jobs)))) // ForEach's pool
 	runs = make([]Run, len(jobs))
 	var progress func(done, total int)
 	if done != nil {
@@ -70,19 +68,15 @@ func solvePool(ctx context.Context, c *netlist.Circuit, jobs []Job, opt *Options
 			// the other runs, not a stack trace.
 			defer func() {
 				if p := recover(); p != nil {
-					benches[w] = nil
+					benches.Drop(w)
 					run = failedRun(c, j, fmt.Errorf("internal error (please report it with the deck): %v", p))
 				}
 			}()
-			if benches[w] == nil || benchOf[w] != j.VariantIndex {
-				b, err := NewBench(c, j.Variant)
-				if err != nil {
-					benches[w] = nil
-					return failedRun(c, j, err)
-				}
-				benches[w], benchOf[w] = b, j.VariantIndex
+			b, err := benches.Get(w, j.VariantIndex, j.Variant)
+			if err != nil {
+				return failedRun(c, j, err)
 			}
-			r, err := benches[w].Solve(j.Level, j.Polarity, opt)
+			r, err := b.Solve(j.Level, j.Polarity, opt)
 			if err != nil {
 				return failedRun(c, j, err)
 			}

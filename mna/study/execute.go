@@ -2,7 +2,6 @@ package study
 
 import (
 	"errors"
-	"fmt"
 
 	"zapnet/devices/spec"
 
@@ -12,43 +11,17 @@ import (
 // Jobs lists the runs that Execute would solve, in plan order: variant-major,
 // then level, then polarity. It solves nothing.
 func Jobs(c *netlist.Circuit, opt *Options) ([]Job, error) {
-	if opt == nil {
-		opt = &Options{}
-	}
-	plan, err := planOf(c)
+	pl, err := PlanOf(c, opt)
 	if err != nil {
 		return nil, err
 	}
-	levels, pols, variants := plan.Levels, plan.Polarities, plan.Variants
-	if opt.Levels != nil {
-		levels = opt.Levels
-	}
-	if opt.Polarities != nil {
-		pols = opt.Polarities
-	}
-	if opt.Variants != nil {
-		variants = opt.Variants
-	}
-	if len(variants) == 0 {
-		variants = []netlist.Variant{nil}
-	}
-	for _, l := range levels {
-		if !(l > 0) {
-			return nil, fmt.Errorf("level %g: levels must be positive", l)
-		}
-	}
-	for _, p := range pols {
-		if p != "pos" && p != "neg" {
-			return nil, fmt.Errorf("polarity %q: use pos or neg", p)
-		}
-	}
-	if len(levels) == 0 || len(pols) == 0 {
+	if len(pl.Levels) == 0 || len(pl.Polarities) == 0 {
 		return nil, errors.New("the study has no level or no polarity to run")
 	}
 	var jobs []Job
-	for vi, v := range variants {
-		for _, l := range levels {
-			for _, p := range pols {
+	for vi, v := range pl.Variants {
+		for _, l := range pl.Levels {
+			for _, p := range pl.Polarities {
 				jobs = append(jobs, Job{Index: len(jobs), VariantIndex: vi, Variant: v, Level: l, Polarity: p})
 			}
 		}

@@ -4,6 +4,7 @@ import (
 	"context"
 	"runtime"
 	"sync"
+	"zapnet/netlist"
 )
 
 // ForEach calls work(w, i) for every i in 0..n−1 on a pool of
@@ -54,3 +55,34 @@ feed:
 	wg.Wait()
 	return finished
 }
+
+// Benches keeps, for each worker of a pool, the variant it compiled last:
+// a worker that draws job after job of one variant compiles it once. Each
+// worker uses only its own slot, so no lock is needed.
+type Benches struct {
+	c   *netlist.Circuit
+	b   []*Bench
+	idx []int
+}
+
+// NewBenches makes the slots of workers workers (ForEach's w) for circuit c.
+func NewBenches(c *netlist.Circuit, workers int) *Benches {
+	return &Benches{c: c, b: make([]*Bench, workers), idx: make([]int, workers)}
+}
+
+// Get returns worker w's bench of variant number index, v, compiling it
+// when the worker used another variant last.
+func (bs *Benches) Get(w, index int, v netlist.Variant) (*Bench, error) {
+	if bs.b[w] == nil || bs.idx[w] != index {
+		b, err := NewBench(bs.c, v)
+		if err != nil {
+			bs.b[w] = nil
+			return nil, err
+		}
+		bs.b[w], bs.idx[w] = b, index
+	}
+	return bs.b[w], nil
+}
+
+// Drop forgets worker w's bench (after a panic left it in doubt).
+func (bs *Benches) Drop(w int) { bs.b[w] = nil }

@@ -3,7 +3,6 @@ package whatif
 import (
 	"cmp"
 	"context"
-	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -109,6 +108,38 @@ type MarginResult struct {
 	Interrupted bool `json:"interrupted,omitempty"`
 }
 
+// setRange sets the searched range and its resolution from opt (or from
+// the plan's levels) and returns the number of steps in it.
+func (res *MarginResult) setRange(opt *MarginOptions, levels []float64) (int, error) {
+	unit := res.LevelUnit
+	res.Max, res.Resolution = opt.Max, opt.Resolution
+	if res.Max == 0 {
+		if len(levels) == 0 {
+			return 0, fmt.Errorf("no level to choose the range from: give the top of the range")
+		}
+		res.Max = 2 * slices.Max(levels)
+	}
+	if res.Resolution == 0 {
+		res.Resolution = res.Max / 200
+		if unit == "V" {
+			res.Resolution = 100
+		}
+	}
+	if !(res.Max > 0) || !(res.Resolution > 0) || math.IsInf(res.Max, 0) {
+		return 0, fmt.Errorf("margin search: range top %g and resolution %g must be positive", res.Max, res.Resolution)
+	}
+	steps := int(math.Floor(res.Max/res.Resolution + 1e-9))
+	if steps < 1 {
+		return 0, fmt.Errorf("margin search: the range top %s is below the resolution %s",
+			spec.FormatSI(res.Max, unit), spec.FormatSI(res.Resolution, unit))
+	}
+	if steps > 1e7 {
+		return 0, fmt.Errorf("margin search: %d steps of %s up to %s is too fine; use a coarser resolution",
+			steps, spec.FormatSI(res.Resolution, unit), spec.FormatSI(res.Max, unit))
+	}
+	return steps, nil
+}
+
 // DefaultScan is the number of levels of the coarse scan.
 const DefaultScan = 16
 
@@ -127,53 +158,16 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 	if opt == nil {
 		opt = &MarginOptions{}
 	}
-	if c.Strike() == nil {
-		return nil, errors.New("the deck has no strike: add a strike line")
+	plan, err := study.PlanOf(c, &opt.Study)
+	if err != nil {
+		return nil, err
 	}
-	plan := c.Plan()
-	levels, pols, variants := plan.Levels, plan.Polarities, plan.Variants
-	if opt.Study.Levels != nil {
-		levels = opt.Study.Levels
-	}
-	if opt.Study.Polarities != nil {
-		pols = opt.Study.Polarities
-	}
-	if opt.Study.Variants != nil {
-		variants = opt.Study.Variants
-	}
-	if len(variants) == 0 {
-		variants = []netlist.Variant{nil}
-	}
-	for _, p := range pols {
-		if p != "pos" && p != "neg" {
-			return nil, fmt.Errorf("polarity %q: use pos or neg", p)
-		}
-	}
+	pols, variants := plan.Polarities, plan.Variants
 	unit := plan.Waveform.Unit
-	res := &MarginResult{Waveform: plan.Waveform.Name, LevelUnit: unit, Max: opt.Max, Resolution: opt.Resolution, Margins: []Margin{}}
-	if res.Max == 0 {
-		if len(levels) == 0 {
-			return nil, fmt.Errorf("no level to choose the range from: give the top of the range")
-		}
-		res.Max = 2 * slices.Max(levels)
-	}
-	if res.Resolution == 0 {
-		res.Resolution = res.Max / 200
-		if unit == "V" {
-			res.Resolution = 100
-		}
-	}
-	if !(res.Max > 0) || !(res.Resolution > 0) || math.IsInf(res.Max, 0) {
-		return nil, fmt.Errorf("margin search: range top %g and resolution %g must be positive", res.Max, res.Resolution)
-	}
-	steps := int(math.Floor(res.Max/res.Resolution + 1e-9))
-	if steps < 1 {
-		return nil, fmt.Errorf("margin search: the range top %s is below the resolution %s",
-			spec.FormatSI(res.Max, unit), spec.FormatSI(res.Resolution, unit))
-	}
-	if steps > 1e7 {
-		return nil, fmt.Errorf("margin search: %d steps of %s up to %s is too fine; use a coarser resolution",
-			steps, spec.FormatSI(res.Resolution, unit), spec.FormatSI(res.Max, unit))
+	res := &MarginResult{Waveform: plan.Waveform.Name, LevelUnit: unit, Margins: []Margin{}}
+	steps, err := res.setRange(opt, plan.Levels)
+	if err != nil {
+		return nil, err
 	}
 	scan := opt.Scan
 	if scan <= 0 {
@@ -227,24 +221,11 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 			compileErr[sr.variant] = err
 		}
 	}
-	// Each worker keeps the compiled variant it used last.
-	benches := make([]*study.Bench, workers)
-	benchOf := make([]int, workers)
-	bench := func(w, variant int) (*study.Bench, error) {
-		if benches[w] == nil || benchOf[w] != variant {
-			b, err := study.NewBench(c, variants[variant])
-			if err != nil {
-				benches[w] = nil
-				return nil, err
-			}
-			benches[w], benchOf[w] = b, variant
-		}
-		return benches[w], nil
-	}
+	benches := study.NewBenches(c, workers)
 	solver := func(w int, sr search) func(float64) (outcome, error) {
 		return func(level float64) (outcome, error) {
 			defer tick()
-			b, err := bench(w, sr.variant)
+			b, err := benches.Get(w, sr.variant, variants[sr.variant])
 			if err != nil {
 				return outcome{}, err
 			}
