@@ -233,12 +233,27 @@ func (p *parser) check(src []byte) *Circuit {
 		}
 	}
 	p.checkTopology(c)
+	p.checkModels(c)
 	p.checkWatches(c)
 	p.checkWindow(c)
 	p.checkVary(c)
 	p.checkVariants(c)
 	p.checkTolerances(c)
 	return c
+}
+
+// checkModels builds every element's device once, so that what a model
+// refuses (a constraint between its parameters that no single rule says)
+// the check refuses too, at the element's statement.
+func (p *parser) checkModels(c *Circuit) {
+	if p.errs.Err() != nil {
+		return
+	}
+	for _, e := range c.Elements {
+		if _, err := e.Kind.New(e.Name, e.Nodes, &e.Values); err != nil {
+			p.errs.Add(c.own[e.Name].name, ErrValue, "%v", err)
+		}
+	}
 }
 
 // maxCheckedVariants bounds the variants tried one by one at load time.
