@@ -27,56 +27,37 @@ type Waveform struct {
 	// Table lists the waveform's parameters: the strike's keys besides
 	// waveform, level and polarity.
 	spec.Table
-	build func(level float64, v *spec.Values) (*Stimulus, error)
+	// Order places the waveform in listings.
+	Order int
+	// Load is the load the standard calibrates the stimulus into, ohms
+	// (+Inf: an open circuit); 0 is a short.
+	Load float64
+
+	build  func(level float64, v *spec.Values) (*Stimulus, error)
+	checks func(s *Stimulus, load float64) []Check // nil: no published points
 }
 
-// catalogue lists every waveform in documentation order.
-var catalogue = []*Waveform{
-	{Name: "iec61000-4-2", Unit: spec.Volt, Level: 4000, Discharge: true,
-		Summary: "IEC 61000-4-2 contact discharge, ideal current of the informative annex",
-		build:   newIEC61000_4_2},
-	{Name: "hbm", Unit: spec.Volt, Level: 4000, Discharge: true,
-		Summary: "human-body model (JS-001): 100 pF through 1.5 kΩ and a series inductance",
-		Table:   spec.Table{Params: []spec.Param{spec.Optional("l", spec.Henry, spec.NonNegative)}},
-		build:   newHBM},
-	{Name: "iso10605", Unit: spec.Volt, Level: 4000, Discharge: true,
-		Summary: "ISO 10605 discharge network: 150 or 330 pF through 330 Ω or 2 kΩ",
-		Table: spec.Table{Params: []spec.Param{
-			spec.Default("c", spec.Farad, spec.Positive, isoC),
-			spec.Default("r", spec.Ohm, spec.Positive, isoR),
-			spec.Optional("l", spec.Henry, spec.NonNegative),
-		}},
-		build: newISO10605},
-	{Name: "surge-8-20", Unit: spec.Ampere, Level: 500,
-		Summary: "IEC 61000-4-5 8/20 µs short-circuit current, ideal current source",
-		build:   newSurge8_20},
-	{Name: "surge-1.2-50", Unit: spec.Volt, Level: 1000,
-		Summary: "IEC 61000-4-5 1.2/50 µs open-circuit voltage behind 2 Ω",
-		Table:   spec.Table{Params: []spec.Param{spec.Default("r", spec.Ohm, spec.Positive, surgeR)}},
-		build:   newSurge1_2_50},
-	{Name: "tlp", Unit: spec.Ampere, Level: 8,
-		Summary: "transmission-line pulse: trapezoid from a 50 Ω source, level = current into a short",
-		Table: spec.Table{Params: []spec.Param{
-			spec.Default("width", spec.Second, spec.Positive, tlpWidth),
-			spec.Default("rise", spec.Second, spec.Positive, tlpRise),
-		}},
-		build: newTLP},
-	{Name: "eft", Unit: spec.Volt, Level: 1000,
-		Summary: "IEC 61000-4-4 5/50 ns fast transient (or a burst) from a 50 Ω source",
-		Table: spec.Table{Params: []spec.Param{
-			spec.Default("count", spec.Dimensionless, spec.Count, 1),
-			spec.Default("rate", spec.Hertz, spec.Positive, eftRate),
-		}},
-		build: newEFT},
-	{Name: "pwl", Unit: spec.Dimensionless, Level: 1,
-		Summary: "piecewise-linear current from a CSV file (time,current), scaled by the level",
-		Table:   spec.Table{Words: []spec.Word{{Key: "file", Path: true, Fixed: true}}},
-		build:   newPWL},
+// registry holds the waveforms in documentation order; each waveform's
+// file registers its own in init.
+var registry []*Waveform
+
+// Register adds a waveform to the catalogue. A name registered twice is a
+// programming error.
+func Register(w *Waveform) {
+	if Lookup(w.Name) != nil {
+		panic("waveforms: registered twice: " + w.Name)
+	}
+	if w.build == nil {
+		panic("waveforms: no builder for " + w.Name)
+	}
+	w.Values() // panics on a table too large for a value set
+	registry = append(registry, w)
+	sort.SliceStable(registry, func(i, j int) bool { return registry[i].Order < registry[j].Order })
 }
 
 // Lookup returns the waveform called name, or nil.
 func Lookup(name string) *Waveform {
-	for _, w := range catalogue {
+	for _, w := range registry {
 		if w.Name == name {
 			return w
 		}
@@ -85,12 +66,12 @@ func Lookup(name string) *Waveform {
 }
 
 // Catalogue lists every waveform in documentation order.
-func Catalogue() []*Waveform { return catalogue }
+func Catalogue() []*Waveform { return registry }
 
 // Names returns the waveform names, sorted.
 func Names() []string {
 	var names []string
-	for _, w := range catalogue {
+	for _, w := range registry {
 		names = append(names, w.Name)
 	}
 	sort.Strings(names)
@@ -101,7 +82,7 @@ func Names() []string {
 // parameter key.
 func Taking(key string) []string {
 	var out []string
-	for _, w := range catalogue {
+	for _, w := range registry {
 		if w.Param(key) != nil || w.Word(key) != nil {
 			out = append(out, w.Name)
 		}

@@ -7,6 +7,32 @@ import (
 	"zapnet/devices/spec"
 )
 
+func init() {
+	Register(&Waveform{Name: "tlp", Unit: spec.Ampere, Level: 8,
+		Summary: "transmission-line pulse: trapezoid from a 50 Ω source, level = current into a short",
+		Table: spec.Table{Params: []spec.Param{
+			spec.Default("width", spec.Second, spec.Positive, tlpWidth),
+			spec.Default("rise", spec.Second, spec.Positive, tlpRise),
+		}},
+		build:  newTLP,
+		Order:  60,
+		checks: checksTLP,
+	})
+}
+
+func init() {
+	Register(&Waveform{Name: "eft", Unit: spec.Volt, Level: 1000,
+		Summary: "IEC 61000-4-4 5/50 ns fast transient (or a burst) from a 50 Ω source",
+		Table: spec.Table{Params: []spec.Param{
+			spec.Default("count", spec.Dimensionless, spec.Count, 1),
+			spec.Default("rate", spec.Hertz, spec.Positive, eftRate),
+		}},
+		build: newEFT,
+		Order: 70, Load: eftR,
+		checks: checksEFT,
+	})
+}
+
 // Transmission-line pulse (ANSI/ESD STM5.5.1) [pub]: a 50 Ω system, 100 ns
 // pulse, rise 0.2–10 ns.
 const (
@@ -115,4 +141,58 @@ func newEFT(level float64, v *spec.Values) (*Stimulus, error) {
 		Breakpoints: bp,
 		Stop:        float64(count-1)*period + eftTail,
 	}, nil
+}
+
+// checksTLP: the current into the load averaged over 70–90 % of the pulse
+// width [pub: STM5.5.1's averaging window], against the level scaled by the
+// 50 Ω divider [calc] within ±1 % [practice]; the width at half maximum
+// against the width asked for (±1 % [practice]); the 10–90 % rise inside
+// STM5.5.1's 0.2–10 ns [pub].
+func checksTLP(s *Stimulus, load float64) []Check {
+	width := s.Breakpoints[2]
+	sh := measured(s, load, s.Stop, false)
+	pv, _ := sh.peak()
+	a, b := 0.7*width, 0.9*width
+	var wt, wy []float64
+	for k, x := range sh.t {
+		if x > a && x < b {
+			wt, wy = append(wt, x), append(wy, sh.y[k])
+		}
+	}
+	wt = append(append([]float64{a}, wt...), b)
+	wy = append(append([]float64{sh.g(a)}, wy...), sh.g(b))
+	avg := Integral(wt, wy) / (b - a)
+	fwhm := WidthAbove(sh.t, sh.y, 0.5*pv)
+	rise := sh.riseCross(0.9*pv) - sh.riseCross(0.1*pv)
+	ref := "ANSI/ESD STM5.5.1, 50 Ω system"
+	return []Check{
+		rel("current, 70-90 % avg", "A", avg, s.Level*tlpR/(tlpR+load), 0.01, "[calc]", ref+"; level is the current into a short"),
+		rel("width at half max", "s", fwhm, width, 0.01, "[practice]", "the width asked for (parameter width)"),
+		window("rise 10-90 %", "s", rise, 0.2e-9, 10e-9, "0.2-10 ns", "[pub]", ref),
+	}
+}
+
+// checksEFT: the first pulse into the load (50 Ω by default): peak
+// level·load/(50 Ω + load) ±10 % (half the open-circuit level into 50 Ω
+// [mem]), rise 5 ns ±30 % and width at half maximum 50 ns ±30 %
+// [pub: IEC 61000-4-4].
+func checksEFT(s *Stimulus, load float64) []Check {
+	ref := "IEC 61000-4-4, into 50 Ω"
+	// Into a short there is no voltage: check the current instead.
+	q, unit, want := "peak voltage", "V", s.Level
+	if !math.IsInf(load, 1) {
+		want = s.Level * load / (eftR + load)
+	}
+	if load == 0 {
+		q, unit, want = "peak current", "A", s.Level/eftR
+	}
+	sh := measured(s, load, eftTail, load != 0)
+	pv, _ := sh.peak()
+	rise := sh.riseCross(0.9*pv) - sh.riseCross(0.1*pv)
+	width := WidthAbove(sh.t, sh.y, 0.5*pv)
+	return []Check{
+		rel(q, unit, pv, want, 0.10, "[mem]", ref),
+		rel("rise 10-90 %", "s", rise, 5e-9, 0.30, "[pub]", ref),
+		rel("width at half max", "s", width, 50e-9, 0.30, "[pub]", ref),
+	}
 }

@@ -13,6 +13,15 @@ import (
 	"zapnet/devices/spec"
 )
 
+func init() {
+	Register(&Waveform{Name: "pwl", Unit: spec.Dimensionless, Level: 1,
+		Summary: "piecewise-linear current from a CSV file (time,current), scaled by the level",
+		Table:   spec.Table{Words: []spec.Word{{Key: "file", Path: true, Fixed: true}}},
+		build:   newPWL,
+		Order:   80,
+	})
+}
+
 // newPWL reads a piecewise-linear current from the CSV file str["file"]:
 // rows "time,current" in seconds and amperes (plain decimal numbers, no SI
 // prefixes), an optional header line first, blank lines and lines starting
