@@ -161,7 +161,7 @@ func (d *Pin) Eval(c *Context) {
 }
 
 // Probes implements Prober.
-func (d *Pin) Probes() []string { return []string{"ipath"} }
+func (d *Pin) Probes() []Probe { return []Probe{{Name: "ipath", Unit: spec.Ampere}} }
 
 // Probe implements Prober: dst[0] is ipath at the solution x.
 func (d *Pin) Probe(x []float64, dst []float64) {

@@ -23,7 +23,7 @@ type Bench struct {
 	strike *netlist.Element
 	nodes  []string // System.Nodes
 	elems  []string // System.Elements
-	probes []string // System.Probes
+	probes []devices.Probe // System.Probes
 	strIdx int      // the strike among elems
 
 	// Streaming measurements, reset before every solve and fed by observe.
@@ -70,7 +70,10 @@ func NewBench(c *netlist.Circuit, v netlist.Variant) (*Bench, error) {
 		nodes: sys.Nodes(), elems: sys.Elements(), probes: sys.Probes(), strIdx: -1}
 	nodeIdx := indexOf(b.nodes)
 	elemIdx := indexOf(b.elems)
-	probeIdx := indexOf(b.probes)
+	probeIdx := map[string]int{}
+	for i, p := range b.probes {
+		probeIdx[p.Name] = i
+	}
 	node := func(n string) int {
 		if i, ok := nodeIdx[n]; ok && n != netlist.Ground {
 			return i
@@ -501,7 +504,7 @@ func ratingKeys() []string {
 
 // waves copies the recorded waveforms of res into the study's shape.
 func (b *Bench) waves(res *mna.Result) *Waves {
-	w := &Waves{Time: res.Time, Nodes: b.nodes, V: res.V, Probes: b.probes, P: res.P}
+	w := &Waves{Time: res.Time, Nodes: b.nodes, V: res.V, Probes: b.probes, P: res.P, StrikeName: b.strike.Name}
 	for i, name := range b.elems {
 		if i == b.strIdx {
 			// The engine reports the current into the strike's first

@@ -1,6 +1,7 @@
 package study
 
 import (
+	"zapnet/devices"
 	"zapnet/devices/spec"
 	"zapnet/mna"
 	"zapnet/netlist"
@@ -260,7 +261,10 @@ type Waves struct {
 	V        [][]float64 // V[node][k], V
 	Elements []string    // elements, the strike excluded, in deck order
 	I        [][]float64 // I[element][k]: current into its first terminal, A
-	Probes   []string    // "ELEMENT.probe"
-	P        [][]float64 // P[probe][k]
-	Strike   []float64   // current the strike injects into its node, A
+	Probes   []devices.Probe // named "ELEMENT.probe", with their units
+	P        [][]float64     // P[probe][k]
+	// Strike is the current the strike injects into its node, A, and
+	// StrikeName the strike's name.
+	Strike     []float64
+	StrikeName string
 }
