@@ -21,10 +21,10 @@ type Bench struct {
 
 	sys    *mna.System
 	strike *netlist.Element
-	nodes  []string // System.Nodes
-	elems  []string // System.Elements
+	nodes  []string        // System.Nodes
+	elems  []string        // System.Elements
 	probes []devices.Probe // System.Probes
-	strIdx int      // the strike among elems
+	strIdx int             // the strike among elems
 
 	// Streaming measurements, reset before every solve and fed by observe.
 	first   bool

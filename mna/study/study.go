@@ -257,10 +257,10 @@ type WindowInfo struct {
 // accepted time points.
 type Waves struct {
 	Time     []float64
-	Nodes    []string    // circuit nodes (internal nodes excluded)
-	V        [][]float64 // V[node][k], V
-	Elements []string    // elements, the strike excluded, in deck order
-	I        [][]float64 // I[element][k]: current into its first terminal, A
+	Nodes    []string        // circuit nodes (internal nodes excluded)
+	V        [][]float64     // V[node][k], V
+	Elements []string        // elements, the strike excluded, in deck order
+	I        [][]float64     // I[element][k]: current into its first terminal, A
 	Probes   []devices.Probe // named "ELEMENT.probe", with their units
 	P        [][]float64     // P[probe][k]
 	// Strike is the current the strike injects into its node, A, and
