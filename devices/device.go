@@ -163,6 +163,14 @@ func (c *Context) Capacitance(k, a, b int, q, cap float64) {
 	c.ChargeDeriv(k, b, -cap)
 }
 
+// at is x[i], 0 for Ground: a probe reads a solution outside Eval.
+func at(x []float64, i int) float64 {
+	if i < 0 {
+		return 0
+	}
+	return x[i]
+}
+
 // Probe names one internal quantity of a device and its unit.
 type Probe struct {
 	Name string // "ipath"; the engine reports it as "ELEMENT.ipath"

@@ -269,6 +269,7 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.pt = Point{
 		V: make([]float64, len(s.nodeNames)),
 		I: make([]float64, len(s.devs)),
+		W: make([]float64, len(s.devs)),
 		P: make([]float64, nProbe),
 	}
 	s.ctx = devices.Context{
