@@ -93,6 +93,9 @@ A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 		v.FillDefaults()
 		opt.params = &v
 	}
+	out := newOutputs()
+	out.file("--csv", opt.csv)
+	errs = append(errs, out.err())
 	if err := errors.Join(errs...); err != nil {
 		return fmt.Errorf("waveform: %w", err)
 	}
