@@ -1,0 +1,293 @@
+package signal
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"math/cmplx"
+	"strconv"
+
+	"zapnet/mna"
+	"zapnet/netlist"
+)
+
+// FromCircuit builds the request a deck describes: the drive at the
+// strike's node, a target for every watched node and every protected pin
+// (one per node, in deck order), the impedance of every bead and capacitor,
+// and as damping candidates every capacitor's esr, bead's rdc and
+// inductor's r.
+func FromCircuit(c *netlist.Circuit) (*Request, error) {
+	st := c.Strike()
+	if st == nil {
+		return nil, errors.New("the deck has no strike: its node is where the small-signal drive sits")
+	}
+	r := &Request{Drive: mna.Pair{Node: st.Nodes[0], Ref: st.Nodes[1]}}
+	seen := map[string]int{}
+	add := func(t Target) {
+		if k, ok := seen[t.Name]; ok {
+			if t.Pin != "" && r.Targets[k].Pin == "" {
+				r.Targets[k].Pin, r.Targets[k].Pair = t.Pin, t.Pair
+			}
+			return
+		}
+		seen[t.Name] = len(r.Targets)
+		r.Targets = append(r.Targets, t)
+	}
+	for _, w := range c.Watches {
+		add(Target{Name: w.Node, Pair: mna.Pair{Node: w.Node}})
+	}
+	for _, e := range c.Elements {
+		switch e.Kind {
+		case netlist.Pin:
+			add(Target{Name: e.Nodes[0], Pair: mna.Pair{Node: e.Nodes[0], Ref: e.Nodes[1]}, Pin: e.Name})
+		case netlist.Bead:
+			r.Elements = append(r.Elements, e.Name)
+			r.Knobs = append(r.Knobs, Knob{Element: e.Name, Param: "rdc", Value: e.GetOr("rdc", 0)})
+		case netlist.Capacitor:
+			r.Elements = append(r.Elements, e.Name)
+			r.Knobs = append(r.Knobs, Knob{Element: e.Name, Param: "esr", Value: e.GetOr("esr", 0)})
+		case netlist.Inductor:
+			r.Knobs = append(r.Knobs, Knob{Element: e.Name, Param: "r", Value: e.GetOr("r", 0)})
+		}
+	}
+	return r, nil
+}
+
+// linearize compiles c and linearises it at its operating point.
+func linearize(c *netlist.Circuit, set *mna.Settings) (*mna.AC, error) {
+	sys, err := mna.Compile(c)
+	if err != nil {
+		return nil, err
+	}
+	return sys.Linearize(set)
+}
+
+// Analyse runs the analysis req describes on the circuit c.
+func Analyse(c *netlist.Circuit, req *Request, opt *Options) (*Result, error) {
+	o := opt.withDefaults()
+	if !(o.To > o.From) {
+		return nil, fmt.Errorf("the sweep must rise: from %s to %s", netlist.FormatSI(o.From, "Hz"), netlist.FormatSI(o.To, "Hz"))
+	}
+	a, err := linearize(c, o.Settings)
+	if err != nil {
+		return nil, err
+	}
+	freq := mna.LogFrequencies(o.From, o.To, o.PerDecade)
+	outs := make([]mna.Pair, len(req.Targets))
+	for k, t := range req.Targets {
+		outs[k] = t.Pair
+	}
+	zin, h, err := a.Sweep(freq, req.Drive, req.Ports, outs)
+	if err != nil {
+		return nil, err
+	}
+	bias := func(p mna.Pair) float64 {
+		v := map[string]float64{}
+		for i, n := range a.Nodes() {
+			v[n] = a.OperatingPoint()[i]
+		}
+		return v[p.Node] - v[p.Ref]
+	}
+	res := &Result{
+		Drive:     Drive{Node: req.Drive.Node, Ref: refName(req.Drive.Ref), Bias: bias(req.Drive)},
+		Freq:      freq,
+		Nodes:     map[string]*Transfer{},
+		Impedance: impedance(freq, zin),
+		Elements:  map[string]*Impedance{},
+		Peaking:   []Peaking{},
+		Loading:   []Loading{},
+	}
+	for k, t := range req.Targets {
+		tr := &Transfer{Freq: freq, H: h[k], Bias: bias(t.Pair)}
+		for _, v := range h[k] {
+			tr.GainDB = append(tr.GainDB, db(v))
+			tr.PhaseDeg = append(tr.PhaseDeg, deg(v))
+		}
+		res.Nodes[t.Name] = tr
+		res.Order = append(res.Order, t.Name)
+	}
+	for _, name := range req.Elements {
+		z := make([]complex128, len(freq))
+		for k, f := range freq {
+			if z[k], err = a.ElementImpedance(name, f); err != nil {
+				return nil, err
+			}
+		}
+		res.Elements[name] = impedance(freq, z)
+	}
+	for k, t := range req.Targets {
+		p, ok, err := peaking(a, freq, req, t.Pair, h[k])
+		if err != nil {
+			return nil, err
+		}
+		if !ok {
+			continue
+		}
+		lim := t.PeakingDB
+		if lim <= 0 {
+			lim = DefaultPeakingDB
+		}
+		pk := Peaking{Node: t.Name, GainDB: p.RiseDB, PeakGainDB: 20 * math.Log10(p.Gain), Freq: p.Freq,
+			Q: p.Q, LimitDB: lim, Exceeds: p.RiseDB > lim, AtEnd: p.AtEnd}
+		if pk.Exceeds && !o.NoDamping {
+			if pk.Damping, err = damping(c, req, &o, freq, t, lim); err != nil {
+				return nil, err
+			}
+		}
+		res.Peaking = append(res.Peaking, pk)
+	}
+	for _, t := range req.Targets {
+		tot, per, err := a.NodeCapacitance(t.Pair, o.LoadingFreq)
+		if err != nil {
+			return nil, err
+		}
+		l := Loading{Node: t.Name, Freq: o.LoadingFreq, Capacitance: tot, Limit: t.CMax,
+			Exceeds: t.CMax > 0 && tot > t.CMax, Elements: []ElementCap{}}
+		for _, e := range per {
+			l.Elements = append(l.Elements, ElementCap{Element: e.Element, Capacitance: e.C})
+		}
+		res.Loading = append(res.Loading, l)
+	}
+	if len(req.Ports) == 2 {
+		p := [2]mna.Port{req.Ports[0], req.Ports[1]}
+		tp := &TwoPort{Ports: [2]string{p[0].Name, p[1].Name}, Z0: [2]float64{p[0].Z0, p[1].Z0}, Freq: freq}
+		for _, f := range freq {
+			s, err := a.TwoPort(f, p)
+			if err != nil {
+				return nil, err
+			}
+			tp.S = append(tp.S, s)
+			tp.S11DB, tp.S11Deg = append(tp.S11DB, db(s[0][0])), append(tp.S11Deg, deg(s[0][0]))
+			tp.S21DB, tp.S21Deg = append(tp.S21DB, db(s[1][0])), append(tp.S21Deg, deg(s[1][0]))
+			tp.S12DB, tp.S12Deg = append(tp.S12DB, db(s[0][1])), append(tp.S12Deg, deg(s[0][1]))
+			tp.S22DB, tp.S22Deg = append(tp.S22DB, db(s[1][1])), append(tp.S22Deg, deg(s[1][1]))
+		}
+		res.TwoPort = tp
+	}
+	return res, nil
+}
+
+func refName(r string) string {
+	if r == "" {
+		return netlist.Ground
+	}
+	return r
+}
+
+func db(v complex128) float64  { return 20 * math.Log10(cmplx.Abs(v)) }
+func deg(v complex128) float64 { return cmplx.Phase(v) * 180 / math.Pi }
+
+func impedance(freq []float64, z []complex128) *Impedance {
+	im := &Impedance{Freq: freq, Z: z}
+	for _, v := range z {
+		im.MagOhm = append(im.MagOhm, cmplx.Abs(v))
+		im.PhaseDeg = append(im.PhaseDeg, deg(v))
+	}
+	return im
+}
+
+// peaking finds the largest rise of the transfer h to out above its value
+// at the sweep's lowest frequency, refining with further solves.
+func peaking(a *mna.AC, freq []float64, req *Request, out mna.Pair, h []complex128) (mna.Peaking, bool, error) {
+	mag := make([]float64, len(h))
+	for k, v := range h {
+		mag[k] = cmplx.Abs(v)
+	}
+	one := []mna.Pair{out}
+	hk := make([]complex128, 1)
+	return mna.FindPeaking(freq, mag, func(f float64) (float64, error) {
+		_, err := a.Response(f, req.Drive, req.Ports, one, hk)
+		return cmplx.Abs(hk[0]), err
+	})
+}
+
+// Damping search bounds, Ω: a resistance below dampLow damps nothing a
+// protection network can show, one above dampHigh is no longer a
+// parasitic to adjust.
+const (
+	dampLow  = 1e-3
+	dampHigh = 1e3
+)
+
+// damping finds, for each knob alone, the smallest value that brings the
+// peaking of target t under lim, by bisection on log(value) between the
+// knob's present value (at least dampLow) and dampHigh, solving the circuit
+// again at each trial. A knob that cannot do it within dampHigh is left
+// out. The value is rounded up to two significant figures, and the
+// peaking reported is the one at that value.
+func damping(c *netlist.Circuit, req *Request, o *Options, freq []float64, t Target, lim float64) ([]Damping, error) {
+	rise := func(k Knob, v float64) (float64, error) {
+		x, err := c.With(netlist.Setting{Element: k.Element, Param: k.Param, Value: strconv.FormatFloat(v, 'g', -1, 64)})
+		if err != nil {
+			return 0, err
+		}
+		a, err := linearize(x, o.Settings)
+		if err != nil {
+			return 0, err
+		}
+		_, h, err := a.Sweep(freq, req.Drive, req.Ports, []mna.Pair{t.Pair})
+		if err != nil {
+			return 0, err
+		}
+		p, ok, err := peaking(a, freq, req, t.Pair, h[0])
+		if err != nil || !ok {
+			return 0, err
+		}
+		return p.RiseDB, nil
+	}
+	var out []Damping
+	for _, k := range req.Knobs {
+		lo := max(k.Value, dampLow)
+		hi := dampHigh
+		if hi <= lo {
+			continue
+		}
+		r, err := rise(k, hi)
+		if err != nil {
+			return nil, err
+		}
+		if r > lim {
+			continue
+		}
+		if r, err = rise(k, lo); err != nil {
+			return nil, err
+		}
+		if r <= lim {
+			// Already under at the floor of the search (a present value
+			// below dampLow): dampLow is the answer.
+			out = append(out, Damping{Element: k.Element, Param: k.Param, From: k.Value, Value: lo, GainDB: r})
+			continue
+		}
+		for hi/lo > 1.005 {
+			mid := math.Sqrt(lo * hi)
+			r, err := rise(k, mid)
+			if err != nil {
+				return nil, err
+			}
+			if r > lim {
+				lo = mid
+			} else {
+				hi = mid
+			}
+		}
+		v := roundUp2(hi)
+		r, err = rise(k, v)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, Damping{Element: k.Element, Param: k.Param, From: k.Value, Value: v, GainDB: r})
+	}
+	return out, nil
+}
+
+// roundUp2 rounds v > 0 up to two significant figures.
+func roundUp2(v float64) float64 {
+	e := math.Pow(10, math.Floor(math.Log10(v))-1)
+	r := math.Ceil(v/e-1e-9) * e
+	// Undo the representation error of the product (0.42 not 0.42000000000000004).
+	x, _ := strconv.ParseFloat(strconv.FormatFloat(r, 'g', 2, 64), 64)
+	if x < v {
+		return r
+	}
+	return x
+}
