@@ -520,21 +520,29 @@ func (a *AC) NodeCapacitance(p Pair, f float64) (total float64, per []ElementCap
 	return total, per, nil
 }
 
-// LogFrequencies is a log-spaced sweep from from to to (Hz) with perDecade
-// points a decade, both ends included.
+// LogFrequencies is a log sweep from from to to (Hz) with perDecade
+// points a decade on a grid aligned to the decades, 10^(m/perDecade), so
+// that every decade (and with 10 or 20 a decade every 2-5 step, nearly)
+// is a point of its own; from and to are added when they are off the grid,
+// unless a grid point lies within 1e-9 of them.
 func LogFrequencies(from, to float64, perDecade int) []float64 {
-	if !(from > 0) || !(to >= from) || perDecade < 1 {
-		panic("mna: LogFrequencies: need 0 < from ≤ to and perDecade ≥ 1")
+	if !(from > 0) || !(to >= from) || math.IsInf(to, 0) || perDecade < 1 {
+		panic("mna: LogFrequencies: need 0 < from ≤ to < ∞ and perDecade ≥ 1")
 	}
-	decades := math.Log10(to / from)
-	k := int(math.Ceil(decades*float64(perDecade) - 1e-9))
-	if k < 1 {
-		return []float64{from}
+	n := float64(perDecade)
+	lo := int(math.Ceil(math.Log10(from)*n - 1e-9))
+	hi := int(math.Floor(math.Log10(to)*n + 1e-9))
+	f := []float64{from}
+	for m := lo; m <= hi; m++ {
+		v := math.Pow(10, float64(m)/n)
+		if v/f[len(f)-1]-1 > 1e-9 && 1-v/to > -1e-9 {
+			f = append(f, v)
+		} else if math.Abs(v/f[len(f)-1]-1) <= 1e-9 {
+			f[len(f)-1] = v
+		}
 	}
-	f := make([]float64, k+1)
-	for i := range f {
-		f[i] = from * math.Pow(10, decades*float64(i)/float64(k))
+	if to/f[len(f)-1]-1 > 1e-9 {
+		f = append(f, to)
 	}
-	f[k] = to
 	return f
 }

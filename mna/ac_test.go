@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/cmplx"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
@@ -490,19 +491,33 @@ func TestACDriveAtSupply(t *testing.T) {
 	t.Log(err)
 }
 
+// The sweep lies on a grid aligned to the decades: from 10 kHz to 6 GHz at
+// 10 a decade, 10 kHz, 12.59 kHz, ... 5.012 GHz, then 6 GHz.
 func TestLogFrequencies(t *testing.T) {
 	f := LogFrequencies(10e3, 6e9, 10)
 	if f[0] != 10e3 || f[len(f)-1] != 6e9 {
 		t.Errorf("ends %g, %g", f[0], f[len(f)-1])
 	}
-	// 5.78 decades at 10 a decade: 58 intervals.
+	// 10^4 … 10^9.7 is 58 points, and 6 GHz.
 	if len(f) != 59 {
 		t.Errorf("%d points, want 59", len(f))
 	}
-	for k := 1; k < len(f); k++ {
-		if r := math.Log10(f[k] / f[k-1]); math.Abs(r-math.Log10(6e9/10e3)/58) > 1e-12 {
+	for k := 1; k < len(f)-1; k++ {
+		if r := math.Log10(f[k] / f[k-1]); math.Abs(r-0.1) > 1e-12 {
 			t.Fatalf("uneven spacing at %d: %g", k, r)
 		}
+	}
+	for _, d := range []float64{1e5, 1e6, 1e7, 1e8, 1e9} {
+		if !slices.Contains(f, d) {
+			t.Errorf("the decade %g is not a point of the sweep", d)
+		}
+	}
+	// Ends off the grid are added; a single frequency is one point.
+	if g := LogFrequencies(15e3, 15e3, 20); len(g) != 1 || g[0] != 15e3 {
+		t.Errorf("one frequency: %v", g)
+	}
+	if g := LogFrequencies(15e3, 30e3, 1); len(g) != 2 || g[0] != 15e3 || g[1] != 30e3 {
+		t.Errorf("no grid point inside: %v", g)
 	}
 }
 

@@ -40,16 +40,18 @@ KB = 1.380649e-23
 QE = 1.602176634e-19
 VT = KB * 300.0 / QE
 
-# The sweep: 10 kHz to 6 GHz, ten points a decade, both ends included.
+# The sweep: 10 kHz to 6 GHz on a grid of ten points a decade aligned to the
+# decades (10^(m/10)), and 6 GHz.
 F_FROM, F_TO, PER_DECADE = 10e3, 6e9, 10
 
 
 def sweep():
-    decades = math.log10(F_TO / F_FROM)
-    k = math.ceil(decades * PER_DECADE - 1e-9)
-    f = F_FROM * 10.0 ** (decades * np.arange(k + 1) / k)
-    f[-1] = F_TO
-    return f
+    lo = math.ceil(math.log10(F_FROM) * PER_DECADE - 1e-9)
+    hi = math.floor(math.log10(F_TO) * PER_DECADE + 1e-9)
+    f = [10.0 ** (m / PER_DECADE) for m in range(lo, hi + 1)]
+    if F_TO / f[-1] - 1 > 1e-9:
+        f.append(F_TO)
+    return np.array(f)
 
 
 # ---------------------------------------------------------------------------
