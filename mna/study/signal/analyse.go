@@ -96,6 +96,7 @@ func Analyse(c *netlist.Circuit, req *Request, opt *Options) (*Result, error) {
 		Elements:  map[string]*Impedance{},
 		Peaking:   []Peaking{},
 		Loading:   []Loading{},
+		Edges:     []Edge{},
 	}
 	for k, t := range req.Targets {
 		tr := &Transfer{Freq: freq, H: h[k], Bias: bias(t.Pair)}
@@ -114,6 +115,7 @@ func Analyse(c *netlist.Circuit, req *Request, opt *Options) (*Result, error) {
 			}
 		}
 		res.Elements[name] = impedance(freq, z)
+		res.ElementOrder = append(res.ElementOrder, name)
 	}
 	for k, t := range req.Targets {
 		p, ok, err := peaking(a, freq, req, t.Pair, h[k])

@@ -113,8 +113,54 @@ type Result struct {
 	Peaking   []Peaking             `json:"peaking"`
 	Loading   []Loading             `json:"loading"`
 	TwoPort   *TwoPort              `json:"two_port,omitempty"`
-	// Order lists the targets in request order (maps have none).
-	Order []string `json:"-"`
+	Edges     []Edge                `json:"edges"`
+	// Order lists the targets in request order, ElementOrder the
+	// elements (maps have none).
+	Order        []string `json:"-"`
+	ElementOrder []string `json:"-"`
+}
+
+// Exceeded reports whether any limit was exceeded: a peaking, a
+// capacitance or an edge's rise.
+func (r *Result) Exceeded() bool {
+	for _, p := range r.Peaking {
+		if p.Exceeds {
+			return true
+		}
+	}
+	for _, l := range r.Loading {
+		if l.Exceeds {
+			return true
+		}
+	}
+	for _, e := range r.Edges {
+		if e.Exceeds {
+			return true
+		}
+	}
+	return false
+}
+
+// Edge is the edge check: a step from one port through the network to
+// another, solved in the transient engine (nonlinear junction charge
+// included), and its 10–90 % rise at the far port.
+type Edge struct {
+	From  string  `json:"from"`  // the driven port
+	To    string  `json:"to"`    // the port whose node is measured
+	Node  string  `json:"node"`  // that port's node
+	Level float64 `json:"level"` // the step's open-circuit amplitude, V
+	Step  float64 `json:"step"`  // the step's own 10–90 % rise, s
+	// Rise is the 10–90 % rise at the far port, between its operating
+	// point and its final value, s.
+	Rise float64 `json:"rise"`
+	// Added is what the network adds to the step's own rise,
+	// √(Rise² − Step²) [practice: rise times of cascaded stages add
+	// roughly as the root of the sum of squares], s.
+	Added float64 `json:"added"`
+	// Delay is from the step's 50 % to the far port's 50 %, s.
+	Delay   float64 `json:"delay"`
+	Limit   float64 `json:"limit,omitempty"` // on Rise, s; zero: none
+	Exceeds bool    `json:"exceeds"`
 }
 
 // Drive is where the small-signal source sits and its operating point.
