@@ -1,6 +1,9 @@
 package devices
 
-import "zapnet/waveforms"
+import (
+	"zapnet/devices/spec"
+	"zapnet/waveforms"
+)
 
 // Port is a signal port between node and ref with a real impedance z0:
 // where a signal enters or leaves the protected line. It stamps nothing
@@ -16,6 +19,18 @@ type Port struct {
 	a, b int
 	mode portMode
 	st   *waveforms.Stimulus
+}
+
+func init() {
+	Register(&Kind{Kind: spec.Kind{
+		Name: "port", Summary: "a signal port (small-signal study and edge check only): where a signal enters or leaves, with its impedance",
+		Terminals: [2]string{"node", "ref"}, Role: spec.Port, Order: 95, DC: spec.Blocks,
+		Table: spec.Table{Params: []spec.Param{
+			spec.Default("z0", spec.Ohm, spec.Positive, 50),
+		}},
+	}, New: func(name string, nodes [2]string, v *spec.Values) (Device, error) {
+		return NewPort(name, nodes, v.Num("z0")), nil
+	}})
 }
 
 type portMode int

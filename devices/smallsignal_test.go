@@ -4,8 +4,6 @@ import (
 	"math"
 	"math/cmplx"
 	"testing"
-
-	"zapnet/netlist"
 )
 
 // [pub: transmission-line theory, e.g. Pozar, Microwave Engineering, the
@@ -15,7 +13,7 @@ import (
 // the wire of the operating point.
 func TestLineStampACIsTheTwoPort(t *testing.T) {
 	const z0, delay = 75.0, 1.3e-9
-	d := nlMust(t, nlElement(netlist.Line, "TL1", "in", "out", map[string]float64{"z0": z0, "delay": delay}, nil)).(*Line)
+	d := nlMust(t, nlElement("line", "TL1", "in", "out", map[string]float64{"z0": z0, "delay": delay}, nil)).(*Line)
 	d.Bind(Nodes{Terminals: []int{0, 1}, Branches: []int{2}})
 	c := ACContext{Y: make([]complex128, 9), N: 3}
 	for _, f := range []float64{1e5, 0.1e9, 0.3e9, 0.77e9, 2e9} {

@@ -6,8 +6,8 @@ import (
 	"math/cmplx"
 
 	"zapnet/devices"
+	"zapnet/devices/spec"
 	"zapnet/netlist"
-	"zapnet/waveforms"
 )
 
 // AC is a compiled circuit linearised at its DC operating point (strike
@@ -94,7 +94,7 @@ type ACError struct {
 }
 
 func (e *ACError) Error() string {
-	msg := fmt.Sprintf("small-signal solve at %s: %s near %s", netlist.FormatSI(e.Freq, "Hz"), e.Reason, e.Where)
+	msg := fmt.Sprintf("small-signal solve at %s: %s near %s", spec.FormatSI(e.Freq, spec.Hertz), e.Reason, e.Where)
 	if e.Hint != "" {
 		msg += "; " + e.Hint
 	}
@@ -102,19 +102,10 @@ func (e *ACError) Error() string {
 }
 
 // Linearize solves the operating point with the strike off and builds the
-// small-signal system there. The strike's stimulus is restored afterwards,
-// so the System serves transient runs as before.
+// small-signal system there. The System serves transient runs afterwards
+// as before (each Transient sets its own stimulus).
 func (s *System) Linearize(set *Settings) (*AC, error) {
-	if s.striker != nil {
-		saved, sign := s.stim, 1.0
-		if g, ok := s.striker.(interface {
-			Stimulus() (*waveforms.Stimulus, float64)
-		}); ok {
-			_, sign = g.Stimulus()
-		}
-		s.striker.SetStimulus(nil, 0)
-		defer s.striker.SetStimulus(saved, sign)
-	}
+	s.setStimulus(nil, 0)
 	vop, err := s.OperatingPoint(set)
 	if err != nil {
 		return nil, err

@@ -3,7 +3,51 @@ package waveforms
 import (
 	"fmt"
 	"math"
+
+	"zapnet/devices/spec"
 )
+
+func init() {
+	Register(&Waveform{Name: "step", Unit: spec.Volt, Level: 1,
+		Summary: "a signal edge: a linear ramp to the level, then held, from a source resistance r",
+		Table: spec.Table{Params: []spec.Param{
+			spec.Default("rise", spec.Second, spec.Positive, StepRise),
+			spec.Default("r", spec.Ohm, spec.Positive, 50),
+		}},
+		build: func(level float64, v *spec.Values) (*Stimulus, error) {
+			rise := v.Num("rise")
+			return Step(level, rise, v.Num("r"), stepSpan(rise))
+		},
+		Order: 90, Load: math.Inf(1),
+		checks: checksStep,
+	})
+}
+
+// checksStep: into the load (open by default), the settled value is the
+// divider level·load/(r + load) (level/r into a short) and the 10–90 % rise
+// of a linear ramp is 0.8·rise [calc: both from the definition].
+func checksStep(s *Stimulus, load float64) []Check {
+	rise := s.Breakpoints[1]
+	q, unit, want := "settled voltage", "V", s.Level
+	if !math.IsInf(load, 1) {
+		want = s.Level * load / (s.R + load)
+	}
+	if load == 0 {
+		q, unit, want = "settled current", "A", s.Level/s.R
+	}
+	sh := measured(s, load, s.Stop, load != 0)
+	end := sh.y[len(sh.y)-1]
+	got := sh.riseCross(0.9*end) - sh.riseCross(0.1*end)
+	ref := "the step's definition: a linear ramp over rise, then held"
+	return []Check{
+		rel(q, unit, end, want, 1e-6, "[calc]", ref),
+		rel("rise 10-90 %", "s", got, 0.8*rise, 1e-3, "[calc]", ref),
+	}
+}
+
+// stepSpan is a step's default span: long beside its ramp and beside the
+// nanosecond settling of a protected data line.
+func stepSpan(rise float64) float64 { return 10e-9 + 100*rise }
 
 // StepRise is the default ramp of a step, s: short beside the added rise
 // of any protection network worth measuring (0.3 pF on 50 Ω adds 16.5 ps),

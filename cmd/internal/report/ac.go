@@ -2,7 +2,6 @@ package report
 
 import (
 	"encoding/csv"
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -11,21 +10,6 @@ import (
 
 	"zapnet/mna/study/signal"
 )
-
-// ACDocument is the JSON of `zapnet ac`: the signal-side result with the
-// tool and the deck, and the caution.
-type ACDocument struct {
-	Meta
-	*signal.Result
-	Caution string `json:"caution"`
-}
-
-// ACJSON writes the JSON document of a signal-side analysis.
-func ACJSON(w io.Writer, meta Meta, res *signal.Result) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(ACDocument{Meta: meta, Result: res, Caution: Caution})
-}
 
 // tableRows picks the sweep points a table shows: every decade the sweep
 // holds, and its two ends.

@@ -3,12 +3,11 @@ package report
 import (
 	"bytes"
 	"encoding/json"
-	"path/filepath"
 	"strings"
 	"testing"
 
-	"zapnet/cmd/internal/golden"
 	"zapnet/mna"
+	"zapnet/mna/study"
 	"zapnet/mna/study/signal"
 	"zapnet/netlist"
 )
@@ -47,8 +46,13 @@ func TestACTablesGolden(t *testing.T) {
 	if err := ACTables(&b, res, &TableOptions{Title: c.Title, Deck: "rail.zap"}); err != nil {
 		t.Fatal(err)
 	}
-	golden.Check(t, filepath.Join("testdata", "ac-rail.txt"), b.Bytes())
-	if !strings.HasSuffix(b.String(), Caution+"\n") {
+	out := b.String()
+	for _, want := range []string{"Transfer from in", "Peaking above the gain at 1 kHz", "OVER", "Damping", "C1 esr", "Capacitance seen at 1 MHz", "Two-port P1 → P2"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("no %q in the tables:\n%s", want, out)
+		}
+	}
+	if !strings.HasSuffix(out, Caution+"\n") {
 		t.Error("the report does not end with the caution")
 	}
 }
@@ -58,7 +62,7 @@ func TestACTablesGolden(t *testing.T) {
 func TestACJSONFields(t *testing.T) {
 	c, res := acResult(t)
 	var b bytes.Buffer
-	if err := ACJSON(&b, Meta{Tool: "zapnet", Version: "test", Deck: "rail.zap", Title: c.Title}, res); err != nil {
+	if err := EncodeJSON(&b, signal.Document{Meta: study.Meta{Tool: "zapnet", Version: "test", Deck: "rail.zap", Title: c.Title}, Result: res}); err != nil {
 		t.Fatal(err)
 	}
 	var doc struct {
@@ -74,7 +78,6 @@ func TestACJSONFields(t *testing.T) {
 			Freq   float64
 			Q      float64
 		}
-		Caution string
 	}
 	if err := json.Unmarshal(b.Bytes(), &doc); err != nil {
 		t.Fatal(err)
@@ -85,8 +88,5 @@ func TestACJSONFields(t *testing.T) {
 	}
 	if len(doc.Peaking) != 1 || doc.Peaking[0].Node != "out" || !(doc.Peaking[0].GainDB > 3) || doc.Peaking[0].Freq == 0 || doc.Peaking[0].Q == 0 {
 		t.Errorf("peaking: %+v", doc.Peaking)
-	}
-	if doc.Caution != Caution {
-		t.Error("no caution in the JSON")
 	}
 }

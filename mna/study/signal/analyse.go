@@ -7,15 +7,17 @@ import (
 	"math/cmplx"
 	"strconv"
 
+	"zapnet/devices/spec"
 	"zapnet/mna"
 	"zapnet/netlist"
 )
 
 // FromCircuit builds the request a deck describes: the drive at the
-// strike's node, a target for every watched node and every protected pin
-// (one per node, in deck order), the impedance of every bead and capacitor,
-// and as damping candidates every capacitor's esr, bead's rdc and
-// inductor's r.
+// strike's node; a target for every watched node and every protected pin
+// (one per node, in deck order), with the signal-side limits the watch or
+// the pin states (peaking=, cmax=, rise=); the ports (role Port) in deck
+// order; the impedance of every bead and capacitor; and as damping
+// candidates every capacitor's esr, bead's rdc and inductor's r.
 func FromCircuit(c *netlist.Circuit) (*Request, error) {
 	st := c.Strike()
 	if st == nil {
@@ -24,33 +26,56 @@ func FromCircuit(c *netlist.Circuit) (*Request, error) {
 	r := &Request{Drive: mna.Pair{Node: st.Nodes[0], Ref: st.Nodes[1]}}
 	seen := map[string]int{}
 	add := func(t Target) {
-		if k, ok := seen[t.Name]; ok {
-			if t.Pin != "" && r.Targets[k].Pin == "" {
-				r.Targets[k].Pin, r.Targets[k].Pair = t.Pin, t.Pair
-			}
+		k, ok := seen[t.Name]
+		if !ok {
+			seen[t.Name] = len(r.Targets)
+			r.Targets = append(r.Targets, t)
 			return
 		}
-		seen[t.Name] = len(r.Targets)
-		r.Targets = append(r.Targets, t)
+		// A node both watched and a pin's: one target, the pin's voltage,
+		// the tighter of each limit.
+		x := &r.Targets[k]
+		if t.Pin != "" && x.Pin == "" {
+			x.Pin, x.Pair = t.Pin, t.Pair
+		}
+		x.PeakingDB = tighter(x.PeakingDB, t.PeakingDB)
+		x.CMax = tighter(x.CMax, t.CMax)
+		x.Rise = tighter(x.Rise, t.Rise)
 	}
 	for _, w := range c.Watches {
-		add(Target{Name: w.Node, Pair: mna.Pair{Node: w.Node}})
+		add(Target{Name: w.Node, Pair: mna.Pair{Node: w.Node}, PeakingDB: w.Peaking, CMax: w.CMax, Rise: w.Rise})
 	}
 	for _, e := range c.Elements {
-		switch e.Kind {
-		case netlist.Pin:
-			add(Target{Name: e.Nodes[0], Pair: mna.Pair{Node: e.Nodes[0], Ref: e.Nodes[1]}, Pin: e.Name})
-		case netlist.Bead:
+		switch e.Kind.Role {
+		case spec.ProtectedPin:
+			add(Target{Name: e.Nodes[0], Pair: mna.Pair{Node: e.Nodes[0], Ref: e.Nodes[1]}, Pin: e.Name,
+				PeakingDB: e.Values.Num("peaking"), CMax: e.Values.Num("cmax"), Rise: e.Values.Num("rise")})
+		case spec.Port:
+			r.Ports = append(r.Ports, mna.Port{Name: e.Name, Pair: mna.Pair{Node: e.Nodes[0], Ref: e.Nodes[1]}, Z0: e.Values.Num("z0")})
+		}
+		switch e.Kind.Name {
+		case "bead":
 			r.Elements = append(r.Elements, e.Name)
-			r.Knobs = append(r.Knobs, Knob{Element: e.Name, Param: "rdc", Value: e.GetOr("rdc", 0)})
-		case netlist.Capacitor:
+			r.Knobs = append(r.Knobs, Knob{Element: e.Name, Param: "rdc", Value: e.Values.Num("rdc")})
+		case "capacitor":
 			r.Elements = append(r.Elements, e.Name)
-			r.Knobs = append(r.Knobs, Knob{Element: e.Name, Param: "esr", Value: e.GetOr("esr", 0)})
-		case netlist.Inductor:
-			r.Knobs = append(r.Knobs, Knob{Element: e.Name, Param: "r", Value: e.GetOr("r", 0)})
+			r.Knobs = append(r.Knobs, Knob{Element: e.Name, Param: "esr", Value: e.Values.Num("esr")})
+		case "inductor":
+			r.Knobs = append(r.Knobs, Knob{Element: e.Name, Param: "r", Value: e.Values.Num("r")})
 		}
 	}
 	return r, nil
+}
+
+// tighter is the smaller of two limits, zero meaning none.
+func tighter(a, b float64) float64 {
+	switch {
+	case a == 0:
+		return b
+	case b == 0:
+		return a
+	}
+	return min(a, b)
 }
 
 // linearize compiles c and linearises it at its operating point.
@@ -66,7 +91,7 @@ func linearize(c *netlist.Circuit, set *mna.Settings) (*mna.AC, error) {
 func Analyse(c *netlist.Circuit, req *Request, opt *Options) (*Result, error) {
 	o := opt.withDefaults()
 	if !(o.To > o.From) {
-		return nil, fmt.Errorf("the sweep must rise: from %s to %s", netlist.FormatSI(o.From, "Hz"), netlist.FormatSI(o.To, "Hz"))
+		return nil, fmt.Errorf("the sweep must rise: from %s to %s", spec.FormatSI(o.From, spec.Hertz), spec.FormatSI(o.To, spec.Hertz))
 	}
 	a, err := linearize(c, o.Settings)
 	if err != nil {
@@ -219,7 +244,7 @@ const (
 // peaking reported is the one at that value.
 func damping(c *netlist.Circuit, req *Request, o *Options, freq []float64, t Target, lim float64) ([]Damping, error) {
 	rise := func(k Knob, v float64) (float64, error) {
-		x, err := c.With(netlist.Setting{Element: k.Element, Param: k.Param, Value: strconv.FormatFloat(v, 'g', -1, 64)})
+		x, err := c.With(netlist.Setting{Element: k.Element, Param: k.Param, Text: spec.FormatSI(v, spec.Ohm), Num: v})
 		if err != nil {
 			return 0, err
 		}

@@ -5,7 +5,7 @@ import (
 	"strings"
 	"testing"
 
-	"zapnet/netlist"
+	"zapnet/devices/spec"
 )
 
 // The budgets table in README.md and Budgets agree row for row: the README
@@ -39,8 +39,8 @@ func TestBudgetsMatchREADME(t *testing.T) {
 	}
 	for i, b := range Budgets {
 		r := rows[i]
-		if r[0] != "`"+b.Name+"`" || r[2] != netlist.FormatSI(b.CMax, "F") || r[3] != netlist.FormatSI(b.Rise, "s") {
-			t.Errorf("README row %d %q; Budgets has %s, %s, %s", i+1, r, b.Name, netlist.FormatSI(b.CMax, "F"), netlist.FormatSI(b.Rise, "s"))
+		if r[0] != "`"+b.Name+"`" || r[2] != spec.FormatSI(b.CMax, spec.Farad) || r[3] != spec.FormatSI(b.Rise, spec.Second) {
+			t.Errorf("README row %d %q; Budgets has %s, %s, %s", i+1, r, b.Name, spec.FormatSI(b.CMax, spec.Farad), spec.FormatSI(b.Rise, spec.Second))
 		}
 	}
 	if b, ok := LookupBudget("USB2-HS"); !ok || b.CMax != 3e-12 {

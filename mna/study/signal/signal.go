@@ -26,7 +26,15 @@ package signal
 
 import (
 	"zapnet/mna"
+	"zapnet/mna/study"
 )
+
+// Document is the JSON of `zapnet ac` (OUTPUT.md): the tool and the deck,
+// then the result's own fields.
+type Document struct {
+	study.Meta
+	*Result
+}
 
 // Defaults of Options.
 const (
@@ -83,6 +91,9 @@ type Target struct {
 	PeakingDB float64
 	// CMax is the capacitance limit, F; zero: none.
 	CMax float64
+	// Rise is the limit on the 10–90 % rise of the edge check's step
+	// reaching the target, s; zero: none.
+	Rise float64
 }
 
 // Knob is a resistance that may damp a resonance: a capacitor's esr, a
