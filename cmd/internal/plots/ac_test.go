@@ -6,7 +6,6 @@ import (
 	"strings"
 	"testing"
 
-	"zapnet/mna"
 	"zapnet/mna/study/signal"
 	"zapnet/netlist"
 )
@@ -18,6 +17,8 @@ bead FB1 in out l=1.2u rdc=0.3 c=1.7p rac=1.1k
 capacitor C1 out gnd 1u esr=5m esl=0.5n
 pin U1 out gnd cin=5p
 watch out
+port P1 in gnd
+port P2 out gnd z0=50
 `))
 	if err != nil {
 		t.Fatal(err)
@@ -26,7 +27,6 @@ watch out
 	if err != nil {
 		t.Fatal(err)
 	}
-	req.Ports = []mna.Port{{Name: "P1", Pair: mna.Pair{Node: "in"}, Z0: 50}, {Name: "P2", Pair: mna.Pair{Node: "out"}, Z0: 50}}
 	res, err := signal.Analyse(c, req, &signal.Options{NoDamping: true})
 	if err != nil {
 		t.Fatal(err)

@@ -142,12 +142,19 @@ func ACTables(w io.Writer, res *signal.Result, opt *TableOptions) error {
 	}
 
 	if len(res.Loading) > 0 {
-		head := []string{"node", "capacitance", "limit", "result", "elements"}
+		head := []string{"node", "capacitance", "protection adds", "limit", "result", "elements"}
 		var body [][]string
 		for _, l := range res.Loading {
-			lim, result := "-", "-"
+			var lims []string
 			if l.Limit > 0 {
-				lim, result = si(l.Limit, "F"), "within"
+				lims = append(lims, "cmax "+si(l.Limit, "F"))
+			}
+			if l.Budget > 0 {
+				lims = append(lims, "budget "+si(l.Budget, "F")+" on what is added")
+			}
+			lim, result := "-", "-"
+			if len(lims) > 0 {
+				lim, result = strings.Join(lims, "; "), "within"
 				if l.Exceeds {
 					result = "OVER"
 				}
@@ -156,9 +163,9 @@ func ACTables(w io.Writer, res *signal.Result, opt *TableOptions) error {
 			for _, e := range l.Elements {
 				parts = append(parts, e.Element+" "+si(e.Capacitance, "F"))
 			}
-			body = append(body, []string{l.Node, si(l.Capacitance, "F"), lim, result, strings.Join(parts, ", ")})
+			body = append(body, []string{l.Node, si(l.Capacitance, "F"), si(l.Added, "F"), lim, result, strings.Join(parts, ", ")})
 		}
-		section(ew, "Capacitance seen at "+si(res.Loading[0].Freq, "Hz")+" (junctions at their bias)", head, body)
+		section(ew, "Capacitance seen at "+si(res.Loading[0].Freq, "Hz")+" (junctions at their bias; what the protection adds leaves out the protected pins)", head, body)
 	}
 
 	if tp := res.TwoPort; tp != nil {
@@ -173,16 +180,31 @@ func ACTables(w io.Writer, res *signal.Result, opt *TableOptions) error {
 	}
 
 	for _, e := range res.Edges {
-		lim := ""
+		if e.Note == "no edge arrives" {
+			fmt.Fprintf(ew, "Edge %s → %s: no edge arrives at %s.\n", e.From, e.To, e.Node)
+			continue
+		}
+		var lims []string
 		if e.Limit > 0 {
+			lims = append(lims, "rise limit "+si(e.Limit, "s"))
+		}
+		if e.Budget > 0 {
+			lims = append(lims, "budget "+si(e.Budget, "s")+" on what the network adds")
+		}
+		judged := ""
+		if len(lims) > 0 {
 			verdict := "within"
 			if e.Exceeds {
 				verdict = "OVER"
 			}
-			lim = fmt.Sprintf(", limit %s: %s", si(e.Limit, "s"), verdict)
+			judged = "; " + strings.Join(lims, ", ") + ": " + verdict
 		}
-		fmt.Fprintf(ew, "Edge %s → %s: a %s step (%s 10–90 %%) reaches %s with a 10–90 %% rise of %s (the network adds %s), delayed %s%s.\n",
-			e.From, e.To, si(e.Level, "V"), si(e.Step, "s"), e.Node, si(e.Rise, "s"), si(e.Added, "s"), si(e.Delay, "s"), lim)
+		note := ""
+		if e.Note != "" {
+			note = " (" + e.Note + ")"
+		}
+		fmt.Fprintf(ew, "Edge %s → %s: a %s step (%s 10–90 %%) reaches %s with a 10–90 %% rise of %s (the network adds %s), delayed %s%s%s.\n",
+			e.From, e.To, si(e.Level, "V"), si(e.Step, "s"), e.Node, si(e.Rise, "s"), si(e.Added, "s"), si(e.Delay, "s"), judged, note)
 	}
 	if len(res.Edges) > 0 {
 		fmt.Fprintln(ew)

@@ -6,7 +6,6 @@ import (
 	"strings"
 	"testing"
 
-	"zapnet/mna"
 	"zapnet/mna/study"
 	"zapnet/mna/study/signal"
 	"zapnet/netlist"
@@ -23,6 +22,8 @@ bead FB1 in out l=1.2u rdc=0.3 c=1.7p rac=1.1k
 capacitor C1 out gnd 1u esr=5m esl=0.5n
 pin U1 out gnd cin=5p
 watch out
+port P1 in gnd
+port P2 out gnd z0=50
 `))
 	if err != nil {
 		t.Fatal(err)
@@ -32,7 +33,6 @@ watch out
 		t.Fatal(err)
 	}
 	req.Targets[0].CMax = 1e-9
-	req.Ports = []mna.Port{{Name: "P1", Pair: mna.Pair{Node: "in"}, Z0: 50}, {Name: "P2", Pair: mna.Pair{Node: "out"}, Z0: 50}}
 	res, err := signal.Analyse(c, req, &signal.Options{From: 1e3, To: 1e9, PerDecade: 10})
 	if err != nil {
 		t.Fatal(err)
@@ -40,7 +40,7 @@ watch out
 	return c, res
 }
 
-func TestACTablesGolden(t *testing.T) {
+func TestACTables(t *testing.T) {
 	c, res := acResult(t)
 	var b bytes.Buffer
 	if err := ACTables(&b, res, &TableOptions{Title: c.Title, Deck: "rail.zap"}); err != nil {

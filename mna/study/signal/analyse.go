@@ -163,16 +163,26 @@ func Analyse(c *netlist.Circuit, req *Request, opt *Options) (*Result, error) {
 		}
 		res.Peaking = append(res.Peaking, pk)
 	}
+	pins := map[string]bool{}
+	for _, t := range req.Targets {
+		if t.Pin != "" {
+			pins[t.Pin] = true
+		}
+	}
 	for _, t := range req.Targets {
 		tot, per, err := a.NodeCapacitance(t.Pair, o.LoadingFreq)
 		if err != nil {
 			return nil, err
 		}
-		l := Loading{Node: t.Name, Freq: o.LoadingFreq, Capacitance: tot, Limit: t.CMax,
-			Exceeds: t.CMax > 0 && tot > t.CMax, Elements: []ElementCap{}}
+		l := Loading{Node: t.Name, Freq: o.LoadingFreq, Capacitance: tot, Added: tot, Limit: t.CMax,
+			Budget: o.CBudget, Elements: []ElementCap{}}
 		for _, e := range per {
 			l.Elements = append(l.Elements, ElementCap{Element: e.Element, Capacitance: e.C})
+			if pins[e.Element] {
+				l.Added -= e.C
+			}
 		}
+		l.Exceeds = (l.Limit > 0 && l.Capacitance > l.Limit) || (l.Budget > 0 && l.Added > l.Budget)
 		res.Loading = append(res.Loading, l)
 	}
 	if len(req.Ports) == 2 {
@@ -190,6 +200,12 @@ func Analyse(c *netlist.Circuit, req *Request, opt *Options) (*Result, error) {
 			tp.S22DB, tp.S22Deg = append(tp.S22DB, db(s[1][1])), append(tp.S22Deg, deg(s[1][1]))
 		}
 		res.TwoPort = tp
+	}
+	if res.Edges, err = Edges(c, req, opt); err != nil {
+		return nil, err
+	}
+	if res.Edges == nil {
+		res.Edges = []Edge{}
 	}
 	return res, nil
 }
@@ -242,7 +258,7 @@ const (
 // again at each trial. A knob that cannot do it within dampHigh is left
 // out. The value is rounded up to two significant figures, and the
 // peaking reported is the one at that value.
-func damping(c *netlist.Circuit, req *Request, o *Options, freq []float64, t Target, lim float64) ([]Damping, error) {
+func damping(c *netlist.Circuit, req *Request, o *options, freq []float64, t Target, lim float64) ([]Damping, error) {
 	rise := func(k Knob, v float64) (float64, error) {
 		x, err := c.With(netlist.Setting{Element: k.Element, Param: k.Param, Text: spec.FormatSI(v, spec.Ohm), Num: v})
 		if err != nil {

@@ -27,6 +27,7 @@ package signal
 import (
 	"zapnet/mna"
 	"zapnet/mna/study"
+	"zapnet/waveforms"
 )
 
 // Document is the JSON of `zapnet ac` (OUTPUT.md): the tool and the deck,
@@ -58,14 +59,29 @@ type Options struct {
 	// NoDamping skips the search for damping values (it solves the circuit
 	// again a few dozen times per flagged transfer).
 	NoDamping bool
+	// StepLevel is the edge check's step, its open-circuit amplitude, V;
+	// zero: DefaultStepLevel. StepRise is its linear ramp (0 → 100 %), s;
+	// zero: waveforms.StepRise, an ideal edge beside any network.
+	StepLevel, StepRise float64
+	// Interface, when set, adds an interface's budgets: its capacitance
+	// budget on what the protection and the layout add to every target
+	// (the protected pins' own share left out), its rise-time budget on
+	// what the network adds to the edge reaching every other port.
+	Interface *Budget
 	// Settings are the engine's for the operating point; nil: defaults.
 	Settings *mna.Settings
 }
 
-func (o *Options) withDefaults() Options {
-	var x Options
+// options are Options with the defaults filled in.
+type options struct {
+	Options
+	RiseBudget, CBudget float64 // from Interface; zero: none
+}
+
+func (o *Options) withDefaults() options {
+	var x options
 	if o != nil {
-		x = *o
+		x.Options = *o
 	}
 	if x.From <= 0 {
 		x.From = DefaultFrom
@@ -78,6 +94,15 @@ func (o *Options) withDefaults() Options {
 	}
 	if x.LoadingFreq <= 0 {
 		x.LoadingFreq = DefaultLoadingFreq
+	}
+	if x.StepLevel == 0 {
+		x.StepLevel = DefaultStepLevel
+	}
+	if x.StepRise <= 0 {
+		x.StepRise = waveforms.StepRise
+	}
+	if x.Interface != nil {
+		x.RiseBudget, x.CBudget = x.Interface.Rise, x.Interface.CMax
 	}
 	return x
 }
@@ -170,8 +195,11 @@ type Edge struct {
 	Added float64 `json:"added"`
 	// Delay is from the step's 50 % to the far port's 50 %, s.
 	Delay   float64 `json:"delay"`
-	Limit   float64 `json:"limit,omitempty"` // on Rise, s; zero: none
+	Limit   float64 `json:"limit,omitempty"`  // rise=, on Rise, s; zero: none
+	Budget  float64 `json:"budget,omitempty"` // an interface's, on Added, s
 	Exceeds bool    `json:"exceeds"`
+	// Note says why a value is missing or doubtful ("no edge arrives").
+	Note string `json:"note,omitempty"`
 }
 
 // Drive is where the small-signal source sits and its operating point.
@@ -227,12 +255,16 @@ type Damping struct {
 
 // Loading is the capacitance one target sees at the loading frequency.
 type Loading struct {
-	Node        string       `json:"node"`
-	Freq        float64      `json:"freq"`
-	Capacitance float64      `json:"capacitance"`
-	Limit       float64      `json:"limit,omitempty"`
-	Exceeds     bool         `json:"exceeds"`
-	Elements    []ElementCap `json:"elements"`
+	Node        string  `json:"node"`
+	Freq        float64 `json:"freq"`
+	Capacitance float64 `json:"capacitance"`
+	// Added is what the protection and the layout add: the capacitance
+	// less the shares of the protected pins.
+	Added    float64      `json:"added"`
+	Limit    float64      `json:"limit,omitempty"`  // cmax, on Capacitance
+	Budget   float64      `json:"budget,omitempty"` // an interface's, on Added
+	Exceeds  bool         `json:"exceeds"`
+	Elements []ElementCap `json:"elements"`
 }
 
 // ElementCap is one element's share of a node's capacitance.

@@ -5,7 +5,6 @@ import (
 	"math/cmplx"
 	"testing"
 
-	"zapnet/mna"
 	"zapnet/netlist"
 )
 
@@ -162,12 +161,11 @@ pin U1 p gnd cin=1.2p
 // Two ports make a two-port: a shunt capacitor's S21 = 2/(2 + jωZ0C)
 // [calc, CHECKS.md second round]: 1 pF at 5 GHz loses 2.087 dB.
 func TestTwoPortInResult(t *testing.T) {
-	c := parse(t, "strike esd in gnd waveform=iec61000-4-2 level=8k\ncapacitor C1 in gnd 1p\n")
+	c := parse(t, "strike esd in gnd waveform=iec61000-4-2 level=8k\ncapacitor C1 in gnd 1p\nport P1 in gnd\nport P2 in gnd\n")
 	req, err := FromCircuit(c)
 	if err != nil {
 		t.Fatal(err)
 	}
-	req.Ports = []mna.Port{{Name: "P1", Pair: mna.Pair{Node: "in"}, Z0: 50}, {Name: "P2", Pair: mna.Pair{Node: "in"}, Z0: 50}}
 	res, err := Analyse(c, req, &Options{From: 5e9, To: 6e9, PerDecade: 1})
 	if err != nil {
 		t.Fatal(err)
