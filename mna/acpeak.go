@@ -30,15 +30,18 @@ func PeakQ(m float64) float64 {
 }
 
 // FindPeaking looks for the largest rise of |h| above its value at the
-// lowest frequency of the sweep freq (ascending, Hz) with magnitudes mag,
-// and refines it by a golden-section search on log f between the sampled
-// neighbours of the largest sample, evaluating |h| with gain. ok is false
-// when no sample rises above the first one.
+// lowest frequency of the sweep freq (ascending, Hz) with magnitudes mag.
+// Every local maximum of the samples is refined by a golden-section search
+// on log f between its sampled neighbours, evaluating |h| with gain, and
+// the largest refined one is kept: a narrow resonance can sit between two
+// samples lower than a broad one's top and still be the higher peak. ok is
+// false when nothing rises above the first sample.
 //
 // A resonance much narrower than the sweep's spacing can fall between two
-// samples and be missed: ask for enough points a decade (a Q of 30 is about
-// 3 % wide; 20 points a decade are 12 % apart, and the refinement then finds
-// the top as long as one sample lies on the resonance's slope).
+// samples without leaving a local maximum and be missed: ask for enough
+// points a decade (a Q of 30 is about 3 % wide; 20 points a decade are
+// 12 % apart, and the refinement then finds the top as long as one sample
+// lies on the resonance's slope).
 func FindPeaking(freq, mag []float64, gain func(f float64) (float64, error)) (p Peaking, ok bool, err error) {
 	if len(freq) != len(mag) {
 		panic("mna: FindPeaking: len(freq) != len(mag)")
@@ -47,52 +50,61 @@ func FindPeaking(freq, mag []float64, gain func(f float64) (float64, error)) (p 
 		return p, false, nil
 	}
 	low := mag[0]
-	best := 0
-	for k, m := range mag {
-		if m > mag[best] {
-			best = k
+	n := len(mag)
+	for k := 1; k < n; k++ {
+		if !(mag[k] > mag[k-1]) || (k < n-1 && mag[k] < mag[k+1]) {
+			continue
+		}
+		c := Peaking{Freq: freq[k], Gain: mag[k]}
+		if k == n-1 {
+			c.AtEnd = true
+		} else if c.Freq, c.Gain, err = refinePeak(freq[k-1], freq[k+1], freq[k], mag[k], gain); err != nil {
+			return p, false, err
+		}
+		if c.Gain > low && (!ok || c.Gain > p.Gain) {
+			p, ok = c, true
 		}
 	}
-	if best == 0 || !(mag[best] > low) {
+	if !ok {
 		return p, false, nil
-	}
-	p.Freq, p.Gain = freq[best], mag[best]
-	if best == len(mag)-1 {
-		p.AtEnd = true
-	} else {
-		// Golden-section search for the maximum of |h| over log f.
-		a, b := math.Log(freq[best-1]), math.Log(freq[best+1])
-		const r = 0.6180339887498949
-		x1, x2 := b-r*(b-a), a+r*(b-a)
-		f1, err := gain(math.Exp(x1))
-		if err != nil {
-			return p, false, err
-		}
-		f2, err := gain(math.Exp(x2))
-		if err != nil {
-			return p, false, err
-		}
-		for b-a > 1e-9 {
-			if f1 >= f2 {
-				b, x2, f2 = x2, x1, f1
-				x1 = b - r*(b-a)
-				if f1, err = gain(math.Exp(x1)); err != nil {
-					return p, false, err
-				}
-			} else {
-				a, x1, f1 = x1, x2, f2
-				x2 = a + r*(b-a)
-				if f2, err = gain(math.Exp(x2)); err != nil {
-					return p, false, err
-				}
-			}
-		}
-		if x, g := math.Exp((a+b)/2), max(f1, f2); g > p.Gain {
-			p.Freq, p.Gain = x, g
-		}
 	}
 	m := p.Gain / low
 	p.RiseDB = 20 * math.Log10(m)
 	p.Q = PeakQ(m)
 	return p, true, nil
+}
+
+// refinePeak is a golden-section search for the maximum of gain over log f
+// in [fa, fb], starting from the sample (f0, g0) inside it.
+func refinePeak(fa, fb, f0, g0 float64, gain func(f float64) (float64, error)) (float64, float64, error) {
+	a, b := math.Log(fa), math.Log(fb)
+	const r = 0.6180339887498949
+	x1, x2 := b-r*(b-a), a+r*(b-a)
+	f1, err := gain(math.Exp(x1))
+	if err != nil {
+		return 0, 0, err
+	}
+	f2, err := gain(math.Exp(x2))
+	if err != nil {
+		return 0, 0, err
+	}
+	for b-a > 1e-9 {
+		if f1 >= f2 {
+			b, x2, f2 = x2, x1, f1
+			x1 = b - r*(b-a)
+			if f1, err = gain(math.Exp(x1)); err != nil {
+				return 0, 0, err
+			}
+		} else {
+			a, x1, f1 = x1, x2, f2
+			x2 = a + r*(b-a)
+			if f2, err = gain(math.Exp(x2)); err != nil {
+				return 0, 0, err
+			}
+		}
+	}
+	if g := max(f1, f2); g > g0 {
+		return math.Exp((a + b) / 2), g, nil
+	}
+	return f0, g0, nil
 }

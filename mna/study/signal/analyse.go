@@ -253,11 +253,15 @@ const (
 )
 
 // damping finds, for each knob alone, the smallest value that brings the
-// peaking of target t under lim, by bisection on log(value) between the
-// knob's present value (at least dampLow) and dampHigh, solving the circuit
-// again at each trial. A knob that cannot do it within dampHigh is left
-// out. The value is rounded up to two significant figures, and the
-// peaking reported is the one at that value.
+// peaking of target t under lim, solving the circuit again at each trial:
+// a scan upward from the knob's present value (at least dampLow) in steps
+// of a quarter decade to dampHigh finds the first value that does, and
+// bisection on log(value) narrows it to 0.5 %. The scan matters: the
+// peaking need not fall steadily as the resistance grows (a large esr
+// takes the capacitor away, and another resonance takes over), so the
+// first crossing is searched, not the last. A knob that cannot do it
+// within dampHigh is left out. The value is rounded up to two significant
+// figures, and the peaking reported is the one at that value.
 func damping(c *netlist.Circuit, req *Request, o *options, freq []float64, t Target, lim float64) ([]Damping, error) {
 	rise := func(k Knob, v float64) (float64, error) {
 		x, err := c.With(netlist.Setting{Element: k.Element, Param: k.Param, Text: spec.FormatSI(v, spec.Ohm), Num: v})
@@ -278,29 +282,35 @@ func damping(c *netlist.Circuit, req *Request, o *options, freq []float64, t Tar
 		}
 		return p.RiseDB, nil
 	}
+	step := math.Pow(10, 0.25)
 	var out []Damping
 	for _, k := range req.Knobs {
-		lo := max(k.Value, dampLow)
-		hi := dampHigh
-		if hi <= lo {
-			continue
-		}
-		r, err := rise(k, hi)
+		prev := max(k.Value, dampLow)
+		r, err := rise(k, prev)
 		if err != nil {
-			return nil, err
-		}
-		if r > lim {
-			continue
-		}
-		if r, err = rise(k, lo); err != nil {
 			return nil, err
 		}
 		if r <= lim {
 			// Already under at the floor of the search (a present value
 			// below dampLow): dampLow is the answer.
-			out = append(out, Damping{Element: k.Element, Param: k.Param, From: k.Value, Value: lo, GainDB: r})
+			out = append(out, Damping{Element: k.Element, Param: k.Param, From: k.Value, Value: prev, GainDB: r})
 			continue
 		}
+		found := 0.0
+		for v := prev * step; v <= dampHigh*(1+1e-9); v *= step {
+			if r, err = rise(k, v); err != nil {
+				return nil, err
+			}
+			if r <= lim {
+				found = v
+				break
+			}
+			prev = v
+		}
+		if found == 0 {
+			continue
+		}
+		lo, hi := prev, found
 		for hi/lo > 1.005 {
 			mid := math.Sqrt(lo * hi)
 			r, err := rise(k, mid)
@@ -314,9 +324,16 @@ func damping(c *netlist.Circuit, req *Request, o *options, freq []float64, t Tar
 			}
 		}
 		v := roundUp2(hi)
-		r, err = rise(k, v)
-		if err != nil {
+		if r, err = rise(k, v); err != nil {
 			return nil, err
+		}
+		if r > lim {
+			// Rounding up crossed back over (a narrow window): keep the
+			// bisection's value.
+			v = hi
+			if r, err = rise(k, v); err != nil {
+				return nil, err
+			}
 		}
 		out = append(out, Damping{Element: k.Element, Param: k.Param, From: k.Value, Value: v, GainDB: r})
 	}

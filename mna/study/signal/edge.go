@@ -50,7 +50,19 @@ func Edges(c *netlist.Circuit, req *Request, opt *Options) ([]Edge, error) {
 		probes = append(probes, probe{from: src.Name, to: p.Name, pair: p.Pair, budget: o.RiseBudget})
 	}
 	for _, t := range req.Targets {
-		if t.Rise > 0 {
+		if !(t.Rise > 0) {
+			continue
+		}
+		// A target at another port's node is that port's probe, judged
+		// against the target's limit too.
+		merged := false
+		for i := range probes {
+			if probes[i].pair == t.Pair || (probes[i].pair.Node == t.Pair.Node && refName(probes[i].pair.Ref) == refName(t.Pair.Ref)) {
+				probes[i].limit = tighter(probes[i].limit, t.Rise)
+				merged = true
+			}
+		}
+		if !merged {
 			probes = append(probes, probe{from: src.Name, to: t.Name, pair: t.Pair, limit: t.Rise})
 		}
 	}
