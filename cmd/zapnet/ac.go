@@ -195,6 +195,41 @@ func writeTouchstone(path, deck string, res *signal.Result) error {
 	return report.WriteFile(path, func(w io.Writer) error { return report.Touchstone(w, tp.Freq, tp.S, tp.Z0[0], comments) })
 }
 
+// signalSection is the signal side of a deck that asks for it (a port, or
+// a watch or pin with peaking=, cmax= or rise=) for the HTML report of its
+// strike runs, analysed with the defaults of zapnet ac; nil for a deck that
+// does not ask.
+func signalSection(c *netlist.Circuit, deck string) (*report.SignalSection, error) {
+	asks := false
+	for _, w := range c.Watches {
+		asks = asks || w.Peaking > 0 || w.CMax > 0 || w.Rise > 0
+	}
+	for _, e := range c.Elements {
+		asks = asks || e.Kind.Role == spec.Port
+		if e.Kind.Role == spec.ProtectedPin {
+			for _, k := range []string{"peaking", "cmax", "rise"} {
+				asks = asks || e.Values.Has(k)
+			}
+		}
+	}
+	if !asks {
+		return nil, nil
+	}
+	res, err := analyseSignal(c, nil)
+	if err != nil {
+		return nil, err
+	}
+	var text bytes.Buffer
+	if err := report.ACTables(&text, res, &report.TableOptions{Title: c.Title, Deck: deck}); err != nil {
+		return nil, err
+	}
+	figs, err := plots.ACFigures(c.Title, res, nil)
+	if err != nil {
+		return nil, err
+	}
+	return &report.SignalSection{Text: text.String(), Figures: reportFigures(figs)}, nil
+}
+
 // writeSignalPictures writes the signal side's figures into the --plot
 // folder (DECK_NAME.svg) and an HTML report with its tables and figures.
 func writeSignalPictures(o pictureOptions, c *netlist.Circuit, meta study.Meta, res *signal.Result, text string) error {

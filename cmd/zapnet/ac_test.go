@@ -166,3 +166,27 @@ func TestACExitCodes(t *testing.T) {
 		})
 	}
 }
+
+// The HTML report of a deck's strike runs carries the signal side beside
+// them when the deck asks for it (ports, signal-side limits), and not
+// otherwise.
+func TestRunHTMLWithSignalSide(t *testing.T) {
+	dir := t.TempDir()
+	for _, tc := range []struct {
+		deck string
+		want bool
+	}{{usbDeck, true}, {demoDeck, false}} {
+		html := filepath.Join(dir, filepath.Base(tc.deck)+".html")
+		_, errs, code := zapnet(t, "run", tc.deck, "--level", "2k", "--polarity", "pos", "--html", html)
+		if code == exitUnusable {
+			t.Fatalf("%s: exit %d; stderr:\n%s", tc.deck, code, errs)
+		}
+		b, err := os.ReadFile(html)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := strings.Contains(string(b), `<section id="signal">`); got != tc.want {
+			t.Errorf("%s: signal section %v, want %v", tc.deck, got, tc.want)
+		}
+	}
+}
