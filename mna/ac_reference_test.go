@@ -14,7 +14,7 @@ import (
 
 // readComplexCSV reads a file of testdata/reference/ac.py: a freq column,
 // then NAME_re, NAME_im pairs.
-func readComplexCSV(t *testing.T, path string) (freq []float64, cols map[string][]complex128) {
+func readComplexCSV(t testing.TB, path string) (freq []float64, cols map[string][]complex128) {
 	t.Helper()
 	f, err := os.Open(path)
 	if err != nil {
@@ -45,7 +45,7 @@ func readComplexCSV(t *testing.T, path string) (freq []float64, cols map[string]
 	return freq, cols
 }
 
-func referenceAC(t *testing.T, deck string, set *Settings) *AC {
+func referenceAC(t testing.TB, deck string, set *Settings) *AC {
 	t.Helper()
 	c, err := netlist.ParseFile("../testdata/reference/" + deck)
 	if err != nil {

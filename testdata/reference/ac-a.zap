@@ -2,7 +2,7 @@
 # trace, a clamp with lead inductance whose junction capacitance depends on
 # its bias, a second trace to a protected pin with diodes to gnd and to its
 # rail, and a pull-up that biases the line at the rail's 3.3 V.
-# Ports for the two-port: P1 at conn, P2 at p, both 50 Ω to gnd.
+# The two-port is between P1 at conn and P2 at p, both 50 Ω to gnd.
 title "AC reference A: pulled-up signal line with a clamp and a pin"
 
 strike    esd  conn gnd  waveform=iec61000-4-2 level=8k
@@ -13,3 +13,6 @@ pin       U1   p    gnd  cin=1.5p rail=vdd
 resistor  Rpu  vdd  a    10k
 supply    V1   vdd  gnd  3.3V
 capacitor Cdd  vdd  gnd  100n esr=10m esl=0.5n
+
+port      P1   conn gnd  z0=50
+port      P2   p    gnd  z0=50
