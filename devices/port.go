@@ -26,7 +26,9 @@ func init() {
 		Name: "port", Summary: "a signal port (small-signal study and edge check only): where a signal enters or leaves, with its impedance",
 		Terminals: [2]string{"node", "ref"}, Role: spec.Port, Order: 95, DC: spec.Blocks,
 		Table: spec.Table{Params: []spec.Param{
-			spec.Default("z0", spec.Ohm, spec.Positive, 50),
+			// The signal system's impedance: a condition of the product,
+			// not a part of the protection to vary.
+			spec.Default("z0", spec.Ohm, spec.Positive, 50).As(spec.Condition),
 		}},
 	}, New: func(name string, nodes [2]string, v *spec.Values) (Device, error) {
 		return NewPort(name, nodes, v.Num("z0")), nil

@@ -47,6 +47,11 @@ func mergeFiles(paths []string, out string, stdout, stderr io.Writer) error {
 	if jsonPath == "" {
 		jsonPath = "-"
 	}
+	check := newOutputs(paths...)
+	check.file("-o", jsonPath)
+	if err := check.err(); err != nil {
+		return fmt.Errorf("merge: %w", err)
+	}
 	var raws [][]byte
 	kind := ""
 	for _, p := range paths {

@@ -93,6 +93,9 @@ A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 		v.FillDefaults()
 		opt.params = &v
 	}
+	out := newOutputs()
+	out.file("--csv", opt.csv)
+	errs = append(errs, out.err())
 	if err := errors.Join(errs...); err != nil {
 		return fmt.Errorf("waveform: %w", err)
 	}
@@ -233,18 +236,18 @@ func loadText(s *waveforms.Stimulus, load float64) string {
 	return d
 }
 
-// writeWaveformCSV writes the sampled waveform (OUTPUT.md): `time,i(NAME)`
-// and, for Thevenin and network sources, `v(NAME)`, the voltage across the
-// load; one row per sample, SI units, %.9g. The file is written whole or
-// not at all (report.WriteFile).
+// writeWaveformCSV writes the sampled waveform (OUTPUT.md): `time [s]`,
+// `current [A]` into the load and, for Thevenin and network sources,
+// `voltage [V]` across it; one row per sample, SI units, %.9g. The file is
+// written whole or not at all (report.WriteFile).
 func writeWaveformCSV(path string, s *waveforms.Stimulus, load float64) error {
 	t, i, v := waveforms.Sample(s, load, 0)
 	return report.WriteFile(path, func(w io.Writer) error {
 		// The buffered writer's error sticks: WriteFile's flush reports it.
 		if v == nil {
-			fmt.Fprintf(w, "time,i(%s)\n", s.Name)
+			fmt.Fprintln(w, "time [s],current [A]")
 		} else {
-			fmt.Fprintf(w, "time,i(%s),v(%s)\n", s.Name, s.Name)
+			fmt.Fprintln(w, "time [s],current [A],voltage [V]")
 		}
 		for k := range t {
 			if v == nil {

@@ -88,7 +88,7 @@ func TestWaveformCSV(t *testing.T) {
 		t.Fatal(err)
 	}
 	lines := strings.Split(strings.TrimSpace(string(data)), "\n")
-	if lines[0] != "time,i(iec61000-4-2)" {
+	if lines[0] != "time [s],current [A]" {
 		t.Errorf("header %q", lines[0])
 	}
 	ts, is, err := waveforms.ReadPWL(path)
@@ -116,7 +116,7 @@ func TestWaveformCSV(t *testing.T) {
 	}
 	data, _ = os.ReadFile(path)
 	lines = strings.Split(strings.TrimSpace(string(data)), "\n")
-	if lines[0] != "time,i(hbm),v(hbm)" {
+	if lines[0] != "time [s],current [A],voltage [V]" {
 		t.Errorf("header %q", lines[0])
 	}
 	for _, l := range lines[1:] {
