@@ -548,3 +548,22 @@ func TestACResponseDoesNotAllocate(t *testing.T) {
 		t.Errorf("Response allocates %g times a frequency", n)
 	}
 }
+
+// [calc, CHECKS.md second round] A series element between two 50 Ω ports
+// is read back from the transmission: Z = 2·Z0·(1 − S21)/S21. Here a
+// resistor with an inductor, Z = R + jωL, over the sweep.
+func TestACSeriesThroughImpedance(t *testing.T) {
+	_, a := linearizeWith(t, strikeLine+"resistor R1 in m 3.3\ninductor L1 m out 22n\nresistor Rb out gnd 1T\n", &Settings{Gmin: 1e-20})
+	ports := [2]Port{{Name: "P1", Pair: Pair{Node: "in"}, Z0: 50}, {Name: "P2", Pair: Pair{Node: "out"}, Z0: 50}}
+	for _, f := range []float64{1e4, 1e6, 1e8, 3e9} {
+		S, err := a.TwoPort(f, ports)
+		if err != nil {
+			t.Fatal(err)
+		}
+		z := 2 * 50 * (1 - S[1][0]) / S[1][0]
+		want := complex(3.3, 2*math.Pi*f*22e-9)
+		if e := relErr(z, want); e > 1e-9 {
+			t.Errorf("f %g: Z from S21 %v, want %v", f, z, want)
+		}
+	}
+}
