@@ -1,7 +1,9 @@
 package mna
 
 import (
+	"fmt"
 	"math"
+	"sync"
 	"testing"
 
 	"zapnet/devices"
@@ -23,9 +25,22 @@ type testSource struct {
 	sign  float64
 }
 
+// testStrikeKind is a strike built for a generator circuit of the test's
+// own (testShapes, by the element's word "shape").
+const testStrikeKind netlist.Kind = "test-strike"
+
+var testShapes sync.Map // name → *waveforms.Fragment
+
 func init() {
 	devices.Register(testSourceKind, func(e *netlist.Element) (devices.Device, error) {
 		return &testSource{name: e.Name, nodes: e.Nodes}, nil
+	})
+	devices.Register(testStrikeKind, func(e *netlist.Element) (devices.Device, error) {
+		f, ok := testShapes.Load(e.Str["shape"])
+		if !ok {
+			return nil, fmt.Errorf("%s: no test shape %q", e.Name, e.Str["shape"])
+		}
+		return devices.NewStrikeFor(e.Name, e.Nodes, f.(*waveforms.Fragment)), nil
 	})
 }
 

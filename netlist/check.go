@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 )
@@ -494,6 +495,17 @@ func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
 			e.Str["file"] = path
 		case "part":
 			p.errs.Add(kv.keyPos, "a strike takes no part")
+		case "path":
+			words, ok := strikeWords[kv.key][wave]
+			if !ok && wave != "?" {
+				p.errs.Add(kv.keyPos, "%s is a parameter of waveform surge-cwg, not of %s", kv.key, wave)
+				continue
+			}
+			if ok && !slices.Contains(words, kv.val) {
+				p.errs.Add(kv.valPos, "strike %s is %s, not %s%s", kv.key, strings.Join(words, ", "), kv.val, didYouMean(kv.val, words))
+				continue
+			}
+			e.Str[kv.key] = kv.val
 		default:
 			sp, ok := strikeParams[kv.key]
 			if !ok {

@@ -96,7 +96,8 @@ func specOf(k Kind, key string) *param {
 }
 
 // waveformNames are the strike waveforms, in documentation order.
-var waveformNames = []string{"iec61000-4-2", "hbm", "iso10605", "surge-8-20", "surge-1.2-50", "tlp", "eft", "pwl"}
+var waveformNames = []string{"iec61000-4-2", "iec61000-4-2-network", "iec61000-4-2-air", "hbm", "iso10605",
+	"surge-8-20", "surge-1.2-50", "surge-cwg", "tlp", "eft", "pwl"}
 
 // strikeParam is a numeric parameter of one or more waveforms.
 type strikeParam struct {
@@ -115,10 +116,15 @@ var strikeParams = map[string]strikeParam{
 	"rise":  {unit: "s", rule: positive, waveforms: map[string]float64{"tlp": 1e-9}},
 	"count": {unit: "", rule: atLeastOne, waveforms: map[string]float64{"eft": 1}},
 	"rate":  {unit: "Hz", rule: positive, waveforms: map[string]float64{"eft": 5e3}},
+	// burst: a standard burst at this repetition rate (5 kHz or 100 kHz,
+	// checked by the waveform); approach: the fraction of the breakdown
+	// gap left when an air discharge's spark forms.
+	"burst":    {unit: "Hz", rule: positive, waveforms: map[string]float64{"eft": noDefault}},
+	"approach": {unit: "", rule: positive, waveforms: map[string]float64{"iec61000-4-2-air": 1}},
 }
 
 // strikeParamOrder is the display order of strike parameters.
-var strikeParamOrder = []string{"c", "r", "l", "width", "rise", "count", "rate"}
+var strikeParamOrder = []string{"c", "r", "l", "width", "rise", "count", "rate", "burst", "approach"}
 
 // waveformsTaking lists the waveforms that accept the strike parameter key.
 func waveformsTaking(key string) []string {
@@ -136,12 +142,24 @@ func waveformsTaking(key string) []string {
 
 // isDischarge reports whether a waveform is an electrostatic discharge, whose
 // levels above about 30 kV are beyond any test standard.
-func isDischarge(w string) bool { return w == "iec61000-4-2" || w == "hbm" || w == "iso10605" }
+func isDischarge(w string) bool {
+	switch w {
+	case "iec61000-4-2", "iec61000-4-2-network", "iec61000-4-2-air", "hbm", "iso10605":
+		return true
+	}
+	return false
+}
+
+// strikeWords are the word parameters of waveforms: key → waveform →
+// the words allowed, the first being the default.
+var strikeWords = map[string]map[string][]string{
+	"path": {"surge-cwg": {"direct", "line-line", "line-earth", "io"}},
+}
 
 // keysOf lists every key an element kind accepts, for suggestions.
 func keysOf(k Kind) []string {
 	if k == Strike {
-		keys := []string{"waveform", "level", "polarity", "file"}
+		keys := []string{"waveform", "level", "polarity", "file", "path"}
 		return append(keys, strikeParamOrder...)
 	}
 	s := specs[k]

@@ -217,7 +217,7 @@ func trimZeros(s string) string {
 // piecewise-linear file (a scale factor).
 func LevelUnit(waveform string) string {
 	switch waveform {
-	case "iec61000-4-2", "hbm", "iso10605", "surge-1.2-50", "eft":
+	case "iec61000-4-2", "iec61000-4-2-network", "iec61000-4-2-air", "hbm", "iso10605", "surge-1.2-50", "surge-cwg", "eft":
 		return "V"
 	case "surge-8-20", "tlp":
 		return "A"

@@ -63,21 +63,25 @@ func Checks(s *Stimulus, load float64) ([]Check, error) {
 	if math.IsNaN(load) || load < 0 {
 		return nil, fmt.Errorf("checks: load must be >= 0 ohms or +Inf, got %g", load)
 	}
+	if s.Form == Generator {
+		return nil, fmt.Errorf("checks: %s is a generator circuit with no closed form: solve it into the load with the engine (SolvedChecks)", s.Name)
+	}
+	m := closedForm(s)
 	switch s.Name {
 	case "iec61000-4-2":
-		return checksIEC(s), nil
+		return checksIEC(s, m), nil
 	case "hbm":
-		return checksHBM(s, load), nil
+		return checksHBM(s, load, m), nil
 	case "iso10605":
-		return checksISO(s, load), nil
+		return checksISO(s, load, m), nil
 	case "surge-8-20":
-		return checksSurgeI(s), nil
+		return checksSurgeI(s, m), nil
 	case "surge-1.2-50":
-		return checksSurgeV(s, load), nil
+		return checksSurgeV(s, load, m), nil
 	case "tlp":
-		return checksTLP(s, load), nil
+		return checksTLP(s, load, m), nil
 	case "eft":
-		return checksEFT(s, load), nil
+		return checksEFT(s, load, m), nil
 	case "pwl":
 		return nil, nil
 	}
@@ -89,9 +93,21 @@ func Checks(s *Stimulus, load float64) ([]Check, error) {
 const checkTol = 1e-8
 
 // shape is one sampled channel with its analytic function, for measuring.
+// A channel solved by the engine has only its samples: g interpolates them
+// and sampled is set.
 type shape struct {
-	g    func(float64) float64
-	t, y []float64
+	g       func(float64) float64
+	t, y    []float64
+	sampled bool
+}
+
+// meter gives a check the current (or, with voltage, the voltage) of the
+// stimulus into load over [0, stop], in closed form (closedForm) or solved
+// by the engine (SolvedChecks).
+type meter func(load, stop float64, voltage bool) shape
+
+func closedForm(s *Stimulus) meter {
+	return func(load, stop float64, voltage bool) shape { return measured(s, load, stop, voltage) }
 }
 
 // measured samples the current (or, with voltage, the voltage) of s into
@@ -105,7 +121,8 @@ func measured(s *Stimulus, load, stop float64, voltage bool) shape {
 }
 
 // peak returns the largest value, refined between the neighbouring samples
-// by golden-section search on the analytic function.
+// by golden-section search on the analytic function, or for a sampled
+// channel by the parabola through the largest sample and its neighbours.
 func (sh shape) peak() (v, at float64) {
 	v, at = Peak(sh.t, sh.y)
 	k := 0
@@ -114,6 +131,9 @@ func (sh shape) peak() (v, at float64) {
 	}
 	if k == 0 || k == len(sh.t)-1 {
 		return v, at
+	}
+	if sh.sampled {
+		return parabolaPeak(sh.t[k-1:k+2], sh.y[k-1:k+2])
 	}
 	a, b := sh.t[k-1], sh.t[k+1]
 	const r = 0.6180339887498949
@@ -172,8 +192,8 @@ var iecTable = map[float64]bool{2000: true, 4000: true, 6000: true, 8000: true}
 // not depend on the load). The published amplitudes are 3.75, 2 and 1 A per
 // kV [pub: the table at 2, 4, 6 and 8 kV]; at other levels they are scaled
 // linearly [calc].
-func checksIEC(s *Stimulus) []Check {
-	sh := measured(s, iecTarget, s.Stop, false)
+func checksIEC(s *Stimulus, m meter) []Check {
+	sh := m(iecTarget, s.Stop, false)
 	pv, _ := sh.peak()
 	t10 := sh.riseCross(0.1 * pv)
 	t90 := sh.riseCross(0.9 * pv)
@@ -195,8 +215,8 @@ func checksIEC(s *Stimulus) []Check {
 // convention [mem]) and ringing under 15 % of the peak (the largest swing
 // below zero after the peak [mem: JS-001's ringing limit]) [pub/mem:
 // CHECKS.md].
-func checksHBM(s *Stimulus, load float64) []Check {
-	sh := measured(s, load, s.Stop, false)
+func checksHBM(s *Stimulus, load float64, m meter) []Check {
+	sh := m(load, s.Stop, false)
 	pv, pt := sh.peak()
 	rise := sh.riseCross(0.9*pv) - sh.riseCross(0.1*pv) // 0 for the ideal RC's jump
 	decay := sh.fallCross(math.Exp(-1)*pv, pt) - pt
@@ -230,12 +250,12 @@ var isoPoints = []struct {
 
 // checksISO: the two time points of the network's row, ±30 % (the
 // IEC 61000-4-2 tolerance, which ISO 10605 shares [mem]).
-func checksISO(s *Stimulus, load float64) []Check {
+func checksISO(s *Stimulus, load float64, m meter) []Check {
 	for _, p := range isoPoints {
 		if math.Abs(s.C-p.c) > 1e-6*p.c || math.Abs(s.R-p.r) > 1e-6*p.r {
 			continue
 		}
-		sh := measured(s, load, math.Max(s.Stop, 1.2*p.t2), false)
+		sh := m(load, math.Max(s.Stop, 1.2*p.t2), false)
 		pv, _ := sh.peak()
 		t10 := sh.riseCross(0.1 * pv)
 		kv := s.Level / 1000
@@ -263,8 +283,8 @@ func frontTail(sh shape, lo, hi, k float64) (pv, front, half float64) {
 // checksSurgeI: the 8/20 µs current, peak = level ±10 %, front
 // 1.25·(10–90 %) 8 µs ±20 %, time to half 20 µs ±20 % [pub values,
 // mem tolerances: CHECKS.md].
-func checksSurgeI(s *Stimulus) []Check {
-	pv, front, half := frontTail(measured(s, 0, s.Stop, false), 0.1, 0.9, 1.25)
+func checksSurgeI(s *Stimulus, m meter) []Check {
+	pv, front, half := frontTail(m(0, s.Stop, false), 0.1, 0.9, 1.25)
 	ref := "IEC 61000-4-5 short-circuit current, tolerances [mem]"
 	return []Check{
 		rel("peak current", "A", pv, s.Level, 0.10, "[pub]", ref),
@@ -279,14 +299,14 @@ func checksSurgeI(s *Stimulus) []Check {
 // the combination generator's 8/20 µs: its peak matches (level/2 Ω, the
 // published ratio [pub]) but its front does not, the documented
 // simplification of this source (Surge12_50Note).
-func checksSurgeV(s *Stimulus, load float64) []Check {
-	pv, front, half := frontTail(measured(s, load, s.Stop, true), 0.3, 0.9, 1.67)
+func checksSurgeV(s *Stimulus, load float64, m meter) []Check {
+	pv, front, half := frontTail(m(load, s.Stop, true), 0.3, 0.9, 1.67)
 	want := s.Level
 	if !math.IsInf(load, 1) {
 		want = s.Level * load / (s.R + load)
 	}
 	ref := "IEC 61000-4-5 open-circuit voltage, tolerances [mem]"
-	ipk, ifront, _ := frontTail(measured(s, 0, s.Stop, false), 0.1, 0.9, 1.25)
+	ipk, ifront, _ := frontTail(m(0, s.Stop, false), 0.1, 0.9, 1.25)
 	iref := "IEC 61000-4-5 short-circuit current of the combination generator"
 	return []Check{
 		rel("peak voltage", "V", pv, want, 0.10, "[pub]", ref),
@@ -302,9 +322,9 @@ func checksSurgeV(s *Stimulus, load float64) []Check {
 // 50 Ω divider [calc] within ±1 % [practice]; the width at half maximum
 // against the width asked for (±1 % [practice]); the 10–90 % rise inside
 // STM5.5.1's 0.2–10 ns [pub].
-func checksTLP(s *Stimulus, load float64) []Check {
+func checksTLP(s *Stimulus, load float64, m meter) []Check {
 	width := s.Breakpoints[2]
-	sh := measured(s, load, s.Stop, false)
+	sh := m(load, s.Stop, false)
 	pv, _ := sh.peak()
 	a, b := 0.7*width, 0.9*width
 	var wt, wy []float64
@@ -330,7 +350,7 @@ func checksTLP(s *Stimulus, load float64) []Check {
 // level·load/(50 Ω + load) ±10 % (half the open-circuit level into 50 Ω
 // [mem]), rise 5 ns ±30 % and width at half maximum 50 ns ±30 %
 // [pub: IEC 61000-4-4].
-func checksEFT(s *Stimulus, load float64) []Check {
+func checksEFT(s *Stimulus, load float64, m meter) []Check {
 	ref := "IEC 61000-4-4, into 50 Ω"
 	// Into a short there is no voltage: check the current instead.
 	q, unit, want := "peak voltage", "V", s.Level
@@ -340,7 +360,7 @@ func checksEFT(s *Stimulus, load float64) []Check {
 	if load == 0 {
 		q, unit, want = "peak current", "A", s.Level/eftR
 	}
-	sh := measured(s, load, eftTail, load != 0)
+	sh := m(load, eftTail, load != 0)
 	pv, _ := sh.peak()
 	rise := sh.riseCross(0.9*pv) - sh.riseCross(0.1*pv)
 	width := WidthAbove(sh.t, sh.y, 0.5*pv)

@@ -64,6 +64,7 @@ func newNetwork(v0, c, r, l float64) *Stimulus {
 		L:           l,
 		C:           c,
 		V0:          v0,
+		Gen:         NetworkFragment(v0, c, r, l),
 		Breakpoints: []float64{0},
 		Stop:        5*r*c + 10*l/r,
 	}

@@ -20,12 +20,15 @@ type waveform struct {
 func catalogue() []waveform {
 	return []waveform{
 		{"iec61000-4-2", "V", 4000, "IEC 61000-4-2 contact discharge, ideal current of the informative annex", newIEC61000_4_2},
+		{"iec61000-4-2-network", "V", 4000, "IEC 61000-4-2 contact discharge from the generator network: 150 pF, 330 Ω and its fast parasitic branch", newIECNetwork},
+		{"iec61000-4-2-air", "V", 8000, "IEC 61000-4-2 air discharge: the generator network through a spark (Rompe–Weizel) across the Paschen gap", newIECAir},
 		{"hbm", "V", 4000, "human-body model (JS-001): 100 pF through 1.5 kΩ and a series inductance", newHBM},
 		{"iso10605", "V", 4000, "ISO 10605 discharge network: 150 or 330 pF through 330 Ω or 2 kΩ", newISO10605},
 		{"surge-8-20", "A", 500, "IEC 61000-4-5 8/20 µs short-circuit current, ideal current source", newSurge8_20},
 		{"surge-1.2-50", "V", 1000, "IEC 61000-4-5 1.2/50 µs open-circuit voltage behind 2 Ω", newSurge1_2_50},
+		{"surge-cwg", "V", 1000, "IEC 61000-4-5 combination wave generator (1.2/50 µs open, 8/20 µs short) with its coupling path", newSurgeCWG},
 		{"tlp", "A", 8, "transmission-line pulse: trapezoid from a 50 Ω source, level = current into a short", newTLP},
-		{"eft", "V", 1000, "IEC 61000-4-4 5/50 ns fast transient (or a burst) from a 50 Ω source", newEFT},
+		{"eft", "V", 1000, "IEC 61000-4-4 5/50 ns fast transient (or a burst) from a 50 Ω source", newEFTAny},
 		{"pwl", "", 1, "piecewise-linear current from a CSV file (time,current), scaled by the level", newPWL},
 	}
 }
@@ -87,6 +90,7 @@ func New(name string, level float64, num map[string]float64, str map[string]stri
 	s.Name = name
 	s.Level = level
 	s.Unit = w.unit
+	s.Params, s.Words = num, str
 	return s, nil
 }
 

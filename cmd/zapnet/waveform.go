@@ -12,6 +12,7 @@ import (
 	"github.com/olekukonko/tablewriter"
 
 	"zapnet/cmd/internal/report"
+	"zapnet/mna"
 	"zapnet/waveforms"
 )
 
@@ -43,7 +44,7 @@ Levels are in the waveform's unit (V for discharges, eft and surge-1.2-50;
 A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 		stderr)
 	level := fs.String("level", "", "level in the waveform's unit, e.g. 4k or 8kV (default: a typical level)")
-	load := fs.String("load", "", "resistive load for the checks and the CSV, ohms, or open (default: the load the standard prescribes)")
+	load := fs.String("load", "", "resistive load for the checks and the CSV, ohms, short or open (default: the load the standard prescribes)")
 	sets := fs.StringArray("set", nil, "waveform parameter key=value, as on the deck's strike line (repeatable)")
 	csvPath := fs.String("csv", "", "write the waveform as CSV to `FILE` (time, current and, for source networks, voltage)")
 	if err := fs.Parse(args); err != nil {
@@ -70,6 +71,8 @@ A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 		switch strings.ToLower(*load) {
 		case "open", "inf":
 			opt.load = math.Inf(1)
+		case "short":
+			opt.load = 0
 		default:
 			v, err := parseSI(*load, "ohm")
 			if err == nil && v < 0 {
@@ -115,7 +118,7 @@ func waveformReport(opt waveformOptions, stdout io.Writer) error {
 	if load < 0 {
 		load = waveforms.PrescribedLoad(s.Name)
 	}
-	checks, err := waveforms.Checks(s, load)
+	checks, err := calibrationChecks(s, load)
 	if err != nil {
 		return fmt.Errorf("waveform: %w", err)
 	}
@@ -137,7 +140,10 @@ func waveformReport(opt waveformOptions, stdout io.Writer) error {
 		table.Header("quantity", "computed", "published", "tolerance", "result", "source")
 		for _, c := range checks {
 			pub := waveforms.FormatValue(c.Published, c.Unit)
-			if math.IsNaN(c.Published) {
+			switch {
+			case math.IsInf(c.Lo, -1) && math.IsInf(c.Hi, 1) && math.IsNaN(c.Published):
+				pub = "-"
+			case math.IsNaN(c.Published):
 				pub = "window"
 			}
 			result := "within"
@@ -190,6 +196,8 @@ func describeSource(s *waveforms.Stimulus) string {
 			d += " and " + waveforms.FormatValue(s.L, "H")
 		}
 		return d
+	case waveforms.Generator:
+		return "generator circuit solved by the engine: " + s.Gen.String()
 	}
 	return s.Form.String()
 }
@@ -218,7 +226,10 @@ func loadText(s *waveforms.Stimulus, load float64) string {
 // load; one row per sample, SI units, %.9g. The file is written whole or
 // not at all (report.WriteFile).
 func writeWaveformCSV(path string, s *waveforms.Stimulus, load float64) error {
-	t, i, v := waveforms.Sample(s, load, 0)
+	t, i, v, err := sampled(s, load)
+	if err != nil {
+		return err
+	}
 	return report.WriteFile(path, func(w io.Writer) error {
 		// The buffered writer's error sticks: WriteFile's flush reports it.
 		if v == nil {
@@ -283,4 +294,33 @@ func unitSpellings(unit string) []string {
 		return []string{"ohms", "ohm", "Ω"}
 	}
 	return []string{unit}
+}
+
+// calibrationChecks measures s into load: in closed form, or for a
+// generator circuit solved by the engine into the load.
+func calibrationChecks(s *waveforms.Stimulus, load float64) ([]waveforms.Check, error) {
+	if s.Form == waveforms.Generator {
+		return waveforms.SolvedChecks(s, load, mna.LoadSolver(nil))
+	}
+	return waveforms.Checks(s, load)
+}
+
+// sampled is the stimulus into load for the CSV: closed-form samples, or
+// the engine's accepted points for a generator circuit (for a burst, its
+// first pulse).
+func sampled(s *waveforms.Stimulus, load float64) (t, i, v []float64, err error) {
+	if s.Form != waveforms.Generator {
+		t, i, v = waveforms.Sample(s, load, 0)
+		return t, i, v, nil
+	}
+	if s.Burst != nil {
+		if s, err = s.Burst.First(1); err != nil {
+			return nil, nil, nil, err
+		}
+	}
+	r, err := mna.IntoLoad(s, load, nil)
+	if err != nil {
+		return nil, nil, nil, err
+	}
+	return r.Time, r.I, r.V, nil
 }

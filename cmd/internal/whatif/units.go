@@ -18,7 +18,7 @@ var paramUnits = map[netlist.Kind]map[string]string{
 		"vmax": "V", "vmin": "V", "ifail": "A"},
 	netlist.Supply: {"value": "V", "r": "Ω"},
 	netlist.Line:   {"z0": "Ω", "delay": "s"},
-	netlist.Strike: {"c": "F", "r": "Ω", "l": "H", "width": "s", "rise": "s", "count": "", "rate": "Hz"},
+	netlist.Strike: {"c": "F", "r": "Ω", "l": "H", "width": "s", "rise": "s", "count": "", "rate": "Hz", "burst": "Hz", "approach": ""},
 }
 
 // ParamUnit is the unit of ELEMENT.PARAM in c, "" for a pure number or an
