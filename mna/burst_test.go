@@ -1,0 +1,75 @@
+package mna
+
+import (
+	"math"
+	"testing"
+
+	"zapnet/netlist"
+	"zapnet/waveforms"
+)
+
+// burstBench is an EFT burst into a unidirectional clamp with a slow
+// discharge path (an invented network). A negative pulse charges the
+// coupling capacitor through the clamp's forward path; after the pulse the
+// capacitor drives the line positive, the clamp breaks down and takes what
+// is above its breakdown, and the rest leaks away through 1 kΩ with a time
+// constant of 35 µs, several periods of a 100 kHz burst: the clamp's share
+// of each pulse grows over the first pulses, then repeats. A positive
+// pulse's charge drains through the clamp's forward path at once, so its
+// pulses repeat from the start.
+func burstBench(t testing.TB, rate float64) (*System, *waveforms.Stimulus) {
+	t.Helper()
+	num := map[string]float64{"burst": rate}
+	strike := el(netlist.Strike, "zap", "line", "gnd", 0)
+	strike.Num, strike.Str["waveform"] = num, "eft"
+	s := compile(t, strike,
+		el(netlist.Clamp, "D1", "line", "gnd", 0, "vbr", 33.0, "rdyn", 0.5, "cj", 100e-12),
+		el(netlist.Resistor, "Rleak", "line", "gnd", 1000.0))
+	st, err := waveforms.New("eft", 2000, num, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s, st
+}
+
+// A burst solved to its settled pulses and extrapolated brings the same
+// clamp energy as every pulse solved, within 1 % [the requirement; the
+// bound of SolveBurst's test is 0.4 %], for both polarities, and solves
+// fewer pulses; the per-pulse energies add up to the run's ledger. The
+// negative burst does accumulate: its last pulse brings the clamp over
+// 20 % more than its first [calc: the mechanism above], so the
+// extrapolation is tested on pulses that change.
+func TestBurstExtrapolation(t *testing.T) {
+	s, st := burstBench(t, 100e3)
+	d1 := elemIndex(t, s, "D1")
+	for _, sign := range []float64{1, -1} {
+		set := &Settings{RelTol: 1e-5, MaxStep: 2e-6}
+		fast, err := s.SolveBurst(st, sign, set, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		all, err := s.SolveBurst(st, sign, set, &BurstOptions{Every: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		first, last := all.PulseEnergy[0][d1], all.PulseEnergy[74][d1]
+		t.Logf("sign %+g: %d of %d pulses solved (%d steps, every pulse %d); clamp %.6g J extrapolated, %.6g J solved; pulse %.4g J first, %.4g J last",
+			sign, fast.Solved, fast.Pulses, fast.Stats.Steps, all.Stats.Steps, fast.Energy[d1], all.Energy[d1], first, last)
+		if !fast.Extrapolated || fast.Solved >= all.Solved || all.Solved != 75 || all.Extrapolated {
+			t.Errorf("sign %+g: solved %d pulses (extrapolated %v) against %d", sign, fast.Solved, fast.Extrapolated, all.Solved)
+		}
+		if d := math.Abs(fast.Energy[d1]/all.Energy[d1] - 1); d > 0.01 {
+			t.Errorf("sign %+g: extrapolated clamp energy off by %.3g %%", sign, 100*d)
+		}
+		if sign < 0 && !(last > 1.2*first) {
+			t.Errorf("negative burst: pulse energy %.4g J first, %.4g J last: the bench does not accumulate", first, last)
+		}
+		sum := 0.0
+		for _, p := range all.PulseEnergy {
+			sum += p[d1]
+		}
+		if math.Abs(sum/all.Energy[d1]-1) > 1e-12 {
+			t.Errorf("pulse energies sum to %g J, burst %g J", sum, all.Energy[d1])
+		}
+	}
+}
