@@ -87,10 +87,11 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 		h := min(maxStep, interval) * firstFraction
 		if cfg.FirstStep > 0 {
 			h = min(h, cfg.FirstStep)
-		} else if s.stim != nil && s.stim.Stop > 0 {
-			// The stimulus's own time scale, not a window stretched for a
-			// slow circuit, sets how fine the first step must be.
-			h = min(h, s.stim.Stop/50*firstFraction)
+		} else if s.stim != nil && s.stim.Scale() > 0 {
+			// The stimulus's own time scale (one pulse's, for a train),
+			// not a window stretched for a slow circuit, sets how fine the
+			// first step must be.
+			h = min(h, s.stim.Scale()/50*firstFraction)
 		}
 		return h
 	}

@@ -72,7 +72,7 @@ func newEFTBurst(level float64, p params) (*Stimulus, error) {
 			},
 		}
 		return &Stimulus{Name: p.name, Level: level, Unit: "V", Form: Generator, Gen: f,
-			Breakpoints: train.Breakpoints, Stop: float64(n) * b.Period, Burst: b,
+			Breakpoints: train.Breakpoints, Stop: float64(n) * b.Period, Pulse: eftTail, Burst: b,
 			Params: p.num, Words: p.str}, nil
 	}
 	return b.First(b.Pulses)

@@ -123,11 +123,15 @@ func newEFT(level float64, p params) (*Stimulus, error) {
 	for j := range bp {
 		bp[j] = float64(j) * period
 	}
-	return &Stimulus{
+	st := &Stimulus{
 		Form:        Thevenin,
 		F:           f,
 		R:           eftR,
 		Breakpoints: bp,
 		Stop:        float64(count-1)*period + eftTail,
-	}, nil
+	}
+	if count > 1 {
+		st.Pulse = eftTail
+	}
+	return st, nil
 }

@@ -123,6 +123,9 @@ type Stimulus struct {
 	// Stop is the default simulated span in seconds for this stimulus alone;
 	// the study may extend it for slow circuits.
 	Stop float64
+	// Pulse is the span of one pulse of a train (an EFT burst, s), 0 for a
+	// single event; see Scale.
+	Pulse float64
 	// Params and Words are the parameters the stimulus was built with (New's
 	// num and str, not copied: they must not change), so that a circuit can
 	// be built for it again.
@@ -131,4 +134,15 @@ type Stimulus struct {
 	// Note is a caution to show with the stimulus (a known simplification),
 	// empty for most waveforms.
 	Note string
+}
+
+// Scale is the time scale of the stimulus's events, s: the span of one
+// pulse of a train, otherwise the whole span. A solver sizes its first
+// step after each breakpoint from it: a train's span is that of all its
+// pulses, far too long to resolve each one's rise.
+func (s *Stimulus) Scale() float64 {
+	if s.Pulse > 0 {
+		return s.Pulse
+	}
+	return s.Stop
 }
