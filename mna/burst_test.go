@@ -103,3 +103,21 @@ func TestTrainResolvedByDefault(t *testing.T) {
 		}
 	}
 }
+
+// BenchmarkBurst measures a 100 kHz burst on the accumulating bench,
+// extrapolated from its settled pulses against every pulse solved.
+func BenchmarkBurst(b *testing.B) {
+	s, st := burstBench(b, 100e3)
+	for _, c := range []struct {
+		name string
+		opt  *BurstOptions
+	}{{"extrapolated", nil}, {"every-pulse", &BurstOptions{Every: true}}} {
+		b.Run(c.name, func(b *testing.B) {
+			for b.Loop() {
+				if _, err := s.SolveBurst(st, -1, &Settings{RelTol: 1e-4}, c.opt); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
