@@ -10,13 +10,7 @@
 // Eval and never integrate anything themselves.
 package devices
 
-import (
-	"fmt"
-	"sort"
-
-	"zapnet/netlist"
-	"zapnet/waveforms"
-)
+import "zapnet/waveforms"
 
 // Ground is the index of the reference node; stamps on it are dropped.
 const Ground = -1
@@ -164,39 +158,6 @@ func (c *Context) Capacitance(k, a, b int, q, cap float64) {
 	c.Charge(k, q)
 	c.ChargeDeriv(k, a, cap)
 	c.ChargeDeriv(k, b, -cap)
-}
-
-// Constructor builds the device of one checked element.
-type Constructor func(e *netlist.Element) (Device, error)
-
-var registry = map[netlist.Kind]Constructor{}
-
-// Register makes a model available for a kind; each model file registers
-// itself in an init function. Registering a kind twice is a programming error.
-func Register(k netlist.Kind, c Constructor) {
-	if _, dup := registry[k]; dup {
-		panic("devices: kind registered twice: " + string(k))
-	}
-	registry[k] = c
-}
-
-// New builds the device of a checked element.
-func New(e *netlist.Element) (Device, error) {
-	c, ok := registry[e.Kind]
-	if !ok {
-		return nil, fmt.Errorf("%s: %s: no model for kind %q", e.Pos, e.Name, e.Kind)
-	}
-	return c(e)
-}
-
-// Kinds lists the kinds that have a model, sorted.
-func Kinds() []netlist.Kind {
-	ks := make([]netlist.Kind, 0, len(registry))
-	for k := range registry {
-		ks = append(ks, k)
-	}
-	sort.Slice(ks, func(i, j int) bool { return ks[i] < ks[j] })
-	return ks
 }
 
 // Striker is the strike device: the engine hands it each run's stimulus and

@@ -1,6 +1,6 @@
 package devices
 
-import "zapnet/netlist"
+import "zapnet/devices/spec"
 
 // Diode is the diode of MODELS.md from anode a to cathode c:
 //
@@ -22,21 +22,25 @@ type Diode struct {
 	vold    float64 // limiting memory, V
 }
 
-func init() { Register(netlist.Diode, NewDiode) }
+func init() {
+	Register(&Kind{Kind: spec.Kind{
+		Name: "diode", Summary: "a junction diode with optional breakdown",
+		Terminals: [2]string{"anode", "cathode"}, Role: spec.Protector, Order: 60,
+		Table: spec.Table{Params: []spec.Param{
+			spec.Default("is", spec.Ampere, spec.Positive, 1e-14).As(spec.Model),
+			spec.Default("n", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+			spec.Default("rs", spec.Ohm, spec.NonNegative, 0),
+			spec.Default("cj", spec.Farad, spec.NonNegative, 0),
+			spec.Optional("bv", spec.Volt, spec.Positive),
+			spec.Default("ibv", spec.Ampere, spec.Positive, 1e-3).As(spec.Model),
+		}},
+	}, New: newDiode})
+}
 
-// NewDiode builds a diode from its element.
-func NewDiode(e *netlist.Element) (Device, error) {
-	p := modelParams{e: e}
-	is := p.nonNegative("is", 1e-14)
-	n := p.positive("n", 1)
-	rs := p.nonNegative("rs", 0)
-	cj := p.nonNegative("cj", 0)
-	bv := p.nonNegative("bv", 0)
-	ibv := p.positive("ibv", 1e-3)
-	if err := p.err(); err != nil {
-		return nil, err
-	}
-	d := &Diode{name: e.Name, nodes: e.Nodes, law: newDiodeLaw(is, n, bv, ibv), cj: cj}
+// newDiode builds a diode from its checked values.
+func newDiode(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	rs := v.Num("rs")
+	d := &Diode{name: name, nodes: nodes, law: newDiodeLaw(v.Num("is"), v.Num("n"), v.Num("bv"), v.Num("ibv")), cj: v.Num("cj")}
 	if rs > 0 {
 		d.grs = 1 / rs
 	}

@@ -5,25 +5,45 @@ import (
 	"math"
 	"testing"
 
-	"zapnet/netlist"
 	"zapnet/waveforms"
 )
 
 // generatorStrike builds a strike for waveform name (num, str as on the
-// deck) between n and gnd, set to the stimulus at level, bound in a rig.
+// deck, through the waveform's table) between n and gnd, set to the
+// stimulus at level, bound in a rig.
 func generatorStrike(tb testing.TB, name string, level float64, num map[string]float64, str map[string]string, sign float64) (*Strike, *nlRig) {
 	tb.Helper()
-	s := map[string]string{"waveform": name}
-	for k, v := range str {
-		s[k] = v
-	}
-	d := nlMust(tb, nlElement(netlist.Strike, "zap", "n", "gnd", num, s)).(*Strike)
-	st, err := waveforms.New(name, level, num, str)
+	st := generatorStimulus(tb, name, level, num, str)
+	dev, err := newStrike("zap", [2]string{"n", "gnd"}, &st.Values)
 	if err != nil {
 		tb.Fatal(err)
 	}
+	d := dev.(*Strike)
 	d.SetStimulus(st, sign)
 	return d, newNLRig(tb, d, 0, Ground)
+}
+
+// generatorStimulus builds waveform name at level with the deck's values.
+func generatorStimulus(tb testing.TB, name string, level float64, num map[string]float64, str map[string]string) *waveforms.Stimulus {
+	tb.Helper()
+	w := waveforms.Lookup(name)
+	v := w.Values()
+	for k, x := range num {
+		if err := v.Set(k, x); err != nil {
+			tb.Fatal(err)
+		}
+	}
+	for k, x := range str {
+		if err := v.SetWord(k, x); err != nil {
+			tb.Fatal(err)
+		}
+	}
+	v.FillDefaults()
+	st, err := w.New(level, &v)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return st
 }
 
 var generatorCases = []struct {
@@ -45,7 +65,7 @@ var generatorCases = []struct {
 func TestGeneratorLayout(t *testing.T) {
 	for _, c := range generatorCases {
 		d, _ := generatorStrike(t, c.name, c.level, c.num, c.str, 1)
-		st, _ := waveforms.New(c.name, c.level, c.num, c.str)
+		st := generatorStimulus(t, c.name, c.level, c.num, c.str)
 		l := d.Layout()
 		nb := 0
 		for _, p := range st.Gen.Parts {
@@ -62,7 +82,7 @@ func TestGeneratorLayout(t *testing.T) {
 		}
 	}
 	// A strike without a generator waveform keeps the network's x and i.
-	d := nlMust(t, nlElement(netlist.Strike, "zap", "n", "gnd", nil, map[string]string{"waveform": "iec61000-4-2"}))
+	d := nlMust(t, nlElement("strike", "zap", "n", "gnd", nil, nil))
 	if l := d.Layout(); len(l.Internal) != 1 || l.Internal[0] != "x" || len(l.Branches) != 1 || l.Branches[0] != "i" {
 		t.Errorf("ideal-current strike layout %v, want x and i", l)
 	}
@@ -169,10 +189,10 @@ func TestGeneratorSourceThroughCapacitor(t *testing.T) {
 // A stimulus whose circuit has another shape than the strike was built for
 // is refused, by Fits and by SetStimulus.
 func TestGeneratorShapeMismatch(t *testing.T) {
-	d := nlMust(t, nlElement(netlist.Strike, "zap", "n", "gnd", nil, map[string]string{"waveform": "hbm"})).(*Strike)
-	st, _ := waveforms.New("surge-cwg", 1000, nil, nil)
+	d, _ := generatorStrike(t, "iec61000-4-2-network", 4000, nil, nil, 1)
+	st := generatorStimulus(t, "surge-cwg", 1000, nil, nil)
 	if d.Fits(st) == nil {
-		t.Fatal("a combination-wave generator fits a strike built for hbm")
+		t.Fatal("a combination-wave generator fits a strike built for the contact generator")
 	}
 	defer func() {
 		if recover() == nil {

@@ -3,7 +3,7 @@ package devices
 import (
 	"fmt"
 
-	"zapnet/netlist"
+	"zapnet/devices/spec"
 	"zapnet/waveforms"
 )
 
@@ -56,14 +56,20 @@ type Strike struct {
 // stimulus the waveforms package should have refused) from dividing by zero.
 const strikeMinR = 1e-6
 
-func init() { Register(netlist.Strike, NewStrike) }
+// StrikeKind is the strike's description. Its parameters are those of its
+// waveform (package waveforms describes them), so its own table is empty.
+var StrikeKind = &Kind{Kind: spec.Kind{
+	Name: "strike", Summary: "the discharge or surge, injected into a node",
+	Terminals: [2]string{"node", "ref"}, Role: spec.Stimulus, Order: 100, DC: spec.Blocks,
+}, New: newStrike}
 
-// NewStrike builds the strike of an element; its stimulus comes later. The
+func init() { Register(StrikeKind) }
+
+// newStrike builds a strike; its stimulus comes with each run. The
 // generator circuit it makes room for is the one its waveform builds with
-// the element's parameters.
-func NewStrike(e *netlist.Element) (Device, error) {
-	shape := waveforms.GeneratorShape(e.Str["waveform"], e.Num, e.Str)
-	return &Strike{name: e.Name, nodes: e.Nodes, gen: newGenNet(shape)}, nil
+// the strike's values v (of the waveform's table).
+func newStrike(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	return &Strike{name: name, nodes: nodes, gen: newGenNet(waveforms.GeneratorShape(v))}, nil
 }
 
 // Name implements Device.
@@ -87,7 +93,8 @@ func (d *Strike) Bind(n Nodes) []StateRows {
 
 // SetStimulus implements Striker. The stimulus is kept, not copied: it must
 // not change during a run. A generator circuit of another shape than the
-// one the strike was built for is a programming error (see Fits).
+// one the strike was built for is a programming error: the engine asks
+// Fits first.
 func (d *Strike) SetStimulus(s *waveforms.Stimulus, sign float64) {
 	f := circuitOf(s)
 	if f != nil && !d.gen.shape.SameShape(f) {
@@ -120,7 +127,7 @@ func (d *Strike) Fits(s *waveforms.Stimulus) error {
 	if f == nil || d.gen.shape.SameShape(f) {
 		return nil
 	}
-	return fmt.Errorf("strike %s was built for another generator circuit than %s's: build it from an element whose waveform is %s", d.name, s.Name, s.Name)
+	return fmt.Errorf("strike %s was built for another generator circuit than %s's: build it with the values of waveform %s", d.name, s.Name, s.Name)
 }
 
 // Reset implements Resetter: a new run may come with a stimulus changed in

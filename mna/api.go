@@ -104,9 +104,21 @@ type Result struct {
 	// integration error of the charges.
 	Balance float64
 	// Stop is the span actually simulated, s.
-	Stop  float64
-	Stats Stats
+	Stop   float64
+	Stats  Stats
+	Status Status
 }
+
+// Status says how a solution ended.
+type Status int
+
+const (
+	// Failed: the solution stopped on an error (returned beside the
+	// result), short of the stop time.
+	Failed Status = iota
+	// Completed: the solution reached the stop time.
+	Completed
+)
 
 // Stats count the work of a solution.
 type Stats struct {

@@ -4,7 +4,6 @@ import (
 	"math"
 	"testing"
 
-	"zapnet/netlist"
 	"zapnet/waveforms"
 )
 
@@ -17,19 +16,14 @@ import (
 // of each pulse grows over the first pulses, then repeats. A positive
 // pulse's charge drains through the clamp's forward path at once, so its
 // pulses repeat from the start.
-func burstBench(t testing.TB, rate float64) (*System, *waveforms.Stimulus) {
+func burstBench(t testing.TB, rate float64) (*struck, *waveforms.Stimulus) {
 	t.Helper()
-	num := map[string]float64{"burst": rate}
-	strike := el(netlist.Strike, "zap", "line", "gnd", 0)
-	strike.Num, strike.Str["waveform"] = num, "eft"
+	strike := strikeEl("zap", "line", "gnd", "eft")
+	must(strike.Values.Set("burst", rate))
 	s := compile(t, strike,
-		el(netlist.Clamp, "D1", "line", "gnd", 0, "vbr", 33.0, "rdyn", 0.5, "cj", 100e-12),
-		el(netlist.Resistor, "Rleak", "line", "gnd", 1000.0))
-	st, err := waveforms.New("eft", 2000, num, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return s, st
+		el("clamp", "D1", "line", "gnd", 0, "vbr", 33.0, "rdyn", 0.5, "cj", 100e-12),
+		el("resistor", "Rleak", "line", "gnd", 1000.0))
+	return s, stim(t, "eft", 2000, map[string]float64{"burst": rate}, nil)
 }
 
 // A burst solved to its settled pulses and extrapolated brings the same
@@ -83,10 +77,7 @@ func TestBurstExtrapolation(t *testing.T) {
 // 0.2 µs stepped over the 50 ns pulses and the clamp took 0.4 % of it.
 func TestTrainResolvedByDefault(t *testing.T) {
 	s, burst := burstBench(t, 5e3)
-	train, err := waveforms.New("eft", 2000, map[string]float64{"count": 10, "rate": 5e3}, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	train := stim(t, "eft", 2000, map[string]float64{"count": 10, "rate": 5e3}, nil)
 	d1 := elemIndex(t, s, "D1")
 	for _, st := range []*waveforms.Stimulus{burst, train} {
 		var e [2]float64

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"zapnet/devices"
 	"zapnet/netlist"
 	"zapnet/waveforms"
 )
@@ -19,10 +20,10 @@ type LoadResult struct {
 
 // IntoLoad solves the stimulus st, positive polarity, into a resistive load
 // of ohms between its node and ref (+Inf an open circuit, 0 an ideal
-// short): a generator's calibration bench. The strike is built for st's
-// waveform and parameters (Stimulus.Params, Words), so a generator circuit
-// of any shape fits. A nil set means: the stimulus's span, RelTol 1e-6,
-// MaxStep a 5000th of the span; Record is always on.
+// short): a generator's calibration bench. The strike is built with the
+// values st was built with (Stimulus.Values), so a generator circuit of any
+// shape fits. A nil set means: the stimulus's span, RelTol 1e-6, MaxStep a
+// 5000th of the span; Record is always on.
 func IntoLoad(st *waveforms.Stimulus, ohms float64, set *Settings) (*LoadResult, error) {
 	if st == nil {
 		return nil, fmt.Errorf("mna: no stimulus to solve into a load")
@@ -30,31 +31,32 @@ func IntoLoad(st *waveforms.Stimulus, ohms float64, set *Settings) (*LoadResult,
 	if math.IsNaN(ohms) || ohms < 0 {
 		return nil, fmt.Errorf("mna: a load is >= 0 ohms or open (+Inf), got %g", ohms)
 	}
-	str := map[string]string{"waveform": st.Name}
-	for k, v := range st.Words {
-		if k != "waveform" {
-			str[k] = v
-		}
-	}
 	const out = "out"
-	els := []*netlist.Element{{Kind: netlist.Strike, Name: "zap", Nodes: [2]string{out, netlist.Ground},
-		Num: st.Params, Str: str}}
+	els := []*netlist.Element{{Kind: devices.StrikeKind, Name: "zap", Nodes: [2]string{out, netlist.Ground},
+		Values: st.Values, Waveform: waveforms.Lookup(st.Name)}}
+	load := func(kind string, value float64) error {
+		k := devices.Lookup(kind)
+		v := k.Values()
+		if err := v.Set("value", value); err != nil {
+			return err
+		}
+		v.FillDefaults()
+		els = append(els, &netlist.Element{Kind: k, Name: "load", Nodes: [2]string{out, netlist.Ground}, Values: v})
+		return nil
+	}
+	var err error
 	switch {
 	case ohms == 0:
-		els = append(els, &netlist.Element{Kind: netlist.Supply, Name: "load", Nodes: [2]string{out, netlist.Ground},
-			Num: map[string]float64{"value": 0}})
+		err = load("supply", 0)
 	case !math.IsInf(ohms, 1):
-		els = append(els, &netlist.Element{Kind: netlist.Resistor, Name: "load", Nodes: [2]string{out, netlist.Ground},
-			Num: map[string]float64{"value": ohms}})
+		err = load("resistor", ohms)
+	}
+	if err != nil {
+		return nil, fmt.Errorf("mna: load of %g ohms: %w", ohms, err)
 	}
 	sys, err := Compile(&netlist.Circuit{Elements: els})
 	if err != nil {
 		return nil, err
-	}
-	if s := sys.strikeDev(); s != nil {
-		if err := s.Fits(st); err != nil {
-			return nil, err
-		}
 	}
 	var cfg Settings
 	if set != nil {
@@ -69,8 +71,7 @@ func IntoLoad(st *waveforms.Stimulus, ohms float64, set *Settings) (*LoadResult,
 		cfg.MaxStep = cfg.Stop / 5000
 	}
 	cfg.Record = true
-	sys.SetStimulus(st, 1)
-	res, err := sys.Transient(&cfg)
+	res, err := sys.Transient(st, 1, &cfg)
 	if err != nil {
 		return nil, err
 	}
@@ -103,16 +104,4 @@ func LoadSolver(set *Settings) waveforms.Solver {
 		}
 		return r.Time, r.I, r.V, nil
 	}
-}
-
-// fitter is the strike's check that a stimulus fits the unknowns it was
-// built for.
-type fitter interface {
-	Fits(*waveforms.Stimulus) error
-}
-
-// strikeDev is the strike, if it can tell whether a stimulus fits it.
-func (s *System) strikeDev() fitter {
-	f, _ := s.striker.(fitter)
-	return f
 }

@@ -29,7 +29,7 @@ type System struct {
 	probes      []string
 
 	striker devices.Striker
-	stim    *waveforms.Stimulus // for the breakpoints and the default span
+	stim    *waveforms.Stimulus // of the run under way: its breakpoints and span
 
 	n     int
 	ctx   devices.Context
@@ -89,14 +89,14 @@ type device struct {
 //
 // Nodes() lists the circuit nodes in order of first appearance among the
 // elements' terminals (deck order). Every element, the strike included, is
-// built from the device registry.
+// built by its kind's constructor (devices.Kind.New).
 func Compile(c *netlist.Circuit) (*System, error) {
 	s := &System{}
 	var errs []error
 	for _, e := range c.Elements {
-		d, err := devices.New(e)
+		d, err := e.Kind.New(e.Name, e.Nodes, &e.Values)
 		if err != nil {
-			errs = append(errs, err)
+			errs = append(errs, fmt.Errorf("%s: %s %s: %w", e.Pos, e.Kind.Name, e.Name, err))
 			continue
 		}
 		s.devs = append(s.devs, device{dev: d})
@@ -358,18 +358,26 @@ func (s *System) Elements() []string { return s.elements }
 // Probes are the names of the devices' probes, "ELEMENT.probe", in result order.
 func (s *System) Probes() []string { return s.probes }
 
-// Unknowns are the names of every unknown of the system, in matrix order:
-// circuit nodes by name, internal nodes and branch currents as
-// ELEMENT.suffix.
-func (s *System) Unknowns() []string { return s.unknowns }
-
-// SetStimulus sets the strike of the next runs; sign is +1 or −1; nil: none.
-// The stimulus also supplies the breakpoints and the default span.
-func (s *System) SetStimulus(st *waveforms.Stimulus, sign float64) {
+// setStimulus hands the run's stimulus to the strike; it also supplies the
+// breakpoints and the default span. A generator circuit the strike was not
+// built for (a stimulus of another waveform than the strike's) is refused.
+func (s *System) setStimulus(st *waveforms.Stimulus, sign float64) error {
+	if f, ok := s.striker.(fitter); ok {
+		if err := f.Fits(st); err != nil {
+			return err
+		}
+	}
 	s.stim = st
 	if s.striker != nil {
 		s.striker.SetStimulus(st, sign)
 	}
+	return nil
+}
+
+// fitter is a strike that can tell whether a stimulus fits the unknowns it
+// was built for.
+type fitter interface {
+	Fits(*waveforms.Stimulus) error
 }
 
 // hintFor suggests what to try when the solution is stuck at unknown i.

@@ -135,8 +135,7 @@ func (s *System) solvePulses(cut *waveforms.Stimulus, sign float64, set *Setting
 			user(p)
 		}
 	}
-	s.SetStimulus(cut, sign)
-	res, err := s.Transient(&cfg)
+	res, err := s.Transient(cut, sign, &cfg)
 	if err != nil {
 		return nil, nil, Stats{}, err
 	}

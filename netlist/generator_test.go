@@ -15,7 +15,7 @@ func TestGeneratorStrikeErrors(t *testing.T) {
 		want      []string
 	}{
 		{"path slip", "strike s2 tst gnd waveform=surge-cwg level=1k path=line-erth",
-			[]string{"1:52: strike path is direct, line-line, line-earth, io, not line-erth (did you mean line-earth?)", second}},
+			[]string{"1:52: strike path is direct, line-line, line-earth or io, not line-erth (did you mean line-earth?)", second}},
 		{"path of another waveform", "strike s2 tst gnd waveform=surge-1.2-50 level=1k path=io",
 			[]string{"1:50: path is a parameter of waveform surge-cwg, not of surge-1.2-50", second}},
 		{"approach of another waveform", "strike s2 tst gnd waveform=iec61000-4-2-network level=8k approach=0.5",
@@ -42,21 +42,21 @@ func TestGeneratorStrikeRead(t *testing.T) {
 		t.Fatal(err)
 	}
 	s := c.Strike()
-	if s.Str["path"] != "line-earth" || !reflect.DeepEqual(s.Levels, []float64{500, 1000}) || LevelUnit("surge-cwg") != "V" {
+	if s.Values.Word("path") != "line-earth" || !reflect.DeepEqual(s.Levels, []float64{500, 1000}) || s.Waveform.Unit != "V" {
 		t.Errorf("strike %+v", s)
 	}
 	c, err = Parse("t.zap", []byte("strike zap a gnd waveform=eft level=2k burst=100k\nresistor R a gnd 1k\n"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	if s := c.Strike(); s.Num["burst"] != 100e3 {
-		t.Errorf("burst %g", s.Num["burst"])
+	if s := c.Strike(); s.Values.Num("burst") != 100e3 {
+		t.Errorf("burst %g", s.Values.Num("burst"))
 	}
 	c, err = Parse("t.zap", []byte("strike zap a gnd waveform=iec61000-4-2-air level=15k,35k\nresistor R a gnd 1k\n"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	if s := c.Strike(); s.Num["approach"] != 1 || len(c.Warnings) != 1 {
-		t.Errorf("air: approach %g (want the default 1), warnings %v", s.Num["approach"], c.Warnings)
+	if s := c.Strike(); s.Values.Num("approach") != 1 || len(c.Warnings) != 1 {
+		t.Errorf("air: approach %g (want the default 1), warnings %v", s.Values.Num("approach"), c.Warnings)
 	}
 }

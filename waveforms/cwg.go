@@ -2,8 +2,25 @@ package waveforms
 
 import (
 	"fmt"
+	"math"
 	"strings"
+
+	"zapnet/devices/spec"
 )
+
+func init() {
+	var paths []string
+	for _, p := range CouplingPaths {
+		paths = append(paths, p.Name)
+	}
+	Register(&Waveform{Name: "surge-cwg", Unit: spec.Volt, Level: 1000,
+		Summary: "IEC 61000-4-5 combination wave generator (1.2/50 µs open, 8/20 µs short) with its coupling path",
+		Table:   spec.Table{Words: []spec.Word{{Key: "path", Choices: paths, Default: "direct", Fixed: true}}},
+		build:   newSurgeCWG,
+		Order:   55, Load: math.Inf(1), Loads: []float64{0},
+		checks: checksCWG,
+	})
+}
 
 // The IEC 61000-4-5 combination wave generator as one network.
 //
@@ -60,8 +77,8 @@ const cwgStop = surgeVStop
 // newSurgeCWG is the combination wave generator; level is its open-circuit
 // peak voltage, word path (direct, line-line, line-earth, io; default
 // direct) the coupling path.
-func newSurgeCWG(level float64, p params) (*Stimulus, error) {
-	name := p.str["path"]
+func newSurgeCWG(level float64, v *spec.Values) (*Stimulus, error) {
+	name := v.Word("path")
 	if name == "" {
 		name = "direct"
 	}
@@ -74,7 +91,7 @@ func newSurgeCWG(level float64, p params) (*Stimulus, error) {
 		}
 	}
 	if path == nil {
-		return nil, fmt.Errorf("%s: path %s is none of %s", p.name, name, strings.Join(names, ", "))
+		return nil, fmt.Errorf("surge-cwg: path %s is none of %s", name, strings.Join(names, ", "))
 	}
 	const c, s = 0, 1
 	f := &Fragment{

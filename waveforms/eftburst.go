@@ -3,6 +3,8 @@ package waveforms
 import (
 	"fmt"
 	"math"
+
+	"zapnet/devices/spec"
 )
 
 // IEC 61000-4-4 bursts: 75 pulses of 5/50 ns at 5 kHz (a 15 ms burst) or at
@@ -39,27 +41,27 @@ func (b *Burst) First(n int) (*Stimulus, error) {
 // newEFTAny is the eft waveform: a standard burst through the coupling
 // capacitor with burst= (Hz: 5k or 100k), otherwise the pulse or pulse
 // train of newEFT.
-func newEFTAny(level float64, p params) (*Stimulus, error) {
-	if _, ok := p.num["burst"]; ok {
-		return newEFTBurst(level, p)
+func newEFTAny(level float64, v *spec.Values) (*Stimulus, error) {
+	if v.Has("burst") {
+		return newEFTBurst(level, v)
 	}
-	return newEFT(level, p)
+	return newEFT(level, v)
 }
 
 // newEFTBurst is a burst of the standard: 75 pulses at the rate burst=
 // (5 kHz or 100 kHz) from 50 Ω through 33 nF. It replaces count and rate.
-func newEFTBurst(level float64, p params) (*Stimulus, error) {
-	rate := p.num["burst"]
+func newEFTBurst(level float64, v *spec.Values) (*Stimulus, error) {
+	rate := v.Num("burst")
 	ok := false
 	for _, r := range eftBurstRates {
 		ok = ok || math.Abs(rate-r) <= 1e-9*r
 	}
 	if !ok {
-		return nil, fmt.Errorf("%s: burst is the repetition rate of IEC 61000-4-4, 5 kHz or 100 kHz, got %g Hz", p.name, rate)
+		return nil, fmt.Errorf("eft: burst is the repetition rate of IEC 61000-4-4, 5 kHz or 100 kHz, got %g Hz", rate)
 	}
 	b := &Burst{Pulses: eftBurstPulses, Period: 1 / rate, Every: eftBurstEvery}
 	b.first = func(n int) (*Stimulus, error) {
-		train, err := newEFT(level, params{name: p.name, num: map[string]float64{"count": float64(n), "rate": rate}})
+		train, err := eftTrain(level, n, rate)
 		if err != nil {
 			return nil, err
 		}
@@ -71,9 +73,9 @@ func newEFTBurst(level float64, p params) (*Stimulus, error) {
 				{Kind: PartCapacitor, Name: "ccpl", A: g, B: Out, Value: eftCoupling},
 			},
 		}
-		return &Stimulus{Name: p.name, Level: level, Unit: "V", Form: Generator, Gen: f,
+		return &Stimulus{Name: "eft", Level: level, Unit: "V", Form: Generator, Gen: f,
 			Breakpoints: train.Breakpoints, Stop: float64(n) * b.Period, Pulse: eftTail, Burst: b,
-			Params: p.num, Words: p.str}, nil
+			Values: *v}, nil
 	}
 	return b.First(b.Pulses)
 }

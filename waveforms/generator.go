@@ -3,7 +3,31 @@ package waveforms
 import (
 	"fmt"
 	"math"
+
+	"zapnet/devices/spec"
 )
+
+func init() {
+	Register(&Waveform{Name: "iec61000-4-2-network", Unit: spec.Volt, Level: 4000, Discharge: true,
+		Summary: "IEC 61000-4-2 contact discharge from the generator network: 150 pF, 330 Ω and its fast parasitic branch",
+		build:   newIECNetwork,
+		Order:   11, Load: iecTarget,
+		checks: checksIECNetwork,
+	})
+}
+
+func init() {
+	Register(&Waveform{Name: "iec61000-4-2-air", Unit: spec.Volt, Level: 8000, Discharge: true,
+		Summary: "IEC 61000-4-2 air discharge: the generator network through a spark (Rompe–Weizel) across the Paschen gap",
+		Table: spec.Table{Params: []spec.Param{
+			spec.Default("approach", spec.Dimensionless, spec.Positive, 1).
+				Noted("the fraction of the breakdown gap left when the spark forms"),
+		}},
+		build: newIECAir,
+		Order: 12, Load: iecTarget,
+		checks: checksAir,
+	})
+}
 
 // The IEC 61000-4-2 generator as a network, for contact and air discharge.
 //
@@ -141,7 +165,7 @@ func iecFragment(v0 float64, sw Part) *Fragment {
 const iecNetStop = 5*iecRm*iecCm + 10*iecLm/iecRm
 
 // newIECNetwork is the contact discharge: the generator through its relay.
-func newIECNetwork(level float64, _ params) (*Stimulus, error) {
+func newIECNetwork(level float64, _ *spec.Values) (*Stimulus, error) {
 	f := iecFragment(level, Part{Kind: PartSwitch, Name: "relay"})
 	return &Stimulus{Form: Generator, Gen: f, Breakpoints: []float64{0}, Stop: iecNetStop}, nil
 }
@@ -149,17 +173,14 @@ func newIECNetwork(level float64, _ params) (*Stimulus, error) {
 // newIECAir is the air discharge: the generator through a spark gap of
 // approach × the Paschen gap of the level (key approach, 0 < approach <= 1,
 // default 1).
-func newIECAir(level float64, p params) (*Stimulus, error) {
-	approach, err := p.positive("approach", 1)
-	if err != nil {
-		return nil, err
-	}
-	if approach > 1 {
-		return nil, fmt.Errorf("%s: approach is the fraction of the breakdown gap left when the spark forms, from above 0 to 1, got %g", p.name, approach)
+func newIECAir(level float64, v *spec.Values) (*Stimulus, error) {
+	approach := v.Num("approach")
+	if !(approach > 0 && approach <= 1) {
+		return nil, fmt.Errorf("iec61000-4-2-air: approach is the fraction of the breakdown gap left when the spark forms, from above 0 to 1, got %g", approach)
 	}
 	d, err := PaschenGap(level)
 	if err != nil {
-		return nil, fmt.Errorf("%s: %v", p.name, err)
+		return nil, fmt.Errorf("iec61000-4-2-air: %v", err)
 	}
 	sw := Part{Kind: PartSwitch, Name: "gap", Spark: &Spark{Gap: approach * d, A: sparkA, R0: sparkR0}}
 	return &Stimulus{Form: Generator, Gen: iecFragment(level, sw), Breakpoints: []float64{0},
@@ -179,16 +200,20 @@ var generatorWaveforms = map[string]bool{
 	"eft":                  true,
 }
 
-// GeneratorShape returns the generator circuit the named waveform builds
-// with these parameters, at its typical level: a strike builds its unknowns
-// for it, and every level of a study has the same shape. For a waveform
-// without a generator circuit of its own (an ideal current, a Thevenin
-// source, hbm and iso10605, an unknown name) it is the charged network of
-// hbm and iso10605, whose two unknowns the other forms leave idle.
-func GeneratorShape(name string, num map[string]float64, str map[string]string) *Fragment {
-	if generatorWaveforms[name] {
-		if w, err := lookup(name); err == nil {
-			if s, err := New(name, w.level, num, str); err == nil && s.Gen != nil {
+// GeneratorShape returns the generator circuit a strike's waveform builds
+// with the strike's values v (of the waveform's table), at the waveform's
+// typical level: the strike builds its unknowns for it, and every level of
+// a study has the same shape. For a waveform without a generator circuit
+// of its own (an ideal current, a Thevenin source, hbm and iso10605) or no
+// values at all it is the charged network of hbm and iso10605, whose two
+// unknowns the other forms leave idle.
+func GeneratorShape(v *spec.Values) *Fragment {
+	if v != nil {
+		for _, w := range registry {
+			if &w.Table != v.Table() || !generatorWaveforms[w.Name] {
+				continue
+			}
+			if s, err := w.New(w.Level, v); err == nil && s.Gen != nil {
 				return s.Gen
 			}
 		}

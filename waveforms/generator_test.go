@@ -42,21 +42,28 @@ func TestFragmentCheck(t *testing.T) {
 // Levels change values, never the shape; parameters may change it.
 func TestGeneratorShapeByLevel(t *testing.T) {
 	for _, name := range []string{"iec61000-4-2-network", "iec61000-4-2-air", "surge-cwg"} {
-		a, _ := New(name, 2000, nil, nil)
-		b, _ := New(name, 15000, nil, nil)
-		if !a.Gen.SameShape(b.Gen) || !GeneratorShape(name, nil, nil).SameShape(a.Gen) {
+		a, _ := mk(name, 2000, nil, nil)
+		b, _ := mk(name, 15000, nil, nil)
+		if !a.Gen.SameShape(b.Gen) || !GeneratorShape(&b.Values).SameShape(a.Gen) {
 			t.Errorf("%s: shape changes with the level", name)
 		}
 	}
-	direct := GeneratorShape("surge-cwg", nil, nil)
-	io := GeneratorShape("surge-cwg", nil, map[string]string{"path": "io"})
+	shape := func(name string, num map[string]float64, str map[string]string) *Fragment {
+		s, err := mk(name, 1000, num, str)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return GeneratorShape(&s.Values)
+	}
+	direct := shape("surge-cwg", nil, nil)
+	io := shape("surge-cwg", nil, map[string]string{"path": "io"})
 	if direct.SameShape(io) {
 		t.Error("the io coupling path adds no parts")
 	}
-	if !GeneratorShape("hbm", nil, nil).SameShape(GeneratorShape("iec61000-4-2", nil, nil)) {
-		t.Error("hbm and the ideal current do not share the network's shape")
+	if !shape("hbm", nil, nil).SameShape(shape("iec61000-4-2", nil, nil)) || !GeneratorShape(nil).SameShape(shape("hbm", nil, nil)) {
+		t.Error("hbm, the ideal current and no values do not share the network's shape")
 	}
-	if !GeneratorShape("eft", map[string]float64{"burst": 5e3}, nil).SameShape(GeneratorShape("eft", map[string]float64{"burst": 100e3}, nil)) {
+	if !shape("eft", map[string]float64{"burst": 5e3}, nil).SameShape(shape("eft", map[string]float64{"burst": 100e3}, nil)) {
 		t.Error("the two burst rates differ in shape")
 	}
 }
@@ -78,7 +85,7 @@ func TestFragmentEnergy(t *testing.T) {
 			t.Errorf("%s: %g J, want %g J", c.f, got, c.want)
 		}
 	}
-	s, _ := New("iec61000-4-2-network", 8000, nil, nil)
+	s, _ := mk("iec61000-4-2-network", 8000, nil, nil)
 	if got, want := s.Gen.Energy(), 0.5*(150e-12+7.51e-12)*8000*8000; math.Abs(got/want-1) > 1e-12 {
 		t.Errorf("contact generator at 8 kV holds %g J, want %g J", got, want)
 	}
@@ -122,7 +129,7 @@ func TestPaschen(t *testing.T) {
 func TestAirGap(t *testing.T) {
 	d8, _ := PaschenGap(8000)
 	for _, a := range []float64{1, 0.5, 0.1} {
-		s, err := New("iec61000-4-2-air", 8000, map[string]float64{"approach": a}, nil)
+		s, err := mk("iec61000-4-2-air", 8000, map[string]float64{"approach": a}, nil)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -137,7 +144,7 @@ func TestAirGap(t *testing.T) {
 		}
 	}
 	for _, a := range []float64{1.5, -1, 0} {
-		if _, err := New("iec61000-4-2-air", 8000, map[string]float64{"approach": a}, nil); err == nil {
+		if _, err := mk("iec61000-4-2-air", 8000, map[string]float64{"approach": a}, nil); err == nil {
 			t.Errorf("approach %g accepted", a)
 		}
 	}
@@ -165,7 +172,7 @@ func TestSparkResistance(t *testing.T) {
 // followed by a full period; other rates are refused.
 func TestEFTStandardBurst(t *testing.T) {
 	for _, c := range []struct{ rate, length float64 }{{5e3, 15e-3}, {100e3, 0.75e-3}} {
-		s, err := New("eft", 1000, map[string]float64{"burst": c.rate, "count": 1, "rate": 5e3}, nil)
+		s, err := mk("eft", 1000, map[string]float64{"burst": c.rate, "count": 1, "rate": 5e3}, nil)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -184,7 +191,7 @@ func TestEFTStandardBurst(t *testing.T) {
 			t.Error("76 pulses cut from a burst of 75")
 		}
 	}
-	if _, err := New("eft", 1000, map[string]float64{"burst": 10e3}, nil); err == nil {
+	if _, err := mk("eft", 1000, map[string]float64{"burst": 10e3}, nil); err == nil {
 		t.Error("a 10 kHz burst accepted")
 	}
 }
@@ -199,7 +206,7 @@ func TestCouplingPaths(t *testing.T) {
 		if p.C != w[0] || p.R != w[1] || p.Total != w[2] || p.Total != 2+p.R {
 			t.Errorf("%s: %+v", p.Name, p)
 		}
-		s, err := New("surge-cwg", 1000, nil, map[string]string{"path": p.Name})
+		s, err := mk("surge-cwg", 1000, nil, map[string]string{"path": p.Name})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -216,7 +223,7 @@ func TestCouplingPaths(t *testing.T) {
 			t.Errorf("%s: circuit %s", p.Name, s.Gen)
 		}
 	}
-	if _, err := New("surge-cwg", 1000, nil, map[string]string{"path": "line-sky"}); err == nil {
+	if _, err := mk("surge-cwg", 1000, nil, map[string]string{"path": "line-sky"}); err == nil {
 		t.Error("an unknown path accepted")
 	}
 }

@@ -3,6 +3,7 @@ package waveforms
 import (
 	"fmt"
 	"math"
+	"sort"
 )
 
 // The generator self-check: a network stimulus has no closed form, so its
@@ -18,31 +19,27 @@ import (
 type Solver func(s *Stimulus, load, span float64) (t, i, v []float64, err error)
 
 // CalibrationLoads lists the loads, in ohms, into which a waveform's
-// published check points are stated, the prescribed one first: the 2 Ω
-// target of IEC 61000-4-2, an open circuit and a short for the combination
-// wave (its voltage and its current), 50 Ω and 1 kΩ for IEC 61000-4-4's
-// fast transient, a short for the human-body and ISO 10605 networks.
+// published check points are stated, the prescribed one first
+// (Waveform.Load, then Waveform.Loads): the 2 Ω target of IEC 61000-4-2, an
+// open circuit and a short for the combination wave (its voltage and its
+// current), 50 Ω and 1 kΩ for IEC 61000-4-4's fast transient, a short for
+// the human-body and ISO 10605 networks. Nil for an unknown waveform.
 func CalibrationLoads(name string) []float64 {
-	switch name {
-	case "iec61000-4-2", "iec61000-4-2-network", "iec61000-4-2-air":
-		return []float64{iecTarget}
-	case "surge-cwg", "surge-1.2-50":
-		return []float64{math.Inf(1), 0}
-	case "eft":
-		return []float64{eftR, 1000}
-	case "pwl":
+	w := Lookup(name)
+	if w == nil {
 		return nil
 	}
-	return []float64{0}
+	return append([]float64{w.Load}, w.Loads...)
 }
 
 // SolvedChecks compares the stimulus s, solved by solve into load (ohms;
 // DefaultLoad or any negative value: the prescribed load), with the
-// published check points of its standard. Rows without a published value
-// (how an air discharge comes out, the current through a coupling path)
-// carry a NaN Published, an unbounded window and the tolerance "none
-// published". A load with no published points gives no checks and no
-// error. The first error of the solver is returned.
+// published check points of its standard: the waveform's own checks,
+// measured on the engine's samples rather than in closed form. Rows without
+// a published value (how an air discharge comes out, the current through a
+// coupling path) carry a NaN Published, an unbounded window and the
+// tolerance "none published". A load with no published points gives no
+// checks and no error. The first error of the solver is returned.
 func SolvedChecks(s *Stimulus, load float64, solve Solver) ([]Check, error) {
 	if s == nil {
 		return nil, fmt.Errorf("checks: no stimulus")
@@ -51,40 +48,15 @@ func SolvedChecks(s *Stimulus, load float64, solve Solver) ([]Check, error) {
 	if math.IsNaN(load) || load < 0 {
 		return nil, fmt.Errorf("checks: load must be >= 0 ohms or +Inf, got %g", load)
 	}
-	var err error
-	m := solvedMeter(s, solve, &err)
-	var cs []Check
-	switch s.Name {
-	case "iec61000-4-2-network":
-		if load == iecTarget {
-			cs = checksIEC(s, m)
-		}
-	case "iec61000-4-2-air":
-		if load == iecTarget {
-			cs, err = checksAir(s, solve)
-		}
-	case "surge-cwg":
-		cs, err = checksCWG(s, load, solve)
-	case "eft":
-		pulse := s
-		if s.Burst != nil {
-			if pulse, err = s.Burst.First(1); err != nil {
-				return nil, err
-			}
-		}
-		if load == eftR || load == 1000 {
-			cs = checksEFT(pulse, load, solvedMeter(pulse, solve, &err))
-		}
-	case "hbm":
-		cs = checksHBM(s, load, m)
-	case "iso10605":
-		cs = checksISO(s, load, m)
-	default:
-		if s.Form == Generator {
-			return nil, fmt.Errorf("checks: no check points known for generator %s", s.Name)
-		}
-		return Checks(s, load)
+	w := Lookup(s.Name)
+	switch {
+	case w == nil:
+		return nil, fmt.Errorf("checks: unknown waveform %q", s.Name)
+	case w.checks == nil:
+		return nil, nil
 	}
+	var err error
+	cs := w.checks(s, load, solvedMeter(solve, &err))
 	if err != nil {
 		return nil, err
 	}
@@ -98,14 +70,18 @@ func info(q, unit string, computed float64, src, ref string) Check {
 		Lo: math.Inf(-1), Hi: math.Inf(1), Tol: "none published", Within: true, Source: src, Ref: ref}
 }
 
-// solvedMeter measures s on the solver's samples; each load and span is
-// solved once. A solver error is kept in *errp and gives a channel of NaN.
-func solvedMeter(s *Stimulus, solve Solver, errp *error) meter {
-	type key struct{ load, stop float64 }
+// solvedMeter measures on the solver's samples; each stimulus, load and
+// span is solved once. A solver error is kept in *errp and gives a channel
+// of NaN.
+func solvedMeter(solve Solver, errp *error) meter {
+	type key struct {
+		s          *Stimulus
+		load, stop float64
+	}
 	type run struct{ t, i, v []float64 }
 	cache := map[key]run{}
-	return func(load, stop float64, voltage bool) shape {
-		k := key{load, stop}
+	return func(s *Stimulus, load, stop float64, voltage bool) shape {
+		k := key{s, load, stop}
 		r, ok := cache[k]
 		if !ok {
 			t, i, v, err := solve(s, load, stop)
@@ -123,8 +99,27 @@ func solvedMeter(s *Stimulus, solve Solver, errp *error) meter {
 		if voltage {
 			y = r.v
 		}
-		return shape{g: func(x float64) float64 { return ValueAt(r.t, y, x) }, t: r.t, y: y, sampled: true}
+		return shape{g: func(x float64) float64 { return valueAt(r.t, y, x) }, t: r.t, y: y, sampled: true}
 	}
+}
+
+// valueAt is the samples' piecewise-linear value at time at (the first or
+// last value outside them).
+func valueAt(t, y []float64, at float64) float64 {
+	n := len(t)
+	switch {
+	case n == 0:
+		return math.NaN()
+	case at <= t[0]:
+		return y[0]
+	case at >= t[n-1]:
+		return y[n-1]
+	}
+	k := sort.SearchFloat64s(t, at) // t[k-1] < at <= t[k]
+	if t[k] == at {
+		return y[k]
+	}
+	return lerp(t[k-1], y[k-1], t[k], y[k], at)
 }
 
 // parabolaPeak is the vertex of the parabola through three samples around
@@ -147,26 +142,34 @@ func parabolaPeak(t, y []float64) (v, at float64) {
 	return y0 + (y1-y0)/(t1-t0)*(x-t0) + a*(x-t0)*(x-t1), x
 }
 
+// checksIECNetwork: the contact generator's table into the 2 Ω target
+// (checksIEC); into other loads the standard publishes nothing.
+func checksIECNetwork(s *Stimulus, load float64, m meter) []Check {
+	if load != iecTarget {
+		return nil
+	}
+	return checksIEC(s, m)
+}
+
 // checksAir: IEC 61000-4-2 calibrates the generator in contact mode only
 // [pub: air discharge has no calibration waveform]. The rows are the
 // contact generator's table at the level, then how this air discharge
-// comes out into the same 2 Ω target: the spark's gap, the first peak,
-// its time and the 10–90 % rise (none published; the first peak is not
+// comes out into the same 2 Ω target: the spark's gap, the first peak, its
+// time and the 10–90 % rise (none published; the first peak is not
 // proportional to the level).
-func checksAir(s *Stimulus, solve Solver) ([]Check, error) {
-	var err error
-	contact, err := New("iec61000-4-2-network", s.Level, nil, nil)
-	if err != nil {
-		return nil, err
+func checksAir(s *Stimulus, load float64, m meter) []Check {
+	if load != iecTarget {
+		return nil
 	}
-	cs := checksIEC(contact, solvedMeter(contact, solve, &err))
+	contact, err := Lookup("iec61000-4-2-network").New(s.Level, nil)
+	if err != nil {
+		return nil
+	}
+	cs := checksIEC(contact, m)
 	for k := range cs {
 		cs[k].Quantity = "generator (contact): " + cs[k].Quantity
 	}
-	sh := solvedMeter(s, solve, &err)(iecTarget, s.Stop, false)
-	if err != nil {
-		return nil, err
-	}
+	sh := m(s, iecTarget, s.Stop, false)
 	pv, pt := sh.peak()
 	rise := sh.riseCross(0.9*pv) - sh.riseCross(0.1*pv)
 	ref := "air discharge through the Paschen gap, Rompe–Weizel spark (not calibrated by the standard)"
@@ -181,7 +184,7 @@ func checksAir(s *Stimulus, solve Solver) ([]Check, error) {
 		info("air: first peak", "A", pv, "[calc]", ref),
 		info("air: time of first peak", "s", pt, "[calc]", ref),
 		info("air: rise 10-90 %", "s", rise, "[calc]", ref),
-	), nil
+	)
 }
 
 // checksCWG: the combination wave generator at its own output [pub values,
@@ -191,27 +194,26 @@ func checksAir(s *Stimulus, solve Solver) ([]Check, error) {
 // level/2 Ω ±10 %, front 1.25·(10–90 %) 8 µs ±20 %, time to half value
 // 20 µs ±20 %); into either, the effective output impedance, open-circuit
 // peak over short-circuit peak, 2 Ω ±10 % [mem]. With a coupling path the
-// generator rows are the generator's own, and a row shows the peak current
-// through the path into a short against level / the path's total
+// generator rows are the generator's own, and into a short a row shows the
+// peak current through the path against level / the path's total
 // impedance (an approximation that ignores the coupling capacitor's
 // charging, [calc]).
-func checksCWG(s *Stimulus, load float64, solve Solver) ([]Check, error) {
+func checksCWG(s *Stimulus, load float64, m meter) []Check {
 	if !math.IsInf(load, 1) && load != 0 {
-		return nil, nil
+		return nil
 	}
-	var err error
 	gen := s
-	path := s.Words["path"]
-	if path != "" && path != "direct" {
-		if gen, err = New("surge-cwg", s.Level, nil, nil); err != nil {
-			return nil, err
+	path := s.Values.Word("path")
+	if path != "direct" {
+		var err error
+		if gen, err = Lookup("surge-cwg").New(s.Level, nil); err != nil {
+			return nil
 		}
 	}
-	m := solvedMeter(gen, solve, &err)
 	ref := "IEC 61000-4-5 combination wave generator, tolerances [mem]"
 	var cs []Check
-	vpk, vfront, vhalf := frontTail(m(math.Inf(1), gen.Stop, true), 0.3, 0.9, 1.67)
-	ipk, ifront, ihalf := frontTail(m(0, gen.Stop, false), 0.1, 0.9, 1.25)
+	vpk, vfront, vhalf := frontTail(m(gen, math.Inf(1), gen.Stop, true), 0.3, 0.9, 1.67)
+	ipk, ifront, ihalf := frontTail(m(gen, 0, gen.Stop, false), 0.1, 0.9, 1.25)
 	if math.IsInf(load, 1) {
 		cs = append(cs,
 			rel("open-circuit peak", "V", vpk, s.Level, 0.10, "[pub]", ref),
@@ -230,12 +232,12 @@ func checksCWG(s *Stimulus, load float64, solve Solver) ([]Check, error) {
 			if p.Name != path {
 				continue
 			}
-			pk, _ := solvedMeter(s, solve, &err)(0, s.Stop, false).peak()
+			pk, _ := m(s, 0, s.Stop, false).peak()
 			c := info("through "+p.Name+": short-circuit peak", "A", pk, "[calc]",
 				fmt.Sprintf("level / %g Ω, the path's total impedance (coupling path values [mem])", p.Total))
 			c.Published = s.Level / p.Total
 			cs = append(cs, c)
 		}
 	}
-	return cs, err
+	return cs
 }

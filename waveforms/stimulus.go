@@ -63,6 +63,8 @@
 // the peak, in per cent of the peak.
 package waveforms
 
+import "zapnet/devices/spec"
+
 // Form says how a stimulus meets the circuit.
 type Form int
 
@@ -126,11 +128,9 @@ type Stimulus struct {
 	// Pulse is the span of one pulse of a train (an EFT burst, s), 0 for a
 	// single event; see Scale.
 	Pulse float64
-	// Params and Words are the parameters the stimulus was built with (New's
-	// num and str, not copied: they must not change), so that a circuit can
-	// be built for it again.
-	Params map[string]float64
-	Words  map[string]string
+	// Values are the parameters the stimulus was built with (of its
+	// waveform's table), so that a strike can be built for it again.
+	Values spec.Values
 	// Note is a caution to show with the stimulus (a known simplification),
 	// empty for most waveforms.
 	Note string

@@ -9,8 +9,8 @@ import (
 	"strconv"
 	"strings"
 
-	"zapnet/cmd/internal/study"
-	"zapnet/netlist"
+	"zapnet/devices/spec"
+	"zapnet/mna/study"
 )
 
 // CSV writes a recorded run's waveforms (OUTPUT.md): a header
@@ -103,9 +103,9 @@ func CSVPaths(target, deck string, runs []study.Run) ([]string, error) {
 func RunName(r *study.Run) string {
 	var parts []string
 	for _, s := range r.Variant {
-		parts = append(parts, s.Element+"."+s.Param+"-"+s.Value)
+		parts = append(parts, s.Target()+"-"+s.Text)
 	}
-	parts = append(parts, netlist.FormatSI(r.Level, r.LevelUnit), r.Polarity)
+	parts = append(parts, spec.FormatSI(r.Level, r.LevelUnit), r.Polarity)
 	name := strings.Join(parts, "_")
 	return strings.Map(func(c rune) rune {
 		switch {
