@@ -28,7 +28,7 @@ func burstBench(t testing.TB, rate float64) (*struck, *waveforms.Stimulus) {
 
 // A burst solved to its settled pulses and extrapolated brings the same
 // clamp energy as every pulse solved, within 1 % [the requirement; the
-// bound of SolveBurst's test is 0.4 %], for both polarities, and solves
+// bound of SolveBurst's test is 0.2 %], for both polarities, and solves
 // fewer pulses; the per-pulse energies add up to the run's ledger. The
 // negative burst does accumulate: its last pulse brings the clamp over
 // 20 % more than its first [calc: the mechanism above], so the
