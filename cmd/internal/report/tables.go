@@ -156,6 +156,10 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 	if clamps := clampRows(r); len(clamps) > 0 {
 		section(w, "Clamps", []string{"clamp", "peak current", "at", "ipp (margin)", "energy", "emax (margin)"}, clamps)
 	}
+	if bu := r.Burst; bu != nil && len(bu.Elements) > 0 {
+		section(w, burstTitle(bu), []string{"clamp", "first pulse", "largest pulse", "one burst", "average power",
+			fmt.Sprintf("%d bursts (1 min)", bu.PerMinute), "average power (1 min)"}, burstRows(bu))
+	}
 
 	// The residual pulse at each protected pin; the ratings themselves are
 	// in the limits table.
@@ -229,6 +233,28 @@ func clampRows(r *study.Run) [][]string {
 		}
 		rows = append(rows, []string{e.Name, si(e.PeakCurrent, "A"), si(e.TPeak, "s"),
 			rating(r.LimitOn(e.Name, spec.PeakCurrent)), si(e.Energy, "J"), rating(r.LimitOn(e.Name, spec.Energy))})
+	}
+	return rows
+}
+
+// burstTitle heads a burst's table: its pulses, their spacing and the
+// bursts' (the burst's energies, not a pulse's, are the clamp's burden).
+func burstTitle(bu *study.BurstReport) string {
+	solved := "every pulse solved"
+	if bu.Extrapolated {
+		solved = fmt.Sprintf("%d pulses solved, the rest repeat them", bu.Solved)
+	}
+	return fmt.Sprintf("Burst: %d pulses %s apart (%s long), one burst every %s; %s", bu.Pulses,
+		si(bu.Period, "s"), si(bu.Length, "s"), si(bu.Every, "s"), solved)
+}
+
+// burstRows are each protector's energy per pulse, per burst and per
+// minute, with the average powers.
+func burstRows(bu *study.BurstReport) [][]string {
+	var rows [][]string
+	for _, e := range bu.Elements {
+		rows = append(rows, []string{e.Name, si(e.FirstPulse, "J"), si(e.LargestPulse, "J"), si(e.Energy, "J"),
+			si(e.Power, "W"), si(e.MinuteEnergy, "J"), si(e.MinutePower, "W")})
 	}
 	return rows
 }
