@@ -16,6 +16,10 @@ const (
 	eftCoupling    = 33e-9  // F
 )
 
+// BurstNote is the caution carried by a burst stimulus.
+const BurstNote = "The checks measure the burst's first pulse. zapnet run solves the burst to its settled pulses, " +
+	"takes the rest to repeat them, and reports each clamp's energy and average power over a burst and over a minute of bursts."
+
 // eftBurstRates are the published repetition rates, Hz.
 var eftBurstRates = []float64{5e3, 100e3}
 
@@ -75,7 +79,7 @@ func newEFTBurst(level float64, v *spec.Values) (*Stimulus, error) {
 		}
 		return &Stimulus{Name: "eft", Level: level, Unit: "V", Form: Generator, Gen: f,
 			Breakpoints: train.Breakpoints, Stop: float64(n) * b.Period, Pulse: eftTail, Burst: b,
-			Values: *v}, nil
+			Values: *v, Note: BurstNote}, nil
 	}
 	return b.First(b.Pulses)
 }

@@ -179,13 +179,28 @@ func checksAir(s *Stimulus, load float64, m meter) []Check {
 			gap = p.Spark.Gap
 		}
 	}
-	return append(cs,
+	cs = append(cs,
 		info("spark gap", "m", gap, "[pub]", ref+"; Paschen's law for air"),
 		info("air: first peak", "A", pv, "[calc]", ref),
 		info("air: time of first peak", "s", pt, "[calc]", ref),
 		info("air: rise 10-90 %", "s", rise, "[calc]", ref),
 	)
+	// The first peak against the level, at the standard's air-discharge
+	// levels [pub: 2, 4, 8 and 15 kV] with the same approach: not
+	// proportional, so a pass at one level says little about another.
+	for _, level := range airLevels {
+		at, err := Lookup(s.Name).New(level, &s.Values)
+		if err != nil {
+			continue
+		}
+		pk, _ := m(at, iecTarget, at.Stop, false).peak()
+		cs = append(cs, info(fmt.Sprintf("air: first peak per kV at %g kV", level/1000), "A/kV", pk/(level/1000), "[calc]", ref))
+	}
+	return cs
 }
+
+// airLevels are IEC 61000-4-2's air-discharge test levels, V [pub].
+var airLevels = []float64{2000, 4000, 8000, 15000}
 
 // checksCWG: the combination wave generator at its own output [pub values,
 // mem tolerances: IEC 61000-4-5]: into an open circuit the 1.2/50 µs

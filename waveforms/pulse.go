@@ -194,7 +194,13 @@ func checksEFT(s *Stimulus, load float64, m meter) []Check {
 		}
 		s = first
 	}
-	ref := "IEC 61000-4-4, into 50 Ω"
+	ref := "IEC 61000-4-4, into " + siFormat(load, "Ω")
+	if math.IsInf(load, 1) {
+		ref = "IEC 61000-4-4, open circuit"
+	}
+	if s.Burst != nil || s.Gen != nil {
+		ref += ", the burst's first pulse through the coupling capacitor"
+	}
 	// Into a short there is no voltage: check the current instead.
 	q, unit, want := "peak voltage", "V", s.Level
 	if !math.IsInf(load, 1) {
