@@ -21,7 +21,7 @@ func init() {
 				WarnFrom(0.1, "capacitor %s is %s: unusually large for a capacitor on a protected line"),
 			spec.Default("esr", spec.Ohm, spec.NonNegative, 0),
 			spec.Default("esl", spec.Henry, spec.NonNegative, 0),
-			spec.Limit("rating", spec.Volt, spec.Positive, spec.PeakVoltage, true, "peak voltage"),
+			spec.Limit("rating", spec.Volt, spec.Positive, spec.PeakVoltage, true, "dielectric voltage").Of("vc"),
 		}},
 	}, New: newCapacitor})
 }
@@ -67,6 +67,14 @@ func (d *capacitor) Bind(n Nodes) []StateRows {
 	rows[0] = StateRows{Plus: d.l, Minus: d.b}
 	return rows
 }
+
+// Probes implements Prober: "vc" is the voltage on the dielectric, across C
+// alone, which is what a capacitor's voltage rating is about; the drop
+// across esr and esl is not on the dielectric.
+func (d *capacitor) Probes() []Probe { return []Probe{{Name: "vc", Unit: spec.Volt}} }
+
+// Probe implements Prober.
+func (d *capacitor) Probe(x []float64, dst []float64) { dst[0] = at(x, d.l) - at(x, d.b) }
 
 func (d *capacitor) Eval(c *Context) {
 	if d.gesr > 0 {

@@ -12,10 +12,11 @@ import "zapnet/devices/spec"
 // the current of clampLaw (uni or bi, see junction.go) plus the engine's
 // gmin, and the charge q(u) with C(u) = cj·(1+|u|/vj)^(−m) when cj > 0.
 //
-// Defaults (applied here too, so an element built in code needs only vbr):
-// it = 1 mA, nbr = 1, is = 1e-14 A, n = 1, rdyn = 0, ls = 0, cj = 0, m = 0,
-// vj = 0.7 V, polarity = uni. The ratings ipp and emax are the study's, not
-// the model's.
+// Defaults: it = 1 mA, nbr = 1, is = 1e-14 A, n = 1, rdyn = 0, ls = 0,
+// cj = 0, m = 0, vj = 0.7 V, polarity = uni. The ratings are the study's,
+// not the model's: vrwm, the stand-off (reverse working) voltage, against
+// the voltage across the clamp at the operating point; ipp and emax against
+// the strike.
 type Clamp struct {
 	name  string
 	nodes [2]string
@@ -47,6 +48,7 @@ var clampKind = &Kind{Kind: spec.Kind{
 			spec.Default("m", spec.Dimensionless, spec.Fraction, 0).As(spec.Model),
 			spec.Default("is", spec.Ampere, spec.Positive, 1e-14).As(spec.Model),
 			spec.Default("n", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+			spec.Limit("vrwm", spec.Volt, spec.Positive, spec.StandOff, true, "stand-off voltage"),
 			spec.Limit("ipp", spec.Ampere, spec.Positive, spec.PeakCurrent, true, "peak current"),
 			spec.Limit("emax", spec.Joule, spec.Positive, spec.Energy, true, "energy"),
 		},

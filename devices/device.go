@@ -10,7 +10,10 @@
 // Eval and never integrate anything themselves.
 package devices
 
-import "zapnet/waveforms"
+import (
+	"zapnet/devices/spec"
+	"zapnet/waveforms"
+)
 
 // Ground is the index of the reference node; stamps on it are dropped.
 const Ground = -1
@@ -59,7 +62,7 @@ type (
 	// Prober reports named internal quantities at a solution point (for
 	// example the current through a pin's internal clamp paths, in A).
 	Prober interface {
-		Probes() []string
+		Probes() []Probe
 		Probe(x []float64, dst []float64)
 	}
 )
@@ -158,6 +161,20 @@ func (c *Context) Capacitance(k, a, b int, q, cap float64) {
 	c.Charge(k, q)
 	c.ChargeDeriv(k, a, cap)
 	c.ChargeDeriv(k, b, -cap)
+}
+
+// at is x[i], 0 for Ground: a probe reads a solution outside Eval.
+func at(x []float64, i int) float64 {
+	if i < 0 {
+		return 0
+	}
+	return x[i]
+}
+
+// Probe names one internal quantity of a device and its unit.
+type Probe struct {
+	Name string // "ipath"; the engine reports it as "ELEMENT.ipath"
+	Unit spec.Unit
 }
 
 // Striker is the strike device: the engine hands it each run's stimulus and

@@ -14,9 +14,9 @@ func TestDiodeCurrentMatchesContract(t *testing.T) {
 		{1e-14, 1, 5.1, 1e-3},
 		{2e-9, 1.9, 12, 5e-3},
 	} {
-		num := map[string]float64{"is": par.is, "n": par.n, "ibv": par.ibv}
+		num := map[string]float64{"is": par.is, "n": par.n, "it": par.ibv}
 		if par.bv > 0 {
-			num["bv"] = par.bv
+			num["vbr"] = par.bv
 		}
 		r := newNLRig(t, nlMust(t, nlElement("diode", "D1", "a", "gnd", num, nil)), 0, Ground)
 		for v := -par.bv - 0.4; v <= 0.85; v += 0.01 {
@@ -40,8 +40,8 @@ func TestDiodeJacobian(t *testing.T) {
 	for vi, num := range []map[string]float64{
 		{},
 		{"rs": 2, "cj": 5e-12},
-		{"bv": 5.1, "rs": 0.5},
-		{"bv": 12, "ibv": 5e-3, "is": 2e-9, "n": 1.9, "cj": 1e-12},
+		{"vbr": 5.1, "rs": 0.5},
+		{"vbr": 12, "it": 5e-3, "is": 2e-9, "n": 1.9, "cj": 1e-12},
 	} {
 		d := nlMust(t, nlElement("diode", "D1", "a", "c", num, nil)).(*Diode)
 		for _, c := range []int{1, Ground} {
@@ -64,7 +64,7 @@ func TestDiodeLimitingAndNewton(t *testing.T) {
 	// breakdown past −bv is cut the same way in w = −v − bv (NUMERICS.md,
 	// classic damping) [calc].
 	bv, n := 5.1, 1.5
-	d := nlMust(t, nlElement("diode", "D1", "a", "gnd", map[string]float64{"bv": bv, "n": n, "rs": 0.5}, nil)).(*Diode)
+	d := nlMust(t, nlElement("diode", "D1", "a", "gnd", map[string]float64{"vbr": bv, "n": n, "rs": 0.5}, nil)).(*Diode)
 	r := newNLRig(t, d, 0, Ground)
 	nvt := n * vtRef
 	for _, tc := range []struct{ v, want float64 }{

@@ -218,19 +218,19 @@ func (l *clampLaw) gradedCharge(u float64) (q, c float64) {
 // diodeLaw is the diode of MODELS.md, current from anode to cathode as a
 // function of v = v(anode) − v(cathode):
 //
-//	i(v) = is·[exp(v/(n·Vt)) − 1] − ibv·exp(−(v+bv)/(n·Vt))   (last term only when bv > 0)
+//	i(v) = is·[exp(v/(n·Vt)) − 1] − it·exp(−(v+vbr)/(n·Vt))   (last term only when vbr > 0)
 type diodeLaw struct {
 	fw    expTerm // is·exp(v/(n·Vt))
 	hasBv bool
-	bv    expTerm // ibv·exp((−v−bv)/(n·Vt))
+	bv    expTerm // it·exp((−v−vbr)/(n·Vt))
 }
 
-func newDiodeLaw(is, n, bv, ibv float64) diodeLaw {
+func newDiodeLaw(is, n, vbr, it float64) diodeLaw {
 	nVt := n * ThermalVoltage
 	l := diodeLaw{fw: newExpTerm(is, nVt, 1, 0)}
-	if bv > 0 {
+	if vbr > 0 {
 		l.hasBv = true
-		l.bv = newExpTerm(ibv, nVt, -1, bv)
+		l.bv = newExpTerm(it, nVt, -1, vbr)
 	}
 	return l
 }

@@ -45,7 +45,7 @@ func nlCases() []nlCase {
 	return []nlCase{
 		{"clamp", plain(nlElement("clamp", "D1", "a", "gnd", map[string]float64{"vbr": 6.8}, nil), 0, Ground)},
 		{"clamp-full", plain(nlElement("clamp", "D1", "a", "gnd", map[string]float64{"vbr": 6.8, "rdyn": 0.3, "ls": 0.5e-9, "cj": 10e-12, "m": 0.4}, map[string]string{"polarity": "bi"}), 0, Ground)},
-		{"diode", plain(nlElement("diode", "D2", "a", "gnd", map[string]float64{"bv": 5, "rs": 1, "cj": 1e-12}, nil), 0, Ground)},
+		{"diode", plain(nlElement("diode", "D2", "a", "gnd", map[string]float64{"vbr": 5, "rs": 1, "cj": 1e-12}, nil), 0, Ground)},
 		{"pin", plain(nlElement("pin", "U1", "p", "gnd", map[string]float64{"cin": 5e-12}, map[string]string{"rail": "vdd"}), 0, Ground, 1)},
 		{"pin-vbr", plain(nlElement("pin", "U1", "p", "gnd", map[string]float64{"cin": 5e-12, "vbr": 5.5, "rdyn": 1}, nil), 0, Ground)},
 		{"bead", plain(nlElement("bead", "FB1", "a", "b", beadNum, nil), 0, 1)},

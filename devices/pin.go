@@ -61,7 +61,7 @@ func init() {
 					WarnAbove(100, "pin %s has rdyn %s: unusually high"),
 				spec.Limit("vmax", spec.Volt, spec.Any, spec.HighVoltage, true, "residual peak"),
 				spec.Limit("vmin", spec.Volt, spec.Any, spec.LowVoltage, false, "residual low"),
-				spec.Limit("ifail", spec.Ampere, spec.Positive, spec.PathCurrent, true, "internal clamp current"),
+				spec.Limit("ifail", spec.Ampere, spec.Positive, spec.PeakCurrent, true, "internal clamp current").Of("ipath"),
 			},
 			Words: []spec.Word{{Key: "rail", Node: true, Fixed: true}},
 		},
@@ -161,34 +161,28 @@ func (d *Pin) Eval(c *Context) {
 }
 
 // Probes implements Prober.
-func (d *Pin) Probes() []string { return []string{"ipath"} }
+func (d *Pin) Probes() []Probe { return []Probe{{Name: "ipath", Unit: spec.Ampere}} }
 
 // Probe implements Prober: dst[0] is ipath at the solution x.
 func (d *Pin) Probe(x []float64, dst []float64) {
-	at := func(i int) float64 {
-		if i < 0 {
-			return 0
-		}
-		return x[i]
-	}
 	var out float64
 	switch {
 	case d.gLow > 0:
-		out = (at(d.p) - at(d.kl)) * d.gLow
+		out = (at(x, d.p) - at(x, d.kl)) * d.gLow
 	case d.clamp:
-		u := at(d.kl) - at(d.r)
+		u := at(x, d.kl) - at(x, d.r)
 		i, _ := d.low.current(u)
 		out = i + d.gmin*u
 	default:
-		v := at(d.r) - at(d.kl)
+		v := at(x, d.r) - at(x, d.kl)
 		i, _ := d.lowDio.current(v)
 		out = -(i + d.gmin*v)
 	}
 	if d.hasRail {
 		if d.gUp > 0 {
-			out += (at(d.p) - at(d.ku)) * d.gUp
+			out += (at(x, d.p) - at(x, d.ku)) * d.gUp
 		} else {
-			v := at(d.ku) - at(d.rl)
+			v := at(x, d.ku) - at(x, d.rl)
 			i, _ := d.upDio.current(v)
 			out += i + d.gmin*v
 		}

@@ -137,7 +137,7 @@ func TestPinLayout(t *testing.T) {
 	if len(l.Terminals) != 3 || l.Terminals[2] != "vdd" || len(l.Internal) != 2 {
 		t.Errorf("layout %+v", l)
 	}
-	if p, ok := d.(Prober); !ok || len(p.Probes()) != 1 || p.Probes()[0] != "ipath" {
+	if p, ok := d.(Prober); !ok || len(p.Probes()) != 1 || p.Probes()[0].Name != "ipath" || p.Probes()[0].Unit != "A" {
 		t.Error("pin must probe ipath")
 	}
 }

@@ -2,7 +2,10 @@ package devices
 
 import "zapnet/devices/spec"
 
-// resistor is i = v/R between its nodes (MODELS.md, linear parts).
+// resistor is i = v/R between its nodes (MODELS.md, linear parts). Its
+// pulse ratings are the energy it may absorb in one event (emax) and the
+// largest instantaneous power (pmax), as a pulse-withstanding resistor's
+// data give them.
 type resistor struct {
 	name  string
 	nodes [2]string
@@ -17,6 +20,8 @@ func init() {
 		Table: spec.Table{Params: []spec.Param{
 			spec.Required("value", spec.Ohm, spec.Positive).Scales().
 				WarnAbove(1e9, "resistor %s is %s: unusually large"),
+			spec.Limit("emax", spec.Joule, spec.Positive, spec.Energy, true, "energy"),
+			spec.Limit("pmax", spec.Watt, spec.Positive, spec.PeakPower, true, "peak power"),
 		}},
 	}, New: newResistor})
 }

@@ -81,6 +81,7 @@ type Point struct {
 	T float64
 	V []float64 // node voltages, in System.Nodes order, V
 	I []float64 // current into each element's first terminal, System.Elements order, A
+	W []float64 // power into each element, Σ v·i over its terminals, System.Elements order, W
 	P []float64 // probe values, System.Probes order
 }
 

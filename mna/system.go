@@ -26,7 +26,7 @@ type System struct {
 	nodeDevs    [][]int  // devices touching each circuit node, for hints
 	devs        []device
 	elements    []string
-	probes      []string
+	probes      []devices.Probe
 
 	striker devices.Striker
 	stim    *waveforms.Stimulus // of the run under way: its breakpoints and span
@@ -182,7 +182,8 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		d.probeBase = nProbe
 		if d.prober != nil {
 			for _, p := range d.prober.Probes() {
-				s.probes = append(s.probes, name+"."+p)
+				p.Name = name + "." + p.Name
+				s.probes = append(s.probes, p)
 				nProbe++
 				d.nProbe++
 			}
@@ -268,6 +269,7 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.pt = Point{
 		V: make([]float64, len(s.nodeNames)),
 		I: make([]float64, len(s.devs)),
+		W: make([]float64, len(s.devs)),
 		P: make([]float64, nProbe),
 	}
 	s.ctx = devices.Context{
@@ -355,8 +357,8 @@ func (s *System) Nodes() []string { return s.nodeNames }
 // Elements are the element names, in result order (deck order).
 func (s *System) Elements() []string { return s.elements }
 
-// Probes are the names of the devices' probes, "ELEMENT.probe", in result order.
-func (s *System) Probes() []string { return s.probes }
+// Probes are the devices' probes, named "ELEMENT.probe", in result order.
+func (s *System) Probes() []devices.Probe { return s.probes }
 
 // setStimulus hands the run's stimulus to the strike; it also supplies the
 // breakpoints and the default span. A generator circuit the strike was not

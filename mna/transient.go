@@ -380,6 +380,7 @@ func (s *System) accept(res *Result, cfg *Settings, now, h float64, first bool) 
 			res.Energy[di] += 0.5 * h * (s.power[di] + p)
 		}
 		s.power[di] = p
+		pt.W[di] = p
 		i := 0.0
 		switch {
 		case len(d.term) > 0 && d.term[0] >= 0:

@@ -84,6 +84,13 @@ func (p *parser) readParam(k *devices.Kind, kv rawParam, vals *spec.Values, skip
 		return true
 	}
 	sp := k.Param(kv.key)
+	if now, ok := k.Renamed[kv.key]; ok {
+		p.errs.Add(kv.keyPos, ErrUnknown, "%s of %s is now called %s", kv.key, aKind(k), now)
+		if skip != nil {
+			skip[now] = true
+		}
+		return false
+	}
 	if sp == nil {
 		p.errs.Add(kv.keyPos, ErrUnknown, "unknown parameter %s for %s%s", kv.key, aKind(k), didYouMean(kv.key, keysOf(k)))
 		if skip != nil {

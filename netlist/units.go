@@ -91,7 +91,7 @@ func parseNumber(s string, allowPercent bool) (number, string) {
 			case r == utf8.RuneError:
 				return number{}, fmt.Sprintf("%q: unexpected character after the number", s)
 			case strings.EqualFold(suffix, "meg") || (len(suffix) > 3 && strings.EqualFold(suffix[:3], "meg")):
-				return number{}, fmt.Sprintf("%q: there is no MEG prefix; write M for mega (1M) and m for milli", s)
+				return number{}, fmt.Sprintf("%q: the prefixes are f, p, n, u (µ), m, k, M, G and T; mega is M (1M) and milli is m", s)
 			case ok && (rest == "" || uok):
 				exp += p
 				n.unit = u

@@ -9,17 +9,12 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/olekukonko/tablewriter"
-
 	"zapnet/cmd/internal/report"
 	"zapnet/devices/spec"
 	"zapnet/mna"
 	"zapnet/netlist"
 	"zapnet/waveforms"
 )
-
-// waveformCaution ends every waveform report (SAFETY.md).
-const waveformCaution = "A simulation is an estimate, not a compliance result."
 
 // waveformOptions are the settings of `zapnet waveform`.
 type waveformOptions struct {
@@ -105,6 +100,9 @@ A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 		v.FillDefaults()
 		opt.params = &v
 	}
+	out := newOutputs()
+	out.file("--csv", opt.csv)
+	errs = append(errs, out.err())
 	if err := errors.Join(errs...); err != nil {
 		return fmt.Errorf("waveform: %w", err)
 	}
@@ -160,7 +158,7 @@ func waveformReport(opt waveformOptions, out, stdout io.Writer) error {
 	}
 	doc := waveformDoc{Tool: "zapnet", Version: Version, Waveform: s.Name, Level: s.Level, LevelUnit: s.Unit,
 		Params: paramsOf(s), Load: jsonLoad(load), Source: describeSource(s), Pass: true,
-		Checks: checks, Note: s.Note, Caution: waveformCaution}
+		Checks: checks, Note: s.Note, Caution: report.Caution}
 	for _, c := range checks {
 		doc.Pass = doc.Pass && c.Within
 	}
@@ -184,28 +182,7 @@ func waveformReport(opt waveformOptions, out, stdout io.Writer) error {
 	if len(checks) == 0 {
 		fmt.Fprintf(w, "No published check points for this waveform%s.\n", map[bool]string{true: " with these network values", false: ""}[s.Name == "iso10605"])
 	} else {
-		table := tablewriter.NewWriter(w)
-		table.Header("quantity", "computed", "published", "tolerance", "result", "source")
-		for _, c := range checks {
-			pub := waveforms.FormatValue(c.Published, c.Unit)
-			switch {
-			case math.IsInf(c.Lo, -1) && math.IsInf(c.Hi, 1) && math.IsNaN(c.Published):
-				pub = "-"
-			case math.IsNaN(c.Published):
-				pub = "window"
-			}
-			result := "within"
-			switch {
-			case !c.Within:
-				result = "OUTSIDE"
-			case math.IsInf(c.Lo, -1) && math.IsInf(c.Hi, 1):
-				result = "-"
-			}
-			if err := table.Append(c.Quantity, waveforms.FormatValue(c.Computed, c.Unit), pub, c.Tol, result, c.Source); err != nil {
-				return err
-			}
-		}
-		if err := table.Render(); err != nil {
+		if err := report.CheckTable(w, checks); err != nil {
 			return err
 		}
 		fmt.Fprintln(w, "\nReferences:")
@@ -226,7 +203,7 @@ func waveformReport(opt waveformOptions, out, stdout io.Writer) error {
 	if opt.json != "" && opt.json != "-" {
 		fmt.Fprintf(w, "\nChecks written to %s\n", opt.json)
 	}
-	fmt.Fprintf(w, "\n%s\n", waveformCaution)
+	fmt.Fprintf(w, "\n%s\n", report.Caution)
 	return w.Flush()
 }
 
@@ -275,10 +252,10 @@ func loadText(s *waveforms.Stimulus, load float64) string {
 	return d
 }
 
-// writeWaveformCSV writes the sampled waveform (OUTPUT.md): `time,i(NAME)`
-// and, for Thevenin and network sources, `v(NAME)`, the voltage across the
-// load; one row per sample, SI units, %.9g. The file is written whole or
-// not at all (report.WriteFile).
+// writeWaveformCSV writes the sampled waveform (OUTPUT.md): `time [s]`,
+// `current [A]` into the load and, for Thevenin and network sources,
+// `voltage [V]` across it; one row per sample, SI units, %.9g. The file is
+// written whole or not at all (report.WriteFile).
 func writeWaveformCSV(path string, s *waveforms.Stimulus, load float64) error {
 	t, i, v, err := sampled(s, load)
 	if err != nil {
@@ -287,9 +264,9 @@ func writeWaveformCSV(path string, s *waveforms.Stimulus, load float64) error {
 	return report.WriteFile(path, func(w io.Writer) error {
 		// The buffered writer's error sticks: WriteFile's flush reports it.
 		if v == nil {
-			fmt.Fprintf(w, "time,i(%s)\n", s.Name)
+			fmt.Fprintln(w, "time [s],current [A]")
 		} else {
-			fmt.Fprintf(w, "time,i(%s),v(%s)\n", s.Name, s.Name)
+			fmt.Fprintln(w, "time [s],current [A],voltage [V]")
 		}
 		for k := range t {
 			if v == nil {

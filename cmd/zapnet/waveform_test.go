@@ -9,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"zapnet/cmd/internal/report"
 	"zapnet/waveforms"
 )
 
@@ -26,7 +27,7 @@ func TestWaveformReportIEC4k(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
 	for _, want := range []string{"14.92 A", "811 ps", "15 A", "within", "[pub]",
-		"A simulation is an estimate, not a compliance result."} {
+		report.Caution} {
 		if !strings.Contains(out, want) {
 			t.Errorf("report lacks %q:\n%s", want, out)
 		}
@@ -60,7 +61,7 @@ func TestWaveformEveryName(t *testing.T) {
 			t.Errorf("%s: exit %d: %s", n, code, errOut)
 			continue
 		}
-		if !strings.HasSuffix(out, "A simulation is an estimate, not a compliance result.\n") {
+		if !strings.HasSuffix(out, report.Caution+"\n") {
 			t.Errorf("%s: no caution at the end:\n%s", n, out)
 		}
 		if n == "surge-1.2-50" && !strings.Contains(out, "8/20 µs current into a short, which this source does not") {
@@ -89,7 +90,7 @@ func TestWaveformCSV(t *testing.T) {
 		t.Fatal(err)
 	}
 	lines := strings.Split(strings.TrimSpace(string(data)), "\n")
-	if lines[0] != "time,i(iec61000-4-2)" {
+	if lines[0] != "time [s],current [A]" {
 		t.Errorf("header %q", lines[0])
 	}
 	ts, is, err := waveforms.ReadPWL(path)
@@ -117,7 +118,7 @@ func TestWaveformCSV(t *testing.T) {
 	}
 	data, _ = os.ReadFile(path)
 	lines = strings.Split(strings.TrimSpace(string(data)), "\n")
-	if lines[0] != "time,i(hbm),v(hbm)" {
+	if lines[0] != "time [s],current [A],voltage [V]" {
 		t.Errorf("header %q", lines[0])
 	}
 	for _, l := range lines[1:] {

@@ -142,9 +142,11 @@ const (
 	// HighVoltage is the highest v(a) − v(b); LowVoltage the lowest.
 	HighVoltage
 	LowVoltage
-	// PathCurrent is the largest |current| the device reports in its
-	// "ipath" probe: a protected pin's internal clamp paths.
-	PathCurrent
+	// PeakPower is the largest |v(a) − v(b)|·|i| the element takes.
+	PeakPower
+	// StandOff is |v(a) − v(b)| at the operating point, before the
+	// strike: the working voltage the part stands off.
+	StandOff
 )
 
 // Rates describes a rating: the measurement it is compared with and on
@@ -157,6 +159,10 @@ type Rates struct {
 	// Says names the measurement in a failure sentence: "peak current",
 	// "residual peak".
 	Says string
+	// Probe, when set, names the device's probe (devices.Probe) the
+	// measure reads instead of the element's terminals: the current in a
+	// pin's internal paths, the voltage on a capacitor's dielectric.
+	Probe string
 }
 
 // Unusual flags legal values that are probably slips.
@@ -217,6 +223,15 @@ func Optional(key string, u Unit, r Rule) Param {
 // failure sentence.
 func Limit(key string, u Unit, r Rule, m Measure, upper bool, says string) Param {
 	return Param{Key: key, Unit: u, Rule: r, Class: Rating, Rates: &Rates{Measure: m, Upper: upper, Says: says}}
+}
+
+// Of returns the rating p judged on the device's probe instead of its
+// terminals.
+func (p Param) Of(probe string) Param {
+	r := *p.Rates
+	r.Probe = probe
+	p.Rates = &r
+	return p
 }
 
 // As returns p of class c.

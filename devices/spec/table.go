@@ -255,6 +255,9 @@ type Kind struct {
 	// r, a bead's rdc): a loop of such branches has no DC solution. ""
 	// for kinds that are never one.
 	IdealWithout string
+	// Renamed maps the retired spellings of parameters to their names
+	// now: a deck that uses one is told the new name.
+	Renamed map[string]string
 	Table
 }
 

@@ -21,35 +21,57 @@ type Bench struct {
 
 	sys    *mna.System
 	strike *netlist.Element
-	nodes  []string // System.Nodes
-	elems  []string // System.Elements
-	probes []string // System.Probes
-	strIdx int      // the strike among elems
+	nodes  []string        // System.Nodes
+	elems  []string        // System.Elements
+	probes []devices.Probe // System.Probes
+	strIdx int             // the strike among elems
 
 	// Streaming measurements, reset before every solve and fed by observe.
 	first   bool
 	nodeTr  []waveforms.Tracker // per node, its voltage
 	node0   []float64           // per node, its value at t = 0
 	elemTr  []waveforms.Tracker // per element, its current
+	w0      []float64           // per element, its power at t = 0 (the operating point), W
+	i0      []float64           // per element, its current at t = 0, A
 	meters  []elemMeter         // per element but the strike, deck order
 	observe func(p *mna.Point)
 }
 
 // elemMeter follows what the ratings and the role of one element ask to be
-// measured beyond its current: the voltage across it and the current in its
-// internal paths.
+// measured beyond its current: the voltage across it, its power, and the
+// device probes its ratings name (a pin's internal-path current, a
+// capacitor's dielectric voltage).
 type elemMeter struct {
-	e       *netlist.Element
-	elem    int // element index in the system
-	a, b    int // node indices of its terminals; −1 for gnd
-	across  bool
-	v       waveforms.Tracker // v(a) − v(b), when across
-	v0      float64
-	path    bool
-	probe   int               // probe index of ELEMENT.ipath, −1: the element's current
-	ip      waveforms.Tracker // internal-path current, when path
-	ip0     float64
-	ratings []spec.Param // the ratings the element has values for
+	e      *netlist.Element
+	elem   int // element index in the system
+	a, b   int // node indices of its terminals; −1 for gnd
+	across bool
+	v      waveforms.Tracker // v(a) − v(b), when across
+	v0     float64
+	power  bool
+	w      waveforms.Tracker // Σ v·i into it, when power
+	probes []probeMeter
+	// ratings are the ratings the element has values for.
+	ratings []spec.Param
+}
+
+// probeMeter follows one device probe.
+type probeMeter struct {
+	name string // the device's name for it: "ipath"
+	unit spec.Unit
+	idx  int // in System.Probes
+	tr   waveforms.Tracker
+	v0   float64
+}
+
+// probe returns the meter of the element's probe name, or nil.
+func (m *elemMeter) probe(name string) *probeMeter {
+	for k := range m.probes {
+		if m.probes[k].name == name {
+			return &m.probes[k]
+		}
+	}
+	return nil
 }
 
 // NewBench applies the variant to c and compiles the result.
@@ -70,7 +92,10 @@ func NewBench(c *netlist.Circuit, v netlist.Variant) (*Bench, error) {
 		nodes: sys.Nodes(), elems: sys.Elements(), probes: sys.Probes(), strIdx: -1}
 	nodeIdx := indexOf(b.nodes)
 	elemIdx := indexOf(b.elems)
-	probeIdx := indexOf(b.probes)
+	probeIdx := map[string]int{}
+	for i, p := range b.probes {
+		probeIdx[p.Name] = i
+	}
 	node := func(n string) int {
 		if i, ok := nodeIdx[n]; ok && n != netlist.Ground {
 			return i
@@ -83,27 +108,51 @@ func NewBench(c *netlist.Circuit, v netlist.Variant) (*Bench, error) {
 	b.nodeTr = make([]waveforms.Tracker, len(b.nodes))
 	b.node0 = make([]float64, len(b.nodes))
 	b.elemTr = make([]waveforms.Tracker, len(b.elems))
+	b.w0 = make([]float64, len(b.elems))
+	b.i0 = make([]float64, len(b.elems))
 	for _, e := range vc.Elements {
-		if e.IsStrike() {
+		if !e.IsStrike() {
+			b.meters = append(b.meters, newMeter(e, elemIdx[e.Name], node(e.Nodes[0]), node(e.Nodes[1]), b.probes))
+		}
+	}
+	b.observe = b.sample
+	return b, nil
+}
+
+// newMeter sets up what element e (index elem, terminal nodes a and b)
+// needs measured: the voltage across a protected pin or an element rated on
+// it, the power of one rated on it, and every probe a rating of its kind
+// reads, whether or not this element gives that rating (the reports show
+// the quantity either way).
+func newMeter(e *netlist.Element, elem, a, b int, probes []devices.Probe) elemMeter {
+	m := elemMeter{e: e, elem: elem, a: a, b: b, across: e.Kind.Role == spec.ProtectedPin}
+	// Widths are of interest only against a rating; an infinite threshold
+	// keeps them at zero.
+	m.v.Above, m.v.Below = math.Inf(1), math.Inf(-1)
+	for _, r := range e.Kind.Ratings() {
+		if r.Rates.Measure == spec.PeakVoltage || r.Rates.Measure == spec.StandOff || e.Kind.Role == spec.Protector {
+			m.across = true // the voltage across the terminals is reported beside a probe's
+		}
+		switch {
+		case r.Rates.Probe != "":
+			if m.probe(r.Rates.Probe) == nil {
+				for i, p := range probes {
+					if p.Name == e.Name+"."+r.Rates.Probe {
+						m.probes = append(m.probes, probeMeter{name: r.Rates.Probe, unit: p.Unit, idx: i})
+					}
+				}
+			}
+		case r.Rates.Measure == spec.PeakVoltage || r.Rates.Measure == spec.HighVoltage || r.Rates.Measure == spec.LowVoltage:
+			m.across = true
+		case r.Rates.Measure == spec.PeakPower:
+			m.power = true
+		}
+		val, ok := e.Values.Lookup(r.Key)
+		if !ok {
 			continue
 		}
-		m := elemMeter{e: e, elem: elemIdx[e.Name], a: node(e.Nodes[0]), b: node(e.Nodes[1]), probe: -1,
-			across: e.Kind.Role == spec.ProtectedPin}
-		// Widths are of interest only against a rating; an infinite
-		// threshold keeps them at zero.
-		m.v.Above, m.v.Below = math.Inf(1), math.Inf(-1)
-		for _, r := range e.Kind.Ratings() {
-			switch r.Rates.Measure {
-			case spec.PeakVoltage, spec.HighVoltage, spec.LowVoltage:
-				m.across = true
-			case spec.PathCurrent:
-				m.path = true
-			}
-			val, ok := e.Values.Lookup(r.Key)
-			if !ok {
-				continue
-			}
-			m.ratings = append(m.ratings, r)
+		m.ratings = append(m.ratings, r)
+		if r.Rates.Probe == "" {
 			switch r.Rates.Measure {
 			case spec.HighVoltage:
 				m.v.Above = val
@@ -111,19 +160,15 @@ func NewBench(c *netlist.Circuit, v netlist.Variant) (*Bench, error) {
 				m.v.Below = val
 			}
 		}
-		if i, ok := probeIdx[e.Name+".ipath"]; ok {
-			m.probe = i
-		}
-		b.meters = append(b.meters, m)
 	}
-	b.observe = b.sample
-	return b, nil
+	return m
 }
 
-// rating returns the element's value of the rating on measure m.
-func (m *elemMeter) rating(meas spec.Measure) (float64, bool) {
+// rating returns the element's value of its rating on measure meas of the
+// probe named probe ("" for its terminals).
+func (m *elemMeter) rating(meas spec.Measure, probe string) (float64, bool) {
 	for _, r := range m.ratings {
-		if r.Rates.Measure == meas {
+		if r.Rates.Measure == meas && r.Rates.Probe == probe {
 			return m.e.Values.Lookup(r.Key)
 		}
 	}
@@ -163,16 +208,20 @@ func (b *Bench) sample(p *mna.Point) {
 				m.v0 = v
 			}
 		}
-		if m.path {
-			ip := p.I[m.elem]
-			if m.probe >= 0 {
-				ip = p.P[m.probe]
-			}
-			m.ip.Add(t, ip)
+		if m.power {
+			m.w.Add(t, p.W[m.elem])
+		}
+		for j := range m.probes {
+			pm := &m.probes[j]
+			pm.tr.Add(t, p.P[pm.idx])
 			if b.first {
-				m.ip0 = ip
+				pm.v0 = p.P[pm.idx]
 			}
 		}
+	}
+	if b.first {
+		copy(b.w0, p.W)
+		copy(b.i0, p.I)
 	}
 	if b.first {
 		copy(b.node0, p.V)
@@ -189,8 +238,12 @@ func (b *Bench) reset() {
 		b.elemTr[i].Reset()
 	}
 	for k := range b.meters {
-		b.meters[k].v.Reset()
-		b.meters[k].ip.Reset()
+		m := &b.meters[k]
+		m.v.Reset()
+		m.w.Reset()
+		for j := range m.probes {
+			m.probes[j].tr.Reset()
+		}
 	}
 }
 
@@ -229,6 +282,7 @@ func (b *Bench) Solve(level float64, polarity string, opt *Options) (*Run, error
 		r.Waves = b.waves(res)
 	}
 	Judge(r)
+	r.Notes = append(r.Notes, b.validity(r, st)...)
 	if len(r.Limits) == 0 {
 		r.Notes = append(r.Notes, "the deck gives no ratings ("+strings.Join(ratingKeys(), ", ")+", watch max/min): nothing was judged")
 	}
@@ -365,10 +419,11 @@ func (b *Bench) lateExtremes(stop float64) []string {
 			check(m.e.Name+" residual", &m.v, m.v0)
 		}
 		for _, r := range m.ratings {
-			switch r.Rates.Measure {
-			case spec.PathCurrent:
-				check(m.e.Name+" internal clamp current", &m.ip, m.ip0)
-			case spec.PeakVoltage:
+			switch {
+			case r.Rates.Probe != "":
+				pm := m.probe(r.Rates.Probe)
+				check(m.e.Name+" "+r.Rates.Says, &pm.tr, pm.v0)
+			case r.Rates.Measure == spec.PeakVoltage:
 				check(m.e.Name+" voltage", &m.v, m.v0)
 			}
 		}
@@ -379,6 +434,48 @@ func (b *Bench) lateExtremes(stop float64) []string {
 // measure fills the run's measurements and limits from the meters and the
 // engine's ledger.
 func (b *Bench) measure(r *Run, res *mna.Result) {
+	b.measureNodes(r)
+	b.ledger(r, res)
+	for k := range b.meters {
+		m := &b.meters[k]
+		pk, tpk := b.elemTr[m.elem].AbsPeak()
+		er := ElementResult{Name: m.e.Name, Kind: m.e.Kind.Name, Role: m.e.Kind.Role,
+			PeakCurrent: quiet(pk, currentFloor), TPeak: tpk, Energy: r.Ledger.Entries[k].Energy,
+			Quiescent: b.w0[m.elem]}
+		if m.e.Kind.Role == spec.ProtectedPin {
+			er.Residual = m.residual(er.Energy)
+		}
+		if m.across && hasMeasure(m.e, spec.PeakVoltage) {
+			v, t := m.v.AbsPeak()
+			v = quiet(v, voltageFloor)
+			er.PeakVoltage, er.TPeakVoltage = &v, &t
+		}
+		for j := range m.probes {
+			pm := &m.probes[j]
+			pr := ProbeResult{Name: pm.name, Unit: pm.unit}
+			pr.Max, pr.TMax = pm.tr.Max()
+			pr.Min, pr.TMin = pm.tr.Min()
+			pr.Peak, pr.TPeak = pm.tr.AbsPeak()
+			floor := floorOf(pm.unit)
+			pr.Max, pr.Min, pr.Peak = quiet(pr.Max, floor), quiet(pr.Min, floor), quiet(pr.Peak, floor)
+			er.Probes = append(er.Probes, pr)
+		}
+		r.Elements = append(r.Elements, er)
+	}
+	// Powers at rest the solution cannot tell from zero (the engine's
+	// shunt conductance across a biased node) are zero.
+	most := 0.0
+	for _, e := range r.Elements {
+		most = max(most, math.Abs(e.Quiescent))
+	}
+	for i := range r.Elements {
+		r.Elements[i].Quiescent = quiet(r.Elements[i].Quiescent, powerFloor*most)
+	}
+	b.limits(r)
+}
+
+// measureNodes fills the extremes of every node.
+func (b *Bench) measureNodes(r *Run) {
 	isPin := map[string]bool{}
 	for k := range b.meters {
 		if m := &b.meters[k]; m.e.Kind.Role == spec.ProtectedPin {
@@ -392,51 +489,52 @@ func (b *Bench) measure(r *Run, res *mna.Result) {
 	for i, n := range b.nodes {
 		hi, thi := b.nodeTr[i].Max()
 		lo, tlo := b.nodeTr[i].Min()
-		r.Nodes = append(r.Nodes, NodeResult{Name: n, Max: hi, TMax: thi, Min: lo, TMin: tlo,
+		r.Nodes = append(r.Nodes, NodeResult{Name: n, Max: quiet(hi, voltageFloor), TMax: thi, Min: quiet(lo, voltageFloor), TMin: tlo,
 			Initial: b.node0[i], Watched: watched[n], Pin: isPin[n]})
 	}
+}
+
+// ledger books the strike's energy: each element's ∫ v·i dt over the
+// window less what it took at its operating point for the same time
+// (∫ (v·i − v₀·i₀) dt), so that a supply feeding a load at rest shows the
+// strike's share, not its own DC power. The quiescent powers v₀·i₀ sum to
+// zero (every watt a supply gives at rest a load takes), so the balance is
+// the sum of the engine's entries either way.
+func (b *Bench) ledger(r *Run, res *mna.Result) {
+	stop := r.Window.Stop
 	if b.strIdx >= 0 {
-		r.Ledger.Strike = res.Energy[b.strIdx]
+		r.Ledger.Strike = res.Energy[b.strIdx] - b.w0[b.strIdx]*stop
 	}
-	r.Ledger.Balance = res.Balance
+	r.Ledger.Balance = r.Ledger.Strike
 	for k := range b.meters {
 		m := &b.meters[k]
-		pk, tpk := b.elemTr[m.elem].AbsPeak()
-		er := ElementResult{Name: m.e.Name, Kind: m.e.Kind.Name, Role: m.e.Kind.Role,
-			PeakCurrent: pk, TPeak: tpk, Energy: res.Energy[m.elem]}
-		if m.e.Kind.Role == spec.ProtectedPin {
-			er.Residual = m.residual(res.Energy[m.elem])
-		}
-		if hasMeasure(m.e, spec.PeakVoltage) {
-			v, t := m.v.AbsPeak()
-			er.PeakVoltage, er.TPeakVoltage = &v, &t
-		}
-		r.Elements = append(r.Elements, er)
-		r.Ledger.Entries = append(r.Ledger.Entries, LedgerEntry{Name: m.e.Name, Energy: res.Energy[m.elem]})
+		e := res.Energy[m.elem] - b.w0[m.elem]*stop
+		r.Ledger.Entries = append(r.Ledger.Entries, LedgerEntry{Name: m.e.Name, Energy: e})
+		r.Ledger.Balance += e
 	}
 	r.Ledger.share()
+	// Entries the solution cannot tell from zero are zero.
+	floor := energyFloor * r.Ledger.Delivered
+	for i := range r.Ledger.Entries {
+		r.Ledger.Entries[i].Energy = quiet(r.Ledger.Entries[i].Energy, floor)
+	}
+	r.Ledger.share()
+}
 
-	// Limits: every element's ratings in deck order, then the watches.
+// limits compares every element's ratings, in deck order, then the
+// watches, with what the run measured.
+func (b *Bench) limits(r *Run) {
 	for k := range b.meters {
 		m := &b.meters[k]
 		for _, rt := range m.ratings {
 			v, _ := m.e.Values.Lookup(rt.Key)
-			var meas, at float64
-			switch rt.Rates.Measure {
-			case spec.PeakCurrent:
-				meas, at = b.elemTr[m.elem].AbsPeak()
-			case spec.Energy:
-				meas, at = res.Energy[m.elem], math.NaN()
-			case spec.PeakVoltage:
-				meas, at = m.v.AbsPeak()
-			case spec.HighVoltage:
-				meas, at = m.v.Max()
-			case spec.LowVoltage:
-				meas, at = m.v.Min()
-			case spec.PathCurrent:
-				meas, at = m.ip.AbsPeak()
+			meas, at, v0 := b.measured(m, rt, r)
+			var l Limit
+			if isWindow(rt.Rates.Measure) {
+				l = NewWindowLimit(m.e.Name, rt.Key, rt.Unit, v, meas, at, v0, rt.Rates.Upper, rt.Rates.Says)
+			} else {
+				l = NewLimit(m.e.Name, rt.Key, rt.Unit, v, meas, at, rt.Rates.Upper, rt.Rates.Says)
 			}
-			l := NewLimit(m.e.Name, rt.Key, rt.Unit, v, meas, at, rt.Rates.Upper, rt.Rates.Says)
 			l.Measure = rt.Rates.Measure
 			r.Limits = append(r.Limits, l)
 		}
@@ -449,26 +547,109 @@ func (b *Bench) measure(r *Run, res *mna.Result) {
 		}
 		if wt.HasMax {
 			hi, thi := b.nodeTr[i].Max()
-			r.Limits = append(r.Limits, NewLimit(wt.Node, "max", spec.Volt, wt.Max, hi, thi, true, "highest voltage"))
+			r.Limits = append(r.Limits, NewWindowLimit(wt.Node, "max", spec.Volt, wt.Max, quiet(hi, voltageFloor), thi, b.node0[i], true, "highest voltage"))
 		}
 		if wt.HasMin {
 			lo, tlo := b.nodeTr[i].Min()
-			r.Limits = append(r.Limits, NewLimit(wt.Node, "min", spec.Volt, wt.Min, lo, tlo, false, "lowest voltage"))
+			r.Limits = append(r.Limits, NewWindowLimit(wt.Node, "min", spec.Volt, wt.Min, quiet(lo, voltageFloor), tlo, b.node0[i], false, "lowest voltage"))
 		}
 	}
 }
 
-// residual is the pulse the meter of a protected pin saw; energy is the
-// engine's ledger entry of the pin.
+// isWindow reports whether a measure is one side of a voltage window,
+// whose margin is judged against the headroom from the operating point.
+func isWindow(m spec.Measure) bool { return m == spec.HighVoltage || m == spec.LowVoltage }
+
+// measured is the measurement a rating of meter m is compared with, its
+// time (NaN for an energy or a stand-off) and its value at the operating
+// point.
+func (b *Bench) measured(m *elemMeter, rt spec.Param, r *Run) (meas, at, v0 float64) {
+	tr, v0 := &m.v, m.v0 // the voltage across the element
+	switch {
+	case rt.Rates.Probe != "":
+		pm := m.probe(rt.Rates.Probe)
+		tr, v0 = &pm.tr, pm.v0
+	case rt.Rates.Measure == spec.PeakCurrent:
+		tr = &b.elemTr[m.elem]
+	case rt.Rates.Measure == spec.PeakPower:
+		tr = &m.w
+	}
+	switch rt.Rates.Measure {
+	case spec.Energy:
+		for _, e := range r.Ledger.Entries {
+			if e.Name == m.e.Name {
+				return e.Energy, math.NaN(), 0
+			}
+		}
+	case spec.StandOff:
+		return math.Abs(m.v0), math.NaN(), m.v0
+	case spec.HighVoltage:
+		meas, at = tr.Max()
+	case spec.LowVoltage:
+		meas, at = tr.Min()
+	default:
+		meas, at = tr.AbsPeak()
+	}
+	return quiet(meas, floorOf(rt.Unit)), at, v0
+}
+
+// Validity bounds [practice]: a protector that leaks more than leakNote at
+// rest loads the line it protects; a protector driven past overdrive times
+// its ipp, or a discharge above dischargeMax, is far outside the range its
+// model (and any part's data) describe, whatever the verdict says.
+const (
+	leakNote     = 1e-6 // A
+	overdrive    = 10
+	dischargeMax = 30e3 // V, the highest level of the discharge standards
+	// discharge currents stay far below overCurrent: 30 A at 8 kV contact,
+	// about 3.75 A/kV [pub: IEC 61000-4-2 table].
+	overCurrent = 1e3 // A
+)
+
+// validity says, in sentences, where a run left the range its models hold
+// in, and which protectors leak at the operating point.
+func (b *Bench) validity(r *Run, st *waveforms.Stimulus) []string {
+	var notes []string
+	wf := b.strike.Waveform
+	if wf.Discharge && st.Level > dischargeMax {
+		notes = append(notes, fmt.Sprintf("a %s discharge is beyond every discharge test standard (%s at most): treat the results as far outside the models' validity",
+			spec.FormatSI(st.Level, wf.Unit), spec.FormatSI(dischargeMax, wf.Unit)))
+	}
+	for k := range b.meters {
+		m := &b.meters[k]
+		if m.e.Kind.Role != spec.Protector {
+			continue
+		}
+		pk, _ := b.elemTr[m.elem].AbsPeak()
+		if l := r.LimitOn(m.e.Name, spec.PeakCurrent); l != nil && pk > overdrive*l.Value {
+			notes = append(notes, fmt.Sprintf("%s carried %s, %.0f times its ipp of %s: far outside the range any model of the part is valid in",
+				m.e.Name, spec.FormatSI(pk, "A"), pk/l.Value, spec.FormatSI(l.Value, "A")))
+		} else if l == nil && wf.Discharge && pk > overCurrent {
+			notes = append(notes, fmt.Sprintf("%s carried %s, far more than any electrostatic discharge drives: the model is used far outside its valid range",
+				m.e.Name, spec.FormatSI(pk, "A")))
+		}
+		if i0 := b.i0[m.elem]; math.Abs(i0) > leakNote {
+			notes = append(notes, fmt.Sprintf("%s leaks %s at rest, with %s across it: it loads the line it protects (check its stand-off voltage)",
+				m.e.Name, spec.FormatSI(math.Abs(i0), "A"), spec.FormatSI(math.Abs(m.v0), "V")))
+		}
+	}
+	return notes
+}
+
+// residual is the pulse the meter of a protected pin saw; energy is its
+// entry in the ledger.
 func (m *elemMeter) residual(energy float64) *Residual {
 	pk, tpk := m.v.Max()
 	lo, tlo := m.v.Min()
-	ip, tip := m.ip.AbsPeak()
-	rd := &Residual{Name: m.e.Name, Node: m.e.Nodes[0], Peak: pk, TPeak: tpk, Min: lo, TMin: tlo,
-		Energy: energy, IPath: ip, TIPath: tip}
-	rd.Vmax, rd.HasVmax = m.rating(spec.HighVoltage)
-	rd.Vmin, rd.HasVmin = m.rating(spec.LowVoltage)
-	rd.Ifail, rd.HasIfail = m.rating(spec.PathCurrent)
+	rd := &Residual{Name: m.e.Name, Node: m.e.Nodes[0], Peak: quiet(pk, voltageFloor), TPeak: tpk,
+		Min: quiet(lo, voltageFloor), TMin: tlo, Energy: energy}
+	if pm := m.probe("ipath"); pm != nil {
+		rd.IPath, rd.TIPath = pm.tr.AbsPeak()
+		rd.IPath = quiet(rd.IPath, currentFloor)
+	}
+	rd.Vmax, rd.HasVmax = m.rating(spec.HighVoltage, "")
+	rd.Vmin, rd.HasVmin = m.rating(spec.LowVoltage, "")
+	rd.Ifail, rd.HasIfail = m.rating(spec.PeakCurrent, "ipath")
 	if rd.HasVmax {
 		rd.AboveVmax = m.v.WidthAbove()
 	}
@@ -478,8 +659,41 @@ func (m *elemMeter) residual(energy float64) *Residual {
 	return rd
 }
 
+// The solver's noise: values smaller than these are not told apart from
+// zero and are reported as zero. The engine settles node voltages to a
+// microvolt and currents to a nanoampere (mna's tolerances); a thousandth of
+// that is well inside its noise [practice].
+const (
+	voltageFloor = 1e-9  // V
+	currentFloor = 1e-12 // A
+	// powerFloor is relative to the largest power at rest.
+	powerFloor = 1e-9
+	// energyFloor is relative to the energy delivered.
+	energyFloor = 1e-9
+)
+
+// floorOf is the noise floor of a quantity in unit.
+func floorOf(u spec.Unit) float64 {
+	switch u {
+	case spec.Volt:
+		return voltageFloor
+	case spec.Ampere:
+		return currentFloor
+	}
+	return 0
+}
+
+// quiet is v, or 0 when |v| is below floor.
+func quiet(v, floor float64) float64 {
+	if math.Abs(v) < floor {
+		return 0
+	}
+	return v
+}
+
 // hasMeasure reports whether the element's kind declares a rating judged
-// against meas (whether or not this element gives it a value).
+// against meas (of its terminals or of a probe), whether or not this
+// element gives it a value.
 func hasMeasure(e *netlist.Element, meas spec.Measure) bool {
 	for _, r := range e.Kind.Ratings() {
 		if r.Rates.Measure == meas {
@@ -506,7 +720,7 @@ func ratingKeys() []string {
 
 // waves copies the recorded waveforms of res into the study's shape.
 func (b *Bench) waves(res *mna.Result) *Waves {
-	w := &Waves{Time: res.Time, Nodes: b.nodes, V: res.V, Probes: b.probes, P: res.P}
+	w := &Waves{Time: res.Time, Nodes: b.nodes, V: res.V, Probes: b.probes, P: res.P, StrikeName: b.strike.Name}
 	for i, name := range b.elems {
 		if i == b.strIdx {
 			// The engine reports the current into the strike's first

@@ -90,6 +90,33 @@ func (es *ElementResults) UnmarshalJSON(b []byte) error {
 	return nil
 }
 
+// ProbeResults are an element's probes.
+type ProbeResults []ProbeResult
+
+// MarshalJSON writes {"PROBE": {...}, ...}.
+func (ps ProbeResults) MarshalJSON() ([]byte, error) {
+	m := make(map[string]ProbeResult, len(ps))
+	for _, p := range ps {
+		m[p.Name] = p
+	}
+	return json.Marshal(m)
+}
+
+// UnmarshalJSON reads the object back, probes in name order.
+func (ps *ProbeResults) UnmarshalJSON(b []byte) error {
+	var m map[string]ProbeResult
+	if err := json.Unmarshal(b, &m); err != nil {
+		return err
+	}
+	*ps = (*ps)[:0]
+	for _, name := range sortedKeys(m) {
+		p := m[name]
+		p.Name = name
+		*ps = append(*ps, p)
+	}
+	return nil
+}
+
 // ledgerStrike and ledgerBalance are the two keys of the ledger's JSON that
 // are not element names.
 const (

@@ -40,6 +40,32 @@ func NewLimit(element, param string, unit spec.Unit, value, measured, at float64
 	return l
 }
 
+// NewWindowLimit compares a measured extreme with one side of a voltage
+// window (a pin's vmax or vmin, a watch's max or min) whose measured
+// quantity sat at v0 at the operating point. Its percentage is of the
+// headroom from v0 to the limit: 100 % when the strike did not move the
+// quantity toward the limit, 0 % at the limit, negative beyond it. A
+// percentage of |value| would make a small limit (a −0.6 V vmin) look far
+// more or less critical than it is, and the worst margin is chosen by
+// percentage.
+func NewWindowLimit(element, param string, unit spec.Unit, value, measured, at, v0 float64, upper bool, says string) Limit {
+	l := NewLimit(element, param, unit, value, measured, at, upper, says)
+	head := value - v0
+	if !upper {
+		head = v0 - value
+	}
+	switch {
+	case head > 0:
+		l.Percent = 100 * l.Margin / head
+	case l.Margin >= 0:
+		l.Percent = 0 // the operating point sits on the limit
+	default:
+		l.Percent = -100 // beyond the limit at rest already
+	}
+	l.Headroom = head
+	return l
+}
+
 // Worst returns the limit with the smallest percentage margin, or nil.
 // Ties keep the earlier limit, so the result follows deck order.
 func Worst(limits []Limit) *Limit {

@@ -1,6 +1,7 @@
 package study
 
 import (
+	"zapnet/devices"
 	"zapnet/devices/spec"
 	"zapnet/mna"
 	"zapnet/netlist"
@@ -155,9 +156,38 @@ type ElementResult struct {
 	Energy      float64   `json:"energy"` // J
 	Residual    *Residual `json:"residual,omitempty"`
 	// PeakVoltage is the largest |voltage| across the element, V, with its
-	// time; nil for elements not rated on it.
+	// time; nil for elements not rated on a voltage.
 	PeakVoltage  *float64 `json:"peak_voltage,omitempty"`
 	TPeakVoltage *float64 `json:"t_peak_voltage,omitempty"`
+	// Probes are the device's internal quantities its ratings read (a
+	// capacitor's dielectric voltage "vc", a pin's "ipath").
+	Probes ProbeResults `json:"probes,omitempty"`
+	// Quiescent is the power the element takes at the operating point,
+	// before the strike, W (negative: it delivers, as a supply does). The
+	// ledger's entries leave it out.
+	Quiescent float64 `json:"quiescent_power,omitempty"`
+}
+
+// ProbeResult is the extremes of one device probe.
+type ProbeResult struct {
+	Name  string    `json:"-"`
+	Unit  spec.Unit `json:"unit"`
+	Max   float64   `json:"max"`
+	TMax  float64   `json:"t_max"`
+	Min   float64   `json:"min"`
+	TMin  float64   `json:"t_min"`
+	Peak  float64   `json:"peak"` // largest magnitude
+	TPeak float64   `json:"t_peak"`
+}
+
+// Probe returns the element's probe name, or nil.
+func (e *ElementResult) Probe(name string) *ProbeResult {
+	for i := range e.Probes {
+		if e.Probes[i].Name == name {
+			return &e.Probes[i]
+		}
+	}
+	return nil
 }
 
 // Residual is the pulse that reaches a protected pin: v(pin) − v(ref).
@@ -233,6 +263,10 @@ type Limit struct {
 	Says string
 	// Measure is what a rating is judged against (zero for a watch).
 	Measure spec.Measure
+	// Headroom is, for a window limit, the distance from the operating
+	// point to the limit that Percent is of (0 for the others, whose
+	// percentage is of |Value|).
+	Headroom float64
 }
 
 // LimitOn returns the limit on element that is judged against measure m,
@@ -260,11 +294,14 @@ type WindowInfo struct {
 // accepted time points.
 type Waves struct {
 	Time     []float64
-	Nodes    []string    // circuit nodes (internal nodes excluded)
-	V        [][]float64 // V[node][k], V
-	Elements []string    // elements, the strike excluded, in deck order
-	I        [][]float64 // I[element][k]: current into its first terminal, A
-	Probes   []string    // "ELEMENT.probe"
-	P        [][]float64 // P[probe][k]
-	Strike   []float64   // current the strike injects into its node, A
+	Nodes    []string        // circuit nodes (internal nodes excluded)
+	V        [][]float64     // V[node][k], V
+	Elements []string        // elements, the strike excluded, in deck order
+	I        [][]float64     // I[element][k]: current into its first terminal, A
+	Probes   []devices.Probe // named "ELEMENT.probe", with their units
+	P        [][]float64     // P[probe][k]
+	// Strike is the current the strike injects into its node, A, and
+	// StrikeName the strike's name.
+	Strike     []float64
+	StrikeName string
 }

@@ -205,13 +205,14 @@ func htmlRunTables(id string, r *study.Run) []htmlTable {
 			vmin, below = si(p.Vmin, "V"), si(p.BelowVmin, "s")
 		}
 		pins = append(pins, []string{p.Name, si(p.Peak, "V"), si(p.TPeak, "s"), vmax, above,
-			si(p.Min, "V"), vmin, below, si(p.Energy, "J"), si(p.IPath, "A"), rating(r.LimitOn(p.Name, spec.PathCurrent))})
+			si(p.Min, "V"), vmin, below, si(p.Energy, "J"), si(p.IPath, "A"), rating(r.LimitOn(p.Name, spec.PeakCurrent))})
 	}
 	add("pins", "Protected pins (residual pulse)", []string{"pin", "peak", "at", "vmax", "time above",
 		"lowest", "vmin", "time below", "energy in", "internal clamp", "ifail"}, pins)
 
-	add("capacitors", "Capacitors", []string{"capacitor", "peak voltage", "at", "rating"}, capacitorRows(r))
+	add("capacitors", "Capacitors", capacitorHead, capacitorRows(r))
 	add("ledger", "Energy ledger", ledgerHead, ledgerRows(r))
+	add("quiescent", quiescentTitle, quiescentHead, quiescentRows(r))
 	add("limits", "Limits", []string{"limit", "measured", "at", "rating", "margin", "margin %", "verdict"}, limitRows(r))
 	return ts
 }

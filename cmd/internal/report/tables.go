@@ -12,6 +12,7 @@ import (
 
 	"zapnet/devices/spec"
 	"zapnet/mna/study"
+	"zapnet/waveforms"
 )
 
 // TableOptions tune the tables. A nil *TableOptions means every default.
@@ -173,7 +174,7 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 			below = si(p.BelowVmin, "s")
 		}
 		pins = append(pins, []string{p.Name, si(p.Peak, "V"), si(p.TPeak, "s"), above,
-			si(p.Min, "V"), si(p.TMin, "s"), below, si(p.Energy, "J"), si(p.IPath, "A"), rating(r.LimitOn(p.Name, spec.PathCurrent))})
+			si(p.Min, "V"), si(p.TMin, "s"), below, si(p.Energy, "J"), si(p.IPath, "A"), rating(r.LimitOn(p.Name, spec.PeakCurrent))})
 	}
 	if len(pins) > 0 {
 		section(w, "Protected pins (residual pulse)", []string{"pin", "peak", "at", "time > vmax",
@@ -181,9 +182,12 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 	}
 
 	if caps := capacitorRows(r); len(caps) > 0 {
-		section(w, "Capacitors", []string{"capacitor", "peak voltage", "at", "rating"}, caps)
+		section(w, "Capacitors", capacitorHead, caps)
 	}
 	section(w, "Energy ledger", ledgerHead, ledgerRows(r))
+	if rows := quiescentRows(r); len(rows) > 0 {
+		section(w, quiescentTitle, quiescentHead, rows)
+	}
 	if limits := limitRows(r); len(limits) > 0 {
 		section(w, "Limits", []string{"limit", "measured", "at", "rating", "margin", "margin %", ""}, limits)
 	}
@@ -259,14 +263,26 @@ func burstRows(bu *study.BurstReport) [][]string {
 	return rows
 }
 
-// capacitorRows are the elements rated on the voltage across them (the
-// capacitors with a rating).
+// capacitorHead heads the table of rated capacitors, shared by the text
+// and HTML reports.
+var capacitorHead = []string{"capacitor", "across terminals", "on dielectric", "at", "rating (margin)"}
+
+// capacitorRows are the elements rated on a voltage (the capacitors with a
+// rating): the largest voltage across their terminals, and on the
+// dielectric (across C alone, without the esr and esl drops), which is
+// what the rating judges.
 func capacitorRows(r *study.Run) [][]string {
 	var rows [][]string
 	for _, e := range r.Elements {
-		if l := r.LimitOn(e.Name, spec.PeakVoltage); l != nil && e.PeakVoltage != nil {
-			rows = append(rows, []string{e.Name, si(*e.PeakVoltage, "V"), si(*e.TPeakVoltage, "s"), si(l.Value, l.Unit)})
+		l := r.LimitOn(e.Name, spec.PeakVoltage)
+		if l == nil {
+			continue
 		}
+		terminals := "-"
+		if e.PeakVoltage != nil {
+			terminals = si(*e.PeakVoltage, "V")
+		}
+		rows = append(rows, []string{e.Name, terminals, si(l.Measured, l.Unit), si(l.At, "s"), rating(l)})
 	}
 	return rows
 }
@@ -304,6 +320,63 @@ func ledgerRows(r *study.Run) [][]string {
 		bal = percent(100 * r.Ledger.Balance / r.Ledger.Delivered)
 	}
 	return append(rows, []string{"balance (solver residual)", "", si(r.Ledger.Balance, "J"), bal})
+}
+
+// The power each element takes at the operating point, left out of the
+// ledger (shared by the text and HTML reports).
+var (
+	quiescentTitle = "Power at rest (left out of the ledger)"
+	quiescentHead  = []string{"where", "delivered", "absorbed"}
+)
+
+// quiescentRows are the elements that take or give power at rest.
+func quiescentRows(r *study.Run) [][]string {
+	var rows [][]string
+	for _, e := range r.Elements {
+		switch {
+		case e.Quiescent < 0:
+			rows = append(rows, []string{e.Name + " (" + e.Kind + ")", si(-e.Quiescent, "W"), ""})
+		case e.Quiescent > 0:
+			rows = append(rows, []string{e.Name + " (" + e.Kind + ")", "", si(e.Quiescent, "W")})
+		}
+	}
+	return rows
+}
+
+// CheckTable prints a waveform's calibration checks: each quantity as
+// computed, its published value and tolerance, whether it is within, and
+// where the published value comes from.
+func CheckTable(w io.Writer, checks []waveforms.Check) error {
+	head := []string{"quantity", "computed", "published", "tolerance", "result", "source"}
+	var rows [][]string
+	for _, c := range checks {
+		// A row with no published value and no window only shows how the
+		// stimulus comes out (an air discharge's first peak).
+		shown := math.IsNaN(c.Published) && math.IsInf(c.Lo, -1) && math.IsInf(c.Hi, 1)
+		pub := waveforms.FormatValue(c.Published, c.Unit)
+		switch {
+		case shown:
+			pub = "-"
+		case math.IsNaN(c.Published):
+			pub = "window"
+		}
+		result := "within"
+		switch {
+		case !c.Within:
+			result = "OUTSIDE"
+		case math.IsInf(c.Lo, -1) && math.IsInf(c.Hi, 1):
+			result = "-"
+		}
+		rows = append(rows, []string{c.Quantity, waveforms.FormatValue(c.Computed, c.Unit), pub, c.Tol, result, c.Source})
+	}
+	ew := &errWriter{w: w}
+	t := newTable(ew, head)
+	t.Header(toAny(head)...)
+	for _, r := range rows {
+		t.Append(toAny(r)...)
+	}
+	t.Render()
+	return ew.err
 }
 
 // limitRows are every limit with its margin, "FAIL" in the last column
@@ -347,7 +420,8 @@ func section(w io.Writer, title string, head []string, rows [][]string) {
 
 // textColumns are the headers of columns that hold words, aligned left;
 // every other column holds numbers, aligned right.
-var textColumns = map[string]bool{"node": true, "role": true, "clamp": true, "pin": true,
+var textColumns = map[string]bool{"quantity": true, "result": true, "source": true,
+	"node": true, "role": true, "clamp": true, "pin": true,
 	"capacitor": true, "where": true, "limit": true, "variant": true, "polarity": true,
 	"verdict": true, "worst margin": true, "level": true, "": true}
 
