@@ -3,6 +3,9 @@ package main
 import (
 	"encoding/json"
 	"math"
+	"os"
+	"path/filepath"
+	"strings"
 	"testing"
 
 	"zapnet/mna/study"
@@ -70,8 +73,8 @@ func TestNetworkAgainstIdealBehindAResistor(t *testing.T) {
 	}
 }
 
-// The EFT deck's report is a golden file, burst table and notes included,
-// and its JSON carries the burst: 75 pulses, 200 bursts a minute, the
+// The EFT deck's report is a golden file, burst table and notes included;
+// the HTML report has the table too, and the JSON carries the burst: 75 pulses, 200 bursts a minute, the
 // clamp's energies [pub: IEC 61000-4-4's burst; calc: the minute's sums].
 func TestRunEFTBurst(t *testing.T) {
 	out, errs, code := runMain(t, "../../testdata/eft-input.zap")
@@ -79,6 +82,13 @@ func TestRunEFTBurst(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
 	golden(t, "run-eft-input.txt", []byte(out))
+	page := filepath.Join(t.TempDir(), "eft.html")
+	if _, errs, code := runMain(t, "../../testdata/eft-input.zap", "--level", "1k", "--html", page); code != exitPass && code != exitFail {
+		t.Fatalf("--html: exit %d: %s", code, errs)
+	}
+	if html, err := os.ReadFile(page); err != nil || !strings.Contains(string(html), "Burst: 75 pulses 200 µs apart") {
+		t.Errorf("the HTML report lacks the burst table (%v)", err)
+	}
 	for _, r := range runJSONOf(t, "../../testdata/eft-input.zap") {
 		b := r.Burst
 		if b == nil || b.Pulses != 75 || b.PerMinute != 200 || len(b.Elements) != 1 || b.Elements[0].Name != "D6" {

@@ -158,8 +158,7 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 		section(w, "Clamps", []string{"clamp", "peak current", "at", "ipp (margin)", "energy", "emax (margin)"}, clamps)
 	}
 	if bu := r.Burst; bu != nil && len(bu.Elements) > 0 {
-		section(w, burstTitle(bu), []string{"clamp", "first pulse", "largest pulse", "one burst", "average power",
-			fmt.Sprintf("%d bursts (1 min)", bu.PerMinute), "average power (1 min)"}, burstRows(bu))
+		section(w, burstTitle(bu), burstHead(bu), burstRows(bu))
 	}
 
 	// The residual pulse at each protected pin; the ratings themselves are
@@ -250,6 +249,12 @@ func burstTitle(bu *study.BurstReport) string {
 	}
 	return fmt.Sprintf("Burst: %d pulses %s apart (%s long), one burst every %s; %s", bu.Pulses,
 		si(bu.Period, "s"), si(bu.Length, "s"), si(bu.Every, "s"), solved)
+}
+
+// burstHead heads the burst table, shared by the text and HTML reports.
+func burstHead(bu *study.BurstReport) []string {
+	return []string{"clamp", "first pulse", "largest pulse", "one burst", "average power",
+		fmt.Sprintf("%d bursts (1 min)", bu.PerMinute), "average power (1 min)"}
 }
 
 // burstRows are each protector's energy per pulse, per burst and per
