@@ -133,7 +133,7 @@ func TestStrikeNetworkRC(t *testing.T) {
 		if _, err := r.newton(x, 10); err != nil {
 			t.Fatal(err)
 		}
-		if x[d.x] != sign*v0 || x[0] != 0 || x[d.br] != 0 {
+		if x[d.gen.nodes[0]] != sign*v0 || x[0] != 0 || x[d.gen.br[1]] != 0 {
 			t.Fatalf("operating point: x = %v", x)
 		}
 		tau := (rs + rl) * c0
@@ -141,9 +141,9 @@ func TestStrikeNetworkRC(t *testing.T) {
 		worst := 0.0
 		r.transient(t, h, 6000, func(tm float64, x []float64) {
 			want := sign * v0 / (rs + rl) * math.Exp(-tm/tau)
-			worst = math.Max(worst, math.Abs(x[d.br]-want)/(v0/(rs+rl)))
-			if v := x[0]; !nlClose(v, x[d.br]*rl, 1e-9, 1e-12) {
-				t.Fatalf("load voltage %g, current %g", v, x[d.br])
+			worst = math.Max(worst, math.Abs(x[d.gen.br[1]]-want)/(v0/(rs+rl)))
+			if v := x[0]; !nlClose(v, x[d.gen.br[1]]*rl, 1e-9, 1e-12) {
+				t.Fatalf("load voltage %g, current %g", v, x[d.gen.br[1]])
 			}
 		})
 		// Two first-order steps then trapezoidal at τ/2000: the error is
@@ -169,7 +169,7 @@ func TestStrikeNetworkRLC(t *testing.T) {
 	r.transient(t, 5e-12, 40000, func(tm float64, x []float64) {
 		want := v0 / (l0 * (s1 - s2)) * (math.Exp(s1*tm) - math.Exp(s2*tm))
 		ipk = math.Max(ipk, want)
-		worst = math.Max(worst, math.Abs(x[d.br]-want))
+		worst = math.Max(worst, math.Abs(x[d.gen.br[1]]-want))
 	})
 	if worst > 1e-3*ipk {
 		t.Errorf("worst current error %g A of a %g A peak", worst, ipk)

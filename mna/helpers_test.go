@@ -1,6 +1,7 @@
 package mna
 
 import (
+	"fmt"
 	"math"
 	"testing"
 
@@ -30,6 +31,26 @@ func init() {
 		Table: spec.Table{Params: []spec.Param{spec.Default("value", spec.Dimensionless, spec.Any, 0)}},
 	}, New: func(name string, nodes [2]string, _ *spec.Values) (devices.Device, error) {
 		return &testSource{name: name, nodes: nodes}, nil
+	}})
+}
+
+// testStrikeKind is a strike built for a generator circuit of the test's
+// own: the shape registered in testShapes under the name the element's
+// "value" indexes.
+const testStrikeKind = "test-strike"
+
+var testShapes []*waveforms.Fragment
+
+func init() {
+	devices.Register(&devices.Kind{Kind: spec.Kind{
+		Name: testStrikeKind, Terminals: [2]string{"node", "ref"}, Role: spec.Stimulus, Order: 1001,
+		Table: spec.Table{Params: []spec.Param{spec.Default("value", spec.Dimensionless, spec.NonNegative, 0)}},
+	}, New: func(name string, nodes [2]string, v *spec.Values) (devices.Device, error) {
+		k := int(v.Num("value"))
+		if k >= len(testShapes) {
+			return nil, fmt.Errorf("no test shape %d", k)
+		}
+		return devices.NewStrikeFor(name, nodes, testShapes[k]), nil
 	}})
 }
 

@@ -106,13 +106,13 @@ func interpTime(t0, t1, v0, v1, level float64) float64 {
 // since every entry uses the same terminal currents) to 1e-6 of what the
 // strike delivered [calc: Tellegen's theorem, Σ v·i = 0 at every instant].
 func TestEveryStimulusSolves(t *testing.T) {
-	s := referenceNetwork(t)
-	zap := elemIndex(t, s, "zap")
 	levels := map[string][]float64{"surge-8-20": {250, 1000}, "tlp": {4, 16}}
 	for _, name := range waveforms.Names() {
 		if name == "pwl" { // needs a file; its engine path is the Current form
 			continue
 		}
+		s := referenceNetworkFor(t, name)
+		zap := elemIndex(t, s, "zap")
 		lv, ok := levels[name]
 		if !ok {
 			lv = []float64{2000, 8000}

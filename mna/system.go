@@ -361,12 +361,25 @@ func (s *System) Elements() []string { return s.elements }
 func (s *System) Probes() []devices.Probe { return s.probes }
 
 // setStimulus hands the run's stimulus to the strike; it also supplies the
-// breakpoints and the default span.
-func (s *System) setStimulus(st *waveforms.Stimulus, sign float64) {
+// breakpoints and the default span. A generator circuit the strike was not
+// built for (a stimulus of another waveform than the strike's) is refused.
+func (s *System) setStimulus(st *waveforms.Stimulus, sign float64) error {
+	if f, ok := s.striker.(fitter); ok {
+		if err := f.Fits(st); err != nil {
+			return err
+		}
+	}
 	s.stim = st
 	if s.striker != nil {
 		s.striker.SetStimulus(st, sign)
 	}
+	return nil
+}
+
+// fitter is a strike that can tell whether a stimulus fits the unknowns it
+// was built for.
+type fitter interface {
+	Fits(*waveforms.Stimulus) error
 }
 
 // hintFor suggests what to try when the solution is stuck at unknown i.

@@ -61,7 +61,9 @@ const beSteps = 2
 // waveforms). Runs are reproducible bit for bit.
 func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings) (*Result, error) {
 	start := time.Now()
-	s.setStimulus(stim, sign)
+	if err := s.setStimulus(stim, sign); err != nil {
+		return nil, err
+	}
 	var cfg Settings
 	if set != nil {
 		cfg = *set
@@ -95,10 +97,11 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 		h := min(maxStep, interval) * firstFraction
 		if cfg.FirstStep > 0 {
 			h = min(h, cfg.FirstStep)
-		} else if s.stim != nil && s.stim.Stop > 0 {
-			// The stimulus's own time scale, not a window stretched for a
-			// slow circuit, sets how fine the first step must be.
-			h = min(h, s.stim.Stop/50*firstFraction)
+		} else if s.stim != nil && s.stim.Scale() > 0 {
+			// The stimulus's own time scale (one pulse's, for a train),
+			// not a window stretched for a slow circuit, sets how fine the
+			// first step must be.
+			h = min(h, s.stim.Scale()/50*firstFraction)
 		}
 		return h
 	}

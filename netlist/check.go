@@ -541,6 +541,14 @@ func (p *parser) strikeParam(re *rawElement, w *waveforms.Waveform, bad bool, kv
 		p.errs.Add(kv.keyPos, ErrUnknown, "%s is a parameter of waveform %s, not of %s", kv.key, strings.Join(taking, ", "), w.Name)
 		return
 	}
+	if wd := w.Word(kv.key); wd != nil && !wd.Path {
+		if m := wordProblem(re.kind, wd, kv.val); m != "" {
+			p.errs.Add(kv.valPos, ErrValue, "%s", m)
+			return
+		}
+		own.vals.SetWord(kv.key, kv.val)
+		return
+	}
 	if wd := w.Word(kv.key); wd != nil {
 		path := kv.val
 		if path != "" && !filepath.IsAbs(path) {

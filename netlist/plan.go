@@ -144,6 +144,11 @@ func settable(c *Circuit, elem, param string) (*Error, *Element) {
 		case "waveform", "part":
 			return problem(ErrValue, "the strike's %s cannot be varied", param), e
 		}
+		if e.Waveform == nil {
+			// The strike's waveform is missing or unknown, an error
+			// reported where the strike is read.
+			return problem(ErrValue, "strike %s has no waveform whose %s could be set", e.Name, param), e
+		}
 		if e.Waveform.Word(param) != nil {
 			return problem(ErrValue, "the strike's %s cannot be varied", param), e
 		}

@@ -3,6 +3,7 @@ package waveforms
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"zapnet/devices/spec"
 )
 
@@ -36,7 +37,7 @@ func rel(q, unit string, computed, published, tol float64, src, ref string) Chec
 		lo, hi = hi, lo
 	}
 	c := Check{Quantity: q, Unit: unit, Computed: computed, Published: published, Lo: lo, Hi: hi,
-		Tol: fmt.Sprintf("±%g %%", tol*100), Source: src, Ref: ref}
+		Tol: fmt.Sprintf("±%s %%", strconv.FormatFloat(tol*100, 'g', 6, 64)), Source: src, Ref: ref}
 	c.judge()
 	return c
 }
@@ -64,6 +65,9 @@ func Checks(s *Stimulus, load float64) ([]Check, error) {
 	if math.IsNaN(load) || load < 0 {
 		return nil, fmt.Errorf("checks: load must be >= 0 ohms or +Inf, got %g", load)
 	}
+	if s.Form == Generator {
+		return nil, fmt.Errorf("checks: %s is a generator circuit with no closed form: solve it into the load with the engine (SolvedChecks)", s.Name)
+	}
 	w := Lookup(s.Name)
 	switch {
 	case w == nil:
@@ -71,7 +75,7 @@ func Checks(s *Stimulus, load float64) ([]Check, error) {
 	case w.checks == nil:
 		return nil, nil
 	}
-	return w.checks(s, load), nil
+	return w.checks(s, load, measured), nil
 }
 
 // checkTol is the sampling accuracy of check measurements: crossings and
@@ -79,10 +83,18 @@ func Checks(s *Stimulus, load float64) ([]Check, error) {
 const checkTol = 1e-8
 
 // shape is one sampled channel with its analytic function, for measuring.
+// A channel solved by the engine has only its samples: g interpolates them
+// and sampled is set.
 type shape struct {
-	g    func(float64) float64
-	t, y []float64
+	g       func(float64) float64
+	t, y    []float64
+	sampled bool
 }
+
+// meter gives a check the current (or, with voltage, the voltage) of a
+// stimulus into load over [0, stop]: in closed form (measured) or solved by
+// the engine (SolvedChecks).
+type meter func(s *Stimulus, load, stop float64, voltage bool) shape
 
 // measured samples the current (or, with voltage, the voltage) of s into
 // load over [0, stop].
@@ -95,7 +107,8 @@ func measured(s *Stimulus, load, stop float64, voltage bool) shape {
 }
 
 // peak returns the largest value, refined between the neighbouring samples
-// by golden-section search on the analytic function.
+// by golden-section search on the analytic function, or for a sampled
+// channel by the parabola through the largest sample and its neighbours.
 func (sh shape) peak() (v, at float64) {
 	v, at = Peak(sh.t, sh.y)
 	k := 0
@@ -104,6 +117,9 @@ func (sh shape) peak() (v, at float64) {
 	}
 	if k == 0 || k == len(sh.t)-1 {
 		return v, at
+	}
+	if sh.sampled {
+		return parabolaPeak(sh.t[k-1:k+2], sh.y[k-1:k+2])
 	}
 	a, b := sh.t[k-1], sh.t[k+1]
 	const r = 0.6180339887498949

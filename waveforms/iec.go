@@ -11,7 +11,7 @@ func init() {
 		Summary: "IEC 61000-4-2 contact discharge, ideal current of the informative annex",
 		build:   newIEC61000_4_2,
 		Order:   10, Load: iecTarget,
-		checks: func(s *Stimulus, _ float64) []Check { return checksIEC(s) },
+		checks: func(s *Stimulus, _ float64, m meter) []Check { return checksIEC(s, m) },
 	})
 }
 
@@ -71,8 +71,8 @@ func newIEC61000_4_2(level float64, _ *spec.Values) (*Stimulus, error) {
 // not depend on the load). The published amplitudes are 3.75, 2 and 1 A per
 // kV [pub: the table at 2, 4, 6 and 8 kV]; at other levels they are scaled
 // linearly [calc].
-func checksIEC(s *Stimulus) []Check {
-	sh := measured(s, iecTarget, s.Stop, false)
+func checksIEC(s *Stimulus, m meter) []Check {
+	sh := m(s, iecTarget, s.Stop, false)
 	pv, _ := sh.peak()
 	t10 := sh.riseCross(0.1 * pv)
 	t90 := sh.riseCross(0.9 * pv)

@@ -81,6 +81,7 @@ func newNetwork(v0, c, r, l float64) *Stimulus {
 		L:           l,
 		C:           c,
 		V0:          v0,
+		Gen:         NetworkFragment(v0, c, r, l),
 		Breakpoints: []float64{0},
 		Stop:        5*r*c + 10*l/r,
 	}
@@ -128,8 +129,8 @@ func networkCurrent(t, v0, c, r, l float64) float64 {
 // convention [mem]) and ringing under 15 % of the peak (the largest swing
 // below zero after the peak [mem: JS-001's ringing limit]) [pub/mem:
 // CHECKS.md].
-func checksHBM(s *Stimulus, load float64) []Check {
-	sh := measured(s, load, s.Stop, false)
+func checksHBM(s *Stimulus, load float64, m meter) []Check {
+	sh := m(s, load, s.Stop, false)
 	pv, pt := sh.peak()
 	rise := sh.riseCross(0.9*pv) - sh.riseCross(0.1*pv) // 0 for the ideal RC's jump
 	decay := sh.fallCross(math.Exp(-1)*pv, pt) - pt
@@ -150,12 +151,12 @@ func checksHBM(s *Stimulus, load float64) []Check {
 
 // checksISO: the two time points of the network's row, ±30 % (the
 // IEC 61000-4-2 tolerance, which ISO 10605 shares [mem]).
-func checksISO(s *Stimulus, load float64) []Check {
+func checksISO(s *Stimulus, load float64, m meter) []Check {
 	for _, p := range isoPoints {
 		if math.Abs(s.C-p.c) > 1e-6*p.c || math.Abs(s.R-p.r) > 1e-6*p.r {
 			continue
 		}
-		sh := measured(s, load, math.Max(s.Stop, 1.2*p.t2), false)
+		sh := m(s, load, math.Max(s.Stop, 1.2*p.t2), false)
 		pv, _ := sh.peak()
 		t10 := sh.riseCross(0.1 * pv)
 		kv := s.Level / 1000

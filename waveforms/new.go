@@ -33,8 +33,16 @@ type Waveform struct {
 	// (+Inf: an open circuit); 0 is a short.
 	Load float64
 
-	build  func(level float64, v *spec.Values) (*Stimulus, error)
-	checks func(s *Stimulus, load float64) []Check // nil: no published points
+	// Loads are further loads, ohms, into which published check points
+	// are stated (the combination wave's short circuit, the fast
+	// transient's 1 kΩ); see CalibrationLoads.
+	Loads []float64
+
+	build func(level float64, v *spec.Values) (*Stimulus, error)
+	// checks compares s into load with the published check points,
+	// measuring through m (closed form or the engine's solution); nil: no
+	// published points.
+	checks func(s *Stimulus, load float64, m meter) []Check
 }
 
 // registry holds the waveforms in documentation order; each waveform's
@@ -110,5 +118,6 @@ func (w *Waveform) New(level float64, v *spec.Values) (*Stimulus, error) {
 	s.Name = w.Name
 	s.Level = level
 	s.Unit = string(w.Unit)
+	s.Values = *v
 	return s, nil
 }

@@ -26,7 +26,7 @@ func init() {
 // checksStep: into the load (open by default), the settled value is the
 // divider level·load/(r + load) (level/r into a short) and the 10–90 % rise
 // of a linear ramp is 0.8·rise [calc: both from the definition].
-func checksStep(s *Stimulus, load float64) []Check {
+func checksStep(s *Stimulus, load float64, m meter) []Check {
 	rise := s.Breakpoints[1]
 	q, unit, want := "settled voltage", "V", s.Level
 	if !math.IsInf(load, 1) {
@@ -35,7 +35,7 @@ func checksStep(s *Stimulus, load float64) []Check {
 	if load == 0 {
 		q, unit, want = "settled current", "A", s.Level/s.R
 	}
-	sh := measured(s, load, s.Stop, load != 0)
+	sh := m(s, load, s.Stop, load != 0)
 	end := sh.y[len(sh.y)-1]
 	got := sh.riseCross(0.9*end) - sh.riseCross(0.1*end)
 	ref := "the step's definition: a linear ramp over rise, then held"

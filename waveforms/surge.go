@@ -11,7 +11,7 @@ func init() {
 		Summary: "IEC 61000-4-5 8/20 µs short-circuit current, ideal current source",
 		build:   newSurge8_20,
 		Order:   40,
-		checks:  func(s *Stimulus, _ float64) []Check { return checksSurgeI(s) },
+		checks:  func(s *Stimulus, _ float64, m meter) []Check { return checksSurgeI(s, m) },
 	})
 }
 
@@ -80,8 +80,8 @@ func newSurge1_2_50(level float64, v *spec.Values) (*Stimulus, error) {
 // checksSurgeI: the 8/20 µs current, peak = level ±10 %, front
 // 1.25·(10–90 %) 8 µs ±20 %, time to half 20 µs ±20 % [pub values,
 // mem tolerances: CHECKS.md].
-func checksSurgeI(s *Stimulus) []Check {
-	pv, front, half := frontTail(measured(s, 0, s.Stop, false), 0.1, 0.9, 1.25)
+func checksSurgeI(s *Stimulus, m meter) []Check {
+	pv, front, half := frontTail(m(s, 0, s.Stop, false), 0.1, 0.9, 1.25)
 	ref := "IEC 61000-4-5 short-circuit current, tolerances [mem]"
 	return []Check{
 		rel("peak current", "A", pv, s.Level, 0.10, "[pub]", ref),
@@ -96,14 +96,14 @@ func checksSurgeI(s *Stimulus) []Check {
 // the combination generator's 8/20 µs: its peak matches (level/2 Ω, the
 // published ratio [pub]) but its front does not, the documented
 // simplification of this source (Surge12_50Note).
-func checksSurgeV(s *Stimulus, load float64) []Check {
-	pv, front, half := frontTail(measured(s, load, s.Stop, true), 0.3, 0.9, 1.67)
+func checksSurgeV(s *Stimulus, load float64, m meter) []Check {
+	pv, front, half := frontTail(m(s, load, s.Stop, true), 0.3, 0.9, 1.67)
 	want := s.Level
 	if !math.IsInf(load, 1) {
 		want = s.Level * load / (s.R + load)
 	}
 	ref := "IEC 61000-4-5 open-circuit voltage, tolerances [mem]"
-	ipk, ifront, _ := frontTail(measured(s, 0, s.Stop, false), 0.1, 0.9, 1.25)
+	ipk, ifront, _ := frontTail(m(s, 0, s.Stop, false), 0.1, 0.9, 1.25)
 	iref := "IEC 61000-4-5 short-circuit current of the combination generator"
 	return []Check{
 		rel("peak voltage", "V", pv, want, 0.10, "[pub]", ref),

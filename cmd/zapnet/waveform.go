@@ -11,6 +11,7 @@ import (
 
 	"zapnet/cmd/internal/report"
 	"zapnet/devices/spec"
+	"zapnet/mna"
 	"zapnet/netlist"
 	"zapnet/waveforms"
 )
@@ -21,6 +22,7 @@ type waveformOptions struct {
 	level float64 // in the waveform's unit; 0: the catalogue's typical level
 	load  float64 // ohms, +Inf open; negative: the prescribed load
 	csv   string  // file for the sampled waveform; empty: none
+	json  string  // file for the checks as JSON, "-" for stdout; empty: none
 	// params are the waveform's parameters, checked; nil: every default.
 	params *spec.Values
 }
@@ -29,27 +31,35 @@ type waveformOptions struct {
 // the waveform itself.
 func runWaveform(args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("waveform",
-		"waveform NAME [--level L] [--load R] [--set key=value]... [--csv FILE]",
+		"waveform NAME [--level L] [--load R|short|open] [--set key=value]... [--csv FILE] [--json FILE]",
 		`  zapnet waveform iec61000-4-2 --level 8k
   zapnet waveform hbm --level 2kV --load 500 --csv hbm-500ohm.csv
   zapnet waveform iso10605 --set c=330p --set r=2k
   zapnet waveform pwl --set file=measured.csv --level 1
+  zapnet waveform iec61000-4-2-network --level 8k --json checks.json
+  zapnet waveform surge-cwg --load short --set path=line-earth
+  zapnet waveform eft --set burst=100k --load 1000
+
+A generator circuit (iec61000-4-2-network, iec61000-4-2-air, surge-cwg,
+eft with burst=) is solved by the circuit engine into the load: the
+generator's self-check against its standard's calibration.
 
 Waveforms: `+strings.Join(waveforms.Names(), ", ")+`.
 Levels are in the waveform's unit (V for discharges, eft and surge-1.2-50;
 A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 		stderr)
 	level := fs.String("level", "", "level in the waveform's unit, e.g. 4k or 8kV (default: a typical level)")
-	load := fs.String("load", "", "resistive load for the checks and the CSV, ohms, or open (default: the load the standard prescribes)")
+	load := fs.String("load", "", "resistive load for the checks and the CSV, ohms, short or open (default: the load the standard prescribes)")
 	sets := fs.StringArray("set", nil, "waveform parameter key=value, as on the deck's strike line (repeatable)")
 	csvPath := fs.String("csv", "", "write the waveform as CSV to `FILE` (time, current and, for source networks, voltage)")
+	jsonPath := fs.String("json", "", "write the checks as JSON to `FILE` (- for stdout, the report then goes to stderr)")
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
 	if fs.NArg() != 1 {
 		return fmt.Errorf("waveform: want one waveform name (one of %s), got %d arguments", strings.Join(waveforms.Names(), ", "), fs.NArg())
 	}
-	opt := waveformOptions{name: fs.Arg(0), load: waveforms.DefaultLoad, csv: *csvPath}
+	opt := waveformOptions{name: fs.Arg(0), load: waveforms.DefaultLoad, csv: *csvPath, json: *jsonPath}
 	wf := waveforms.Lookup(opt.name)
 	if wf == nil {
 		return fmt.Errorf("waveform: unknown waveform %q (known: %s)", opt.name, strings.Join(waveforms.Names(), ", "))
@@ -70,10 +80,12 @@ A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 		switch strings.ToLower(*load) {
 		case "open", "inf":
 			opt.load = math.Inf(1)
+		case "short":
+			opt.load = 0
 		default:
 			v, err := netlist.ParseValue("a load", *load, spec.Ohm, spec.NonNegative)
 			if err != nil {
-				errs = append(errs, fmt.Errorf("--load: %w (or open)", err))
+				errs = append(errs, fmt.Errorf("--load: %w (or short, or open)", err))
 			}
 			opt.load = v
 		}
@@ -94,7 +106,7 @@ A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 	if err := errors.Join(errs...); err != nil {
 		return fmt.Errorf("waveform: %w", err)
 	}
-	return waveformReport(opt, stdout)
+	return waveformReport(opt, tablesOut(opt.json, stdout, stderr), stdout)
 }
 
 // setWaveformParam reads key=value, one of the waveform's parameters, as
@@ -117,7 +129,9 @@ func setWaveformParam(wf *waveforms.Waveform, v *spec.Values, kv string) error {
 	return v.Set(k, x)
 }
 
-func waveformReport(opt waveformOptions, stdout io.Writer) error {
+// waveformReport prints the report to out and, with opt.json "-", the
+// JSON to stdout.
+func waveformReport(opt waveformOptions, out, stdout io.Writer) error {
 	info := waveforms.Lookup(opt.name)
 	if info == nil {
 		return fmt.Errorf("unknown waveform %q", opt.name)
@@ -133,7 +147,7 @@ func waveformReport(opt waveformOptions, stdout io.Writer) error {
 	if load < 0 {
 		load = waveforms.PrescribedLoad(s.Name)
 	}
-	checks, err := waveforms.Checks(s, load)
+	checks, err := calibrationChecks(s, load)
 	if err != nil {
 		return fmt.Errorf("waveform: %w", err)
 	}
@@ -142,8 +156,25 @@ func waveformReport(opt waveformOptions, stdout io.Writer) error {
 			return fmt.Errorf("waveform: --csv: %w", err)
 		}
 	}
+	doc := waveformDoc{Tool: "zapnet", Version: Version, Waveform: s.Name, Level: s.Level, LevelUnit: s.Unit,
+		Params: paramsOf(s), Load: jsonLoad(load), Source: describeSource(s), Pass: true,
+		Checks: checks, Note: s.Note, Caution: report.Caution}
+	for _, c := range checks {
+		doc.Pass = doc.Pass && c.Within
+	}
+	switch opt.json {
+	case "":
+	case "-":
+		if err := report.EncodeJSON(stdout, doc); err != nil {
+			return err
+		}
+	default:
+		if err := report.WriteFile(opt.json, func(w io.Writer) error { return report.EncodeJSON(w, doc) }); err != nil {
+			return fmt.Errorf("waveform: --json: %w", err)
+		}
+	}
 
-	w := bufio.NewWriter(stdout)
+	w := bufio.NewWriter(out)
 	fmt.Fprintf(w, "Waveform %s at %s: %s\n", s.Name, levelText(s), info.Summary)
 	fmt.Fprintf(w, "Source: %s\n", describeSource(s))
 	fmt.Fprintf(w, "Checked into: %s; default span %s, %d breakpoint(s)\n\n",
@@ -169,6 +200,9 @@ func waveformReport(opt waveformOptions, stdout io.Writer) error {
 	if opt.csv != "" {
 		fmt.Fprintf(w, "\nWaveform written to %s\n", opt.csv)
 	}
+	if opt.json != "" && opt.json != "-" {
+		fmt.Fprintf(w, "\nChecks written to %s\n", opt.json)
+	}
 	fmt.Fprintf(w, "\n%s\n", report.Caution)
 	return w.Flush()
 }
@@ -193,6 +227,8 @@ func describeSource(s *waveforms.Stimulus) string {
 			d += " and " + waveforms.FormatValue(s.L, "H")
 		}
 		return d
+	case waveforms.Generator:
+		return "generator circuit solved by the engine: " + s.Gen.String()
 	}
 	return s.Form.String()
 }
@@ -221,7 +257,10 @@ func loadText(s *waveforms.Stimulus, load float64) string {
 // `voltage [V]` across it; one row per sample, SI units, %.9g. The file is
 // written whole or not at all (report.WriteFile).
 func writeWaveformCSV(path string, s *waveforms.Stimulus, load float64) error {
-	t, i, v := waveforms.Sample(s, load, 0)
+	t, i, v, err := sampled(s, load)
+	if err != nil {
+		return err
+	}
 	return report.WriteFile(path, func(w io.Writer) error {
 		// The buffered writer's error sticks: WriteFile's flush reports it.
 		if v == nil {
@@ -238,4 +277,82 @@ func writeWaveformCSV(path string, s *waveforms.Stimulus, load float64) error {
 		}
 		return nil
 	})
+}
+
+// calibrationChecks measures s into load: in closed form, or for a
+// generator circuit solved by the engine into the load.
+func calibrationChecks(s *waveforms.Stimulus, load float64) ([]waveforms.Check, error) {
+	if s.Form == waveforms.Generator {
+		return waveforms.SolvedChecks(s, load, mna.LoadSolver(nil))
+	}
+	return waveforms.Checks(s, load)
+}
+
+// sampled is the stimulus into load for the CSV: closed-form samples, or
+// the engine's accepted points for a generator circuit (for a burst, its
+// first pulse).
+func sampled(s *waveforms.Stimulus, load float64) (t, i, v []float64, err error) {
+	if s.Form != waveforms.Generator {
+		t, i, v = waveforms.Sample(s, load, 0)
+		return t, i, v, nil
+	}
+	if s.Burst != nil {
+		if s, err = s.Burst.First(1); err != nil {
+			return nil, nil, nil, err
+		}
+	}
+	r, err := mna.IntoLoad(s, load, nil)
+	if err != nil {
+		return nil, nil, nil, err
+	}
+	return r.Time, r.I, r.V, nil
+}
+
+// waveformDoc is the JSON of the waveform command: what was checked, into
+// which load, and every check with its published value and window.
+type waveformDoc struct {
+	Tool      string  `json:"tool"`
+	Version   string  `json:"version"`
+	Waveform  string  `json:"waveform"`
+	Level     float64 `json:"level"`
+	LevelUnit string  `json:"level_unit"`
+	// Params are the waveform's parameters as used (numbers in SI units,
+	// words as written).
+	Params map[string]any `json:"params"`
+	// Load is the resistive load, ohms; null for an open circuit.
+	Load   *float64 `json:"load"`
+	Source string   `json:"source"`
+	// Pass is true when every check lies within its window.
+	Pass    bool              `json:"pass"`
+	Checks  []waveforms.Check `json:"checks"`
+	Note    string            `json:"note,omitempty"`
+	Caution string            `json:"caution"`
+}
+
+// paramsOf lists the stimulus's parameters that have a value.
+func paramsOf(s *waveforms.Stimulus) map[string]any {
+	m := map[string]any{}
+	t := s.Values.Table()
+	if t == nil {
+		return m
+	}
+	for _, p := range t.Params {
+		if v, ok := s.Values.Lookup(p.Key); ok {
+			m[p.Key] = v
+		}
+	}
+	for _, wd := range t.Words {
+		if v := s.Values.Word(wd.Key); v != "" {
+			m[wd.Key] = v
+		}
+	}
+	return m
+}
+
+// jsonLoad is a load for JSON: null for an open circuit.
+func jsonLoad(ohms float64) *float64 {
+	if math.IsInf(ohms, 1) {
+		return nil
+	}
+	return &ohms
 }

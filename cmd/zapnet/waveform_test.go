@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"math"
 	"os"
 	"path/filepath"
@@ -170,5 +171,84 @@ func TestWaveformBadInput(t *testing.T) {
 	_, errOut, code := runW(t, "--help")
 	if code != 0 || !strings.Contains(errOut, "zapnet waveform iec61000-4-2 --level 8k") {
 		t.Errorf("--help: exit %d, %q", code, errOut)
+	}
+}
+
+// The generator self-check: every generator circuit, solved by the engine
+// into each load its standard calibrates into, meets every published check
+// point [pub/mem per check: IEC 61000-4-2's table; IEC 61000-4-5's wave
+// parameters and 2 Ω; IEC 61000-4-4's pulse into 50 Ω and 1 kΩ], and the
+// JSON for CI says so: pass true, each check with name, value, published,
+// low, high and pass; an open circuit's load is null, as is an unbounded
+// side of a window.
+func TestWaveformGeneratorSelfCheck(t *testing.T) {
+	for _, c := range []struct {
+		args  []string
+		load  any // the JSON's load: a number of ohms, or nil for open
+		count int // checks
+	}{
+		{[]string{"iec61000-4-2-network", "--level", "8k"}, 2.0, 4},
+		{[]string{"iec61000-4-2-air", "--level", "15k", "--set", "approach=0.5"}, 2.0, 12},
+		{[]string{"surge-cwg", "--load", "open"}, nil, 4},
+		{[]string{"surge-cwg", "--load", "short", "--set", "path=io"}, 0.0, 5},
+		{[]string{"eft", "--set", "burst=5k", "--load", "50"}, 50.0, 3},
+		{[]string{"eft", "--set", "burst=100k", "--load", "1000", "--level", "4k"}, 1000.0, 3},
+	} {
+		out, errOut, code := runW(t, append(c.args, "--json", "-")...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", c.args, code, errOut)
+		}
+		var doc struct {
+			Waveform string         `json:"waveform"`
+			Load     any            `json:"load"`
+			Pass     bool           `json:"pass"`
+			Params   map[string]any `json:"params"`
+			Checks   []map[string]any
+			Caution  string `json:"caution"`
+		}
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatalf("%v: %v\n%s", c.args, err, out)
+		}
+		if !doc.Pass || doc.Waveform != c.args[0] || doc.Load != c.load || len(doc.Checks) != c.count || doc.Caution == "" {
+			t.Errorf("%v: pass %v, load %v, %d checks:\n%s", c.args, doc.Pass, doc.Load, len(doc.Checks), out)
+		}
+		for _, k := range doc.Checks {
+			for _, key := range []string{"name", "value", "published", "low", "high", "pass"} {
+				if _, ok := k[key]; !ok {
+					t.Errorf("%v: check %v lacks %s", c.args, k, key)
+				}
+			}
+			if k["pass"] != true {
+				t.Errorf("%v: check %v fails", c.args, k)
+			}
+			if k["tolerance"] == "none published" && (k["published"] != nil && !strings.HasPrefix(k["name"].(string), "through") || k["low"] != nil || k["high"] != nil) {
+				t.Errorf("%v: a row without a published window carries one: %v", c.args, k)
+			}
+		}
+		// The report itself went to stderr.
+		if !strings.Contains(errOut, "Waveform "+c.args[0]) {
+			t.Errorf("%v: no report on stderr:\n%s", c.args, errOut)
+		}
+	}
+}
+
+// The generator reports are golden files: the circuit, the checks into the
+// calibration load, the air discharge's first peak against the level, the
+// coupling path's current.
+func TestWaveformGeneratorReports(t *testing.T) {
+	for _, c := range []struct {
+		file string
+		args []string
+	}{
+		{"waveform-iec61000-4-2-network-8k.txt", []string{"iec61000-4-2-network", "--level", "8k"}},
+		{"waveform-iec61000-4-2-air-8k.txt", []string{"iec61000-4-2-air", "--level", "8k"}},
+		{"waveform-surge-cwg-line-earth-short.txt", []string{"surge-cwg", "--load", "short", "--set", "path=line-earth"}},
+		{"waveform-eft-burst-1k.txt", []string{"eft", "--set", "burst=5k", "--load", "1k"}},
+	} {
+		out, errOut, code := runW(t, c.args...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", c.args, code, errOut)
+		}
+		golden(t, c.file, []byte(out))
 	}
 }

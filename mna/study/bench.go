@@ -268,7 +268,12 @@ func (b *Bench) Solve(level float64, polarity string, opt *Options) (*Run, error
 	run := newRun(Job{Variant: b.Variant, Level: level, Polarity: polarity})
 	r := &run
 	r.Waveform, r.LevelUnit = wf.Name, wf.Unit
-	res, err := b.solveWindow(r, st, sign, opt)
+	var res *mna.Result
+	if st.Burst != nil {
+		res, err = b.solveBurst(r, st, sign, opt)
+	} else {
+		res, err = b.solveWindow(r, st, sign, opt)
+	}
 	if err != nil {
 		return nil, err
 	}

@@ -91,6 +91,10 @@ type Run struct {
 	Elements ElementResults `json:"elements"` // every element but the strike, in deck order
 	Ledger   Ledger         `json:"ledger"`
 
+	// Burst is, for a burst of identical pulses, each protector's energy
+	// and average power over a burst and over a minute of bursts; nil
+	// otherwise.
+	Burst *BurstReport `json:"burst,omitempty"`
 	// Window is the span simulated and how it was chosen.
 	Window WindowInfo `json:"window"`
 	// Notes are remarks the user should read: an extreme near the end of

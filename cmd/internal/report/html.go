@@ -211,6 +211,9 @@ func htmlRunTables(id string, r *study.Run) []htmlTable {
 	// the text report's; the other rows are the text report's.
 	add("nodes", "Nodes", []string{"node", "role", "highest", "at", "lowest", "at"}, nodeRows(r))
 	add("clamps", "Clamps", []string{"clamp", "peak current", "at", "ipp", "energy", "emax"}, clampRows(r))
+	if bu := r.Burst; bu != nil {
+		add("burst", burstTitle(bu), burstHead(bu), burstRows(bu))
+	}
 
 	var pins [][]string
 	for _, p := range r.Pins() {

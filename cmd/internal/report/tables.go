@@ -157,6 +157,9 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 	if clamps := clampRows(r); len(clamps) > 0 {
 		section(w, "Clamps", []string{"clamp", "peak current", "at", "ipp (margin)", "energy", "emax (margin)"}, clamps)
 	}
+	if bu := r.Burst; bu != nil && len(bu.Elements) > 0 {
+		section(w, burstTitle(bu), burstHead(bu), burstRows(bu))
+	}
 
 	// The residual pulse at each protected pin; the ratings themselves are
 	// in the limits table.
@@ -233,6 +236,34 @@ func clampRows(r *study.Run) [][]string {
 		}
 		rows = append(rows, []string{e.Name, si(e.PeakCurrent, "A"), si(e.TPeak, "s"),
 			rating(r.LimitOn(e.Name, spec.PeakCurrent)), si(e.Energy, "J"), rating(r.LimitOn(e.Name, spec.Energy))})
+	}
+	return rows
+}
+
+// burstTitle heads a burst's table: its pulses, their spacing and the
+// bursts' (the burst's energies, not a pulse's, are the clamp's burden).
+func burstTitle(bu *study.BurstReport) string {
+	solved := "every pulse solved"
+	if bu.Extrapolated {
+		solved = fmt.Sprintf("%d pulses solved, the rest repeat them", bu.Solved)
+	}
+	return fmt.Sprintf("Burst: %d pulses %s apart (%s long), one burst every %s; %s", bu.Pulses,
+		si(bu.Period, "s"), si(bu.Length, "s"), si(bu.Every, "s"), solved)
+}
+
+// burstHead heads the burst table, shared by the text and HTML reports.
+func burstHead(bu *study.BurstReport) []string {
+	return []string{"clamp", "first pulse", "largest pulse", "one burst", "average power",
+		fmt.Sprintf("%d bursts (1 min)", bu.PerMinute), "average power (1 min)"}
+}
+
+// burstRows are each protector's energy per pulse, per burst and per
+// minute, with the average powers.
+func burstRows(bu *study.BurstReport) [][]string {
+	var rows [][]string
+	for _, e := range bu.Elements {
+		rows = append(rows, []string{e.Name, si(e.FirstPulse, "J"), si(e.LargestPulse, "J"), si(e.Energy, "J"),
+			si(e.Power, "W"), si(e.MinuteEnergy, "J"), si(e.MinutePower, "W")})
 	}
 	return rows
 }
@@ -324,13 +355,22 @@ func CheckTable(w io.Writer, checks []waveforms.Check) error {
 	head := []string{"quantity", "computed", "published", "tolerance", "result", "source"}
 	var rows [][]string
 	for _, c := range checks {
+		// A row with no published value and no window only shows how the
+		// stimulus comes out (an air discharge's first peak).
+		shown := math.IsNaN(c.Published) && math.IsInf(c.Lo, -1) && math.IsInf(c.Hi, 1)
 		pub := waveforms.FormatValue(c.Published, c.Unit)
-		if math.IsNaN(c.Published) {
+		switch {
+		case shown:
+			pub = "-"
+		case math.IsNaN(c.Published):
 			pub = "window"
 		}
 		result := "within"
-		if !c.Within {
+		switch {
+		case !c.Within:
 			result = "OUTSIDE"
+		case math.IsInf(c.Lo, -1) && math.IsInf(c.Hi, 1):
+			result = "-"
 		}
 		rows = append(rows, []string{c.Quantity, waveforms.FormatValue(c.Computed, c.Unit), pub, c.Tol, result, c.Source})
 	}

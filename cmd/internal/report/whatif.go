@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strconv"
 	"strings"
 
 	"zapnet/devices/spec"
@@ -172,7 +173,7 @@ func SpreadTable(w io.Writer, r *whatif.SpreadResult, title, deck string) error 
 	}
 	var tol [][]string
 	for _, t := range r.Tolerances {
-		tol = append(tol, []string{t.Param, si(t.Nominal, t.Unit), fmt.Sprintf("±%g %%", t.Percent), t.Dist})
+		tol = append(tol, []string{t.Param, si(t.Nominal, t.Unit), fmt.Sprintf("±%s %%", strconv.FormatFloat(t.Percent, 'g', 6, 64)), t.Dist})
 	}
 	section(ew, "Tolerances", []string{"param", "nominal", "tolerance", "distribution"}, tol)
 
