@@ -158,6 +158,9 @@ type Datum struct {
 	C     float64 // F, Capacitance only
 	Pulse Pulse   // Clamping only
 	Where string  // file:line:col, for messages
+	// Aside, when not empty, says why the point is shown but not fitted
+	// (a TLP row after the part failed).
+	Aside string
 }
 
 // Honour says which measurements a fit keeps where a TLP curve and a surge
@@ -245,22 +248,26 @@ func FitClamp(data []Datum, opt *ClampOptions) (*ClampFit, error) {
 		conflict = 0.05
 	}
 	f := &ClampFit{Sigma: map[string]float64{}}
+	var live []Datum
 	for _, d := range data {
-		f.Points = append(f.Points, ClampPoint{Datum: d, Used: true})
+		f.Points = append(f.Points, ClampPoint{Datum: d, Used: d.Aside == ""})
+		if d.Aside == "" {
+			live = append(live, d)
+		}
 	}
-	bi, note := clampPolarity(data, opt.Polarity)
+	bi, note := clampPolarity(live, opt.Polarity)
 	if note != "" {
 		f.Notes = append(f.Notes, note)
 	}
 	p := DefaultClamp(1)
 	p.Bi, p.Ls = bi, opt.Ls
-	clampStart(&p, data)
+	clampStart(&p, live)
 
 	// A conflict between the TLP curve and surge clamping voltages: fit
 	// each side alone first and compare them at the surge currents.
 	if hasGroup(f.Points, true) && hasGroup(f.Points, false) {
 		tlpOnly := p
-		if err := fitClampIV(&tlpOnly, selectPoints(f.Points, func(c ClampPoint) bool { return !isSurge(c) }), nil, nil); err == nil {
+		if err := fitClampIV(&tlpOnly, selectPoints(f.Points, func(c ClampPoint) bool { return c.Used && !isSurge(c) }), nil, nil); err == nil {
 			var lines []string
 			for _, c := range f.Points {
 				if !isSurge(c) {
@@ -299,7 +306,7 @@ func FitClamp(data []Datum, opt *ClampOptions) (*ClampFit, error) {
 	for round := 0; round < 10; round++ {
 		res = nil
 		if err = fitClampIV(&p, used, delta, func(r *Result, n []string) { res, names = r, n }); err != nil {
-			if errors.Is(err, errTooFew) && len(used) < len(selectPoints(f.Points, func(c ClampPoint) bool { return c.Kind != Capacitance })) {
+			if errors.Is(err, errTooFew) && len(used) < len(selectPoints(f.Points, func(c ClampPoint) bool { return c.Kind != Capacitance && c.Aside == "" })) {
 				err = fmt.Errorf("%w, counting only the points left after the conflicting ones were set aside", err)
 			}
 			return nil, err

@@ -83,9 +83,9 @@ func TestClampRoundTripTLP(t *testing.T) {
 	for _, i := range []float64{-1e-3, -0.1, -20, 1e-4, 1e-2} {
 		within(t, "voltage", p.V(i), testClamp.V(i), 0.02)
 	}
-	withinSigma(t, fit, "nbr", p.Nbr, testClamp.Nbr)
-	withinSigma(t, fit, "is", p.Is, testClamp.Is)
-	withinSigma(t, fit, "n", p.N, testClamp.N)
+	withinSigma(t, fit.Sigma, "nbr", p.Nbr, testClamp.Nbr)
+	withinSigma(t, fit.Sigma, "is", p.Is, testClamp.Is)
+	withinSigma(t, fit.Sigma, "n", p.N, testClamp.N)
 	worstPoint(t, fit, 0.03)
 }
 
@@ -93,9 +93,9 @@ func TestClampRoundTripTLP(t *testing.T) {
 // against the standard error the fit reports for it: within 4 of them
 // [calc: the reported errors were checked on 24 noise draws, where the
 // errors measured in them spread as a unit normal does, the largest 3.2].
-func withinSigma(t *testing.T, fit *ClampFit, name string, got, want float64) {
+func withinSigma(t *testing.T, sigma map[string]float64, name string, got, want float64) {
 	t.Helper()
-	s := fit.Sigma[name]
+	s := sigma[name]
 	if !(s > 0) {
 		t.Errorf("%s: no standard error reported", name)
 		return
@@ -121,7 +121,7 @@ func TestClampRoundTripBi(t *testing.T) {
 	}
 	within(t, "vbr", fit.Params.Vbr, p.Vbr, 0.02)
 	within(t, "rdyn", fit.Params.Rdyn, p.Rdyn, 0.02)
-	withinSigma(t, fit, "nbr", fit.Params.Nbr, p.Nbr)
+	withinSigma(t, fit.Sigma, "nbr", fit.Params.Nbr, p.Nbr)
 	worstPoint(t, fit, 0.03)
 }
 

@@ -93,6 +93,12 @@ func RunDeck(p Part, pulse Pulse, level float64) (Shot, error) {
 	if err != nil {
 		return Shot{}, fmt.Errorf("the fitted part does not read as a deck line (%s): %w", p.Element("DUT", "a", "gnd"), err)
 	}
+	return RunCircuit(c, "a", "DUT", pulse, level)
+}
+
+// RunCircuit solves the pulse at level into a compiled deck's strike and
+// measures the Shot at node (voltage) and element (current).
+func RunCircuit(c *netlist.Circuit, node, element string, pulse Pulse, level float64) (Shot, error) {
 	sys, err := mna.Compile(c)
 	if err != nil {
 		return Shot{}, err
@@ -104,14 +110,17 @@ func RunDeck(p Part, pulse Pulse, level float64) (Shot, error) {
 	sys.SetStimulus(st, 1)
 	a, d := -1, -1
 	for k, n := range sys.Nodes() {
-		if n == "a" {
+		if n == node {
 			a = k
 		}
 	}
 	for k, n := range sys.Elements() {
-		if n == "DUT" {
+		if n == element {
 			d = k
 		}
+	}
+	if a < 0 || d < 0 {
+		panic("fit: RunCircuit: no node " + node + " or element " + element)
 	}
 	m := newShotMeter(pulse, st)
 	// Steps of a 5000th of the span put a surge's sampled peak within

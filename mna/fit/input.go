@@ -1,0 +1,233 @@
+package fit
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"zapnet/netlist/datafile"
+)
+
+// FailureFactor is how many times the leakage before it a leakage reading
+// must reach to count as the part's failure; the rise must also exceed
+// FailureFloor, so that noise at picoamperes does not count
+// [practice: a tenfold leakage shift is a common TLP failure criterion].
+const (
+	FailureFactor = 10
+	FailureFloor  = 10e-9 // A
+)
+
+// FailureCurrent reads the failure current It2 of one polarity's TLP rows
+// (in pulse order) from the leakage measured after each pulse: the first
+// pulse after which the leakage exceeds FailureFactor times the median of
+// the readings before it, by more than FailureFloor. It returns that
+// pulse's |current| and its index, or ok = false when the leakage never
+// jumps (or was not measured).
+func FailureCurrent(rows []datafile.TLPPoint) (it2 float64, k int, ok bool) {
+	var seen []float64
+	for k, p := range rows {
+		if math.IsNaN(p.Leak) {
+			continue
+		}
+		if len(seen) > 0 {
+			base := median(seen)
+			if p.Leak > FailureFactor*base && p.Leak-base > FailureFloor {
+				return math.Abs(p.I), k, true
+			}
+		}
+		seen = append(seen, p.Leak)
+	}
+	return 0, -1, false
+}
+
+func median(x []float64) float64 {
+	s := append([]float64(nil), x...)
+	sort.Float64s(s)
+	n := len(s)
+	if n%2 == 1 {
+		return s[n/2]
+	}
+	return (s[n/2-1] + s[n/2]) / 2
+}
+
+// TLPData turns a TLP curve into clamp data. Rows from a failure on (see
+// FailureCurrent) describe a damaged part: they are returned set aside
+// (Datum.Aside), and It2 is the lower failure current of the two
+// polarities (0 when neither failed).
+func TLPData(t *datafile.TLP) (data []Datum, it2 float64, notes []string) {
+	for _, p := range t.Points {
+		data = append(data, Datum{Kind: TLPRow, V: p.V, I: p.I, Where: p.Pos.String()})
+	}
+	for _, side := range []struct {
+		name string
+		sign float64
+	}{{"positive", 1}, {"negative", -1}} {
+		var rows []datafile.TLPPoint
+		var idx []int
+		for k, p := range t.Points {
+			if (p.I > 0 || p.I == 0 && p.V >= 0) == (side.sign > 0) {
+				rows = append(rows, p)
+				idx = append(idx, k)
+			}
+		}
+		c, k, ok := FailureCurrent(rows)
+		if !ok {
+			continue
+		}
+		for j := k; j < len(rows); j++ {
+			data[idx[j]].Aside = "after the failure"
+		}
+		notes = append(notes, fmt.Sprintf("%s: the leakage jumps to %.3g A after the %.4g A pulse (%s polarity): It2 = %.4g A; that row and the %d after it describe a damaged part and are not fitted",
+			rows[k].Pos, rows[k].Leak, rows[k].I, side.name, c, len(rows)-k-1))
+		if it2 == 0 || c < it2 {
+			it2 = c
+		}
+	}
+	if t.HasLeak && it2 == 0 {
+		notes = append(notes, "the leakage never jumps: the part survived every pulse, so It2 lies above the highest current measured")
+	}
+	return data, it2, notes
+}
+
+// Published is what a datasheet-points file says besides its points.
+type Published struct {
+	Name, Model, Polarity string
+	Vrwm                  float64 // stand-off voltage, V (0: not given)
+	Ipp                   float64 // peak pulse current rating, A (0: not given)
+	IppPulse              Pulse
+	Ls, Ron, It2          float64
+}
+
+// DatasheetData turns a datasheet-points file into fit data.
+func DatasheetData(d *datafile.Datasheet) ([]Datum, Published, error) {
+	pub := Published{Name: d.Name, Model: d.Model, Polarity: d.Polarity}
+	var data []Datum
+	if v, ok := d.One("vrwm"); ok {
+		pub.Vrwm = v.Value
+	}
+	for _, s := range d.Points {
+		w := s.Pos.String()
+		switch s.Key {
+		case "vbr":
+			data = append(data, Datum{Kind: Breakdown, V: s.Value, I: s.At, Where: w})
+		case "ir":
+			v := s.At
+			if !s.HasAt() {
+				if pub.Vrwm == 0 {
+					return nil, pub, fmt.Errorf("%s: ir has no voltage: write ir VALUE @ VOLTS, or give vrwm", w)
+				}
+				v = pub.Vrwm
+			}
+			data = append(data, Datum{Kind: Leakage, V: v, I: s.Value, Where: w})
+		case "vc":
+			data = append(data, Datum{Kind: Clamping, V: s.Value, I: s.At, Pulse: Pulse(s.Pulse), Where: w})
+		case "c":
+			v := 0.0
+			if s.HasAt() {
+				v = s.At
+			}
+			data = append(data, Datum{Kind: Capacitance, V: v, C: s.Value, Where: w})
+		case "vt1":
+			data = append(data, Datum{Kind: Trigger, V: s.Value, I: s.At, Where: w})
+		case "vh":
+			i := 0.0
+			if s.HasAt() {
+				i = s.At
+			}
+			data = append(data, Datum{Kind: Holding, V: s.Value, I: i, Where: w})
+		case "ipp":
+			pub.Ipp, pub.IppPulse = s.Value, Pulse(s.Pulse)
+		case "ls":
+			pub.Ls = s.Value
+		case "ron":
+			pub.Ron = s.Value
+		case "it2":
+			pub.It2 = s.Value
+		}
+	}
+	return data, pub, nil
+}
+
+// PinTableFit is a table-path pin made from a pin's TLP curve.
+type PinTableFit struct {
+	// V and I are the table, voltages rising, both polarities, with the
+	// origin added where the curve does not hold it.
+	V, I []float64
+	// It2 is the failure current (ifail), 0 when unknown.
+	It2   float64
+	Notes []string
+}
+
+// PinTable makes a table-path pin from a pin's TLP curve: every row up to
+// the failure (FailureCurrent) of each polarity, ordered by voltage, the
+// origin added. Its failure current is the lower of the two polarities'
+// (or it2 when > 0, which wins). A curve whose voltage does not rise with
+// its current (snapback) cannot be a table path: every such row is
+// reported at its position.
+func PinTable(t *datafile.TLP, it2 float64) (*PinTableFit, error) {
+	data, found, notes := TLPData(t)
+	f := &PinTableFit{Notes: notes, It2: found}
+	if it2 > 0 {
+		if found > 0 && math.Abs(found-it2) > 0.01*it2 {
+			f.Notes = append(f.Notes, fmt.Sprintf("It2 given as %.4g A; the leakage says %.4g A: the given value is used", it2, found))
+		}
+		f.It2 = it2
+	}
+	type row struct {
+		v, i  float64
+		where string
+	}
+	var rows []row
+	hasZero := false
+	for _, d := range data {
+		if d.Aside != "" {
+			continue
+		}
+		rows = append(rows, row{d.V, d.I, d.Where})
+		if d.V == 0 && d.I == 0 {
+			hasZero = true
+		}
+	}
+	if !hasZero {
+		rows = append(rows, row{0, 0, "the origin"})
+	}
+	sort.SliceStable(rows, func(a, b int) bool { return rows[a].i < rows[b].i })
+	var errs ErrorsAt
+	for k := 1; k < len(rows); k++ {
+		a, b := rows[k-1], rows[k]
+		if b.v <= a.v {
+			errs = append(errs, fmt.Sprintf("%s: %.4g V at %.4g A is not above %.4g V at %.4g A (%s): a table path needs a voltage that rises with the current; a curve that snaps back wants a snapback clamp", b.where, b.v, b.i, a.v, a.i, a.where))
+		}
+	}
+	if len(errs) > 0 {
+		return nil, errs
+	}
+	if len(rows) < 3 {
+		return nil, fmt.Errorf("a pin table needs at least two TLP rows besides the origin, got %d", len(rows)-1)
+	}
+	for _, r := range rows {
+		f.V, f.I = append(f.V, r.v), append(f.I, r.i)
+	}
+	var neg bool
+	for _, r := range rows {
+		neg = neg || r.i < 0
+	}
+	if !neg {
+		f.Notes = append(f.Notes, "no negative rows: below 0 V the table's straight extension stands for the pin's lower diode, which the data do not show")
+	}
+	return f, nil
+}
+
+// ErrorsAt is a list of problems, each already naming its position.
+type ErrorsAt []string
+
+func (e ErrorsAt) Error() string {
+	s := ""
+	for k, m := range e {
+		if k > 0 {
+			s += "\n"
+		}
+		s += m
+	}
+	return s
+}
