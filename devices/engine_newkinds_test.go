@@ -5,12 +5,16 @@ package devices_test
 // names of its own and builds the circuits element by element.
 
 import (
+	"fmt"
 	"math"
+	"os"
+	"strings"
 	"testing"
 
 	"zapnet/devices"
 	"zapnet/mna"
 	"zapnet/netlist"
+	"zapnet/netlist/datafile"
 	"zapnet/waveforms"
 )
 
@@ -334,5 +338,65 @@ func TestTablePathConvergesEverywhere(t *testing.T) {
 		if _, err := s.Transient(&mna.Settings{RelTol: 1e-4}); err != nil {
 			t.Errorf("run %d (%s %.4g, sign %+g, R %.3g Ω, L %.3g H): %v", k, wave, level, sign, r, l, err)
 		}
+	}
+}
+
+func TestIBISPinDCThroughEngine(t *testing.T) {
+	// The invented IBIS input of testdata/fit, pin 1 (its own R_pin, L_pin,
+	// C_pin), typ corner, as a table path behind a supply and 1 Ω. Where
+	// one clamp table conducts and the other only leaks, the pin's DC
+	// current at the die voltage of a table row must be that row's current
+	// within 0.1 % [calc: KCL; the file's rows are the I–V it states].
+	src, err := os.ReadFile("../testdata/fit/sensor-input.ibs")
+	if err != nil {
+		t.Fatal(err)
+	}
+	ib, err := datafile.ReadIBIS("sensor-input.ibs", src)
+	if err != nil {
+		t.Fatal(err)
+	}
+	pm, err := ib.PinModel("1", datafile.Typ)
+	if err != nil {
+		t.Fatal(err)
+	}
+	spec, notes, err := devices.IBISPin("U1", [2]string{"s", "gnd"}, "", pm)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(notes) == 0 || !strings.Contains(notes[len(notes)-1], "no failure data") {
+		t.Errorf("notes %q", notes)
+	}
+	testTables["ibis-file"] = spec
+	const r = 1.0
+	tight := &mna.Settings{RelTol: 1e-12, AbsTol: 1e-13, Gmin: 1e-20}
+	check := func(u, i float64, what string) {
+		t.Helper()
+		// Put the die at u: the supply drives i through r and R_pin.
+		vs := u + (r+pm.Rpkg)*i
+		s := compile(t, elem(netlist.Supply, "V1", "s", "gnd", vs, "r", r), elem(tableKind, "U1", "s", "gnd", 0, "table", "ibis-file"))
+		x, err := s.OperatingPoint(tight)
+		if err != nil {
+			t.Fatalf("%s: %v", what, err)
+		}
+		got := (vs - x[index(t, s.Nodes(), "s")]) / r
+		if math.Abs(got-i) > 1e-3*math.Abs(i) {
+			t.Errorf("%s: the pin draws %.6g A, the table %.6g A", what, got, i)
+		}
+	}
+	n := 0
+	for k, v := range pm.GNDV {
+		if v <= -0.5 {
+			check(v, pm.GNDI[k], fmt.Sprintf("GND clamp row %g V", v))
+			n++
+		}
+	}
+	for k, w := range pm.PowerV {
+		if w >= 0.5 {
+			check(w+pm.PowerRef, pm.PowerI[k], fmt.Sprintf("POWER clamp row %g V above the %g V rail", w, pm.PowerRef))
+			n++
+		}
+	}
+	if n < 16 {
+		t.Errorf("only %d rows compared", n)
 	}
 }
