@@ -160,11 +160,13 @@ type PinTableFit struct {
 
 // PinTable makes a table-path pin from a pin's TLP curve: every row up to
 // the failure (FailureCurrent) of each polarity, ordered by voltage, the
-// origin added. Its failure current is the lower of the two polarities'
-// (or it2 when > 0, which wins). A curve whose voltage does not rise with
-// its current (snapback) cannot be a table path: every such row is
-// reported at its position.
-func PinTable(t *datafile.TLP, it2 float64) (*PinTableFit, error) {
+// origin added, and the extra points (typically the pin's leakage at its
+// supply voltage: below its first TLP row the table otherwise runs
+// straight from the origin to that row). Its failure current is the lower
+// of the two polarities' (or it2 when > 0, which wins). A curve whose
+// voltage does not rise with its current (snapback) cannot be a table
+// path: every such row is reported at its position.
+func PinTable(t *datafile.TLP, it2 float64, extra ...[2]float64) (*PinTableFit, error) {
 	data, found, notes := TLPData(t)
 	f := &PinTableFit{Notes: notes, It2: found}
 	if it2 > 0 {
@@ -190,6 +192,9 @@ func PinTable(t *datafile.TLP, it2 float64) (*PinTableFit, error) {
 	}
 	if !hasZero {
 		rows = append(rows, row{0, 0, "the origin"})
+	}
+	for _, x := range extra {
+		rows = append(rows, row{x[0], x[1], fmt.Sprintf("the point %g V, %g A", x[0], x[1])})
 	}
 	sort.SliceStable(rows, func(a, b int) bool { return rows[a].i < rows[b].i })
 	var errs ErrorsAt
@@ -230,4 +235,39 @@ func (e ErrorsAt) Error() string {
 		s += m
 	}
 	return s
+}
+
+// BeadCurveOf turns an impedance file's curves into bead curves.
+func BeadCurveOf(im *datafile.Impedance) []BeadCurve {
+	var out []BeadCurve
+	for _, c := range im.Curves {
+		bc := BeadCurve{Bias: c.Bias, Complex: im.Complex}
+		for _, p := range c.Points {
+			bc.F = append(bc.F, p.F)
+			bc.Z = append(bc.Z, p.Z)
+			bc.Where = append(bc.Where, p.Pos.String())
+		}
+		out = append(out, bc)
+	}
+	return out
+}
+
+// BeadCurveOfTouchstone turns a Touchstone file into a bead curve at the
+// given DC bias (see Touchstone.Impedance for how each kind of file is
+// read), and says how the impedance was read.
+func BeadCurveOfTouchstone(t *datafile.Touchstone, bias float64) (BeadCurve, string, error) {
+	z, how, err := t.Impedance()
+	if err != nil {
+		return BeadCurve{}, "", err
+	}
+	bc := BeadCurve{Bias: bias, Complex: true}
+	for k, f := range t.Freq {
+		if f <= 0 {
+			continue // a DC point carries no reactance to fit
+		}
+		bc.F = append(bc.F, f)
+		bc.Z = append(bc.Z, z[k])
+		bc.Where = append(bc.Where, t.Pos[k].String())
+	}
+	return bc, how, nil
 }

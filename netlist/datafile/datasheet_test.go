@@ -20,7 +20,7 @@ func TestReadDatasheetExample(t *testing.T) {
 		t.Errorf("header %+v", d)
 	}
 	vc := d.Get("vc")
-	if len(vc) != 2 || vc[0].Value != 9 || vc[0].At != 5 || vc[0].Pulse != "8/20" || vc[1].Pulse != "tlp" {
+	if len(vc) != 2 || vc[0].Value != 10.3 || vc[0].At != 5 || vc[0].Pulse != "8/20" || vc[1].Pulse != "tlp" {
 		t.Errorf("vc points %+v", vc)
 	}
 	if ir, ok := d.One("ir"); !ok || ir.Value != 50e-9 || ir.At != 5 {
