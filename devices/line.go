@@ -1,6 +1,6 @@
 package devices
 
-import "zapnet/netlist"
+import "zapnet/devices/spec"
 
 // Line is the lossless transmission line of MODELS.md between the ports in
 // and out, each referred to gnd, with characteristic impedance z0 and
@@ -48,23 +48,25 @@ type Line struct {
 	h1, h2  float64 // history currents at cacheT − delay
 }
 
-func init() { Register(netlist.Line, NewLine) }
+func init() {
+	Register(&Kind{Kind: spec.Kind{
+		Name: "line", Summary: "a lossless transmission line whose return is gnd",
+		Terminals: [2]string{"in", "out"}, Role: spec.Carrier, Order: 90, DC: spec.ToReference,
+		Table: spec.Table{Params: []spec.Param{
+			spec.Required("z0", spec.Ohm, spec.Positive),
+			spec.Required("delay", spec.Second, spec.Positive),
+		}},
+	}, New: newLine})
+}
 
 // lineHistoryCap is the initial history capacity; it grows (outside Eval)
 // when a run keeps more points within one delay.
 const lineHistoryCap = 256
 
-// NewLine builds a line from its element.
-func NewLine(e *netlist.Element) (Device, error) {
-	p := modelParams{e: e}
-	p.require("z0")
-	p.require("delay")
-	z0 := p.positive("z0", 50)
-	delay := p.positive("delay", 1e-9)
-	if err := p.err(); err != nil {
-		return nil, err
-	}
-	d := &Line{name: e.Name, nodes: e.Nodes, z0: z0, g: 1 / z0, delay: delay}
+// newLine builds a line from its checked values.
+func newLine(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	z0 := v.Num("z0")
+	d := &Line{name: name, nodes: nodes, z0: z0, g: 1 / z0, delay: v.Num("delay")}
 	d.allocHistory(lineHistoryCap)
 	return d, nil
 }

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+
+	"zapnet/devices/spec"
 )
 
 // Snapback is a snapback clamp: an S-shaped quasi-static I–V through a
@@ -82,6 +84,50 @@ type SnapbackSpec struct {
 
 // snapbackTon is the default turn-on time, s.
 const snapbackTon = 10e-12
+
+func init() {
+	Register(&Kind{Kind: spec.Kind{
+		Name: "snapback", Summary: "a snapback clamp: an S-curve through its trigger and holding points, then ron",
+		Terminals: [2]string{"line", "ref"}, Role: spec.Protector, Order: 52,
+		Table: spec.Table{
+			Params: []spec.Param{
+				spec.Required("vt1", spec.Volt, spec.Positive).Noted("the trigger voltage").
+					WarnAbove(1000, "snapback %s triggers at %s: unusually high for a clamp"),
+				spec.Required("it1", spec.Ampere, spec.Positive).Noted("the trigger current"),
+				spec.Required("vh", spec.Volt, spec.Positive).Noted("the holding voltage"),
+				spec.Required("ih", spec.Ampere, spec.Positive).Noted("the holding current"),
+				spec.Required("ron", spec.Ohm, spec.Positive).
+					WarnAbove(100, "snapback %s has ron %s: a clamp's on-resistance is usually a few ohms at most"),
+				spec.Default("nbr", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+				spec.Default("ton", spec.Second, spec.NonNegative, snapbackTon).As(spec.Model),
+				spec.Default("ls", spec.Henry, spec.NonNegative, 0),
+				spec.Default("cj", spec.Farad, spec.NonNegative, 0),
+				spec.Default("is", spec.Ampere, spec.Positive, 1e-14).As(spec.Model),
+				spec.Default("n", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+				spec.Limit("it2", spec.Ampere, spec.Positive, spec.PeakCurrent, true, "peak current"),
+				spec.Limit("emax", spec.Joule, spec.Positive, spec.Energy, true, "energy"),
+			},
+			Words: []spec.Word{{Key: "polarity", Choices: []string{"uni", "bi"}, Default: "uni"}},
+		},
+	}, New: newSnapbackKind})
+}
+
+// newSnapbackKind builds a snapback clamp from its checked values; a ton
+// of 0 means no turn-on time.
+func newSnapbackKind(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	ton := v.Num("ton")
+	if ton == 0 {
+		ton = -1
+	}
+	d, err := NewSnapback(SnapbackSpec{Name: name, Nodes: nodes,
+		Vt1: v.Num("vt1"), It1: v.Num("it1"), Vh: v.Num("vh"), Ih: v.Num("ih"), Ron: v.Num("ron"),
+		Nbr: v.Num("nbr"), Is: v.Num("is"), N: v.Num("n"), Bi: v.Word("polarity") == "bi",
+		Cj: v.Num("cj"), Ls: v.Num("ls"), Ton: ton})
+	if err != nil {
+		return nil, err
+	}
+	return d, nil
+}
 
 // SnapbackLaw is the snapback clamp's quasi-static curve and its junction.
 type SnapbackLaw struct {
@@ -262,6 +308,8 @@ func NewSnapback(s SnapbackSpec) (*Snapback, error) {
 		l: s.Ls + ton*(s.Vt1-s.Vh)/(s.Ih-s.It1)}
 	return d, nil
 }
+
+var _ Resetter = (*Snapback)(nil)
 
 // Law returns the device's quasi-static curve.
 func (d *Snapback) Law() *SnapbackLaw { return d.law }

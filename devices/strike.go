@@ -1,7 +1,7 @@
 package devices
 
 import (
-	"zapnet/netlist"
+	"zapnet/devices/spec"
 	"zapnet/waveforms"
 )
 
@@ -51,11 +51,18 @@ const (
 // stimulus the waveforms package should have refused) from dividing by zero.
 const strikeMinR = 1e-6
 
-func init() { Register(netlist.Strike, NewStrike) }
+// StrikeKind is the strike's description. Its parameters are those of its
+// waveform (package waveforms describes them), so its own table is empty.
+var StrikeKind = &Kind{Kind: spec.Kind{
+	Name: "strike", Summary: "the discharge or surge, injected into a node",
+	Terminals: [2]string{"node", "ref"}, Role: spec.Stimulus, Order: 100, DC: spec.Blocks,
+}, New: newStrike}
 
-// NewStrike builds the strike of an element; its stimulus comes later.
-func NewStrike(e *netlist.Element) (Device, error) {
-	return &Strike{name: e.Name, nodes: e.Nodes}, nil
+func init() { Register(StrikeKind) }
+
+// newStrike builds a strike; its stimulus comes with each run.
+func newStrike(name string, nodes [2]string, _ *spec.Values) (Device, error) {
+	return &Strike{name: name, nodes: nodes}, nil
 }
 
 // Name implements Device.

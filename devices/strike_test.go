@@ -5,14 +5,13 @@ import (
 	"math"
 	"testing"
 
-	"zapnet/netlist"
 	"zapnet/waveforms"
 )
 
 // strikeRig is a strike into node 0 (ref gnd) loaded by rl ohms.
 func strikeRig(t *testing.T, st *waveforms.Stimulus, sign, rl float64) (*Strike, *nlRig) {
 	t.Helper()
-	d := nlMust(t, nlElement(netlist.Strike, "zap", "n", "gnd", nil, map[string]string{"waveform": "test"})).(*Strike)
+	d := nlMust(t, nlElement("strike", "zap", "n", "gnd", nil, nil)).(*Strike)
 	d.SetStimulus(st, sign)
 	r := newNLRig(t, d, 0, Ground)
 	r.extra = func(c *Context) { c.Conductance(0, Ground, 1/rl) }
@@ -187,7 +186,7 @@ func TestStrikeJacobian(t *testing.T) {
 		{Form: waveforms.Network, C: 100e-12, V0: 2000, R: 1500, L: 7.5e-6},
 	} {
 		for _, dc := range []bool{true, false} {
-			d := nlMust(t, nlElement(netlist.Strike, "zap", "n", "r", nil, nil)).(*Strike)
+			d := nlMust(t, nlElement("strike", "zap", "n", "r", nil, nil)).(*Strike)
 			d.SetStimulus(st, -1)
 			r := newNLRig(t, d, 0, 1)
 			r.c.DC, r.c.T = dc, 3e-9

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+
+	"zapnet/devices/spec"
 )
 
 // TablePath is a clamp or a protected pin whose conduction is given by
@@ -182,8 +184,14 @@ func (d *TablePath) Eval(c *Context) {
 	}
 }
 
+// The optional behaviours the engine finds by type assertion: a mismatch
+// would silently drop them.
+var _ Prober = (*TablePath)(nil)
+
 // Probes implements Prober.
-func (d *TablePath) Probes() []string { return []string{"ipath", "beyond"} }
+func (d *TablePath) Probes() []Probe {
+	return []Probe{{Name: "ipath", Unit: spec.Ampere}, {Name: "beyond", Unit: spec.Volt}}
+}
 
 // Probe implements Prober: dst[0] is ipath, dst[1] beyond, at x.
 func (d *TablePath) Probe(x []float64, dst []float64) {

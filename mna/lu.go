@@ -150,9 +150,6 @@ func (f *lu) factor(m []float64) int {
 	return zero
 }
 
-// pivot is the k-th diagonal entry of U.
-func (f *lu) pivot(k int) float64 { return f.a[k*f.n+k] }
-
 // solve overwrites b with the solution of A·x = b.
 func (f *lu) solve(b []float64) {
 	n, a := f.n, f.a

@@ -11,7 +11,6 @@ import (
 
 	"zapnet/mna"
 	"zapnet/netlist"
-	"zapnet/waveforms"
 )
 
 // The decks and the expected values of this file are an independent
@@ -78,25 +77,24 @@ func runDeck(t *testing.T, name string, set mna.Settings) (*mna.System, *mna.Res
 	if strike == nil || len(strike.Levels) != 1 {
 		t.Fatalf("%s: want one strike with one level", name)
 	}
-	st, err := waveforms.New(strike.Str["waveform"], strike.Levels[0], strike.Num, strike.Str)
+	st, err := strike.Waveform.New(strike.Levels[0], &strike.Values)
 	if err != nil {
 		t.Fatal(err)
 	}
 	sign := 1.0
-	switch strike.Str["polarity"] {
+	switch strike.Polarity {
 	case "pos":
 	case "neg":
 		sign = -1
 	default:
-		t.Fatalf("%s: polarity %q, want pos or neg", name, strike.Str["polarity"])
+		t.Fatalf("%s: polarity %q, want pos or neg", name, strike.Polarity)
 	}
 	sys, err := mna.Compile(c)
 	if err != nil {
 		t.Fatal(err)
 	}
-	sys.SetStimulus(st, sign)
 	set.Stop, set.Record = c.Window.Stop, true
-	res, err := sys.Transient(&set)
+	res, err := sys.Transient(st, sign, &set)
 	if err != nil {
 		t.Fatal(err)
 	}

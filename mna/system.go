@@ -26,10 +26,10 @@ type System struct {
 	nodeDevs    [][]int  // devices touching each circuit node, for hints
 	devs        []device
 	elements    []string
-	probes      []string
+	probes      []devices.Probe
 
 	striker devices.Striker
-	stim    *waveforms.Stimulus // for the breakpoints and the default span
+	stim    *waveforms.Stimulus // of the run under way: its breakpoints and span
 
 	n     int
 	ctx   devices.Context
@@ -89,14 +89,14 @@ type device struct {
 //
 // Nodes() lists the circuit nodes in order of first appearance among the
 // elements' terminals (deck order). Every element, the strike included, is
-// built from the device registry.
+// built by its kind's constructor (devices.Kind.New).
 func Compile(c *netlist.Circuit) (*System, error) {
 	s := &System{}
 	var errs []error
 	for _, e := range c.Elements {
-		d, err := devices.New(e)
+		d, err := e.Kind.New(e.Name, e.Nodes, &e.Values)
 		if err != nil {
-			errs = append(errs, err)
+			errs = append(errs, fmt.Errorf("%s: %s %s: %w", e.Pos, e.Kind.Name, e.Name, err))
 			continue
 		}
 		s.devs = append(s.devs, device{dev: d})
@@ -182,7 +182,8 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		d.probeBase = nProbe
 		if d.prober != nil {
 			for _, p := range d.prober.Probes() {
-				s.probes = append(s.probes, name+"."+p)
+				p.Name = name + "." + p.Name
+				s.probes = append(s.probes, p)
 				nProbe++
 				d.nProbe++
 			}
@@ -268,6 +269,7 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.pt = Point{
 		V: make([]float64, len(s.nodeNames)),
 		I: make([]float64, len(s.devs)),
+		W: make([]float64, len(s.devs)),
 		P: make([]float64, nProbe),
 	}
 	s.ctx = devices.Context{
@@ -355,17 +357,12 @@ func (s *System) Nodes() []string { return s.nodeNames }
 // Elements are the element names, in result order (deck order).
 func (s *System) Elements() []string { return s.elements }
 
-// Probes are the names of the devices' probes, "ELEMENT.probe", in result order.
-func (s *System) Probes() []string { return s.probes }
+// Probes are the devices' probes, named "ELEMENT.probe", in result order.
+func (s *System) Probes() []devices.Probe { return s.probes }
 
-// Unknowns are the names of every unknown of the system, in matrix order:
-// circuit nodes by name, internal nodes and branch currents as
-// ELEMENT.suffix.
-func (s *System) Unknowns() []string { return s.unknowns }
-
-// SetStimulus sets the strike of the next runs; sign is +1 or −1; nil: none.
-// The stimulus also supplies the breakpoints and the default span.
-func (s *System) SetStimulus(st *waveforms.Stimulus, sign float64) {
+// setStimulus hands the run's stimulus to the strike; it also supplies the
+// breakpoints and the default span.
+func (s *System) setStimulus(st *waveforms.Stimulus, sign float64) {
 	s.stim = st
 	if s.striker != nil {
 		s.striker.SetStimulus(st, sign)

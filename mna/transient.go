@@ -4,6 +4,8 @@ import (
 	"errors"
 	"math"
 	"time"
+
+	"zapnet/waveforms"
 )
 
 // trtol widens the truncation-error tolerance: the divided-difference
@@ -36,7 +38,12 @@ const safety = 0.8
 // steps few, which the energy ledger notices at tight tolerances.
 const beSteps = 2
 
-// Transient solves from the operating point to the stop time.
+// Transient solves the circuit struck by stim with polarity sign (+1 or −1)
+// from the operating point to the stop time. A nil stim solves the circuit
+// with its strike off (a supply's response alone); a nil set means every
+// default. The result carries the solver's statistics and its status; on a
+// failure it comes back with the error, holding the statistics of the work
+// done.
 //
 // The initial state is the operating point (strike off, supplies on): its
 // charges and fluxes, with zero derivatives. Each step is solved by Newton
@@ -52,8 +59,9 @@ const beSteps = 2
 // Transient resets the system first, so one System serves any number of
 // runs; it allocates per run, never per step (unless Record keeps the
 // waveforms). Runs are reproducible bit for bit.
-func (s *System) Transient(set *Settings) (*Result, error) {
+func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings) (*Result, error) {
 	start := time.Now()
+	s.setStimulus(stim, sign)
 	var cfg Settings
 	if set != nil {
 		cfg = *set
@@ -107,7 +115,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 	dcIt, err := s.operatingPoint(&t)
 	res.Stats.DCNewton = dcIt
 	if err != nil {
-		return nil, err
+		return res.fail(start), err
 	}
 	c := &s.ctx
 	c.DC = false
@@ -153,7 +161,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 			hs = 0.5 * rem
 		}
 		if hs < minStep {
-			return nil, s.solveError(now, notConverged, "the time step fell below the minimum step")
+			return res.fail(start), s.solveError(now, notConverged, "the time step fell below the minimum step")
 		}
 		tNew := now + hs
 		if hit {
@@ -182,7 +190,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 			res.Stats.Rejected++
 			h = hs / 2
 			if h < minStep {
-				return nil, s.solveError(now, st)
+				return res.fail(start), s.solveError(now, st)
 			}
 			continue
 		}
@@ -205,7 +213,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 						who := s.elements[s.stateDev[s.lteWorst]]
 						e.Where = "element " + who
 						e.Hint = "try a smaller maxstep in the window statement, or add series resistance to " + who
-						return nil, e
+						return res.fail(start), e
 					}
 					continue
 				}
@@ -255,7 +263,15 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 	}
 	res.Stats.Factorisations = s.factorisations
 	res.Stats.Wall = time.Since(start)
+	res.Status = Completed
 	return res, nil
+}
+
+// fail marks a run that stopped on an error, keeping its statistics.
+func (r *Result) fail(start time.Time) *Result {
+	r.Stats.Wall = time.Since(start)
+	r.Status = Failed
+	return r
 }
 
 // restartDerivative replaces the state derivatives of the last accepted
@@ -361,6 +377,7 @@ func (s *System) accept(res *Result, cfg *Settings, now, h float64, first bool) 
 			res.Energy[di] += 0.5 * h * (s.power[di] + p)
 		}
 		s.power[di] = p
+		pt.W[di] = p
 		i := 0.0
 		switch {
 		case len(d.term) > 0 && d.term[0] >= 0:

@@ -1,32 +1,68 @@
 package netlist
 
 import (
+	"errors"
 	"fmt"
 	"sort"
 	"strings"
 )
 
-// Error is one problem found in a deck.
+// The kinds of deck problems. Every *Error of a deck (but a warning) wraps
+// one, so that a caller can tell them apart with errors.Is, on one Error
+// or on a whole ErrorList.
+var (
+	// ErrSyntax: the text is not the deck language (a stray token, a
+	// space around =, an unclosed quote, a malformed name or list).
+	ErrSyntax = errors.New("not the deck language")
+	// ErrUnknown: a name that does not exist (a statement, kind,
+	// parameter, element, node, part, waveform or file).
+	ErrUnknown = errors.New("unknown name")
+	// ErrValue: a value the parameter does not take (its unit, its range,
+	// its words), or values that contradict each other.
+	ErrValue = errors.New("value not taken")
+	// ErrMissing: something required is absent (a parameter, a node, the
+	// strike, its levels).
+	ErrMissing = errors.New("missing")
+	// ErrDuplicate: a name, key or statement given twice.
+	ErrDuplicate = errors.New("given twice")
+	// ErrCircuit: the circuit has no solution as drawn (a node with one
+	// connection, a loop of ideal voltage branches, an element on itself).
+	ErrCircuit = errors.New("unsolvable circuit")
+	// ErrFile: a deck or an included file that cannot be read (not
+	// there, too large, a cycle of includes, too deep).
+	ErrFile = errors.New("unreadable file")
+)
+
+// Error is one problem found in a deck. Pos is unset for a problem of a
+// value that did not come from the deck (a command-line setting).
 type Error struct {
 	Pos     Pos
 	Msg     string
-	Warning bool // legal but doubtful: reported, never fatal
+	Warning bool  // legal but doubtful: reported, never fatal
+	Err     error // the kind of problem (ErrSyntax, ...); nil for a warning
 }
 
 func (e *Error) Error() string {
-	if e.Warning {
-		return e.Pos.String() + ": warning: " + e.Msg
+	at := ""
+	if e.Pos.IsValid() || e.Pos.File != "" {
+		at = e.Pos.String() + ": "
 	}
-	return e.Pos.String() + ": " + e.Msg
+	if e.Warning {
+		return at + "warning: " + e.Msg
+	}
+	return at + e.Msg
 }
+
+// Unwrap gives errors.Is the kind of problem.
+func (e *Error) Unwrap() error { return e.Err }
 
 // ErrorList collects the problems of a deck so that all of them are reported
 // in one pass.
 type ErrorList []*Error
 
-// Add appends a problem at pos.
-func (l *ErrorList) Add(pos Pos, format string, args ...any) {
-	*l = append(*l, &Error{Pos: pos, Msg: fmt.Sprintf(format, args...)})
+// Add appends a problem of kind (ErrSyntax, ...) at pos.
+func (l *ErrorList) Add(pos Pos, kind error, format string, args ...any) {
+	*l = append(*l, &Error{Pos: pos, Msg: fmt.Sprintf(format, args...), Err: kind})
 }
 
 // Warn appends a warning at pos.
@@ -76,6 +112,15 @@ func (l ErrorList) Error() string {
 		b.WriteString(e.Error())
 	}
 	return b.String()
+}
+
+// Unwrap gives errors.Is and errors.As every problem of the list.
+func (l ErrorList) Unwrap() []error {
+	out := make([]error, len(l))
+	for i, e := range l {
+		out[i] = e
+	}
+	return out
 }
 
 // Err returns nil when the list holds no errors (warnings alone do not

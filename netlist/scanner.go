@@ -40,7 +40,7 @@ func scan(file string, src []byte, errs *ErrorList) []statement {
 	lineNo := 0
 	for len(src) > 0 || continuing {
 		if len(src) == 0 {
-			errs.Add(contPos, "the last line ends with \\ but no line follows")
+			errs.Add(contPos, ErrSyntax, "the last line ends with \\ but no line follows")
 			break
 		}
 		lineNo++
@@ -94,7 +94,7 @@ func scanLine(file string, lineNo int, line []byte, errs *ErrorList) ([]token, b
 			r, w = utf8.DecodeRune(line[i:])
 			if r == utf8.RuneError && w == 1 && !badUTF8 {
 				badUTF8 = true
-				errs.Add(Pos{file, lineNo, col}, "invalid UTF-8 encoding")
+				errs.Add(Pos{file, lineNo, col}, ErrSyntax, "invalid UTF-8 encoding")
 			}
 			if inQuote {
 				if r == '\\' && i+1 < len(line) && (line[i+1] == '"' || line[i+1] == '\\') {
@@ -123,7 +123,7 @@ func scanLine(file string, lineNo int, line []byte, errs *ErrorList) ([]token, b
 			col++
 		}
 		if inQuote {
-			errs.Add(quotePos, "string not closed: a quote \" is missing before the end of the line")
+			errs.Add(quotePos, ErrSyntax, "string not closed: a quote \" is missing before the end of the line")
 		}
 		toks = append(toks, makeToken(string(line[start:i]), Pos{file, lineNo, startCol}, errs))
 	}
@@ -168,14 +168,14 @@ func makeToken(raw string, pos Pos, errs *ErrorList) token {
 		} else if k := strings.IndexByte(t.val, '"'); k >= 0 {
 			p := t.valPos
 			p.Col += utf8.RuneCountInString(t.val[:k])
-			errs.Add(p, "unexpected quote inside %s", raw)
+			errs.Add(p, ErrSyntax, "unexpected quote inside %s", raw)
 		}
 		return t
 	}
 	if q >= 0 {
 		p := pos
 		p.Col += utf8.RuneCountInString(raw[:q])
-		errs.Add(p, "unexpected quote inside %s (quote the whole text)", raw)
+		errs.Add(p, ErrSyntax, "unexpected quote inside %s (quote the whole text)", raw)
 	}
 	return t
 }
@@ -197,7 +197,7 @@ func unquote(s string, pos Pos, errs *ErrorList) string {
 			if i+1 < len(s) {
 				p := pos
 				p.Col = col + 1
-				errs.Add(p, "unexpected text after the closing quote")
+				errs.Add(p, ErrSyntax, "unexpected text after the closing quote")
 			}
 			return b.String()
 		}
@@ -222,7 +222,7 @@ func splitList(val string, pos Pos, errs *ErrorList) []item {
 		p := pos
 		p.Col = col
 		if s == "" {
-			errs.Add(p, "empty item in a list (lists are comma-separated, no spaces)")
+			errs.Add(p, ErrSyntax, "empty item in a list (lists are comma-separated, no spaces)")
 		} else {
 			out = append(out, item{s, p})
 		}

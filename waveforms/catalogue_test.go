@@ -6,19 +6,19 @@ import (
 	"testing"
 )
 
-func TestNamesAndDescribe(t *testing.T) {
+func TestNamesAndLookup(t *testing.T) {
 	names := Names()
-	if !sort.StringsAreSorted(names) || len(names) != 8 {
+	if !sort.StringsAreSorted(names) || len(names) != len(Catalogue()) {
 		t.Fatalf("names %v", names)
 	}
 	for _, n := range names {
-		info, err := Describe(n)
-		if err != nil || info.Name != n || info.Summary == "" || !(info.Level > 0) {
-			t.Errorf("%s: %+v, %v", n, info, err)
+		w := Lookup(n)
+		if w == nil || w.Name != n || w.Summary == "" || !(w.Level > 0) {
+			t.Errorf("%s: %+v", n, w)
 		}
 	}
-	if _, err := Describe("nope"); err == nil {
-		t.Error("unknown name described")
+	if Lookup("nope") != nil {
+		t.Error("unknown name found")
 	}
 }
 
@@ -35,8 +35,8 @@ func TestDefaultsEqualExplicit(t *testing.T) {
 		{"tlp", map[string]float64{"width": 100e-9, "rise": 1e-9}},
 		{"eft", map[string]float64{"count": 1, "rate": 5e3}},
 	} {
-		a, err1 := New(c.name, 1000, nil, nil)
-		b, err2 := New(c.name, 1000, c.num, nil)
+		a, err1 := mk(c.name, 1000, nil, nil)
+		b, err2 := mk(c.name, 1000, c.num, nil)
 		if err1 != nil || err2 != nil {
 			t.Fatal(err1, err2)
 		}
@@ -60,8 +60,8 @@ func TestEveryWaveformContract(t *testing.T) {
 		if n == "pwl" {
 			continue
 		}
-		info, _ := Describe(n)
-		s, err := New(n, info.Level, nil, nil)
+		info := Lookup(n)
+		s, err := mk(n, info.Level, nil, nil)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -93,8 +93,8 @@ func TestEveryWaveformContract(t *testing.T) {
 // of the function between samples [calc: the refinement rule].
 func TestSampleAccuracy(t *testing.T) {
 	for _, n := range []string{"iec61000-4-2", "hbm", "tlp", "eft", "surge-8-20"} {
-		info, _ := Describe(n)
-		s, _ := New(n, info.Level, nil, nil)
+		info := Lookup(n)
+		s, _ := mk(n, info.Level, nil, nil)
 		load := PrescribedLoad(n)
 		ts, is, _ := Sample(s, load, 1e-4)
 		pk, _ := AbsPeak(ts, is)

@@ -9,7 +9,8 @@ import (
 
 	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/report"
-	"zapnet/cmd/internal/whatif"
+	"zapnet/mna/study"
+	"zapnet/mna/study/whatif"
 	"zapnet/netlist"
 )
 
@@ -102,9 +103,11 @@ func marginStudy(ctx context.Context, opt marginOptions, stdout, stderr io.Write
 	mopt.Study.Polarities = opt.polarities
 	mopt.Study.Workers = opt.workers
 	if len(opt.sweep.sets) > 0 {
-		if mopt.Study.Variants, err = whatif.Variants(c, opt.sweep.sets); err != nil {
+		sets, err := whatif.ParseSets(c, opt.sweep.sets)
+		if err != nil {
 			return err
 		}
+		mopt.Study.Variants = whatif.Variants(c, sets)
 	}
 	res, err := withProgress(stderr, "margin", opt.deck, func(p whatif.Progress) (*whatif.MarginResult, error) {
 		mopt.Progress = p
@@ -127,12 +130,12 @@ func marginStudy(ctx context.Context, opt marginOptions, stdout, stderr io.Write
 // series per variant and polarity, from the levels the search solved.
 // Points without a finite margin (no limit in the deck, or a limit of
 // zero) cannot be placed and are left out.
-func drawMargins(o pictureOptions, c *netlist.Circuit, meta report.Meta, res *whatif.MarginResult) error {
+func drawMargins(o pictureOptions, c *netlist.Circuit, meta study.Meta, res *whatif.MarginResult) error {
 	var series []plots.MarginSeries
 	for _, m := range res.Margins {
 		s := plots.MarginSeries{Name: m.Polarity}
 		if len(m.Variant) > 0 {
-			s.Name = report.VariantText(m.Variant) + " " + m.Polarity
+			s.Name = m.Variant.String() + " " + m.Polarity
 		}
 		for _, p := range m.Curve {
 			if !math.IsInf(p.Percent, 0) && !math.IsNaN(p.Percent) {
@@ -157,16 +160,16 @@ func drawMargins(o pictureOptions, c *netlist.Circuit, meta report.Meta, res *wh
 // writeMargins prints the table and writes the JSON of a margin search
 // (also of merged shards), and turns unsolved searches and an interruption
 // into the error the exit status comes from.
-func writeMargins(res *whatif.MarginResult, meta report.Meta, jsonPath string, stdout, stderr io.Writer) error {
+func writeMargins(res *whatif.MarginResult, meta study.Meta, jsonPath string, stdout, stderr io.Writer) error {
 	errs, err := tableThenJSON(jsonPath, stdout, stderr,
 		func(w io.Writer) error { return report.MarginTable(w, res, meta.Title, meta.Deck) },
-		report.MarginDocument{Meta: meta, MarginResult: res})
+		whatif.MarginDocument{Meta: meta, MarginResult: res})
 	if err != nil {
 		return err
 	}
 	for _, m := range res.Margins {
 		if m.Error != "" {
-			errs = append(errs, fmt.Errorf("%s %s: %s", report.VariantText(m.Variant), m.Polarity, m.Error))
+			errs = append(errs, fmt.Errorf("%s %s: %s", m.Variant.String(), m.Polarity, m.Error))
 		}
 	}
 	if res.Interrupted {

@@ -4,13 +4,12 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"os"
-	"strconv"
 	"strings"
 
 	"zapnet/cmd/internal/report"
-	"zapnet/cmd/internal/study"
+	"zapnet/mna/study"
+	"zapnet/netlist"
 )
 
 // runOptions are the settings of `zapnet run`; runStudy takes them so that
@@ -168,27 +167,6 @@ func writeCSVs(target, deck string, runs []study.Run) error {
 	return nil
 }
 
-// levelMultipliers are the SI prefixes a --level value may carry.
-var levelMultipliers = map[string]float64{"m": 1e-3, "k": 1e3, "M": 1e6}
-
-// levelList reads a comma-separated list of levels with SI prefixes and an
-// optional unit, as on the deck's strike line: "4k,8k", "8kV", "500A".
-func levelList(s string) ([]float64, error) {
-	var out []float64
-	for _, f := range strings.Split(s, ",") {
-		text := strings.TrimSpace(f)
-		body := strings.TrimRight(text, "VA")
-		mult := 1.0
-		if n := len(body); n > 0 {
-			if m, ok := levelMultipliers[body[n-1:]]; ok {
-				body, mult = body[:n-1], m
-			}
-		}
-		v, err := strconv.ParseFloat(body, 64)
-		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) || v <= 0 || len(text)-len(strings.TrimRight(text, "VA")) > 1 {
-			return nil, fmt.Errorf("%q is not a positive level (write levels like 4k,8k or 8kV)", text)
-		}
-		out = append(out, v*mult)
-	}
-	return out, nil
-}
+// levelList reads a comma-separated list of levels, as the strike's level=
+// reads them.
+func levelList(s string) ([]float64, error) { return netlist.ParseLevels(s, nil) }

@@ -212,7 +212,7 @@ func TestRunCSV(t *testing.T) {
 			t.Fatal(err)
 		}
 		head := strings.Join(rows[0], ",")
-		if !strings.HasPrefix(head, "time,v(tip),v(n1),v(n2),i(Lpad),i(D1)") || !strings.HasSuffix(head, "i(strike)") {
+		if !strings.HasPrefix(head, "time [s],tip [V],n1 [V],n2 [V],Lpad [A],D1 [A]") || !strings.HasSuffix(head, "U1.ipath [A],zap [A]") {
 			t.Errorf("header %q", head)
 		}
 		if len(rows) < 50 {

@@ -10,7 +10,8 @@ import (
 
 	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/report"
-	"zapnet/cmd/internal/whatif"
+	"zapnet/mna/study"
+	"zapnet/mna/study/whatif"
 	"zapnet/netlist"
 )
 
@@ -110,7 +111,7 @@ func sensitivityStudy(ctx context.Context, opt sensitivityOptions, stdout, stder
 	if err != nil {
 		return err
 	}
-	res.Variant = whatif.VariantMap(variant)
+	res.Variant = variant
 	meta := deckMeta(opt.deck, c)
 	err = writeSensitivity(res, meta, opt.json, stdout, stderr)
 	if opt.pictures.wanted() {
@@ -122,7 +123,7 @@ func sensitivityStudy(ctx context.Context, opt sensitivityOptions, stdout, stder
 }
 
 // drawSensitivity draws the ranked margins of a sensitivity study.
-func drawSensitivity(o pictureOptions, c *netlist.Circuit, meta report.Meta, res *whatif.SensitivityResult) error {
+func drawSensitivity(o pictureOptions, c *netlist.Circuit, meta study.Meta, res *whatif.SensitivityResult) error {
 	fig, err := plots.SensitivityBars(c.Title, res, nil)
 	if err != nil {
 		return fmt.Errorf("--plot/--html: %w", err)
@@ -132,10 +133,10 @@ func drawSensitivity(o pictureOptions, c *netlist.Circuit, meta report.Meta, res
 
 // writeSensitivity prints and writes a sensitivity result (also of merged
 // shards).
-func writeSensitivity(res *whatif.SensitivityResult, meta report.Meta, jsonPath string, stdout, stderr io.Writer) error {
+func writeSensitivity(res *whatif.SensitivityResult, meta study.Meta, jsonPath string, stdout, stderr io.Writer) error {
 	errs, err := tableThenJSON(jsonPath, stdout, stderr,
 		func(w io.Writer) error { return report.SensitivityTable(w, res, meta.Title, meta.Deck) },
-		report.SensitivityDocument{Meta: meta, SensitivityResult: res})
+		whatif.SensitivityDocument{Meta: meta, SensitivityResult: res})
 	if err != nil {
 		return err
 	}

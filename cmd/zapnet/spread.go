@@ -9,7 +9,8 @@ import (
 
 	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/report"
-	"zapnet/cmd/internal/whatif"
+	"zapnet/mna/study"
+	"zapnet/mna/study/whatif"
 	"zapnet/netlist"
 )
 
@@ -103,7 +104,7 @@ func spreadStudy(ctx context.Context, opt spreadOptions, stdout, stderr io.Write
 	if err != nil {
 		return err
 	}
-	res.Variant = whatif.VariantMap(variant)
+	res.Variant = variant
 	meta := deckMeta(opt.deck, c)
 	err = writeSpread(res, meta, opt.json, stdout, stderr)
 	if opt.pictures.wanted() {
@@ -117,7 +118,7 @@ func spreadStudy(ctx context.Context, opt spreadOptions, stdout, stderr io.Write
 }
 
 // drawSpread draws the histograms of a spread.
-func drawSpread(o pictureOptions, c, design *netlist.Circuit, meta report.Meta, res *whatif.SpreadResult) error {
+func drawSpread(o pictureOptions, c, design *netlist.Circuit, meta study.Meta, res *whatif.SpreadResult) error {
 	figs, err := plots.SpreadHistograms(c.Title, design, res, nil)
 	if err != nil {
 		return fmt.Errorf("--plot/--html: %w", err)
@@ -127,10 +128,10 @@ func drawSpread(o pictureOptions, c, design *netlist.Circuit, meta report.Meta, 
 
 // writeSpread prints and writes a spread (also of merged shards). It returns
 // errVerdictFail when a drawn circuit failed.
-func writeSpread(res *whatif.SpreadResult, meta report.Meta, jsonPath string, stdout, stderr io.Writer) error {
+func writeSpread(res *whatif.SpreadResult, meta study.Meta, jsonPath string, stdout, stderr io.Writer) error {
 	errs, err := tableThenJSON(jsonPath, stdout, stderr,
 		func(w io.Writer) error { return report.SpreadTable(w, res, meta.Title, meta.Deck) },
-		report.SpreadDocument{Meta: meta, SpreadResult: res})
+		whatif.SpreadDocument{Meta: meta, SpreadResult: res})
 	if err != nil {
 		return err
 	}

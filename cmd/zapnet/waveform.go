@@ -12,6 +12,8 @@ import (
 	"github.com/olekukonko/tablewriter"
 
 	"zapnet/cmd/internal/report"
+	"zapnet/devices/spec"
+	"zapnet/netlist"
 	"zapnet/waveforms"
 )
 
@@ -24,8 +26,8 @@ type waveformOptions struct {
 	level float64 // in the waveform's unit; 0: the catalogue's typical level
 	load  float64 // ohms, +Inf open; negative: the prescribed load
 	csv   string  // file for the sampled waveform; empty: none
-	num   map[string]float64
-	str   map[string]string
+	// params are the waveform's parameters, checked; nil: every default.
+	params *spec.Values
 }
 
 // runWaveform prints a waveform's calibration checks and, with --csv, writes
@@ -52,46 +54,44 @@ A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 	if fs.NArg() != 1 {
 		return fmt.Errorf("waveform: want one waveform name (one of %s), got %d arguments", strings.Join(waveforms.Names(), ", "), fs.NArg())
 	}
-	opt := waveformOptions{name: fs.Arg(0), load: waveforms.DefaultLoad, csv: *csvPath,
-		num: map[string]float64{}, str: map[string]string{}}
-	info, err := waveforms.Describe(opt.name)
-	if err != nil {
-		return fmt.Errorf("waveform: %w", err)
+	opt := waveformOptions{name: fs.Arg(0), load: waveforms.DefaultLoad, csv: *csvPath}
+	wf := waveforms.Lookup(opt.name)
+	if wf == nil {
+		return fmt.Errorf("waveform: unknown waveform %q (known: %s)", opt.name, strings.Join(waveforms.Names(), ", "))
 	}
 	var errs []error
 	if *level != "" {
-		v, err := parseSI(*level, info.Unit)
+		ls, err := netlist.ParseLevels(*level, wf)
+		if err == nil && len(ls) != 1 {
+			err = errors.New("give one level")
+		}
 		if err != nil {
 			errs = append(errs, fmt.Errorf("--level: %w", err))
+		} else {
+			opt.level = ls[0]
 		}
-		opt.level = v
 	}
 	if *load != "" {
 		switch strings.ToLower(*load) {
 		case "open", "inf":
 			opt.load = math.Inf(1)
 		default:
-			v, err := parseSI(*load, "ohm")
-			if err == nil && v < 0 {
-				err = fmt.Errorf("a load is >= 0 ohms or open, got %q", *load)
-			}
+			v, err := netlist.ParseValue("a load", *load, spec.Ohm, spec.NonNegative)
 			if err != nil {
-				errs = append(errs, fmt.Errorf("--load: %w", err))
+				errs = append(errs, fmt.Errorf("--load: %w (or open)", err))
 			}
 			opt.load = v
 		}
 	}
-	for _, kv := range *sets {
-		k, v, ok := strings.Cut(kv, "=")
-		if !ok || k == "" {
-			errs = append(errs, fmt.Errorf("--set %q: want key=value", kv))
-			continue
+	if len(*sets) > 0 {
+		v := wf.Values()
+		for _, kv := range *sets {
+			if err := setWaveformParam(wf, &v, kv); err != nil {
+				errs = append(errs, fmt.Errorf("--set %w", err))
+			}
 		}
-		if x, err := parseSI(v, ""); err == nil {
-			opt.num[k] = x
-		} else {
-			opt.str[k] = v
-		}
+		v.FillDefaults()
+		opt.params = &v
 	}
 	if err := errors.Join(errs...); err != nil {
 		return fmt.Errorf("waveform: %w", err)
@@ -99,15 +99,35 @@ A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 	return waveformReport(opt, stdout)
 }
 
-func waveformReport(opt waveformOptions, stdout io.Writer) error {
-	info, err := waveforms.Describe(opt.name)
+// setWaveformParam reads key=value, one of the waveform's parameters, as
+// the deck's strike line reads it.
+func setWaveformParam(wf *waveforms.Waveform, v *spec.Values, kv string) error {
+	k, text, ok := strings.Cut(kv, "=")
+	switch {
+	case !ok || k == "":
+		return fmt.Errorf("%q: want key=value", kv)
+	case wf.Word(k) != nil:
+		return v.SetWord(k, text)
+	case wf.Param(k) == nil:
+		return fmt.Errorf("%s: waveform %s has no parameter %s (it has %s)", kv, wf.Name, k, strings.Join(wf.Keys(), ", "))
+	}
+	p := wf.Param(k)
+	x, err := netlist.ParseValue(k+" of waveform "+wf.Name, text, p.Unit, p.Rule)
 	if err != nil {
-		return err
+		return fmt.Errorf("%s: %w", kv, err)
+	}
+	return v.Set(k, x)
+}
+
+func waveformReport(opt waveformOptions, stdout io.Writer) error {
+	info := waveforms.Lookup(opt.name)
+	if info == nil {
+		return fmt.Errorf("unknown waveform %q", opt.name)
 	}
 	if opt.level == 0 {
 		opt.level = info.Level
 	}
-	s, err := waveforms.New(opt.name, opt.level, opt.num, opt.str)
+	s, err := info.New(opt.level, opt.params)
 	if err != nil {
 		return fmt.Errorf("waveform: %w", err)
 	}
@@ -213,18 +233,18 @@ func loadText(s *waveforms.Stimulus, load float64) string {
 	return d
 }
 
-// writeWaveformCSV writes the sampled waveform (OUTPUT.md): `time,i(NAME)`
-// and, for Thevenin and network sources, `v(NAME)`, the voltage across the
-// load; one row per sample, SI units, %.9g. The file is written whole or
-// not at all (report.WriteFile).
+// writeWaveformCSV writes the sampled waveform (OUTPUT.md): `time [s]`,
+// `current [A]` into the load and, for Thevenin and network sources,
+// `voltage [V]` across it; one row per sample, SI units, %.9g. The file is
+// written whole or not at all (report.WriteFile).
 func writeWaveformCSV(path string, s *waveforms.Stimulus, load float64) error {
 	t, i, v := waveforms.Sample(s, load, 0)
 	return report.WriteFile(path, func(w io.Writer) error {
 		// The buffered writer's error sticks: WriteFile's flush reports it.
 		if v == nil {
-			fmt.Fprintf(w, "time,i(%s)\n", s.Name)
+			fmt.Fprintln(w, "time [s],current [A]")
 		} else {
-			fmt.Fprintf(w, "time,i(%s),v(%s)\n", s.Name, s.Name)
+			fmt.Fprintln(w, "time [s],current [A],voltage [V]")
 		}
 		for k := range t {
 			if v == nil {
@@ -235,52 +255,4 @@ func writeWaveformCSV(path string, s *waveforms.Stimulus, load float64) error {
 		}
 		return nil
 	})
-}
-
-// siPrefixes are the multipliers parseSI accepts (no "MEG": M is mega).
-var siPrefixes = map[string]float64{
-	"f": 1e-15, "p": 1e-12, "n": 1e-9, "u": 1e-6, "µ": 1e-6, "μ": 1e-6,
-	"m": 1e-3, "k": 1e3, "M": 1e6, "G": 1e9, "T": 1e12,
-}
-
-// parseSI reads a number with an optional SI prefix and an optional unit:
-// "4k", "8kV", "8 kV", "1.5e3", "330p". unit is the unit the value may
-// carry ("V", "A", "ohm"; "" for none); its case is ignored, and "Ω" is the
-// same as "ohm".
-func parseSI(s, unit string) (float64, error) {
-	text := strings.TrimSpace(s)
-	body := text
-	if unit != "" {
-		for _, u := range unitSpellings(unit) {
-			if len(body) > len(u) && strings.EqualFold(body[len(body)-len(u):], u) {
-				body = strings.TrimSpace(body[:len(body)-len(u)])
-				break
-			}
-		}
-	}
-	mult := 1.0
-	for p, m := range siPrefixes {
-		if strings.HasSuffix(body, p) {
-			if _, err := strconv.ParseFloat(strings.TrimSpace(strings.TrimSuffix(body, p)), 64); err == nil {
-				body, mult = strings.TrimSpace(strings.TrimSuffix(body, p)), m
-				break
-			}
-		}
-	}
-	v, err := strconv.ParseFloat(body, 64)
-	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-		want := "a number with an optional SI prefix"
-		if unit != "" {
-			want += " and unit " + unit
-		}
-		return 0, fmt.Errorf("%q is not %s (e.g. 4k)", text, want)
-	}
-	return v * mult, nil
-}
-
-func unitSpellings(unit string) []string {
-	if unit == "ohm" {
-		return []string{"ohms", "ohm", "Ω"}
-	}
-	return []string{unit}
 }

@@ -11,12 +11,12 @@ import (
 	"strings"
 	"testing"
 
-	"zapnet/cmd/internal/whatif"
+	"zapnet/mna/study/whatif"
 )
 
 const (
-	clampAtPin = "../internal/whatif/testdata/clamp-at-pin.zap"
-	spreadDeck = "../internal/whatif/testdata/net-a-spread.zap"
+	clampAtPin = "../../mna/study/whatif/testdata/clamp-at-pin.zap"
+	spreadDeck = "../../mna/study/whatif/testdata/net-a-spread.zap"
 )
 
 // zapnet runs a whole command line through Main, as a user would; the

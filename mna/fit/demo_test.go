@@ -93,7 +93,7 @@ func TestDemoSnapback(t *testing.T) {
 	if err != nil || pub.Model != "snapback" || pub.It2 != 9.5 {
 		t.Fatalf("%v %+v", err, pub)
 	}
-	fit, err = FitSnapback(dd, &SnapbackOptions{Runner: snapRunner, It2: pub.It2})
+	fit, err = FitSnapback(dd, &SnapbackOptions{Runner: RunDeck, It2: pub.It2})
 	if err != nil {
 		t.Fatal(err)
 	}

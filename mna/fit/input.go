@@ -3,51 +3,21 @@ package fit
 import (
 	"fmt"
 	"math"
-	"sort"
 
 	"zapnet/netlist/datafile"
 )
 
-// FailureFactor is how many times the leakage before it a leakage reading
-// must reach to count as the part's failure; the rise must also exceed
-// FailureFloor, so that noise at picoamperes does not count
-// [practice: a tenfold leakage shift is a common TLP failure criterion].
-const (
-	FailureFactor = 10
-	FailureFloor  = 10e-9 // A
-)
-
 // FailureCurrent reads the failure current It2 of one polarity's TLP rows
-// (in pulse order) from the leakage measured after each pulse: the first
-// pulse after which the leakage exceeds FailureFactor times the median of
-// the readings before it, by more than FailureFloor. It returns that
-// pulse's |current| and its index, or ok = false when the leakage never
-// jumps (or was not measured).
+// (in pulse order) from the leakage measured after each pulse
+// (datafile.FirstFailure: the first tenfold jump over the median before
+// it): that pulse's |current| and its index, or ok = false when the
+// leakage never jumps (or was not measured).
 func FailureCurrent(rows []datafile.TLPPoint) (it2 float64, k int, ok bool) {
-	var seen []float64
-	for k, p := range rows {
-		if math.IsNaN(p.Leak) {
-			continue
-		}
-		if len(seen) > 0 {
-			base := median(seen)
-			if p.Leak > FailureFactor*base && p.Leak-base > FailureFloor {
-				return math.Abs(p.I), k, true
-			}
-		}
-		seen = append(seen, p.Leak)
+	k, ok = datafile.FirstFailure(rows)
+	if !ok {
+		return 0, -1, false
 	}
-	return 0, -1, false
-}
-
-func median(x []float64) float64 {
-	s := append([]float64(nil), x...)
-	sort.Float64s(s)
-	n := len(s)
-	if n%2 == 1 {
-		return s[n/2]
-	}
-	return (s[n/2-1] + s[n/2]) / 2
+	return math.Abs(rows[k].I), k, true
 }
 
 // TLPData turns a TLP curve into clamp data. Rows from a failure on (see
@@ -167,7 +137,7 @@ type PinTableFit struct {
 // voltage does not rise with its current (snapback) cannot be a table
 // path: every such row is reported at its position.
 func PinTable(t *datafile.TLP, it2 float64, extra ...[2]float64) (*PinTableFit, error) {
-	data, found, notes := TLPData(t)
+	_, found, notes := TLPData(t)
 	f := &PinTableFit{Notes: notes, It2: found}
 	if it2 > 0 {
 		if found > 0 && math.Abs(found-it2) > 0.01*it2 {
@@ -175,66 +145,19 @@ func PinTable(t *datafile.TLP, it2 float64, extra ...[2]float64) (*PinTableFit, 
 		}
 		f.It2 = it2
 	}
-	type row struct {
-		v, i  float64
-		where string
+	v, i, err := t.Table(extra...)
+	if err != nil {
+		return nil, err
 	}
-	var rows []row
-	hasZero := false
-	for _, d := range data {
-		if d.Aside != "" {
-			continue
-		}
-		rows = append(rows, row{d.V, d.I, d.Where})
-		if d.V == 0 && d.I == 0 {
-			hasZero = true
-		}
-	}
-	if !hasZero {
-		rows = append(rows, row{0, 0, "the origin"})
-	}
-	for _, x := range extra {
-		rows = append(rows, row{x[0], x[1], fmt.Sprintf("the point %g V, %g A", x[0], x[1])})
-	}
-	sort.SliceStable(rows, func(a, b int) bool { return rows[a].i < rows[b].i })
-	var errs ErrorsAt
-	for k := 1; k < len(rows); k++ {
-		a, b := rows[k-1], rows[k]
-		if b.v <= a.v {
-			errs = append(errs, fmt.Sprintf("%s: %.4g V at %.4g A is not above %.4g V at %.4g A (%s): a table path needs a voltage that rises with the current; a curve that snaps back wants a snapback clamp", b.where, b.v, b.i, a.v, a.i, a.where))
-		}
-	}
-	if len(errs) > 0 {
-		return nil, errs
-	}
-	if len(rows) < 3 {
-		return nil, fmt.Errorf("a pin table needs at least two TLP rows besides the origin, got %d", len(rows)-1)
-	}
-	for _, r := range rows {
-		f.V, f.I = append(f.V, r.v), append(f.I, r.i)
-	}
+	f.V, f.I = v, i
 	var neg bool
-	for _, r := range rows {
-		neg = neg || r.i < 0
+	for _, x := range f.I {
+		neg = neg || x < 0
 	}
 	if !neg {
 		f.Notes = append(f.Notes, "no negative rows: below 0 V the table's straight extension stands for the pin's lower diode, which the data do not show")
 	}
 	return f, nil
-}
-
-// ErrorsAt is a list of problems, each already naming its position.
-type ErrorsAt []string
-
-func (e ErrorsAt) Error() string {
-	s := ""
-	for k, m := range e {
-		if k > 0 {
-			s += "\n"
-		}
-		s += m
-	}
-	return s
 }
 
 // BeadCurveOf turns an impedance file's curves into bead curves.

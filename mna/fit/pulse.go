@@ -48,9 +48,9 @@ const (
 func (p Pulse) Stimulus(level float64) (*waveforms.Stimulus, error) {
 	switch p {
 	case Surge8x20:
-		return waveforms.New("surge-8-20", level, nil, nil)
+		return waveforms.Lookup("surge-8-20").New(level, nil)
 	case TLPPulse:
-		return waveforms.New("tlp", level, nil, nil)
+		return waveforms.Lookup("tlp").New(level, nil)
 	case Surge10x1000:
 		a := s10A * level
 		return &waveforms.Stimulus{Name: "surge-10-1000", Level: level, Unit: "A", Form: waveforms.Current,
@@ -107,7 +107,6 @@ func RunCircuit(c *netlist.Circuit, node, element string, pulse Pulse, level flo
 	if err != nil {
 		return Shot{}, err
 	}
-	sys.SetStimulus(st, 1)
 	a, d := -1, -1
 	for k, n := range sys.Nodes() {
 		if n == node {
@@ -135,7 +134,7 @@ func RunCircuit(c *netlist.Circuit, node, element string, pulse Pulse, level flo
 		set.Stop = m.hi
 		set.MaxStep = m.hi / 2000
 	}
-	if _, err := sys.Transient(set); err != nil {
+	if _, err := sys.Transient(st, 1, set); err != nil {
 		return Shot{}, err
 	}
 	return m.shot(), nil
@@ -190,11 +189,4 @@ func (m *shotMeter) shot() Shot {
 }
 
 // knownKind reports whether the engine has a model for the kind.
-func knownKind(kind string) bool {
-	for _, k := range devices.Kinds() {
-		if string(k) == kind {
-			return true
-		}
-	}
-	return false
-}
+func knownKind(kind string) bool { return devices.Lookup(kind) != nil }

@@ -1,43 +1,11 @@
 package fit
 
 import (
+	"errors"
 	"math"
 	"strings"
 	"testing"
-
-	"zapnet/devices"
-	"zapnet/netlist"
 )
-
-// The snapback clamp is not a kind of the deck language yet: these tests
-// register it under a name of their own and solve its pulses in circuits
-// built element by element.
-const snapTestKind netlist.Kind = "snapback-fit-test"
-
-func init() {
-	devices.Register(snapTestKind, func(e *netlist.Element) (devices.Device, error) {
-		n := e.Num
-		return devices.NewSnapback(devices.SnapbackSpec{Name: e.Name, Nodes: e.Nodes,
-			Vt1: n["vt1"], It1: n["it1"], Vh: n["vh"], Ih: n["ih"], Ron: n["ron"], Nbr: n["nbr"],
-			Is: n["is"], N: n["n"], Bi: e.Str["polarity"] == "bi", Cj: n["cj"], Ls: n["ls"], Ton: n["ton"]})
-	})
-}
-
-// snapRunner is a Runner for snapback parts.
-func snapRunner(p Part, pulse Pulse, level float64) (Shot, error) {
-	if p.Kind != "snapback" {
-		return RunDeck(p, pulse, level)
-	}
-	e := &netlist.Element{Kind: snapTestKind, Name: "DUT", Nodes: [2]string{"a", "gnd"}, Num: map[string]float64{}, Str: map[string]string{}}
-	for _, n := range p.Num {
-		e.Num[n.Key] = n.Value
-	}
-	for _, w := range p.Words {
-		e.Str[w.Key] = w.Value
-	}
-	strike := &netlist.Element{Kind: netlist.Strike, Name: "S", Nodes: [2]string{"a", "gnd"}, Num: map[string]float64{}, Str: map[string]string{"waveform": "tlp"}}
-	return RunCircuit(&netlist.Circuit{Elements: []*netlist.Element{strike, e}}, "a", "DUT", pulse, level)
-}
 
 // An invented snapback clamp.
 var testSnap = SnapbackParams{Vt1: 8.5, It1: 0.05, Vh: 4.2, Ih: 0.6, Ron: 1.2, Nbr: 3}
@@ -111,14 +79,14 @@ func TestSnapbackFromDatasheet(t *testing.T) {
 		i     float64
 	}{{Surge8x20, 3}, {TLPPulse, 8}} {
 		d := Datum{Kind: Clamping, Pulse: c.pulse, I: c.i}
-		v, err := simulatePoint(snapRunner, p.Part("x"), d, static)
+		v, err := simulatePoint(RunDeck, p.Part("x"), d, static)
 		if err != nil {
 			t.Fatal(err)
 		}
 		d.V = v
 		data = append(data, d)
 	}
-	fit, err := FitSnapback(data, &SnapbackOptions{Runner: snapRunner, Ls: p.Ls})
+	fit, err := FitSnapback(data, &SnapbackOptions{Runner: RunDeck, Ls: p.Ls})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -128,9 +96,9 @@ func TestSnapbackFromDatasheet(t *testing.T) {
 			t.Errorf("%s point misses by %.2f %%", c.Pulse, 100*c.Residual)
 		}
 	}
-	// Without a runner that knows the kind, the deck cannot hold it yet.
-	if _, err := FitSnapback(data, &SnapbackOptions{Runner: RunDeck}); err == nil || !strings.Contains(err.Error(), "no such kind") {
-		t.Errorf("deck runner: %v", err)
+	// A part of a kind the deck language lacks cannot be simulated.
+	if _, err := RunDeck(Part{Name: "x", Kind: "nosuchkind"}, TLPPulse, 1); !errors.Is(err, ErrNoKind) {
+		t.Errorf("unknown kind: %v", err)
 	}
 	// ih left out: the 50 Ω load line from the trigger.
 	fit, err = FitSnapback([]Datum{{Kind: Trigger, V: 8.5, I: 0.05}, {Kind: Holding, V: 4.2}}, &SnapbackOptions{Ron: 1.2})

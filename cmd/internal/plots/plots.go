@@ -19,8 +19,8 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgsvg"
 
-	"zapnet/cmd/internal/study"
-	"zapnet/netlist"
+	"zapnet/devices/spec"
+	"zapnet/mna/study"
 )
 
 // Options tune the figures. A nil *Options means every default; a zero field
@@ -360,7 +360,7 @@ func timeFigure(o *Options, s timeSpec) (Figure, error) {
 		ts, tp := engineering(span)
 		sub := ""
 		if len(spans) == 2 {
-			sub = "first " + netlist.FormatSI(span, "s")
+			sub = "first " + spec.FormatSI(span, "s")
 			if pi == 1 {
 				sub = "whole window"
 			}
@@ -494,9 +494,9 @@ func thin(t, y []float64, span float64, max int, ts, ys float64) plotter.XYs {
 // RunLabel names a run in legends and captions: "8 kV pos", or with a
 // variant "8 kV pos, C1.value=1u".
 func RunLabel(r *study.Run) string {
-	s := netlist.FormatSI(r.Level, r.LevelUnit) + " " + r.Polarity
+	s := spec.FormatSI(r.Level, r.LevelUnit) + " " + r.Polarity
 	if len(r.Variant) > 0 {
-		s += ", " + study.VariantString(r.Variant)
+		s += ", " + r.Variant.String()
 	}
 	return s
 }

@@ -2,6 +2,7 @@ package plots
 
 import (
 	"bytes"
+	"context"
 	"encoding/xml"
 	"io"
 	"maps"
@@ -11,7 +12,7 @@ import (
 	"sync"
 	"testing"
 
-	"zapnet/cmd/internal/study"
+	"zapnet/mna/study"
 	"zapnet/netlist"
 )
 
@@ -21,7 +22,11 @@ var demo = sync.OnceValues(func() (*netlist.Circuit, []study.Run) {
 	if err != nil {
 		panic(err)
 	}
-	runs, err := study.Execute(c, &study.Options{Record: true})
+	jobs, err := study.Jobs(c, &study.Options{Record: true})
+	if err != nil {
+		panic(err)
+	}
+	runs, err := study.Execute(context.Background(), c, jobs, &study.Options{Record: true}, nil)
 	if err != nil {
 		panic(err)
 	}
@@ -334,7 +339,11 @@ func TestOverlaysAcrossVariants(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	runs, err := study.Execute(c, &study.Options{Record: true, Levels: []float64{2e3, 8e3}})
+	jobs, err := study.Jobs(c, &study.Options{Record: true, Levels: []float64{2e3, 8e3}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	runs, err := study.Execute(context.Background(), c, jobs, &study.Options{Record: true, Levels: []float64{2e3, 8e3}}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}

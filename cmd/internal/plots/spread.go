@@ -11,7 +11,8 @@ import (
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
-	"zapnet/cmd/internal/whatif"
+	"zapnet/devices/spec"
+	"zapnet/mna/study/whatif"
 	"zapnet/netlist"
 )
 
@@ -43,22 +44,26 @@ func SpreadHistograms(title string, c *netlist.Circuit, res *whatif.SpreadResult
 	}
 	var figs []Figure
 	for mi, m := range res.Measures {
-		var elem, quantity, unit, name, rating string
+		var elem, quantity, name string
+		var unit spec.Unit
+		var rating spec.Measure
 		switch {
 		case strings.HasSuffix(m, ".residual.peak"):
 			elem = strings.TrimSuffix(m, ".residual.peak")
-			quantity, unit, name, rating = "residual peak", "V", "spread-"+elem+"-peak", "vmax"
+			quantity, unit, name, rating = "residual peak", "V", "spread-"+elem+"-peak", spec.HighVoltage
 		case strings.HasSuffix(m, ".energy"):
 			elem = strings.TrimSuffix(m, ".energy")
-			quantity, unit, name, rating = "energy", "J", "spread-"+elem+"-energy", "emax"
+			quantity, unit, name, rating = "energy", "J", "spread-"+elem+"-energy", spec.Energy
 		default:
 			continue
 		}
 		values := worstValues(res, mi)
 		var lim *limitLine
 		if c != nil {
-			if e := c.Element(elem); e != nil && e.Has(rating) {
-				lim = &limitLine{rating + " " + netlist.FormatSI(e.Num[rating], unit), e.Num[rating]}
+			if e := c.Element(elem); e != nil {
+				if p, v, ok := e.Rating(rating); ok {
+					lim = &limitLine{p.Key + " " + spec.FormatSI(v, unit), v}
+				}
 			}
 		}
 		what := strings.ToUpper(quantity[:1]) + quantity[1:] + " of " + elem + over
@@ -93,7 +98,7 @@ func worstValues(res *whatif.SpreadResult, mi int) []float64 {
 
 // histogram draws values as a histogram with the percentile lines and the
 // rating lim (nil: none).
-func histogram(o *Options, name, what, stats, quantity, unit string, values []float64, pc whatif.Percentiles, lim *limitLine) (Figure, error) {
+func histogram(o *Options, name, what, stats, quantity string, unit spec.Unit, values []float64, pc whatif.Percentiles, lim *limitLine) (Figure, error) {
 	if len(values) == 0 {
 		return Figure{}, fmt.Errorf("plots: %s: nothing to draw", name)
 	}
@@ -135,7 +140,7 @@ func histogram(o *Options, name, what, stats, quantity, unit string, values []fl
 		LineStyle: draw.LineStyle{Color: color.White, Width: vg.Points(0.5)}}
 
 	p := newPlot("")
-	p.X.Label.Text = quantity + " (" + xp + unit + ")"
+	p.X.Label.Text = quantity + " (" + xp + string(unit) + ")"
 	p.Y.Label.Text = "circuits"
 	p.Y.Tick.Marker = countTicks{}
 	p.Add(h)
@@ -149,9 +154,9 @@ func histogram(o *Options, name, what, stats, quantity, unit string, values []fl
 		value float64
 		style draw.LineStyle
 	}{
-		{"p1 " + netlist.FormatSI(pc.P1, unit), pc.P1, draw.LineStyle{Color: palette[0], Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}},
-		{"p50 " + netlist.FormatSI(pc.P50, unit), pc.P50, draw.LineStyle{Color: palette[6], Width: vg.Points(1.2)}},
-		{"p99 " + netlist.FormatSI(pc.P99, unit), pc.P99, draw.LineStyle{Color: palette[1], Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(6), vg.Points(3)}}},
+		{"p1 " + spec.FormatSI(pc.P1, unit), pc.P1, draw.LineStyle{Color: palette[0], Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}},
+		{"p50 " + spec.FormatSI(pc.P50, unit), pc.P50, draw.LineStyle{Color: palette[6], Width: vg.Points(1.2)}},
+		{"p99 " + spec.FormatSI(pc.P99, unit), pc.P99, draw.LineStyle{Color: palette[1], Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(6), vg.Points(3)}}},
 	}
 	for _, m := range marks {
 		l, err := vline(m.value*xs, 0, p.Y.Max, m.style)

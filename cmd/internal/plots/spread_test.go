@@ -5,7 +5,7 @@ import (
 	"strings"
 	"testing"
 
-	"zapnet/cmd/internal/whatif"
+	"zapnet/mna/study/whatif"
 	"zapnet/netlist"
 )
 
@@ -96,7 +96,9 @@ func TestSpreadHistograms(t *testing.T) {
 	}
 
 	// A rating far below every circuit lies off the scale on the left.
-	c.Element("U1").Num["vmax"] = 5
+	if err := c.Element("U1").Values.Set("vmax", 5); err != nil {
+		t.Fatal(err)
+	}
 	figs, err = SpreadHistograms("", c, res, nil)
 	if err != nil {
 		t.Fatal(err)

@@ -9,33 +9,34 @@ import (
 	"strconv"
 	"strings"
 
-	"zapnet/cmd/internal/study"
-	"zapnet/netlist"
+	"zapnet/devices/spec"
+	"zapnet/mna/study"
 )
 
-// CSV writes a recorded run's waveforms (OUTPUT.md): a header
-// `time,v(n1),...,i(D1),...,p(U1.ipath),...,i(strike)` and one row per
-// accepted point, SI units, %.9g. Element currents are into each element's
-// first terminal; i(strike) is the current the strike drives into its node.
-// The run must have been solved with Options.Record.
+// CSV writes a recorded run's waveforms (OUTPUT.md): a header of plain
+// names with units, `time [s],n1 [V],...,D1 [A],...,U1.ipath [A],...,zap [A]`,
+// and one row per accepted point, SI units, %.9g. Node columns are
+// voltages to gnd; element columns are the current into each element's
+// first terminal; the last is the current the strike (named) drives into
+// its node. The run must have been solved with Options.Record.
 func CSV(w io.Writer, r *study.Run) error {
 	wv := r.Waves
 	if wv == nil {
 		return errors.New("report: the run was not recorded (study.Options.Record)")
 	}
 	ew := &errWriter{w: w}
-	head := []string{"time"}
+	head := []string{column("time", spec.Second)}
 	for _, n := range wv.Nodes {
-		head = append(head, "v("+n+")")
+		head = append(head, column(n, spec.Volt))
 	}
 	for _, e := range wv.Elements {
-		head = append(head, "i("+e+")")
+		head = append(head, column(e, spec.Ampere))
 	}
 	for _, p := range wv.Probes {
-		head = append(head, "p("+p+")")
+		head = append(head, column(p.Name, p.Unit))
 	}
 	if wv.Strike != nil {
-		head = append(head, "i(strike)")
+		head = append(head, column(wv.StrikeName, spec.Ampere))
 	}
 	io.WriteString(ew, strings.Join(head, ",")+"\n")
 	buf := make([]byte, 0, 32*len(head))
@@ -99,13 +100,21 @@ func CSVPaths(target, deck string, runs []study.Run) ([]string, error) {
 	return paths, nil
 }
 
+// column is a CSV column's heading: the name and its unit, "n1 [V]".
+func column(name string, unit spec.Unit) string {
+	if unit == "" {
+		return name
+	}
+	return name + " [" + string(unit) + "]"
+}
+
 // RunName is a run's name for files: "8kV_pos", "C1.value-1u_8kV_pos".
 func RunName(r *study.Run) string {
 	var parts []string
 	for _, s := range r.Variant {
-		parts = append(parts, s.Element+"."+s.Param+"-"+s.Value)
+		parts = append(parts, s.Target()+"-"+s.Text)
 	}
-	parts = append(parts, netlist.FormatSI(r.Level, r.LevelUnit), r.Polarity)
+	parts = append(parts, spec.FormatSI(r.Level, r.LevelUnit), r.Polarity)
 	name := strings.Join(parts, "_")
 	return strings.Map(func(c rune) rune {
 		switch {

@@ -8,7 +8,8 @@ import (
 	"io"
 	"strings"
 
-	"zapnet/cmd/internal/study"
+	"zapnet/devices/spec"
+	"zapnet/mna/study"
 )
 
 // Figure is a picture in the HTML report: an SVG document drawn by package
@@ -25,7 +26,7 @@ type Figure struct {
 type HTMLOptions struct {
 	// Meta names the tool, the deck and its title. Zero: no title (the
 	// report is headed "zapnet report") and no deck path.
-	Meta Meta
+	Meta study.Meta
 	// Source is the deck's text, listed as written with line numbers.
 	// Nil: no listing.
 	Source []byte
@@ -78,7 +79,7 @@ func HTML(w io.Writer, runs []study.Run, opt *HTMLOptions) error {
 	for i := range runs {
 		r := &runs[i]
 		id := fmt.Sprintf("run-%d", i+1)
-		row := htmlSummaryRow{ID: id, Variant: study.VariantString(r.Variant), Level: si(r.Level, r.LevelUnit),
+		row := htmlSummaryRow{ID: id, Variant: r.Variant.String(), Level: si(r.Level, r.LevelUnit),
 			Polarity: r.Polarity, Verdict: string(r.Verdict), Class: verdictClass(r.Verdict), Worst: worstText(r)}
 		page.Summary = append(page.Summary, row)
 		hr := htmlRun{ID: id, Class: row.Class, Verdict: row.Verdict, Heading: runHeading(r, i, len(runs))}
@@ -191,12 +192,11 @@ func htmlRunTables(id string, r *study.Run) []htmlTable {
 
 	// The pin table shows the ratings beside the residual pulse, unlike
 	// the text report's; the other rows are the text report's.
-	lim := limitsByName(r)
 	add("nodes", "Nodes", []string{"node", "role", "highest", "at", "lowest", "at"}, nodeRows(r))
-	add("clamps", "Clamps", []string{"clamp", "peak current", "at", "ipp", "energy", "emax"}, clampRows(r, lim))
+	add("clamps", "Clamps", []string{"clamp", "peak current", "at", "ipp", "energy", "emax"}, clampRows(r))
 
 	var pins [][]string
-	for _, p := range r.Pins {
+	for _, p := range r.Pins() {
 		vmax, vmin, above, below := "-", "-", "-", "-"
 		if p.HasVmax {
 			vmax, above = si(p.Vmax, "V"), si(p.AboveVmax, "s")
@@ -205,13 +205,14 @@ func htmlRunTables(id string, r *study.Run) []htmlTable {
 			vmin, below = si(p.Vmin, "V"), si(p.BelowVmin, "s")
 		}
 		pins = append(pins, []string{p.Name, si(p.Peak, "V"), si(p.TPeak, "s"), vmax, above,
-			si(p.Min, "V"), vmin, below, si(p.Energy, "J"), si(p.IPath, "A"), rating(lim[p.Name+" ifail"])})
+			si(p.Min, "V"), vmin, below, si(p.Energy, "J"), si(p.IPath, "A"), rating(r.LimitOn(p.Name, spec.PeakCurrent))})
 	}
 	add("pins", "Protected pins (residual pulse)", []string{"pin", "peak", "at", "vmax", "time above",
 		"lowest", "vmin", "time below", "energy in", "internal clamp", "ifail"}, pins)
 
-	add("capacitors", "Capacitors", []string{"capacitor", "peak voltage", "at", "rating"}, capacitorRows(r))
+	add("capacitors", "Capacitors", capacitorHead, capacitorRows(r))
 	add("ledger", "Energy ledger", ledgerHead, ledgerRows(r))
+	add("quiescent", quiescentTitle, quiescentHead, quiescentRows(r))
 	add("limits", "Limits", []string{"limit", "measured", "at", "rating", "margin", "margin %", "verdict"}, limitRows(r))
 	return ts
 }

@@ -1,55 +1,14 @@
 package report
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
-	"sort"
 	"strings"
 
-	"zapnet/cmd/internal/study"
-	"zapnet/cmd/internal/whatif"
+	"zapnet/devices/spec"
+	"zapnet/mna/study/whatif"
 )
-
-// The what-if documents (OUTPUT.md, "What-if commands"): the tool, version,
-// deck and title of Meta, then the result's own fields.
-
-// RunShardDocument is the run document of a sharded or interrupted sweep:
-// Document plus the shard it is (for merge) and whether it was cut short.
-// Both extra fields are omitted for a whole, finished sweep, so the merged
-// shards encode exactly like the unsharded run.
-type RunShardDocument struct {
-	Document
-	Shard       *whatif.ShardInfo `json:"shard,omitempty"`
-	Interrupted bool              `json:"interrupted,omitempty"`
-}
-
-// MarginDocument is the JSON of `zapnet margin`.
-type MarginDocument struct {
-	Meta
-	*whatif.MarginResult
-}
-
-// SensitivityDocument is the JSON of `zapnet sensitivity`.
-type SensitivityDocument struct {
-	Meta
-	*whatif.SensitivityResult
-}
-
-// SpreadDocument is the JSON of `zapnet spread`.
-type SpreadDocument struct {
-	Meta
-	*whatif.SpreadResult
-}
-
-// EncodeJSON writes any document indented, with a final newline, as JSON
-// does for the run document.
-func EncodeJSON(w io.Writer, doc any) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(doc)
-}
 
 func init() {
 	// The what-if tables' word columns, aligned left like the others.
@@ -87,7 +46,7 @@ func VariantRanking(w io.Writer, ranks []whatif.VariantRank) error {
 			worst = r.Worst.String()
 			at = si(r.WorstLevel, r.LevelUnit) + " " + r.WorstPolarity
 		}
-		rows = append(rows, []string{fmt.Sprint(r.Rank), study.VariantString(r.Variant), worst, at,
+		rows = append(rows, []string{fmt.Sprint(r.Rank), r.Variant.String(), worst, at,
 			fmt.Sprint(r.Passed), fmt.Sprint(r.Failed)})
 	}
 	t := newTable(ew, head)
@@ -123,11 +82,11 @@ func MarginTable(w io.Writer, r *whatif.MarginResult, title, deck string) error 
 		limiting := m.Limiting
 		if m.Error != "" {
 			pass, fail, mono, limiting = "-", "-", "-", "not solved"
-			notes = append(notes, fmt.Sprintf("%s %s: %s", VariantText(m.Variant), m.Polarity, m.Error))
+			notes = append(notes, fmt.Sprintf("%s %s: %s", m.Variant.String(), m.Polarity, m.Error))
 		} else if m.Note != "" {
-			notes = append(notes, fmt.Sprintf("%s %s: %s", VariantText(m.Variant), m.Polarity, m.Note))
+			notes = append(notes, fmt.Sprintf("%s %s: %s", m.Variant.String(), m.Polarity, m.Note))
 		}
-		t.Append(toAny([]string{VariantText(m.Variant), m.Polarity, pass, fail, limiting, mono, fmt.Sprint(m.Solves)})...)
+		t.Append(toAny([]string{m.Variant.String(), m.Polarity, pass, fail, limiting, mono, fmt.Sprint(m.Solves)})...)
 	}
 	t.Render()
 	for _, n := range notes {
@@ -141,25 +100,6 @@ func MarginTable(w io.Writer, r *whatif.MarginResult, title, deck string) error 
 	return ew.err
 }
 
-// VariantText renders a JSON variant map in its settings' order of names,
-// "deck" for the deck as written; commands name a variant in messages with
-// it too.
-func VariantText(v map[string]string) string {
-	if len(v) == 0 {
-		return "deck"
-	}
-	keys := make([]string, 0, len(v))
-	for k := range v {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	var s []string
-	for _, k := range keys {
-		s = append(s, k+"="+v[k])
-	}
-	return strings.Join(s, " ")
-}
-
 // SensitivityTable prints the parameters ranked by what ±step does to the
 // worst margin.
 func SensitivityTable(w io.Writer, r *whatif.SensitivityResult, title, deck string) error {
@@ -171,7 +111,7 @@ func SensitivityTable(w io.Writer, r *whatif.SensitivityResult, title, deck stri
 	}
 	heading(ew, title, deck, fmt.Sprintf("Sensitivity: each parameter ±%s, effect on the %s", pct, which))
 	if len(r.Variant) > 0 {
-		fmt.Fprintf(ew, "Design: %s\n", VariantText(r.Variant))
+		fmt.Fprintf(ew, "Design: %s\n", r.Variant.String())
 	}
 	fmt.Fprintf(ew, "Baseline %s: %s (%s)\n", which, percentText(r.Baseline), r.BaselineLimiting)
 	head := []string{"rank", "param", "nominal", "−" + pct, "+" + pct, "effect", "limiting"}
@@ -220,7 +160,7 @@ func SpreadTable(w io.Writer, r *whatif.SpreadResult, title, deck string) error 
 	ew := &errWriter{w: w}
 	heading(ew, title, deck, fmt.Sprintf("Spread: %d circuits drawn with seed %d", r.Runs, r.Seed))
 	if len(r.Variant) > 0 {
-		fmt.Fprintf(ew, "Design: %s\n", VariantText(r.Variant))
+		fmt.Fprintf(ew, "Design: %s\n", r.Variant.String())
 	}
 	var tol [][]string
 	for _, t := range r.Tolerances {
@@ -293,7 +233,7 @@ func percentileRows(measures []string, ps map[string]whatif.Percentiles) [][]str
 }
 
 // measureUnit is the SI unit of a spread measurement by its name.
-func measureUnit(m string) string {
+func measureUnit(m string) spec.Unit {
 	switch {
 	case strings.HasSuffix(m, ".energy"):
 		return "J"
