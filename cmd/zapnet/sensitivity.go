@@ -23,6 +23,7 @@ type sensitivityOptions struct {
 	params     []string  // nil: every design parameter
 	step       float64   // fraction; 0: 0.10
 	limit      string    // "ELEMENT PARAM" whose margin ranks; "": the worst
+	all        bool      // the models' constants and the operating conditions too
 	json       string
 	workers    int
 	sweep      sweepSpec
@@ -37,14 +38,16 @@ func runSensitivity(args []string, stdout, stderr io.Writer) error {
   zapnet sensitivity testdata/demo.zap --level 8k --plot figs --html sensitivity.html
   zapnet sensitivity testdata/demo-weak.zap --level 8k --limit U1.vmax
 
-Perturbs every numeric design parameter (or those named) by ±10 %, one at a
+Perturbs every design parameter (or those named) by ±10 %, one at a
 time, solves the study (every level and polarity) for each, and ranks the
 parameters by how much they move the worst margin: what buys the most
 margin. --limit ranks by one limit's margin instead (its smallest over
 the levels and polarities): while a clamp's ipp is the worst limit, the
 ranking only says how the strike current moves, and --limit U1.vmax asks
-what buys margin at the pin. Ratings (vmax, ipp, ...) are left out unless
-named. --set gives the
+what buys margin at the pin. Ratings (vmax, ipp, ...), the models'
+constants (is, n, ...) and operating conditions (a supply's voltage) are
+left out unless named (--all adds the constants and the conditions), and
+so are parameters whose ±10 % moves no margin. --set gives the
 design to start from (one value each); the deck's vary lines are ignored.
 --plot and --html draw the ranking as bars: per parameter (the first 15),
 the worst margin with it lowered and raised by the step, against the
@@ -53,6 +56,7 @@ Exit status: 0 when the study completed, 2 for unusable input or a failed
 solve.`,
 		stderr)
 	params := fs.String("param", "", "parameters to perturb, `LIST` of ELEMENT.PARAM (default: every design parameter)")
+	all := fs.Bool("all", false, "perturb the models' constants and the operating conditions too")
 	step := fs.String("step", "10", "perturbation in `PERCENT`")
 	limit := fs.String("limit", "", "rank by the margin of one `LIMIT`, ELEMENT.PARAM such as U1.vmax or D1.ipp (default: the worst margin over every limit)")
 	level := fs.String("level", "", "levels to run instead of the deck's, e.g. 4k,8k")
@@ -72,7 +76,7 @@ solve.`,
 	if err != nil {
 		return err
 	}
-	opt := sensitivityOptions{deck: deck, json: *jsonPath, workers: *workers, limit: *limit, pictures: pictures.options()}
+	opt := sensitivityOptions{deck: deck, json: *jsonPath, workers: *workers, limit: *limit, all: *all, pictures: pictures.options()}
 	var errs []error
 	if opt.levels, err = parseLevelFlag(*level); err != nil {
 		errs = append(errs, err)
@@ -102,7 +106,7 @@ func sensitivityStudy(ctx context.Context, opt sensitivityOptions, stdout, stder
 	if err != nil {
 		return err
 	}
-	sopt := &whatif.SensitivityOptions{Params: opt.params, Step: opt.step, Limit: opt.limit, Shard: opt.sweep.shard}
+	sopt := &whatif.SensitivityOptions{Params: opt.params, All: opt.all, Step: opt.step, Limit: opt.limit, Shard: opt.sweep.shard}
 	sopt.Study.Levels, sopt.Study.Polarities, sopt.Study.Workers = opt.levels, opt.polarities, opt.workers
 	res, err := withProgress(stderr, "sensitivity", opt.deck, func(p whatif.Progress) (*whatif.SensitivityResult, error) {
 		sopt.Progress = p

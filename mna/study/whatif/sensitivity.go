@@ -22,10 +22,16 @@ type SensitivityOptions struct {
 	// workers (zero: every core). Its Variants and Record are ignored.
 	Study study.Options
 	// Params name the parameters to perturb, "ELEMENT.PARAM". Nil: every
-	// numeric design parameter of every element but the strike, ratings
-	// (vmax, vmin, ifail, ipp, emax, rating) left out because they move
-	// the limit rather than the circuit.
+	// design parameter of every element but the strike (a part's value, a
+	// clamp's vbr, a trace's inductance: spec.Design), the ones the circuit
+	// does not state left out.
 	Params []string
+	// All adds to the default list the models' constants (saturation
+	// currents, emission coefficients) and the operating conditions (a
+	// supply's voltage): they are not choices of the protection's design.
+	// Ratings are never in the default list: they move the limit, not the
+	// circuit.
+	All bool
 	// Step is the relative perturbation. Zero: 0.10 (±10 %).
 	Step float64
 	// Limit names the one limit whose margin ranks the parameters, as
@@ -116,7 +122,7 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 	if !hasLimits(c) {
 		return nil, errors.New("the deck gives no ratings, so there is no margin to rank parameters by")
 	}
-	params, skipped, err := paramList(c, opt.Params)
+	params, skipped, err := paramList(c, opt.Params, opt.All)
 	if err != nil {
 		return nil, err
 	}
@@ -214,6 +220,11 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 			res.Interrupted = true
 			continue
 		}
+		if lo, hi := halves[2*k], halves[2*k+1]; lo.err == nil && hi.err == nil && math.Abs(hi.margin-lo.margin) < 2*stillEffect {
+			res.Skipped = append(res.Skipped, Skipped{p.index, p.elem + "." + p.param,
+				fmt.Sprintf("±%g %% moves no margin", 100*step)})
+			continue
+		}
 		lo, hi := halves[2*k], halves[2*k+1]
 		e := ParamEffect{Index: p.index, Param: p.elem + "." + p.param, Nominal: p.nominal, Unit: c.Element(p.elem).Unit(p.param),
 			Minus10: lo.margin, Plus10: hi.margin, LimitingMinus: lo.where, LimitingPlus: hi.where}
@@ -228,6 +239,7 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 		res.Parameters = append(res.Parameters, e)
 	}
 	SortEffects(res.Parameters)
+	sort.Slice(res.Skipped, func(a, b int) bool { return res.Skipped[a].Index < res.Skipped[b].Index })
 	return res, nil
 }
 
@@ -268,9 +280,16 @@ type param struct {
 	nominal     float64
 }
 
+// stillEffect is an effect, in points of margin, that a perturbation does
+// not tell from none: the engine's tolerances move a margin by about that
+// much between two solves [practice: measured on the demo decks].
+const stillEffect = 5e-4
+
 // paramList is the parameters of a sensitivity study, in deck order then
-// each kind's parameter order, with the ones that cannot be perturbed.
-func paramList(c *netlist.Circuit, named []string) ([]param, []Skipped, error) {
+// each kind's parameter order, with the ones that cannot be perturbed: the
+// named ones, or every design parameter (with all, every parameter but the
+// ratings).
+func paramList(c *netlist.Circuit, named []string, all bool) ([]param, []Skipped, error) {
 	var ps []param
 	var skipped []Skipped
 	add := func(e *netlist.Element, key string) {
@@ -314,7 +333,7 @@ func paramList(c *netlist.Circuit, named []string) ([]param, []Skipped, error) {
 			continue
 		}
 		for _, p := range e.Kind.Params {
-			if p.Class == spec.Rating || !e.Values.Has(p.Key) {
+			if p.Class == spec.Rating || (p.Class != spec.Design && !all) || !e.Values.Has(p.Key) {
 				continue // a rating moves the limit, not the circuit; an absent optional has nothing to perturb
 			}
 			add(e, p.Key)

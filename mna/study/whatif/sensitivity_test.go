@@ -3,6 +3,7 @@ package whatif
 import (
 	"context"
 	"fmt"
+	"strings"
 	"testing"
 
 	"zapnet/mna/study"
@@ -81,7 +82,7 @@ func TestRdynRaisesResidual(t *testing.T) {
 
 func TestSensitivityDefaultList(t *testing.T) {
 	c := parse(t, "../../../testdata/demo-weak.zap")
-	ps, skipped, err := paramList(c, nil)
+	ps, skipped, err := paramList(c, nil, false)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -96,15 +97,27 @@ func TestSensitivityDefaultList(t *testing.T) {
 			t.Errorf("%s missing from the default list", want)
 		}
 	}
-	for _, not := range []string{"D1.ipp", "U1.vmax", "U1.vmin", "zap.c"} {
+	// Nor the models' constants, which --all adds.
+	for _, not := range []string{"D1.ipp", "U1.vmax", "U1.vmin", "zap.c", "D1.is", "D1.n", "D1.nbr", "U1.is"} {
 		if has[not] {
 			t.Errorf("%s must not be in the default list", not)
 		}
 	}
+	all, _, err := paramList(c, nil, true)
+	if err != nil {
+		t.Fatal(err)
+	}
+	withAll := map[string]bool{}
+	for _, p := range all {
+		withAll[p.elem+"."+p.param] = true
+	}
+	if !withAll["D1.is"] || !withAll["D1.nbr"] || withAll["D1.ipp"] {
+		t.Errorf("--all list %v: the constants in, the ratings still out", withAll)
+	}
 	if len(skipped) == 0 {
 		t.Error("the demo deck has zero-valued defaults (Lpad.r) that must be skipped")
 	}
-	if _, _, err := paramList(c, []string{"D1.lss"}); err == nil {
+	if _, _, err := paramList(c, []string{"D1.lss"}, false); err == nil {
 		t.Error("an unknown parameter must be an error")
 	}
 }
@@ -141,5 +154,40 @@ func TestSensitivityOfANamedLimit(t *testing.T) {
 	opt.Limit = "U1 vmaxx"
 	if _, err := Sensitivities(context.Background(), c, opt); err == nil {
 		t.Error("an unknown limit gave no error")
+	}
+}
+
+// By default the study perturbs the design, not the operating conditions
+// (a supply's voltage) nor the models' constants; a parameter whose ±10 %
+// moves no margin (a resistor on a rail the strike never reaches) is listed
+// as skipped, not ranked [issue of the sensitivity ranking: rows that
+// cannot move say nothing].
+func TestSensitivityLeavesOutWhatCannotMove(t *testing.T) {
+	c, err := netlist.Parse("t.zap", []byte(`strike zap tip gnd waveform=iec61000-4-2 level=4k
+inductor Lpad tip n1 1n
+clamp D1 n1 gnd vbr=6.8V rdyn=0.5ohm ls=1n cj=5p polarity=bi
+pin U1 n1 gnd cin=5p vmax=45V
+supply V1 x gnd 3.3V r=1k
+resistor Rx x gnd 1k
+window stop=100n
+`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := Sensitivities(context.Background(), c, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, p := range res.Parameters {
+		if p.Param == "V1.value" || p.Param == "Rx.value" || p.Param == "D1.is" {
+			t.Errorf("%s is ranked", p.Param)
+		}
+	}
+	skipped := map[string]string{}
+	for _, s := range res.Skipped {
+		skipped[s.Param] = s.Reason
+	}
+	if !strings.Contains(skipped["Rx.value"], "moves no margin") {
+		t.Errorf("Rx.value not skipped as moving no margin: %v", skipped)
 	}
 }
