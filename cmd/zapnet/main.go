@@ -48,6 +48,7 @@ func commands() []command {
 		{"sensitivity", "rank parameters by how much ±10 % moves the worst margin", runSensitivity},
 		{"spread", "draw circuits from the deck's tolerances and report the distribution", runSpread},
 		{"merge", "join the JSON results of sharded sweeps into one", runMerge},
+		{"fit", "turn TLP curves, datasheet points, impedance, Touchstone and IBIS files into part lines", runFit},
 		{"version", "print the version", runVersion},
 	}
 }

@@ -275,7 +275,7 @@ func FitClamp(data []Datum, opt *ClampOptions) (*ClampFit, error) {
 				}
 				vt := tlpOnly.V(c.I)
 				if d := (c.V - vt) / vt; math.Abs(d) > conflict {
-					lines = append(lines, fmt.Sprintf("%s %s clamping voltage %.4g V at %.4g A is %+.1f %% off the TLP data's %.4g V at that current", c.Where, c.Pulse, c.V, c.I, 100*d, vt))
+					lines = append(lines, fmt.Sprintf("%s: the %s clamping voltage %.4g V at %.4g A is %+.1f %% off the TLP data's %.4g V at that current", c.Where, c.Pulse, c.V, c.I, 100*d, vt))
 				}
 			}
 			if len(lines) > 0 {
@@ -286,9 +286,11 @@ func FitClamp(data []Datum, opt *ClampOptions) (*ClampFit, error) {
 						c.Used = false
 					}
 				}
-				msg := strings.Join(lines, "; ") + ". A microsecond surge heats the clamp and raises its voltage, typically by 10–15 % over a TLP curve [practice]; the model has no self-heating, so it cannot follow both. "
+				// A microsecond surge heats the clamp and raises its voltage,
+				// typically 10–15 % over a TLP curve [practice].
+				msg := strings.Join(lines, "; ") + ". A microsecond surge heats the clamp and raises its voltage, typically by 10–15 % over a TLP curve; the model has no self-heating, so it cannot follow both. "
 				if keepTLP {
-					msg += "The fit honours the TLP points (nanoseconds, closer to an ESD strike) and shows the surge points without fitting them; ask for the surge points to win if the part is for surge protection."
+					msg += "The fit honours the TLP points (nanoseconds, closer to an ESD strike) and shows the surge points without fitting them; let the surge points win (--honour surge) if the part is for surge protection."
 				} else {
 					msg += "The fit honours the surge points as asked and shows the TLP points without fitting them; its ESD voltages will read high."
 				}

@@ -202,7 +202,7 @@ func TestClampConflictTLPAndSurge(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(fit.Notes) != 1 || !strings.Contains(fit.Notes[0], "ds:3:1 8/20 clamping voltage") || !strings.Contains(fit.Notes[0], "honours the TLP points") {
+	if len(fit.Notes) != 1 || !strings.Contains(fit.Notes[0], "ds:3:1: the 8/20 clamping voltage") || !strings.Contains(fit.Notes[0], "honours the TLP points") {
 		t.Fatalf("notes %q", fit.Notes)
 	}
 	last := fit.Points[len(fit.Points)-1]

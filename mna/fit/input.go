@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"zapnet/devices/spec"
 	"zapnet/netlist/datafile"
 )
 
@@ -47,8 +48,12 @@ func TLPData(t *datafile.TLP) (data []Datum, it2 float64, notes []string) {
 		for j := k; j < len(rows); j++ {
 			data[idx[j]].Aside = "after the failure"
 		}
-		notes = append(notes, fmt.Sprintf("%s: the leakage jumps to %.3g A after the %.4g A pulse (%s polarity): It2 = %.4g A; that row and the %d after it describe a damaged part and are not fitted",
-			rows[k].Pos, rows[k].Leak, rows[k].I, side.name, c, len(rows)-k-1))
+		after := "that row describes a damaged part and is not fitted"
+		if n := len(rows) - k - 1; n > 0 {
+			after = fmt.Sprintf("that row and the %d after it describe a damaged part and are not fitted", n)
+		}
+		notes = append(notes, fmt.Sprintf("%s: the leakage jumps to %s after the %s pulse (%s polarity): It2 = %s; %s",
+			rows[k].Pos, spec.FormatSI(rows[k].Leak, "A"), spec.FormatSI(rows[k].I, "A"), side.name, spec.FormatSI(c, "A"), after))
 		if it2 == 0 || c < it2 {
 			it2 = c
 		}

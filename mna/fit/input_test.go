@@ -57,7 +57,7 @@ func TestFailureCurrentAndPinTable(t *testing.T) {
 			break
 		}
 	}
-	if !strings.Contains(strings.Join(pt.Notes, "\n"), "pin.csv:8:1: the leakage jumps to 3e-06 A after the 2.1 A pulse") {
+	if !strings.Contains(strings.Join(pt.Notes, "\n"), "pin.csv:8:1: the leakage jumps to 3 µA after the 2.1 A pulse") {
 		t.Errorf("notes %q", pt.Notes)
 	}
 	// A given It2 wins, with a note when the leakage disagrees.

@@ -322,7 +322,9 @@ type PinModel struct {
 	// component's ground, V ([POWER Clamp Reference] or [Voltage Range];
 	// [GND Clamp Reference] or 0).
 	PowerRef, GNDRef float64
-	GNDPos, PowerPos Pos // where the tables start
+	GNDPos, PowerPos Pos   // where the tables start
+	GNDRows          []Pos // where each row of GNDV is
+	PowerRows        []Pos // where each row of PowerV is
 }
 
 // PinModel returns the input named by name — a [Pin] row's pin name, or a
@@ -376,11 +378,13 @@ func (ib *IBIS) PinModel(name string, corner int) (*PinModel, error) {
 	for _, r := range m.GNDClamp {
 		pm.GNDV = append(pm.GNDV, r.V)
 		pm.GNDI = append(pm.GNDI, r.I.At(corner))
+		pm.GNDRows = append(pm.GNDRows, r.Pos)
 	}
 	for k := len(m.PowerClamp) - 1; k >= 0; k-- {
 		r := m.PowerClamp[k]
 		pm.PowerV = append(pm.PowerV, -r.V)
 		pm.PowerI = append(pm.PowerI, r.I.At(corner))
+		pm.PowerRows = append(pm.PowerRows, r.Pos)
 	}
 	if len(m.GNDClamp) > 0 {
 		pm.GNDPos = m.GNDClamp[0].Pos
