@@ -164,3 +164,13 @@ func TestFitBadInputWritesNothing(t *testing.T) {
 		t.Errorf("no snapback warning:\n%s", out)
 	}
 }
+
+func TestFittedPartsDeckRuns(t *testing.T) {
+	// README's deck of fitted parts: a table-path pin found beside the
+	// deck, and a clamp whose 18 A ipp (an 8/20 rating) an 8 kV strike's
+	// 30 A exceeds, which the verdict says.
+	out, errOut, code := zapnet(t, "run", fitData+"fitted-parts.zap")
+	if code != exitFail || !strings.Contains(out, "D1: peak current") || !strings.Contains(out, "above ipp 18 A") {
+		t.Errorf("exit %d\n%s%s", code, out, errOut)
+	}
+}
