@@ -59,6 +59,7 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		for _, w := range c.Warnings {
 			fmt.Fprintln(stderr, w.Error())
 		}
+		fmt.Fprintf(stdout, "%s: no problems; %s, %s\n", deck, count(len(c.Elements), "element"), count(c.Plan().Runs(), "run"))
 		return nil
 	}
 	writeListing(stdout, deck, c)

@@ -67,9 +67,19 @@ func Main(args []string, stdout, stderr io.Writer) int {
 		usage(stdout)
 		return exitPass
 	}
+	if args[0] == "--version" {
+		args = []string{"version"}
+	}
 	for _, c := range commands() {
 		if c.name == args[0] {
-			return exitCode(c.run(args[1:], stdout, stderr), stderr)
+			out := &checkedWriter{w: stdout}
+			err := c.run(args[1:], out, stderr)
+			if out.err != nil && (err == nil || errors.Is(err, errVerdictFail)) {
+				// Results that did not reach their reader are lost
+				// results, whatever the verdict.
+				err = fmt.Errorf("cannot write to standard output: %w", out.err)
+			}
+			return exitCode(err, stderr)
 		}
 	}
 	fmt.Fprintf(stderr, "zapnet: unknown command %q\n\n", args[0])
@@ -87,6 +97,23 @@ func exitCode(err error, stderr io.Writer) int {
 	}
 	fmt.Fprintf(stderr, "zapnet: %v\n", err)
 	return exitUnusable
+}
+
+// checkedWriter remembers the first error of the writer it wraps (standard
+// output full, closed or gone), so that a command whose output was lost
+// does not report success.
+type checkedWriter struct {
+	w   io.Writer
+	err error
+}
+
+func (c *checkedWriter) Write(p []byte) (int, error) {
+	if c.err != nil {
+		return 0, c.err
+	}
+	n, err := c.w.Write(p)
+	c.err = err
+	return n, err
 }
 
 func usage(w io.Writer) {

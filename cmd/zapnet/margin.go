@@ -18,8 +18,8 @@ import (
 type marginOptions struct {
 	deck       string
 	polarities []string // nil: the deck's
-	max        float64  // 0: twice the deck's highest level
-	resolution float64  // 0: 100 V for discharges
+	max        string   // --max as given; "": twice the deck's highest level
+	resolution string   // --resolution as given; "": 100 V for discharges
 	json       string   // file, "-" for stdout, "" for none
 	workers    int
 	sweep      sweepSpec
@@ -62,26 +62,9 @@ for), 2 for unusable input or a failed solve.`,
 	if err != nil {
 		return err
 	}
-	opt := marginOptions{deck: deck, json: *jsonPath, workers: *workers, pictures: pictures.options()}
+	opt := marginOptions{deck: deck, json: *jsonPath, workers: *workers, pictures: pictures.options(),
+		max: *maxFlag, resolution: *resFlag}
 	var errs []error
-	for _, f := range []struct {
-		name string
-		text string
-		dst  *float64
-	}{{"--max", *maxFlag, &opt.max}, {"--resolution", *resFlag, &opt.resolution}} {
-		if f.text == "" {
-			continue
-		}
-		ls, err := levelList(f.text)
-		if err == nil && len(ls) != 1 {
-			err = fmt.Errorf("give one level")
-		}
-		if err != nil {
-			errs = append(errs, fmt.Errorf("%s: %w", f.name, err))
-			continue
-		}
-		*f.dst = ls[0]
-	}
 	if opt.polarities, err = parsePolarity(*polarity); err != nil {
 		errs = append(errs, err)
 	}
@@ -99,7 +82,16 @@ func marginStudy(ctx context.Context, opt marginOptions, stdout, stderr io.Write
 	if err != nil {
 		return err
 	}
-	mopt := &whatif.MarginOptions{Max: opt.max, Resolution: opt.resolution, Shard: opt.sweep.shard}
+	if err := studyOutputs(c, opt.json, opt.pictures); err != nil {
+		return err
+	}
+	mopt := &whatif.MarginOptions{Shard: opt.sweep.shard}
+	if mopt.Max, err = deckLevel("--max", opt.max, c); err != nil {
+		return err
+	}
+	if mopt.Resolution, err = deckLevel("--resolution", opt.resolution, c); err != nil {
+		return err
+	}
 	mopt.Study.Polarities = opt.polarities
 	mopt.Study.Workers = opt.workers
 	if len(opt.sweep.sets) > 0 {

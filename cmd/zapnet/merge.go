@@ -47,6 +47,11 @@ func mergeFiles(paths []string, out string, stdout, stderr io.Writer) error {
 	if jsonPath == "" {
 		jsonPath = "-"
 	}
+	check := newOutputs(paths...)
+	check.file("-o", jsonPath)
+	if err := check.err(); err != nil {
+		return fmt.Errorf("merge: %w", err)
+	}
 	var raws [][]byte
 	kind := ""
 	for _, p := range paths {
@@ -177,23 +182,17 @@ func sameMeta(paths []string, metas []study.Meta) error {
 // whole sweep, and prints its summary.
 func mergeRuns(docs []study.Document, jsonPath string, stdout, stderr io.Writer) error {
 	total := -1
-	var infos []string
+	var infos []*study.ShardInfo
 	for _, d := range docs {
 		n := len(d.Runs)
 		if d.Shard != nil {
 			n = d.Shard.Total
-			infos = append(infos, fmt.Sprintf("%d/%d", d.Shard.Index, d.Shard.Count))
 		}
 		if total >= 0 && n != total {
 			return fmt.Errorf("merge: shards of %d and of %d runs: they are not shards of one sweep", total, n)
 		}
 		total = n
-	}
-	sort.Strings(infos)
-	for i := 1; i < len(infos); i++ {
-		if infos[i] == infos[i-1] {
-			return fmt.Errorf("merge: shard %s is given twice", infos[i])
-		}
+		infos = append(infos, d.Shard)
 	}
 	merged := study.Document{Meta: docs[0].Meta, Runs: []study.Run{}}
 	var idx []int
@@ -203,7 +202,7 @@ func mergeRuns(docs []study.Document, jsonPath string, stdout, stderr io.Writer)
 			idx = append(idx, r.Index)
 		}
 	}
-	if err := study.Complete(idx, total, "runs"); err != nil {
+	if err := study.Joined(infos, idx, total, "runs"); err != nil {
 		return fmt.Errorf("merge: %w", err)
 	}
 	sort.Slice(merged.Runs, func(a, b int) bool { return merged.Runs[a].Index < merged.Runs[b].Index })

@@ -99,7 +99,7 @@ func writeSVGs(dir, deck string, runs []study.Run, perRun [][]plots.Figure, over
 	}
 	for i, figs := range perRun {
 		for _, f := range figs {
-			if err := write(base+"_"+report.RunName(&runs[i])+"_"+f.Name, f.SVG); err != nil {
+			if err := write(base+"_"+runName(&runs[i])+"_"+f.Name, f.SVG); err != nil {
 				return err
 			}
 		}

@@ -4,23 +4,20 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"os"
-	"strings"
 
 	"zapnet/cmd/internal/report"
 	"zapnet/mna/study"
-	"zapnet/netlist"
 )
 
 // runOptions are the settings of `zapnet run`; runStudy takes them so that
 // tests can call it without flags.
 type runOptions struct {
 	deck       string
-	levels     []float64 // nil: the deck's
-	polarities []string  // nil: the deck's
-	json       string    // file, "-" for stdout, "" for none
-	csv        string    // file, folder or pattern, "" for none
-	workers    int       // 0: every core
+	levels     string   // --level as given; "": the deck's
+	polarities []string // nil: the deck's
+	json       string   // file, "-" for stdout, "" for none
+	csv        string   // file, folder or pattern, "" for none
+	workers    int      // 0: every core
 	// zeroWall keeps wall times out of the JSON (golden tests).
 	zeroWall bool
 	sweep    sweepSpec      // --set and --shard (sweep.go)
@@ -63,9 +60,7 @@ failed solve.`,
 	if opt.sweep, err = sweep.spec(); err != nil {
 		return fmt.Errorf("run: %w", err)
 	}
-	if opt.levels, err = parseLevelFlag(*level); err != nil {
-		return fmt.Errorf("run: %w", err)
-	}
+	opt.levels = *level
 	if opt.polarities, err = parsePolarity(*polarity); err != nil {
 		return fmt.Errorf("run: %w", err)
 	}
@@ -83,9 +78,21 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	sopt := &study.Options{Levels: opt.levels, Polarities: opt.polarities, Workers: opt.workers,
+	levels, err := deckLevels("--level", opt.levels, c)
+	if err != nil {
+		return err
+	}
+	sopt := &study.Options{Levels: levels, Polarities: opt.polarities, Workers: opt.workers,
 		Record: opt.csv != "" || opt.pictures.wanted()}
-	sw, solveErr := sweepRuns(c, sopt, opt.sweep, stderr)
+	check := func(jobs []study.Job) error {
+		out := deckOutputs(c)
+		out.file("--json", opt.json)
+		out.file("--html", opt.pictures.htmlFile)
+		out.dir("--plot", opt.pictures.plotDir)
+		out.csv(opt.csv, opt.deck, jobs, c.Strike().Waveform.Unit)
+		return out.err()
+	}
+	sw, solveErr := sweepRuns(c, sopt, opt.sweep, check, stderr)
 	if sw == nil {
 		return fmt.Errorf("%s: %w", opt.deck, solveErr)
 	}
@@ -149,14 +156,13 @@ func writeCSVs(target, deck string, runs []study.Run) error {
 	if len(runs) == 0 {
 		return nil
 	}
-	paths, err := report.CSVPaths(target, deck, runs)
+	names := make([]string, len(runs))
+	for i := range runs {
+		names[i] = runName(&runs[i])
+	}
+	paths, err := report.CSVPaths(target, deck, names)
 	if err != nil {
 		return err
-	}
-	if strings.HasSuffix(target, "/") {
-		if err := os.MkdirAll(target, 0o755); err != nil {
-			return fmt.Errorf("--csv: %w", err)
-		}
 	}
 	for i, p := range paths {
 		r := &runs[i]
@@ -167,6 +173,5 @@ func writeCSVs(target, deck string, runs []study.Run) error {
 	return nil
 }
 
-// levelList reads a comma-separated list of levels, as the strike's level=
-// reads them.
-func levelList(s string) ([]float64, error) { return netlist.ParseLevels(s, nil) }
+// runName is a run's name for files (report.RunName).
+func runName(r *study.Run) string { return report.RunName(r.Variant, r.Level, r.LevelUnit, r.Polarity) }

@@ -251,15 +251,33 @@ func mustFloat(t *testing.T, s string) float64 {
 	return v
 }
 
-func TestLevelList(t *testing.T) {
-	got, err := levelList("2k,4kV,500")
-	if err != nil || len(got) != 3 || got[0] != 2000 || got[1] != 4000 || got[2] != 500 {
-		t.Errorf("levelList = %v, %v", got, err)
+// Levels on the command line follow the deck's rule: a plain number or one
+// in the waveform's unit, so 8kA on a discharge deck (volts) or 24V on a
+// current surge (amperes) is refused before anything is solved
+// [LANGUAGE.md: a unit that does not fit is an error].
+func TestCommandLineLevelsKeepTheirUnits(t *testing.T) {
+	dir := t.TempDir()
+	surge := filepath.Join(dir, "surge.zap")
+	if err := os.WriteFile(surge, []byte("strike s a gnd waveform=surge-8-20 level=100\nresistor R a gnd 1\n"), 0o644); err != nil {
+		t.Fatal(err)
 	}
-	for _, bad := range []string{"", "8kk", "-2k", "k", "8kVV", "1,,2"} {
-		if _, err := levelList(bad); err == nil {
-			t.Errorf("levelList(%q) accepted", bad)
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"run", demoDeck, "--level", "8kA"}, "8kA is in amperes, but the levels of waveform iec61000-4-2 are in volts"},
+		{[]string{"run", surge, "--level", "24V"}, "24V is in volts, but the levels of waveform surge-8-20 are in amperes"},
+		{[]string{"margin", demoDeck, "--max", "30kA"}, "--max 30kA: 30kA is in amperes"},
+		{[]string{"sensitivity", demoDeck, "--level", "-2k"}, "must be positive"},
+		{[]string{"run", demoDeck, "--level", "2k,,4k"}, "--level"},
+	} {
+		out, errs, code := zapnet(t, c.args...)
+		if code != exitUnusable || !strings.Contains(errs, c.want) || out != "" {
+			t.Errorf("%v: exit %d, stdout %q, stderr %q; want 2 and %q before any solve", c.args, code, out, errs, c.want)
 		}
+	}
+	if out, _, code := zapnet(t, "run", demoDeck, "--level", "2kV", "--polarity", "pos"); code != exitPass || !strings.Contains(out, "2 kV") {
+		t.Errorf("--level 2kV: exit %d", code)
 	}
 }
 
@@ -270,7 +288,7 @@ func TestLevelList(t *testing.T) {
 // step control.
 func TestRunJSONGolden(t *testing.T) {
 	var out, errs bytes.Buffer
-	opt := runOptions{deck: demoDeck, levels: []float64{2000}, polarities: []string{"pos"}, json: "-", zeroWall: true}
+	opt := runOptions{deck: demoDeck, levels: "2k", polarities: []string{"pos"}, json: "-", zeroWall: true}
 	if err := runStudy(opt, &out, &errs); err != nil {
 		t.Fatalf("%v\n%s", err, errs.String())
 	}

@@ -18,12 +18,12 @@ import (
 // sensitivityOptions are the settings of `zapnet sensitivity`.
 type sensitivityOptions struct {
 	deck       string
-	levels     []float64 // nil: the deck's
-	polarities []string  // nil: the deck's
-	params     []string  // nil: every design parameter
-	step       float64   // fraction; 0: 0.10
-	limit      string    // "ELEMENT PARAM" whose margin ranks; "": the worst
-	all        bool      // the models' constants and the operating conditions too
+	levels     string   // --level as given; "": the deck's
+	polarities []string // nil: the deck's
+	params     []string // nil: every design parameter
+	step       float64  // fraction; 0: 0.10
+	limit      string   // "ELEMENT PARAM" whose margin ranks; "": the worst
+	all        bool     // the models' constants and the operating conditions too
 	json       string
 	workers    int
 	sweep      sweepSpec
@@ -78,9 +78,7 @@ solve.`,
 	}
 	opt := sensitivityOptions{deck: deck, json: *jsonPath, workers: *workers, limit: *limit, all: *all, pictures: pictures.options()}
 	var errs []error
-	if opt.levels, err = parseLevelFlag(*level); err != nil {
-		errs = append(errs, err)
-	}
+	opt.levels = *level
 	if opt.polarities, err = parsePolarity(*polarity); err != nil {
 		errs = append(errs, err)
 	}
@@ -106,8 +104,14 @@ func sensitivityStudy(ctx context.Context, opt sensitivityOptions, stdout, stder
 	if err != nil {
 		return err
 	}
+	if err := studyOutputs(c, opt.json, opt.pictures); err != nil {
+		return err
+	}
 	sopt := &whatif.SensitivityOptions{Params: opt.params, All: opt.all, Step: opt.step, Limit: opt.limit, Shard: opt.sweep.shard}
-	sopt.Study.Levels, sopt.Study.Polarities, sopt.Study.Workers = opt.levels, opt.polarities, opt.workers
+	if sopt.Study.Levels, err = deckLevels("--level", opt.levels, c); err != nil {
+		return err
+	}
+	sopt.Study.Polarities, sopt.Study.Workers = opt.polarities, opt.workers
 	res, err := withProgress(stderr, "sensitivity", opt.deck, func(p whatif.Progress) (*whatif.SensitivityResult, error) {
 		sopt.Progress = p
 		return whatif.Sensitivities(ctx, base, sopt)

@@ -17,8 +17,8 @@ import (
 // spreadOptions are the settings of `zapnet spread`.
 type spreadOptions struct {
 	deck       string
-	levels     []float64 // nil: the deck's
-	polarities []string  // nil: the deck's
+	levels     string   // --level as given; "": the deck's
+	polarities []string // nil: the deck's
 	runs       int
 	seed       uint64
 	json       string
@@ -69,9 +69,7 @@ input or a failed solve.`,
 	}
 	opt := spreadOptions{deck: deck, json: *jsonPath, workers: *workers, runs: *runs, pictures: pictures.options()}
 	var errs []error
-	if opt.levels, err = parseLevelFlag(*level); err != nil {
-		errs = append(errs, err)
-	}
+	opt.levels = *level
 	if opt.polarities, err = parsePolarity(*polarity); err != nil {
 		errs = append(errs, err)
 	}
@@ -95,8 +93,14 @@ func spreadStudy(ctx context.Context, opt spreadOptions, stdout, stderr io.Write
 	if err != nil {
 		return err
 	}
+	if err := studyOutputs(c, opt.json, opt.pictures); err != nil {
+		return err
+	}
 	sopt := &whatif.SpreadOptions{Runs: opt.runs, Seed: opt.seed, Shard: opt.sweep.shard}
-	sopt.Study.Levels, sopt.Study.Polarities, sopt.Study.Workers = opt.levels, opt.polarities, opt.workers
+	if sopt.Study.Levels, err = deckLevels("--level", opt.levels, c); err != nil {
+		return err
+	}
+	sopt.Study.Polarities, sopt.Study.Workers = opt.polarities, opt.workers
 	res, err := withProgress(stderr, "spread", opt.deck, func(p whatif.Progress) (*whatif.SpreadResult, error) {
 		sopt.Progress = p
 		return whatif.Spreads(ctx, base, sopt)

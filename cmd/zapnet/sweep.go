@@ -99,10 +99,11 @@ type runSweep struct {
 	interrupted bool
 }
 
-// sweepRuns solves the runs of c that sopt and spec select. The error joins
-// the failed solves and, when interrupted, an errInterrupted; runs is nil
-// only when nothing could start.
-func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, stderr io.Writer) (*runSweep, error) {
+// sweepRuns solves the runs of c that sopt and spec select, once check has
+// accepted them (the outputs they will write, say). The error joins the
+// failed solves and, when interrupted, an errInterrupted; runs is nil only
+// when nothing could start.
+func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, check func([]study.Job) error, stderr io.Writer) (*runSweep, error) {
 	if len(spec.sets) > 0 {
 		sets, err := whatif.ParseSets(c, spec.sets)
 		if err != nil {
@@ -121,6 +122,9 @@ func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, stderr i
 			mine = append(mine, j)
 		}
 		sw.variants = max(sw.variants, j.VariantIndex+1)
+	}
+	if err := check(mine); err != nil {
+		return nil, err
 	}
 	ctx, stop := interruptible(stderr)
 	defer stop()
@@ -200,16 +204,34 @@ func oneDeck(fs *pflag.FlagSet, cmd string) (string, error) {
 	return fs.Arg(0), nil
 }
 
-// parseLevelFlag reads --level: "" (the deck's) or a list of levels.
-func parseLevelFlag(s string) ([]float64, error) {
-	if s == "" {
+// deckLevels reads the levels of flag (a list such as 4k,8k; "" for the
+// deck's own, nil) as the deck's strike line reads its levels: in the
+// unit of the deck's waveform, so that 8kA on a discharge deck is an error.
+func deckLevels(flag, text string, c *netlist.Circuit) ([]float64, error) {
+	if text == "" {
 		return nil, nil
 	}
-	ls, err := levelList(s)
+	s := c.Strike()
+	if s == nil {
+		return nil, errors.New("the deck has no strike: add a strike line")
+	}
+	ls, err := netlist.ParseLevels(text, s.Waveform)
 	if err != nil {
-		return nil, fmt.Errorf("--level: %w", err)
+		return nil, fmt.Errorf("%s %s: %w", flag, text, err)
 	}
 	return ls, nil
+}
+
+// deckLevel reads one level (deckLevels).
+func deckLevel(flag, text string, c *netlist.Circuit) (float64, error) {
+	ls, err := deckLevels(flag, text, c)
+	if err == nil && len(ls) > 1 {
+		err = fmt.Errorf("%s %s: give one level", flag, text)
+	}
+	if err != nil || len(ls) == 0 {
+		return 0, err
+	}
+	return ls[0], nil
 }
 
 // checkWorkers refuses a negative --workers; 0 means every core.

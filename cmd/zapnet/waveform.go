@@ -9,16 +9,11 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/olekukonko/tablewriter"
-
 	"zapnet/cmd/internal/report"
 	"zapnet/devices/spec"
 	"zapnet/netlist"
 	"zapnet/waveforms"
 )
-
-// waveformCaution ends every waveform report (SAFETY.md).
-const waveformCaution = "A simulation is an estimate, not a compliance result."
 
 // waveformOptions are the settings of `zapnet waveform`.
 type waveformOptions struct {
@@ -93,6 +88,9 @@ A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 		v.FillDefaults()
 		opt.params = &v
 	}
+	out := newOutputs()
+	out.file("--csv", opt.csv)
+	errs = append(errs, out.err())
 	if err := errors.Join(errs...); err != nil {
 		return fmt.Errorf("waveform: %w", err)
 	}
@@ -153,22 +151,7 @@ func waveformReport(opt waveformOptions, stdout io.Writer) error {
 	if len(checks) == 0 {
 		fmt.Fprintf(w, "No published check points for this waveform%s.\n", map[bool]string{true: " with these network values", false: ""}[s.Name == "iso10605"])
 	} else {
-		table := tablewriter.NewWriter(w)
-		table.Header("quantity", "computed", "published", "tolerance", "result", "source")
-		for _, c := range checks {
-			pub := waveforms.FormatValue(c.Published, c.Unit)
-			if math.IsNaN(c.Published) {
-				pub = "window"
-			}
-			result := "within"
-			if !c.Within {
-				result = "OUTSIDE"
-			}
-			if err := table.Append(c.Quantity, waveforms.FormatValue(c.Computed, c.Unit), pub, c.Tol, result, c.Source); err != nil {
-				return err
-			}
-		}
-		if err := table.Render(); err != nil {
+		if err := report.CheckTable(w, checks); err != nil {
 			return err
 		}
 		fmt.Fprintln(w, "\nReferences:")
@@ -186,7 +169,7 @@ func waveformReport(opt waveformOptions, stdout io.Writer) error {
 	if opt.csv != "" {
 		fmt.Fprintf(w, "\nWaveform written to %s\n", opt.csv)
 	}
-	fmt.Fprintf(w, "\n%s\n", waveformCaution)
+	fmt.Fprintf(w, "\n%s\n", report.Caution)
 	return w.Flush()
 }
 

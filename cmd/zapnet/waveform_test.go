@@ -8,6 +8,7 @@ import (
 	"strings"
 	"testing"
 
+	"zapnet/cmd/internal/report"
 	"zapnet/waveforms"
 )
 
@@ -25,7 +26,7 @@ func TestWaveformReportIEC4k(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
 	for _, want := range []string{"14.92 A", "811 ps", "15 A", "within", "[pub]",
-		"A simulation is an estimate, not a compliance result."} {
+		report.Caution} {
 		if !strings.Contains(out, want) {
 			t.Errorf("report lacks %q:\n%s", want, out)
 		}
@@ -59,7 +60,7 @@ func TestWaveformEveryName(t *testing.T) {
 			t.Errorf("%s: exit %d: %s", n, code, errOut)
 			continue
 		}
-		if !strings.HasSuffix(out, "A simulation is an estimate, not a compliance result.\n") {
+		if !strings.HasSuffix(out, report.Caution+"\n") {
 			t.Errorf("%s: no caution at the end:\n%s", n, out)
 		}
 		if n == "surge-1.2-50" && !strings.Contains(out, "8/20 µs current into a short, which this source does not") {

@@ -111,13 +111,43 @@ func short(s []string) string {
 }
 
 // Joined checks what every merge checks of the joined shards: that
-// they are of one split of total items (sameShards) and that indices name
-// each item once (Complete).
+// they are of one split of total items (sameShards), that none is missing
+// (named as "shard 2/3 is missing"), and that indices name each item once
+// (Complete).
 func Joined(infos []*ShardInfo, indices []int, total int, what string) error {
 	if err := sameShards(infos, total); err != nil {
 		return err
 	}
+	if err := missingShards(infos); err != nil {
+		return err
+	}
 	return Complete(indices, total, what)
+}
+
+// missingShards names the shards of the split that infos are of that are
+// not among them.
+func missingShards(infos []*ShardInfo) error {
+	count := 0
+	have := map[int]bool{}
+	for _, s := range infos {
+		if s != nil {
+			count = s.Count
+			have[s.Index] = true
+		}
+	}
+	var missing []string
+	for i := 1; i <= count; i++ {
+		if !have[i] {
+			missing = append(missing, fmt.Sprintf("%d/%d", i, count))
+		}
+	}
+	switch len(missing) {
+	case 0:
+		return nil
+	case 1:
+		return fmt.Errorf("shard %s is missing: merge every shard of the sweep", missing[0])
+	}
+	return fmt.Errorf("shards %s are missing: merge every shard of the sweep", strings.Join(missing, ", "))
 }
 
 // sameShards checks that the shard infos are of one split of total items.

@@ -1,6 +1,9 @@
 package study
 
-import "testing"
+import (
+	"strings"
+	"testing"
+)
 
 func TestParseShard(t *testing.T) {
 	for _, c := range []struct {
@@ -42,5 +45,14 @@ func TestShardsPartition(t *testing.T) {
 	}
 	if err := Complete([]int{0, 1, 1, 2}, 3, "runs"); err == nil {
 		t.Error("a repeated index must be an error")
+	}
+}
+
+// A merge missing a shard names it as the user gave it, not as indices.
+func TestMissingShardNamed(t *testing.T) {
+	infos := []*ShardInfo{{Index: 1, Count: 3, Total: 9}, {Index: 3, Count: 3, Total: 9}}
+	err := Joined(infos, []int{0, 3, 6, 2, 5, 8}, 9, "runs")
+	if err == nil || !strings.Contains(err.Error(), "shard 2/3 is missing") {
+		t.Errorf("got %v, want shard 2/3 named", err)
 	}
 }

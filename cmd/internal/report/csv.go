@@ -11,6 +11,7 @@ import (
 
 	"zapnet/devices/spec"
 	"zapnet/mna/study"
+	"zapnet/netlist"
 )
 
 // CSV writes a recorded run's waveforms (OUTPUT.md): a header of plain
@@ -70,18 +71,20 @@ func CSV(w io.Writer, r *study.Run) error {
 // level and polarity ("demo_8kV_pos.csv", "demo_C1.value-1u_8kV_pos.csv"),
 // or a pattern containing "{run}", replaced by the same name without the
 // deck's.
-func CSVPaths(target, deck string, runs []study.Run) ([]string, error) {
+//
+// names are the runs' names (RunName), so that the paths are known, and
+// checked, before any run is solved.
+func CSVPaths(target, deck string, names []string) ([]string, error) {
 	if target == "" {
 		return nil, errors.New("--csv needs a file, a folder or a pattern with {run}")
 	}
-	if len(runs) == 1 && !strings.Contains(target, "{run}") && !isDir(target) {
+	if len(names) == 1 && !strings.Contains(target, "{run}") && !isDir(target) {
 		return []string{target}, nil
 	}
 	base := strings.TrimSuffix(filepath.Base(deck), filepath.Ext(deck))
 	var paths []string
 	seen := map[string]bool{}
-	for i := range runs {
-		name := RunName(&runs[i])
+	for _, name := range names {
 		var p string
 		switch {
 		case strings.Contains(target, "{run}"):
@@ -89,7 +92,7 @@ func CSVPaths(target, deck string, runs []study.Run) ([]string, error) {
 		case isDir(target):
 			p = filepath.Join(target, base+"_"+name+".csv")
 		default:
-			return nil, fmt.Errorf("--csv %s: %d runs need a folder (ending in /) or a pattern with {run}, for example --csv 'out/{run}.csv'", target, len(runs))
+			return nil, fmt.Errorf("--csv %s: %d runs need a folder (ending in /) or a pattern with {run}, for example --csv 'out/{run}.csv'", target, len(names))
 		}
 		if seen[p] {
 			return nil, fmt.Errorf("--csv %s: two runs would write %s", target, p)
@@ -108,13 +111,14 @@ func column(name string, unit spec.Unit) string {
 	return name + " [" + string(unit) + "]"
 }
 
-// RunName is a run's name for files: "8kV_pos", "C1.value-1u_8kV_pos".
-func RunName(r *study.Run) string {
+// RunName is a run's name for files: "8kV_pos", "C1.value-1u_8kV_pos";
+// the level is in unit, the waveform's.
+func RunName(v netlist.Variant, level float64, unit spec.Unit, polarity string) string {
 	var parts []string
-	for _, s := range r.Variant {
+	for _, s := range v {
 		parts = append(parts, s.Target()+"-"+s.Text)
 	}
-	parts = append(parts, spec.FormatSI(r.Level, r.LevelUnit), r.Polarity)
+	parts = append(parts, spec.FormatSI(level, unit), polarity)
 	name := strings.Join(parts, "_")
 	return strings.Map(func(c rune) rune {
 		switch {

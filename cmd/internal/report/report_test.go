@@ -60,7 +60,10 @@ func sampleRuns() []study.Run {
 // Several runs go to a folder or a pattern, one name per run; one file name
 // for several runs is refused.
 func TestCSVPaths(t *testing.T) {
-	runs := sampleRuns()
+	var runs []string
+	for _, r := range sampleRuns() {
+		runs = append(runs, RunName(r.Variant, r.Level, r.LevelUnit, r.Polarity))
+	}
 	got, err := CSVPaths("out/", "decks/demo.zap", runs)
 	if err != nil {
 		t.Fatal(err)

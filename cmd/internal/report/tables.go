@@ -12,6 +12,7 @@ import (
 
 	"zapnet/devices/spec"
 	"zapnet/mna/study"
+	"zapnet/waveforms"
 )
 
 // TableOptions tune the tables. A nil *TableOptions means every default.
@@ -316,6 +317,33 @@ func quiescentRows(r *study.Run) [][]string {
 	return rows
 }
 
+// CheckTable prints a waveform's calibration checks: each quantity as
+// computed, its published value and tolerance, whether it is within, and
+// where the published value comes from.
+func CheckTable(w io.Writer, checks []waveforms.Check) error {
+	head := []string{"quantity", "computed", "published", "tolerance", "result", "source"}
+	var rows [][]string
+	for _, c := range checks {
+		pub := waveforms.FormatValue(c.Published, c.Unit)
+		if math.IsNaN(c.Published) {
+			pub = "window"
+		}
+		result := "within"
+		if !c.Within {
+			result = "OUTSIDE"
+		}
+		rows = append(rows, []string{c.Quantity, waveforms.FormatValue(c.Computed, c.Unit), pub, c.Tol, result, c.Source})
+	}
+	ew := &errWriter{w: w}
+	t := newTable(ew, head)
+	t.Header(toAny(head)...)
+	for _, r := range rows {
+		t.Append(toAny(r)...)
+	}
+	t.Render()
+	return ew.err
+}
+
 // limitRows are every limit with its margin, "FAIL" in the last column
 // when exceeded.
 func limitRows(r *study.Run) [][]string {
@@ -357,7 +385,8 @@ func section(w io.Writer, title string, head []string, rows [][]string) {
 
 // textColumns are the headers of columns that hold words, aligned left;
 // every other column holds numbers, aligned right.
-var textColumns = map[string]bool{"node": true, "role": true, "clamp": true, "pin": true,
+var textColumns = map[string]bool{"quantity": true, "result": true, "source": true,
+	"node": true, "role": true, "clamp": true, "pin": true,
 	"capacitor": true, "where": true, "limit": true, "variant": true, "polarity": true,
 	"verdict": true, "worst margin": true, "level": true, "": true}
 
