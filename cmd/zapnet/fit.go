@@ -92,6 +92,18 @@ func stem(path string) string {
 	return out.String()
 }
 
+// check checks every output of a fit before the fit runs (see outputs):
+// none may be one of the data files read, --plot's folder is made now.
+func (o fitOutputs) check(inputs []string, files ...string) error {
+	out := newOutputs(inputs...)
+	out.file("--json", o.json)
+	out.dir("--plot", o.plot)
+	for k := 0; k+1 < len(files); k += 2 {
+		out.file(files[k], files[k+1])
+	}
+	return out.err()
+}
+
 // finishFit prints the report of a fit and writes what was asked, every
 // file whole or not at all.
 func finishFit(doc fit.Document, o fitOutputs, stdout io.Writer) error {
@@ -100,8 +112,6 @@ func finishFit(doc fit.Document, o fitOutputs, stdout io.Writer) error {
 	if o.plot != "" {
 		figs, err := plots.FitFigures(&doc, nil)
 		if err != nil {
-			errs = append(errs, fmt.Errorf("--plot: %w", err))
-		} else if err := os.MkdirAll(o.plot, 0o755); err != nil {
 			errs = append(errs, fmt.Errorf("--plot: %w", err))
 		} else {
 			for _, f := range figs {

@@ -174,3 +174,24 @@ func TestFittedPartsDeckRuns(t *testing.T) {
 		t.Errorf("exit %d\n%s%s", code, out, errOut)
 	}
 }
+
+func TestFitNeverWritesOverItsInput(t *testing.T) {
+	// An output that is one of the data files read is refused before the
+	// fit, and the file is left as it was.
+	dir := t.TempDir()
+	src, _ := os.ReadFile(fitData + "pinA-tlp.csv")
+	tlp := filepath.Join(dir, "pin.csv")
+	os.WriteFile(tlp, src, 0o644)
+	for _, args := range [][]string{
+		{"fit", "pin", "--tlp", tlp, "--table", tlp, "--leak", "3.3V@2nA"},
+		{"fit", "clamp", "--tlp", tlp, "--json", tlp},
+	} {
+		_, errOut, code := zapnet(t, args...)
+		if code != exitUnusable || !strings.Contains(errOut, "that is an input of this command") {
+			t.Errorf("%v: exit %d, %s", args, code, errOut)
+		}
+		if b, _ := os.ReadFile(tlp); string(b) != string(src) {
+			t.Fatalf("%v: the input was changed", args)
+		}
+	}
+}

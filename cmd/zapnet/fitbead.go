@@ -106,6 +106,15 @@ func runFitBead(args []string, stdout, stderr io.Writer) error {
 	if err := checkPartName(name); err != nil {
 		return fmt.Errorf("fit bead: %w", err)
 	}
+	inputs := append([]string(nil), sources...)
+	for k, src := range inputs {
+		if i := strings.LastIndexByte(src, '@'); i > 0 && src != *zcsv {
+			inputs[k] = src[:i]
+		}
+	}
+	if err := o.check(inputs); err != nil {
+		return fmt.Errorf("fit bead: %w", err)
+	}
 	f, err := fit.FitBead(curves, opt)
 	if err != nil {
 		return fmt.Errorf("fit bead: %w", err)

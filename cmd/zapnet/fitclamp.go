@@ -138,6 +138,9 @@ func runFitClamp(args []string, stdout, stderr io.Writer) error {
 	if err := checkPartName(pub.Name); err != nil {
 		return fmt.Errorf("fit clamp: %w", err)
 	}
+	if err := o.check(sources); err != nil {
+		return fmt.Errorf("fit clamp: %w", err)
+	}
 	origin := "datasheet"
 	if *tlp != "" {
 		origin = "--ls"

@@ -86,6 +86,9 @@ func runFitPin(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return fitError("fit pin: "+*tlp, err)
 	}
+	if err := o.check([]string{*tlp}, "--table", *table); err != nil {
+		return fmt.Errorf("fit pin: %w", err)
+	}
 	name := stem(*tlp)
 	if o.name != "" {
 		name = o.name
@@ -153,6 +156,9 @@ func fitPinIBIS(path, model, corner string, o fitOutputs, stdout io.Writer) erro
 	pm, err := ib.PinModel(model, k)
 	if err != nil {
 		return fitError("fit pin: "+path, err)
+	}
+	if err := o.check([]string{path}); err != nil {
+		return fmt.Errorf("fit pin: %w", err)
 	}
 	s, notes, err := devices.IBISPin(model, [2]string{"p", "gnd"}, "", pm)
 	if err != nil {
