@@ -7,8 +7,6 @@ import (
 	"math"
 	"strings"
 
-	"github.com/olekukonko/tablewriter"
-
 	"zapnet/devices/spec"
 	"zapnet/mna/fit"
 )
@@ -27,7 +25,7 @@ func FitText(w io.Writer, d *fit.Document, caution string) error {
 	}
 	if len(d.Order) > 0 {
 		fmt.Fprintln(bw, "Parameters")
-		t := tablewriter.NewWriter(bw)
+		t := newTable(bw, []string{"parameter", "value", "standard error", "from"})
 		t.Header("parameter", "value", "standard error", "from")
 		for _, k := range d.Order {
 			from, se := "given", ""
@@ -52,13 +50,13 @@ func FitText(w io.Writer, d *fit.Document, caution string) error {
 
 	if len(d.Points) > 0 {
 		fmt.Fprintln(bw, "Points")
-		t := tablewriter.NewWriter(bw)
 		bead := d.Bead != nil
+		head := []string{"where", "what", "at", "measured", "model", "residual", ""}
 		if bead {
-			t.Header("where", "frequency", "bias", "measured", "model", "residual", "")
-		} else {
-			t.Header("where", "what", "at", "measured", "model", "residual", "")
+			head = []string{"where", "frequency", "bias", "measured", "model", "residual", ""}
 		}
+		t := newTable(bw, head)
+		t.Header(toAny(head)...)
 		worst, worstAt := 0.0, ""
 		for _, p := range d.Points {
 			note := ""
