@@ -40,6 +40,16 @@ type HTMLOptions struct {
 	Overlays []Figure
 	// OverlaysTitle heads the overlays. Empty: "Every run compared".
 	OverlaysTitle string
+	// Signal is the signal side (zapnet ac), shown after the runs. Nil:
+	// none.
+	Signal *SignalSection
+}
+
+// SignalSection is the signal side in the HTML report: its tables as
+// printed (ACTables) and its figures.
+type SignalSection struct {
+	Text    string
+	Figures []Figure
 }
 
 // HTML writes the report as one self-contained page: inline CSS, inline SVG,
@@ -108,6 +118,12 @@ func HTML(w io.Writer, runs []study.Run, opt *HTMLOptions) error {
 		}
 		page.Runs = append(page.Runs, hr)
 	}
+	if opt.Signal != nil {
+		page.Signal = &htmlSignal{Text: opt.Signal.Text}
+		if page.Signal.Figures, err = htmlFigures("signal-fig", opt.Signal.Figures); err != nil {
+			return err
+		}
+	}
 	// The page says "runs" even of one run; the text summary says "run".
 	page.Count = verdictCount(runs, "runs")
 	if opt.Source != nil {
@@ -130,7 +146,13 @@ type htmlPage struct {
 	Ranking                             *htmlTable
 	Overlays                            []htmlFigure
 	Runs                                []htmlRun
+	Signal                              *htmlSignal
 	Listing                             []htmlLine
+}
+
+type htmlSignal struct {
+	Text    string
+	Figures []htmlFigure
 }
 
 type htmlSummaryRow struct {
@@ -483,6 +505,19 @@ footer { margin-top: 2.5rem; }
 {{- range .Notes}}
 <p class="note">Note: {{.}}</p>
 {{- end}}
+{{- if .Figures}}
+<div class="figures">
+{{- range .Figures}}
+<figure id="{{.ID}}">{{.SVG}}<figcaption>{{.Caption}}</figcaption></figure>
+{{- end}}
+</div>
+{{- end}}
+</section>
+{{- end}}
+{{- with .Signal}}
+<section id="signal">
+<h2>The signal's side</h2>
+<pre id="signal-tables" class="listing">{{.Text}}</pre>
 {{- if .Figures}}
 <div class="figures">
 {{- range .Figures}}
