@@ -1,6 +1,10 @@
 package devices
 
-import "zapnet/devices/spec"
+import (
+	"math"
+
+	"zapnet/devices/spec"
+)
 
 // Line is the lossless transmission line of MODELS.md between the ports in
 // and out, each referred to gnd, with characteristic impedance z0 and
@@ -226,4 +230,32 @@ func (d *Line) grow() {
 		}
 	}
 	d.head = 0
+}
+
+// StampAC implements SmallSignal with the line's exact frequency-domain
+// equations. With e = e^(−jωT) the characteristic equations above read
+//
+//	i1 = v1/z0 − e·(v2/z0 + i2),   i2 = v2/z0 − e·(v1/z0 + i1).
+//
+// The branch unknown carries i1; eliminating i2 from the first equation
+// gives the branch row
+//
+//	z0·(1 − e²)·i1 − (1 + e²)·v1 + 2e·v2 = 0
+//
+// and the second is the current into the out port. Unlike the admittance
+// parameters (−j·cot(ωT)/z0 and j/(z0·sin ωT), which they equal), these
+// stay finite at every frequency: where ωT is a multiple of π the branch row
+// becomes v1 = ±v2 and i1 is fixed by the rest of the circuit. At ω = 0 they
+// are the wire of the operating point.
+func (d *Line) StampAC(c *ACContext) {
+	e := complex(math.Cos(c.Omega*d.delay), -math.Sin(c.Omega*d.delay))
+	e2 := e * e
+	g := complex(d.g, 0)
+	c.Add(d.in, d.br, 1)
+	c.Add(d.out, d.out, g)
+	c.Add(d.out, d.in, -e*g)
+	c.Add(d.out, d.br, -e)
+	c.Add(d.br, d.br, complex(d.z0, 0)*(1-e2))
+	c.Add(d.br, d.in, -(1 + e2))
+	c.Add(d.br, d.out, 2*e)
 }

@@ -62,6 +62,13 @@ func init() {
 				spec.Limit("vmax", spec.Volt, spec.Any, spec.HighVoltage, true, "residual peak"),
 				spec.Limit("vmin", spec.Volt, spec.Any, spec.LowVoltage, false, "residual low"),
 				spec.Limit("ifail", spec.Ampere, spec.Positive, spec.PeakCurrent, true, "internal clamp current").Of("ipath"),
+				// The signal side's limits, judged by the small-signal
+				// study and the edge check, not by a strike's run: the
+				// peaking of the transfer to the pin (dB), the capacitance
+				// the pin's node sees and the 10–90 % rise of an edge there.
+				spec.Optional("peaking", spec.Dimensionless, spec.Positive).As(spec.Rating),
+				spec.Optional("cmax", spec.Farad, spec.Positive).As(spec.Rating),
+				spec.Optional("rise", spec.Second, spec.Positive).As(spec.Rating),
 			},
 			Words: []spec.Word{
 				{Key: "rail", Node: true, Fixed: true},

@@ -82,11 +82,14 @@ func (e *Element) Unit(key string) spec.Unit {
 }
 
 // Watch asks for a node to be reported, with optional limits for a verdict.
+// Peaking (dB), CMax (F) and Rise (s) are the signal side's limits, judged
+// by the small-signal study and the edge check; zero means none.
 type Watch struct {
-	Node           string
-	Max, Min       float64
-	HasMax, HasMin bool
-	Pos            Pos
+	Node                string
+	Max, Min            float64
+	HasMax, HasMin      bool
+	Peaking, CMax, Rise float64
+	Pos                 Pos
 }
 
 // Window is the simulated span and its accuracy. A zero field means "choose

@@ -10,6 +10,11 @@ import (
 	"zapnet/waveforms"
 )
 
+// signalLimits are the units of a watch's signal-side limits: the peaking
+// of its transfer in dB (a plain number), the capacitance it may see and
+// the 10–90 % rise an edge may take to reach it.
+var signalLimits = map[string]spec.Unit{"peaking": spec.Dimensionless, "cmax": spec.Farad, "rise": spec.Second}
+
 func (p *parser) checkWatches(c *Circuit) {
 	known := map[string]bool{}
 	for _, n := range c.Nodes {
@@ -46,8 +51,23 @@ func (p *parser) checkWatches(c *Circuit) {
 				} else {
 					w.Min, w.HasMin = v, true
 				}
+			case "peaking", "cmax", "rise":
+				v, msg := numValue(kv.key+" of a watch", signalLimits[kv.key], spec.Positive, kv.val)
+				if msg != "" {
+					p.errs.Add(kv.valPos, ErrValue, "%s", msg)
+					ok = false
+					continue
+				}
+				switch kv.key {
+				case "peaking":
+					w.Peaking = v
+				case "cmax":
+					w.CMax = v
+				default:
+					w.Rise = v
+				}
 			default:
-				p.errs.Add(kv.keyPos, ErrUnknown, "unknown parameter %s for a watch%s", kv.key, didYouMean(kv.key, []string{"max", "min"}))
+				p.errs.Add(kv.keyPos, ErrUnknown, "unknown parameter %s for a watch%s", kv.key, didYouMean(kv.key, []string{"max", "min", "peaking", "cmax", "rise"}))
 				ok = false
 			}
 		}

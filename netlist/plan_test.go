@@ -126,7 +126,7 @@ func TestWithErrors(t *testing.T) {
 		{"C1.part", "tvsA", "C1.part=tvsA: part tvsA is a clamp, not a capacitor (defined at t.zap:1:6)"},
 		{"D1.polarity", "both", "D1.polarity=both: clamp polarity is uni or bi, not both"},
 		{"zap.level", "1k", "zap.level: levels and polarities are already axes of the study; list them on the strike"},
-		{"zap.r", "330", "zap.r: r is a parameter of waveform iso10605, surge-1.2-50, not of iec61000-4-2"},
+		{"zap.r", "330", "zap.r: r is a parameter of waveform iso10605, surge-1.2-50, step, not of iec61000-4-2"},
 		{"C1value", "1n", "C1value: write ELEMENT.PARAM"},
 	} {
 		if s, err := c.Setting(tt.target, tt.text); err == nil || err.Error() != tt.want {

@@ -106,6 +106,15 @@ func listWatches(w io.Writer, c *netlist.Circuit) {
 		if wt.HasMin {
 			lim = append(lim, "min "+spec.FormatSI(wt.Min, "V"))
 		}
+		if wt.Peaking > 0 {
+			lim = append(lim, fmt.Sprintf("peaking %g dB", wt.Peaking))
+		}
+		if wt.CMax > 0 {
+			lim = append(lim, "cmax "+spec.FormatSI(wt.CMax, spec.Farad))
+		}
+		if wt.Rise > 0 {
+			lim = append(lim, "rise "+spec.FormatSI(wt.Rise, spec.Second))
+		}
 		if len(lim) == 0 {
 			lim = []string{"reported, no limits"}
 		}

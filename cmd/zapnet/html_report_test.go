@@ -6,6 +6,8 @@ import (
 	"encoding/xml"
 	"fmt"
 	"io"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 
@@ -311,4 +313,57 @@ func TestHTMLRefusesActiveSVG(t *testing.T) {
 	if err != nil {
 		t.Errorf("refused a plain drawing: %v", err)
 	}
+}
+
+// A sweep of three variants at four levels, twelve runs of five figures
+// each, makes a page under 600 kB that still holds every figure, and
+// ranks the variants as the terminal does (testdata/demo.zap: levels 2k to
+// 8k; the sizes are the house's target, common practice for a page mailed
+// as it is).
+func TestHTMLTwelveRunsSmall(t *testing.T) {
+	dir := t.TempDir()
+	page := filepath.Join(dir, "r.html")
+	out, errs, code := runMain(t, "../../testdata/demo.zap", "--set", "C1.value=100n,220n,1u", "--polarity", "pos", "--html", page)
+	if code == exitUnusable {
+		t.Fatalf("exit %d\n%s", code, errs)
+	}
+	b, err := os.ReadFile(page)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(b) >= 600e3 {
+		t.Errorf("the page of 12 runs is %d bytes, want under 600 kB", len(b))
+	}
+	root := parsePage(t, b)
+	if n := len(root.find("summary-table").all("tr")) - 1; n != 12 {
+		t.Fatalf("%d runs in the summary, want 12", n)
+	}
+	for i := 1; i <= 12; i++ {
+		for _, f := range []string{"strike", "nodes", "clamps", "residual-U1", "ledger"} {
+			if fig := root.find(fmt.Sprintf("run-%d-fig-%s", i, f)); fig == nil || len(fig.all("path")) < 3 {
+				t.Errorf("run %d: figure %s missing or empty", i, f)
+			}
+		}
+	}
+	// The ranking: the same rows as the terminal's table, in its order.
+	rank := root.find("variants-ranked")
+	if rank == nil {
+		t.Fatal("the page has no ranking of the variants")
+	}
+	rows := rank.all("tr")[1:]
+	if len(rows) != 3 {
+		t.Fatalf("%d ranked variants, want 3", len(rows))
+	}
+	at := 0
+	for _, r := range rows {
+		cells := r.all("td")
+		v := cells[1].text.String()
+		k := strings.Index(out[at:], v)
+		if k < 0 {
+			t.Errorf("variant %s is not ranked in this order in the terminal's table", v)
+			continue
+		}
+		at += k
+	}
+	selfContained(t, root, b)
 }

@@ -47,6 +47,7 @@ func commands() []command {
 		{"margin", "find the highest level that still passes, per variant and polarity", runMargin},
 		{"sensitivity", "rank parameters by how much ±10 % moves the worst margin", runSensitivity},
 		{"spread", "draw circuits from the deck's tolerances and report the distribution", runSpread},
+		{"ac", "the signal's side: transfer, impedance, peaking, loading, S-parameters, edge rise", runAC},
 		{"merge", "join the JSON results of sharded sweeps into one", runMerge},
 		{"fit", "turn TLP curves, datasheet points, impedance, Touchstone and IBIS files into part lines", runFit},
 		{"version", "print the version", runVersion},

@@ -79,6 +79,9 @@ func writePictures(o pictureOptions, c *netlist.Circuit, meta study.Meta, runs [
 		for _, figs := range perRun {
 			hopt.RunFigures = append(hopt.RunFigures, reportFigures(figs))
 		}
+		if hopt.Signal, err = signalSection(c, meta.Deck); err != nil {
+			errs = append(errs, fmt.Errorf("--html: the signal's side: %w", err))
+		}
 		if err := report.WriteFile(o.htmlFile, func(w io.Writer) error { return report.HTML(w, runs, hopt) }); err != nil {
 			errs = append(errs, fmt.Errorf("--html: %w", err))
 		}

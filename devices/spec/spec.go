@@ -314,4 +314,8 @@ const (
 	Stimulus
 	// Carrier carries the signal (a transmission line).
 	Carrier
+	// Port is where a signal enters or leaves the protected line, with its
+	// impedance: no part of a strike's circuit, only of the signal side's
+	// small-signal study and edge check.
+	Port
 )

@@ -23,21 +23,22 @@ import (
 // Vertical lines mark p1, p50 and p99, and the rating where c gives one (a
 // pin's vmax, a clamp's emax); a rating far beyond the data is named in the
 // legend but left off the scale, so that the histogram stays readable. The
-// heading says how many circuits, the seed, and the pass fraction with its
-// 95 % interval. c is the design the circuits were drawn around (for its
-// ratings); title is the deck's title.
+// heading says how many circuits, the seed, the fraction within the rating
+// drawn, with its 95 % interval, and the fraction that passed every limit:
+// a pin's peak can be well inside vmax while its circuits fail at vmin.
+// c is the design the circuits were drawn around (for its ratings); title
+// is the deck's title.
 func SpreadHistograms(title string, c *netlist.Circuit, res *whatif.SpreadResult, opt *Options) ([]Figure, error) {
 	if res == nil || res.Solved == 0 {
 		return nil, fmt.Errorf("plots: spread: no solved circuit to draw")
 	}
 	o := opt.withDefaults()
 	o.Title = title
-	// Short enough to fit beside the legend on one line.
-	stats := fmt.Sprintf("%d circuits, seed %d, pass %s (95 %%: %s–%s)",
-		res.Solved, res.Seed, percent(100*res.PassFraction), strings.TrimSuffix(percent(100*res.CI95[0]), " %"), percent(100*res.CI95[1]))
+	count := fmt.Sprintf("%d circuits, seed %d", res.Solved, res.Seed)
 	if res.Solved < res.Runs {
-		stats = fmt.Sprintf("%d of %d", res.Solved, res.Runs) + strings.TrimPrefix(stats, fmt.Sprint(res.Solved))
+		count = fmt.Sprintf("%d of %d circuits solved, seed %d", res.Solved, res.Runs, res.Seed)
 	}
+	every := "every limit met by " + percent(100*res.PassFraction)
 	over := ""
 	if len(res.Conditions) > 1 {
 		over = ", worst over each circuit's strikes"
@@ -59,10 +60,13 @@ func SpreadHistograms(title string, c *netlist.Circuit, res *whatif.SpreadResult
 		}
 		values := worstValues(res, mi)
 		var lim *limitLine
+		// Short enough to fit beside the legend on one line.
+		stats := count + ", no rating of this; " + every
 		if c != nil {
 			if e := c.Element(elem); e != nil {
 				if p, v, ok := e.Rating(rating); ok {
 					lim = &limitLine{p.Key + " " + spec.FormatSI(v, unit), v}
+					stats = count + "; " + within(p.Key, values, v) + "; " + every
 				}
 			}
 		}
@@ -77,6 +81,20 @@ func SpreadHistograms(title string, c *netlist.Circuit, res *whatif.SpreadResult
 		return nil, fmt.Errorf("plots: spread: the deck has no protected pin and no clamp to draw")
 	}
 	return figs, nil
+}
+
+// within says what fraction of values lie at or under the rating v named
+// key, with its 95 % interval.
+func within(key string, values []float64, v float64) string {
+	k := 0
+	for _, x := range values {
+		if x <= v {
+			k++
+		}
+	}
+	lo, hi := whatif.Wilson95(k, len(values))
+	return fmt.Sprintf("within %s: %s (95 %%: %s–%s)", key, percent(100*float64(k)/float64(len(values))),
+		strings.TrimSuffix(percent(100*lo), " %"), percent(100*hi))
 }
 
 // worstValues is measure mi of every solved circuit, the worst over its

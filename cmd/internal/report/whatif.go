@@ -30,13 +30,27 @@ func heading(w io.Writer, title, deck, what string) {
 	fmt.Fprintf(w, "\n%s\n", what)
 }
 
+// rankingTitle heads the ranking of variants, in the terminal and the page.
+const rankingTitle = "Variants ranked by worst margin over every level and polarity"
+
 // VariantRanking prints the variants of a sweep ranked by their worst margin
 // over every level and polarity, the most margin first.
 func VariantRanking(w io.Writer, ranks []whatif.VariantRank) error {
 	ew := &errWriter{w: w}
-	fmt.Fprintln(ew, "\nVariants ranked by worst margin over every level and polarity")
-	head := []string{"rank", "variant", "worst margin", "worst at", "PASS", "FAIL"}
-	var rows [][]string
+	fmt.Fprintln(ew, "\n"+rankingTitle)
+	head, rows := rankingRows(ranks)
+	t := newTable(ew, head)
+	t.Header(toAny(head)...)
+	for _, r := range rows {
+		t.Append(toAny(r)...)
+	}
+	t.Render()
+	return ew.err
+}
+
+// rankingRows are the ranking's table, one row per variant.
+func rankingRows(ranks []whatif.VariantRank) (head []string, rows [][]string) {
+	head = []string{"rank", "variant", "worst margin", "worst at", "PASS", "FAIL"}
 	for _, r := range ranks {
 		worst, at := "no limits", "-"
 		switch {
@@ -49,13 +63,7 @@ func VariantRanking(w io.Writer, ranks []whatif.VariantRank) error {
 		rows = append(rows, []string{fmt.Sprint(r.Rank), r.Variant.String(), worst, at,
 			fmt.Sprint(r.Passed), fmt.Sprint(r.Failed)})
 	}
-	t := newTable(ew, head)
-	t.Header(toAny(head)...)
-	for _, r := range rows {
-		t.Append(toAny(r)...)
-	}
-	t.Render()
-	return ew.err
+	return head, rows
 }
 
 // MarginTable prints a margin search: per variant and polarity the highest
