@@ -36,7 +36,7 @@ var clampKind = &Kind{Kind: spec.Kind{
 	Terminals: [2]string{"line", "ref"}, Role: spec.Protector, Order: 50,
 	Table: spec.Table{
 		Params: []spec.Param{
-			spec.Required("vbr", spec.Volt, spec.Positive).
+			spec.Required("vbr", spec.Volt, spec.Positive).UnlessWord("table").
 				WarnAbove(1000, "clamp %s breaks down at %s: unusually high for a clamp"),
 			spec.Default("it", spec.Ampere, spec.Positive, 1e-3).As(spec.Model),
 			spec.Default("nbr", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
@@ -52,7 +52,10 @@ var clampKind = &Kind{Kind: spec.Kind{
 			spec.Limit("ipp", spec.Ampere, spec.Positive, spec.PeakCurrent, true, "peak current"),
 			spec.Limit("emax", spec.Joule, spec.Positive, spec.Energy, true, "energy"),
 		},
-		Words: []spec.Word{{Key: "polarity", Choices: []string{"uni", "bi"}, Default: "uni"}},
+		Words: []spec.Word{
+			{Key: "polarity", Choices: []string{"uni", "bi"}, Default: "uni"},
+			{Key: "table", Path: true, Fixed: true},
+		},
 	},
 }, New: newClamp}
 
@@ -60,6 +63,9 @@ func init() { Register(clampKind) }
 
 // newClamp builds a clamp from its checked values.
 func newClamp(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	if path := v.Word("table"); path != "" {
+		return newTableClamp(name, nodes, path, v)
+	}
 	vbr, it, nbr, is, n := v.Num("vbr"), v.Num("it"), v.Num("nbr"), v.Num("is"), v.Num("n")
 	rdyn, ls, cj, m, vj := v.Num("rdyn"), v.Num("ls"), v.Num("cj"), v.Num("m"), v.Num("vj")
 	bi := v.Word("polarity") == "bi"

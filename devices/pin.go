@@ -70,13 +70,22 @@ func init() {
 				spec.Optional("cmax", spec.Farad, spec.Positive).As(spec.Rating),
 				spec.Optional("rise", spec.Second, spec.Positive).As(spec.Rating),
 			},
-			Words: []spec.Word{{Key: "rail", Node: true, Fixed: true}},
+			Words: []spec.Word{
+				{Key: "rail", Node: true, Fixed: true},
+				{Key: "table", Path: true, Fixed: true},
+				{Key: "ibis", Path: true, Fixed: true, Caution: ibisCaution},
+				{Key: "model"},
+				{Key: "corner", Choices: []string{"typ", "min", "max"}},
+			},
 		},
 	}, New: newPin})
 }
 
 // newPin builds a protected pin from its checked values.
 func newPin(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	if v.Word("table") != "" || v.Word("ibis") != "" || v.Word("model") != "" {
+		return newTablePin(name, nodes, v)
+	}
 	is, n, rs := v.Num("is"), v.Num("n"), v.Num("rs")
 	d := &Pin{name: name, nodes: nodes, cin: v.Num("cin")}
 	rLow := rs

@@ -77,6 +77,18 @@ func (p *parser) readParam(k *devices.Kind, kv rawParam, vals *spec.Values, skip
 			p.errs.Add(kv.valPos, ErrValue, "%s", m)
 			return false
 		}
+		if w.Path {
+			// A file named in a deck is found beside the file that names it.
+			path := kv.val
+			if path != "" && !filepath.IsAbs(path) {
+				path = filepath.Join(filepath.Dir(kv.keyPos.File), path)
+			}
+			if fi, err := os.Stat(path); path == "" || err != nil || fi.IsDir() {
+				p.errs.Add(kv.valPos, ErrFile, "%s file %s: no such file", kv.key, kv.val)
+				return false
+			}
+			kv.val = path
+		}
 		if err := vals.SetWord(kv.key, kv.val); err != nil {
 			p.errs.Add(kv.valPos, ErrValue, "%v", err)
 			return false
@@ -157,7 +169,7 @@ func problems(e *Element, skip map[string]bool) []*Error {
 	var out []*Error
 	k := e.Kind
 	for _, sp := range k.Params {
-		if sp.Required && !e.Values.Has(sp.Key) && !skip[sp.Key] {
+		if sp.Required && !e.Values.Has(sp.Key) && !skip[sp.Key] && (sp.Unless == "" || e.Values.Word(sp.Unless) == "") {
 			what := sp.Key
 			if sp.Key == "value" {
 				what = "a value in " + sp.Unit.Word()

@@ -49,6 +49,7 @@ func commands() []command {
 		{"spread", "draw circuits from the deck's tolerances and report the distribution", runSpread},
 		{"ac", "the signal's side: transfer, impedance, peaking, loading, S-parameters, edge rise", runAC},
 		{"merge", "join the JSON results of sharded sweeps into one", runMerge},
+		{"fit", "turn TLP curves, datasheet points, impedance, Touchstone and IBIS files into part lines", runFit},
 		{"version", "print the version", runVersion},
 	}
 }

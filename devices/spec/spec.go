@@ -185,6 +185,9 @@ type Param struct {
 	HasDefault bool
 	// Required: the element is unusable without it.
 	Required bool
+	// Unless names a word parameter that, given, stands in for a required
+	// parameter (a clamp's table for its vbr).
+	Unless string
 	// OnlyWith names another parameter: the default is filled in only when
 	// that one has a value (a pin's internal clamp), and the parameter has
 	// no effect without it.
@@ -234,6 +237,10 @@ func (p Param) Of(probe string) Param {
 	return p
 }
 
+// UnlessWord returns a required p that the word key, when given, makes
+// unnecessary.
+func (p Param) UnlessWord(key string) Param { p.Unless = key; return p }
+
 // As returns p of class c.
 func (p Param) As(c Class) Param { p.Class = c; return p }
 
@@ -282,6 +289,10 @@ type Word struct {
 	Node, Path bool
 	// Fixed: the word shapes the circuit and cannot be varied.
 	Fixed bool
+	// Caution, when set, is a sentence every run of an element that gives
+	// the word reports, with the element's name as its verb ("%s: IBIS
+	// carries no failure data ...").
+	Caution string
 }
 
 // Role is the part an element plays in a protection network; reports and

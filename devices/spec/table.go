@@ -13,7 +13,7 @@ type Table struct {
 // that copies without sharing.
 const (
 	MaxParams = 24
-	MaxWords  = 4
+	MaxWords  = 6
 )
 
 // Param returns the numeric parameter key, or nil.

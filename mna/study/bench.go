@@ -34,6 +34,8 @@ type Bench struct {
 	w0      []float64           // per element, its power at t = 0 (the operating point), W
 	i0      []float64           // per element, its current at t = 0, A
 	meters  []elemMeter         // per element but the strike, deck order
+	beyond  []beyondMeter       // per element with a table, its excursions beyond it
+	caution []string            // notes every run carries (a word's Caution)
 	observe func(p *mna.Point)
 }
 
@@ -113,6 +115,14 @@ func NewBench(c *netlist.Circuit, v netlist.Variant) (*Bench, error) {
 	for _, e := range vc.Elements {
 		if !e.IsStrike() {
 			b.meters = append(b.meters, newMeter(e, elemIdx[e.Name], node(e.Nodes[0]), node(e.Nodes[1]), b.probes))
+			if i, ok := probeIdx[e.Name+".beyond"]; ok {
+				b.beyond = append(b.beyond, beyondMeter{name: e.Name, probe: i})
+			}
+			for _, w := range e.Kind.Words {
+				if w.Caution != "" && e.Values.Word(w.Key) != "" {
+					b.caution = append(b.caution, fmt.Sprintf(w.Caution, e.Name))
+				}
+			}
 		}
 	}
 	b.observe = b.sample
@@ -219,6 +229,9 @@ func (b *Bench) sample(p *mna.Point) {
 			}
 		}
 	}
+	for k := range b.beyond {
+		b.beyond[k].add(t, p.P[b.beyond[k].probe])
+	}
 	if b.first {
 		copy(b.w0, p.W)
 		copy(b.i0, p.I)
@@ -227,6 +240,75 @@ func (b *Bench) sample(p *mna.Point) {
 		copy(b.node0, p.V)
 		b.first = false
 	}
+}
+
+// beyondMeter follows an element's "beyond" probe: how far the voltage
+// across a table path lies outside its table (0 inside). It keeps the
+// first few excursions, each from its first to its last point outside,
+// and counts the rest, without allocating.
+type beyondMeter struct {
+	name     string
+	probe    int
+	in       bool
+	n        int // excursions
+	spans    [4][2]float64
+	worst    float64 // signed, largest |beyond|
+	lastT    float64
+	tail     [2]float64 // the latest excursion, when past spans
+	tailSeen bool
+}
+
+func (m *beyondMeter) add(t, v float64) {
+	if v == 0 {
+		m.in = false
+		m.lastT = t
+		return
+	}
+	if math.Abs(v) > math.Abs(m.worst) {
+		m.worst = v
+	}
+	if !m.in {
+		m.in = true
+		m.n++
+		if m.n <= len(m.spans) {
+			m.spans[m.n-1] = [2]float64{t, t}
+		} else {
+			m.tail, m.tailSeen = [2]float64{t, t}, true
+		}
+	}
+	if m.n <= len(m.spans) {
+		m.spans[m.n-1][1] = t
+	} else {
+		m.tail[1] = t
+	}
+	m.lastT = t
+}
+
+func (m *beyondMeter) reset() { *m = beyondMeter{name: m.name, probe: m.probe} }
+
+// note says when the element left its table, or "" when it never did.
+func (m *beyondMeter) note() string {
+	if m.n == 0 {
+		return ""
+	}
+	var when []string
+	for k := 0; k < m.n && k < len(m.spans); k++ {
+		a, b := m.spans[k][0], m.spans[k][1]
+		if a == b {
+			when = append(when, "at "+spec.FormatSI(a, "s"))
+		} else {
+			when = append(when, "from "+spec.FormatSI(a, "s")+" to "+spec.FormatSI(b, "s"))
+		}
+	}
+	if m.n > len(m.spans) {
+		when = append(when, fmt.Sprintf("%d more times, the last from %s to %s", m.n-len(m.spans), spec.FormatSI(m.tail[0], "s"), spec.FormatSI(m.tail[1], "s")))
+	}
+	side := "above its highest"
+	if m.worst < 0 {
+		side = "below its lowest"
+	}
+	return fmt.Sprintf("%s: outside its I–V table %s, up to %s %s point: there the table's straight extension, not data, carried the solution",
+		m.name, strings.Join(when, ", "), spec.FormatSI(math.Abs(m.worst), "V"), side)
 }
 
 func (b *Bench) reset() {
@@ -244,6 +326,9 @@ func (b *Bench) reset() {
 		for j := range m.probes {
 			m.probes[j].tr.Reset()
 		}
+	}
+	for k := range b.beyond {
+		b.beyond[k].reset()
 	}
 }
 
@@ -283,6 +368,12 @@ func (b *Bench) Solve(level float64, polarity string, opt *Options) (*Run, error
 	}
 	Judge(r)
 	r.Notes = append(r.Notes, b.validity(r, st)...)
+	for k := range b.beyond {
+		if n := b.beyond[k].note(); n != "" {
+			r.Notes = append(r.Notes, n)
+		}
+	}
+	r.Notes = append(r.Notes, b.caution...)
 	if len(r.Limits) == 0 {
 		r.Notes = append(r.Notes, "the deck gives no ratings ("+strings.Join(ratingKeys(), ", ")+", watch max/min): nothing was judged")
 	}

@@ -428,7 +428,8 @@ func section(w io.Writer, title string, head []string, rows [][]string) {
 var textColumns = map[string]bool{"quantity": true, "result": true, "source": true,
 	"node": true, "role": true, "clamp": true, "pin": true,
 	"capacitor": true, "where": true, "limit": true, "variant": true, "polarity": true,
-	"verdict": true, "worst margin": true, "level": true, "": true}
+	"verdict": true, "worst margin": true, "level": true, "": true,
+	"parameter": true, "from": true, "what": true}
 
 // newTable is the house style: ASCII borders (safe in any terminal and log),
 // headers as written, words left and numbers right.
