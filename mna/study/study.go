@@ -113,13 +113,13 @@ func (r *Run) Job() Job {
 }
 
 // Stats are the engine's counts of a run. Wall is the only field that
-// differs between identical runs.
+// differs between identical runs; zero, it is left out of the JSON.
 type Stats struct {
 	Steps    int     `json:"steps"`
 	Rejected int     `json:"rejected"`
 	Newton   int     `json:"newton"`
 	DCNewton int     `json:"dc_newton"`
-	Wall     float64 `json:"wall_s"` // s
+	Wall     float64 `json:"wall_s,omitempty"` // s
 }
 
 // add sums the counts of one engine solution into s.
