@@ -265,8 +265,15 @@ type Limit struct {
 	Measure spec.Measure
 	// Headroom is, for a window limit, the distance from the operating
 	// point to the limit that Percent is of (0 for the others, whose
-	// percentage is of |Value|).
+	// percentage is of |Value|); negative when the operating point is
+	// beyond the limit already.
 	Headroom float64
+	// Rest is, for a window limit, the measured quantity at the operating
+	// point (0 for the others).
+	Rest float64
+	// Window says the limit is one side of a voltage window, judged
+	// against its headroom from the operating point (NewWindowLimit).
+	Window bool
 }
 
 // LimitOn returns the limit on element that is judged against measure m,
