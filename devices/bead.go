@@ -3,7 +3,7 @@ package devices
 import (
 	"math"
 
-	"zapnet/netlist"
+	"zapnet/devices/spec"
 )
 
 // Bead is the ferrite bead of MODELS.md:
@@ -31,22 +31,26 @@ type Bead struct {
 	hasCap, isSat bool
 }
 
-func init() { Register(netlist.Bead, NewBead) }
+func init() {
+	Register(&Kind{Kind: spec.Kind{
+		Name: "bead", Summary: "a ferrite bead, rdc in series with l ∥ rac ∥ c, optionally saturating",
+		Terminals: [2]string{"a", "b"}, Role: spec.Storage, Order: 40, IdealWithout: "rdc",
+		Table: spec.Table{Params: []spec.Param{
+			spec.Default("rdc", spec.Ohm, spec.NonNegative, 0),
+			spec.Default("rac", spec.Ohm, spec.NonNegative, 0),
+			spec.Required("l", spec.Henry, spec.Positive).Scales(),
+			spec.Default("c", spec.Farad, spec.NonNegative, 0),
+			spec.Optional("isat", spec.Ampere, spec.Positive),
+		}},
+	}, New: newBead})
+}
 
-// NewBead builds a bead from its element.
-func NewBead(e *netlist.Element) (Device, error) {
-	p := modelParams{e: e}
-	rdc := p.nonNegative("rdc", 0)
-	rac := p.nonNegative("rac", 0)
-	l := p.nonNegative("l", 0)
-	c := p.nonNegative("c", 0)
-	d := &Bead{name: e.Name, nodes: e.Nodes, l: l, c: c, hasCap: c > 0}
-	if e.Has("isat") {
-		d.isat = p.positive("isat", 0)
-		d.isSat = true
-	}
-	if err := p.err(); err != nil {
-		return nil, err
+// newBead builds a bead from its checked values.
+func newBead(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	rdc, rac, c := v.Num("rdc"), v.Num("rac"), v.Num("c")
+	d := &Bead{name: name, nodes: nodes, l: v.Num("l"), c: c, hasCap: c > 0}
+	if isat, ok := v.Lookup("isat"); ok {
+		d.isat, d.isSat = isat, true
 	}
 	if rdc > 0 {
 		d.grdc = 1 / rdc

@@ -5,8 +5,6 @@ import (
 	"math"
 	"math/cmplx"
 	"testing"
-
-	"zapnet/netlist"
 )
 
 // An invented bead, not any real part's data.
@@ -19,7 +17,7 @@ func TestBeadJacobian(t *testing.T) {
 		{"rdc": 0.05, "l": 1e-6},
 		{"rdc": 0.1, "rac": 600, "l": 2e-6, "c": 1e-12, "isat": 0.3},
 	} {
-		d := nlMust(t, nlElement(netlist.Bead, "FB1", "a", "b", num, nil))
+		d := nlMust(t, nlElement("bead", "FB1", "a", "b", num, nil))
 		for _, b := range []int{1, Ground} {
 			r := newNLRig(t, d, 0, b)
 			for k, i := range []float64{0, 0.1, -0.45, 2} {
@@ -83,7 +81,7 @@ func TestBeadImpedance(t *testing.T) {
 	// near f0 = 1/(2π√(lc)) at about rdc + rac (CHECKS.md [practice]; at f0
 	// exactly the l and c admittances cancel, so Z(f0) = rdc + rac [calc]).
 	rdc, rac, l, c := beadNum["rdc"], beadNum["rac"], beadNum["l"], beadNum["c"]
-	d := nlMust(t, nlElement(netlist.Bead, "FB1", "a", "gnd", beadNum, nil))
+	d := nlMust(t, nlElement("bead", "FB1", "a", "gnd", beadNum, nil))
 	r := newNLRig(t, d, 0, Ground)
 	x := make([]float64, r.n)
 	formula := func(f float64) complex128 {
@@ -123,7 +121,7 @@ func TestBeadSaturationFlux(t *testing.T) {
 	// cycle creates energy.
 	l, isat := 2e-6, 0.3
 	num := map[string]float64{"l": l, "isat": isat}
-	d := nlMust(t, nlElement(netlist.Bead, "FB1", "a", "gnd", num, nil))
+	d := nlMust(t, nlElement("bead", "FB1", "a", "gnd", num, nil))
 	r := newNLRig(t, d, 0, Ground)
 	br := r.nd.Branches[0]
 	x := make([]float64, r.n)

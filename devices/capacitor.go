@@ -1,10 +1,6 @@
 package devices
 
-import (
-	"fmt"
-
-	"zapnet/netlist"
-)
+import "zapnet/devices/spec"
 
 // capacitor is the chain a –esr– r –esl– l –C– b (MODELS.md, linear parts).
 // A zero parasitic adds no unknown: without esr, r is a; without esl, l is r.
@@ -16,22 +12,23 @@ type capacitor struct {
 	a, b, r, l, i int
 }
 
-func init() { Register(netlist.Capacitor, newCapacitor) }
+func init() {
+	Register(&Kind{Kind: spec.Kind{
+		Name: "capacitor", Summary: "a capacitor with optional esr and esl", Terminals: [2]string{"a", "b"},
+		Role: spec.Storage, Order: 20, DC: spec.Blocks,
+		Table: spec.Table{Params: []spec.Param{
+			spec.Required("value", spec.Farad, spec.Positive).Scales().
+				WarnFrom(0.1, "capacitor %s is %s: unusually large for a capacitor on a protected line"),
+			spec.Default("esr", spec.Ohm, spec.NonNegative, 0),
+			spec.Default("esl", spec.Henry, spec.NonNegative, 0),
+			spec.Limit("rating", spec.Volt, spec.Positive, spec.PeakVoltage, true, "dielectric voltage").Of("vc"),
+		}},
+	}, New: newCapacitor})
+}
 
-func newCapacitor(e *netlist.Element) (Device, error) {
-	cv := e.Get("value")
-	if !(cv > 0) || cv > maxLinearValue {
-		return nil, fmt.Errorf("%s: %s: capacitance must be positive and finite, have %g F", e.Pos, e.Name, cv)
-	}
-	esr, err := linearParasitic(e, "esr", "ohm")
-	if err != nil {
-		return nil, err
-	}
-	esl, err := linearParasitic(e, "esl", "H")
-	if err != nil {
-		return nil, err
-	}
-	d := &capacitor{name: e.Name, nodes: e.Nodes, c: cv, esl: esl}
+func newCapacitor(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	esr := v.Num("esr")
+	d := &capacitor{name: name, nodes: nodes, c: v.Num("value"), esl: v.Num("esl")}
 	if esr > 0 {
 		d.gesr = 1 / esr
 	}
@@ -70,6 +67,14 @@ func (d *capacitor) Bind(n Nodes) []StateRows {
 	rows[0] = StateRows{Plus: d.l, Minus: d.b}
 	return rows
 }
+
+// Probes implements Prober: "vc" is the voltage on the dielectric, across C
+// alone, which is what a capacitor's voltage rating is about; the drop
+// across esr and esl is not on the dielectric.
+func (d *capacitor) Probes() []Probe { return []Probe{{Name: "vc", Unit: spec.Volt}} }
+
+// Probe implements Prober.
+func (d *capacitor) Probe(x []float64, dst []float64) { dst[0] = at(x, d.l) - at(x, d.b) }
 
 func (d *capacitor) Eval(c *Context) {
 	if d.gesr > 0 {

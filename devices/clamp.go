@@ -1,6 +1,6 @@
 package devices
 
-import "zapnet/netlist"
+import "zapnet/devices/spec"
 
 // Clamp is the TVS clamp of MODELS.md between the line a and the reference b:
 //
@@ -12,10 +12,11 @@ import "zapnet/netlist"
 // the current of clampLaw (uni or bi, see junction.go) plus the engine's
 // gmin, and the charge q(u) with C(u) = cj·(1+|u|/vj)^(−m) when cj > 0.
 //
-// Defaults (applied here too, so an element built in code needs only vbr):
-// it = 1 mA, nbr = 1, is = 1e-14 A, n = 1, rdyn = 0, ls = 0, cj = 0, m = 0,
-// vj = 0.7 V, polarity = uni. The ratings ipp and emax are the study's, not
-// the model's.
+// Defaults: it = 1 mA, nbr = 1, is = 1e-14 A, n = 1, rdyn = 0, ls = 0,
+// cj = 0, m = 0, vj = 0.7 V, polarity = uni. The ratings are the study's,
+// not the model's: vrwm, the stand-off (reverse working) voltage, against
+// the voltage across the clamp at the operating point; ipp and emax against
+// the strike.
 type Clamp struct {
 	name  string
 	nodes [2]string
@@ -28,37 +29,47 @@ type Clamp struct {
 	uold           float64 // limiting memory, V
 }
 
-func init() { Register(netlist.Clamp, NewClamp) }
+// clampKind is the clamp's description; the junction keys and their
+// defaults are MODELS.md's.
+var clampKind = &Kind{Kind: spec.Kind{
+	Name: "clamp", Summary: "a TVS clamp, uni- or bidirectional, with rdyn, lead inductance and junction charge",
+	Terminals: [2]string{"line", "ref"}, Role: spec.Protector, Order: 50,
+	Table: spec.Table{
+		Params: []spec.Param{
+			spec.Required("vbr", spec.Volt, spec.Positive).UnlessWord("table").
+				WarnAbove(1000, "clamp %s breaks down at %s: unusually high for a clamp"),
+			spec.Default("it", spec.Ampere, spec.Positive, 1e-3).As(spec.Model),
+			spec.Default("nbr", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+			spec.Default("rdyn", spec.Ohm, spec.NonNegative, 0).
+				WarnAbove(100, "clamp %s has rdyn %s: a clamp's dynamic resistance is usually below 1 Ω"),
+			spec.Default("ls", spec.Henry, spec.NonNegative, 0),
+			spec.Default("cj", spec.Farad, spec.NonNegative, 0),
+			spec.Default("vj", spec.Volt, spec.Positive, 0.7).As(spec.Model),
+			spec.Default("m", spec.Dimensionless, spec.Fraction, 0).As(spec.Model),
+			spec.Default("is", spec.Ampere, spec.Positive, 1e-14).As(spec.Model),
+			spec.Default("n", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+			spec.Limit("vrwm", spec.Volt, spec.Positive, spec.StandOff, true, "stand-off voltage"),
+			spec.Limit("ipp", spec.Ampere, spec.Positive, spec.PeakCurrent, true, "peak current"),
+			spec.Limit("emax", spec.Joule, spec.Positive, spec.Energy, true, "energy"),
+		},
+		Words: []spec.Word{
+			{Key: "polarity", Choices: []string{"uni", "bi"}, Default: "uni"},
+			{Key: "table", Path: true, Fixed: true},
+		},
+	},
+}, New: newClamp}
 
-// NewClamp builds a clamp from its element.
-func NewClamp(e *netlist.Element) (Device, error) {
-	p := modelParams{e: e}
-	p.require("vbr")
-	vbr := p.get("vbr", 0)
-	if e.Has("vbr") && !(vbr > 0) {
-		p.complain("vbr must be > 0, got %g", vbr)
+func init() { Register(clampKind) }
+
+// newClamp builds a clamp from its checked values.
+func newClamp(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	if path := v.Word("table"); path != "" {
+		return newTableClamp(name, nodes, path, v)
 	}
-	it := p.positive("it", 1e-3)
-	nbr := p.positive("nbr", 1)
-	is := p.nonNegative("is", 1e-14)
-	n := p.positive("n", 1)
-	rdyn := p.nonNegative("rdyn", 0)
-	ls := p.nonNegative("ls", 0)
-	cj := p.nonNegative("cj", 0)
-	m := p.nonNegative("m", 0)
-	vj := p.positive("vj", 0.7)
-	bi := false
-	switch pol := e.Str["polarity"]; pol {
-	case "", "uni":
-	case "bi":
-		bi = true
-	default:
-		p.complain("polarity must be uni or bi, got %q", pol)
-	}
-	if err := p.err(); err != nil {
-		return nil, err
-	}
-	d := &Clamp{name: e.Name, nodes: e.Nodes, ls: ls}
+	vbr, it, nbr, is, n := v.Num("vbr"), v.Num("it"), v.Num("nbr"), v.Num("is"), v.Num("n")
+	rdyn, ls, cj, m, vj := v.Num("rdyn"), v.Num("ls"), v.Num("cj"), v.Num("m"), v.Num("vj")
+	bi := v.Word("polarity") == "bi"
+	d := &Clamp{name: name, nodes: nodes, ls: ls}
 	d.law = newClampLaw(vbr, it, nbr, is, n, bi)
 	d.law.cj, d.law.vj, d.law.m = cj, vj, m
 	if rdyn > 0 {

@@ -4,8 +4,6 @@ import (
 	"fmt"
 	"math"
 	"testing"
-
-	"zapnet/netlist"
 )
 
 // vtRef is k·T/q at 300 K from the CODATA 2018 exact constants [pub],
@@ -41,7 +39,7 @@ func TestClampCurrentMatchesContract(t *testing.T) {
 			{12, 5e-3, 1.3, 3e-12, 1.8},
 			{3.3, 1e-4, 2, 1e-9, 1.2},
 		} {
-			e := nlElement(netlist.Clamp, "D1", "a", "gnd", map[string]float64{
+			e := nlElement("clamp", "D1", "a", "gnd", map[string]float64{
 				"vbr": par.vbr, "it": par.it, "nbr": par.nbr, "is": par.is, "n": par.n,
 			}, map[string]string{"polarity": pol})
 			r := newNLRig(t, nlMust(t, e), 0, Ground)
@@ -59,7 +57,7 @@ func TestClampCurrentMatchesContract(t *testing.T) {
 		}
 	}
 	// The bi law is odd: i(−u) = −i(u) [MODELS.md].
-	e := nlElement(netlist.Clamp, "D2", "a", "gnd", map[string]float64{"vbr": 5}, map[string]string{"polarity": "bi"})
+	e := nlElement("clamp", "D2", "a", "gnd", map[string]float64{"vbr": 5}, map[string]string{"polarity": "bi"})
 	r := newNLRig(t, nlMust(t, e), 0, Ground)
 	for _, u := range []float64{0.3, 4.9, 5.2} {
 		r.settle(t, []float64{u})
@@ -75,17 +73,17 @@ func TestClampDefaults(t *testing.T) {
 	// MODELS.md defaults: it = 1 mA, nbr = 1, is = 1e-14 A, n = 1, uni. At
 	// u = vbr the breakdown term is it·(1 − e^(−vbr/Vt)) and the forward
 	// term −is·(e^(−vbr/Vt) − 1) ≈ +is [calc].
-	e := nlElement(netlist.Clamp, "D1", "a", "gnd", map[string]float64{"vbr": 5}, nil)
+	e := nlElement("clamp", "D1", "a", "gnd", map[string]float64{"vbr": 5}, nil)
 	r := newNLRig(t, nlMust(t, e), 0, Ground)
 	r.settle(t, []float64{5})
 	want := 1e-3*(1-math.Exp(-5/vtRef)) + 1e-14*(1-math.Exp(-5/vtRef))
 	if got := r.c.F[0]; !nlClose(got, want, 1e-12, 0) {
 		t.Fatalf("i(vbr) = %.15g, want %.15g", got, want)
 	}
-	if _, err := New(nlElement(netlist.Clamp, "D1", "a", "gnd", map[string]float64{}, nil)); err == nil {
+	if _, err := build(nlElement("clamp", "D1", "a", "gnd", map[string]float64{}, nil)); err == nil {
 		t.Error("clamp without vbr accepted; MODELS.md says vbr is required")
 	}
-	if _, err := New(nlElement(netlist.Clamp, "D1", "a", "gnd", map[string]float64{"vbr": 5}, map[string]string{"polarity": "both"})); err == nil {
+	if _, err := build(nlElement("clamp", "D1", "a", "gnd", map[string]float64{"vbr": 5}, map[string]string{"polarity": "both"})); err == nil {
 		t.Error("polarity=both accepted for a clamp")
 	}
 }
@@ -95,7 +93,7 @@ func TestClampChargeMatchesContract(t *testing.T) {
 	// C = cj·(1+|u|/vj)^(−m); m = 0 is linear.
 	cj, vj := 10e-12, 0.7
 	for _, m := range []float64{0, 0.33, 0.5} {
-		e := nlElement(netlist.Clamp, "D1", "a", "gnd", map[string]float64{"vbr": 6, "cj": cj, "vj": vj, "m": m}, nil)
+		e := nlElement("clamp", "D1", "a", "gnd", map[string]float64{"vbr": 6, "cj": cj, "vj": vj, "m": m}, nil)
 		r := newNLRig(t, nlMust(t, e), 0, Ground)
 		for _, u := range []float64{-0.5, 0, 0.2, 3, 5.9} {
 			r.settle(t, []float64{u})
@@ -136,7 +134,7 @@ func TestClampJacobian(t *testing.T) {
 	for vi, num := range clampVariants() {
 		for _, pol := range []string{"uni", "bi"} {
 			for _, gnd := range []bool{false, true} {
-				e := nlElement(netlist.Clamp, "D1", "a", "b", num, map[string]string{"polarity": pol})
+				e := nlElement("clamp", "D1", "a", "b", num, map[string]string{"polarity": pol})
 				d := nlMust(t, e).(*Clamp)
 				b := 1
 				if gnd {
@@ -166,7 +164,7 @@ func TestClampLimiting(t *testing.T) {
 	// is cut to nbr·Vt·ln(w_new/(nbr·Vt)); the forward term likewise with
 	// w = −u. The stamp is the linearisation at the limited point [calc].
 	vbr, nbr := 6.8, 1.2
-	e := nlElement(netlist.Clamp, "D1", "a", "gnd", map[string]float64{"vbr": vbr, "nbr": nbr}, nil)
+	e := nlElement("clamp", "D1", "a", "gnd", map[string]float64{"vbr": vbr, "nbr": nbr}, nil)
 	d := nlMust(t, e).(*Clamp)
 	r := newNLRig(t, d, 0, Ground)
 	for _, u := range []float64{50, -5} {
@@ -220,7 +218,7 @@ func TestClampNewtonAt10A(t *testing.T) {
 	for _, pol := range []string{"uni", "bi"} {
 		for _, curr := range []float64{10, -10} {
 			vbr, rdyn := 6.8, 0.35
-			e := nlElement(netlist.Clamp, "D1", "a", "gnd", map[string]float64{"vbr": vbr, "rdyn": rdyn, "ls": 1e-9, "cj": 5e-12}, map[string]string{"polarity": pol})
+			e := nlElement("clamp", "D1", "a", "gnd", map[string]float64{"vbr": vbr, "rdyn": rdyn, "ls": 1e-9, "cj": 5e-12}, map[string]string{"polarity": pol})
 			d := nlMust(t, e).(*Clamp)
 			r := newNLRig(t, d, 0, Ground)
 			r.c.Gmin = 1e-12

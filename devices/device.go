@@ -11,10 +11,7 @@
 package devices
 
 import (
-	"fmt"
-	"sort"
-
-	"zapnet/netlist"
+	"zapnet/devices/spec"
 	"zapnet/waveforms"
 )
 
@@ -65,7 +62,7 @@ type (
 	// Prober reports named internal quantities at a solution point (for
 	// example the current through a pin's internal clamp paths, in A).
 	Prober interface {
-		Probes() []string
+		Probes() []Probe
 		Probe(x []float64, dst []float64)
 	}
 )
@@ -199,37 +196,18 @@ func (c *Context) Capacitance(k, a, b int, q, cap float64) {
 	c.ChargeDeriv(k, b, -cap)
 }
 
-// Constructor builds the device of one checked element.
-type Constructor func(e *netlist.Element) (Device, error)
-
-var registry = map[netlist.Kind]Constructor{}
-
-// Register makes a model available for a kind; each model file registers
-// itself in an init function. Registering a kind twice is a programming error.
-func Register(k netlist.Kind, c Constructor) {
-	if _, dup := registry[k]; dup {
-		panic("devices: kind registered twice: " + string(k))
+// at is x[i], 0 for Ground: a probe reads a solution outside Eval.
+func at(x []float64, i int) float64 {
+	if i < 0 {
+		return 0
 	}
-	registry[k] = c
+	return x[i]
 }
 
-// New builds the device of a checked element.
-func New(e *netlist.Element) (Device, error) {
-	c, ok := registry[e.Kind]
-	if !ok {
-		return nil, fmt.Errorf("%s: %s: no model for kind %q", e.Pos, e.Name, e.Kind)
-	}
-	return c(e)
-}
-
-// Kinds lists the kinds that have a model, sorted.
-func Kinds() []netlist.Kind {
-	ks := make([]netlist.Kind, 0, len(registry))
-	for k := range registry {
-		ks = append(ks, k)
-	}
-	sort.Slice(ks, func(i, j int) bool { return ks[i] < ks[j] })
-	return ks
+// Probe names one internal quantity of a device and its unit.
+type Probe struct {
+	Name string // "ipath"; the engine reports it as "ELEMENT.ipath"
+	Unit spec.Unit
 }
 
 // Striker is the strike device: the engine hands it each run's stimulus and

@@ -1,16 +1,19 @@
 package devices
 
-import "zapnet/netlist"
+import "zapnet/devices/spec"
 
 // Diode is the diode of MODELS.md from anode a to cathode c:
 //
 //	a –rs– k –[junction ∥ cj]– c,   v = v(k) − v(c)
-//	i(v) = is·[exp(v/(n·Vt)) − 1] − ibv·exp(−(v+bv)/(n·Vt))
+//	i(v) = is·[exp(v/(n·Vt)) − 1] − it·exp(−(v+vbr)/(n·Vt))
 //
-// the breakdown term only when bv > 0. rs = 0 joins k to a; cj is a constant
+// the breakdown term only when vbr is given: the breakdown voltage at the
+// test current it, as a clamp's. rs = 0 joins k to a; cj is a constant
 // junction capacitance (a linear charge cj·v) when > 0. Both exponentials
-// are step-limited (see junction.go), the breakdown one around −bv.
-// Defaults: is = 1e-14 A, n = 1, ibv = 1 mA, rs = 0, cj = 0, no bv.
+// are step-limited (see junction.go), the breakdown one around −vbr.
+// Defaults: is = 1e-14 A, n = 1, it = 1 mA, rs = 0, cj = 0, no breakdown.
+// The pulse ratings ipp and emax let a steering or clamping diode be judged
+// as a clamp is.
 type Diode struct {
 	name    string
 	nodes   [2]string
@@ -22,21 +25,28 @@ type Diode struct {
 	vold    float64 // limiting memory, V
 }
 
-func init() { Register(netlist.Diode, NewDiode) }
+func init() {
+	Register(&Kind{Kind: spec.Kind{
+		Name: "diode", Summary: "a junction diode with optional breakdown",
+		Terminals: [2]string{"anode", "cathode"}, Role: spec.Protector, Order: 60,
+		Table: spec.Table{Params: []spec.Param{
+			spec.Default("is", spec.Ampere, spec.Positive, 1e-14).As(spec.Model),
+			spec.Default("n", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+			spec.Default("rs", spec.Ohm, spec.NonNegative, 0),
+			spec.Default("cj", spec.Farad, spec.NonNegative, 0),
+			spec.Optional("vbr", spec.Volt, spec.Positive),
+			spec.Default("it", spec.Ampere, spec.Positive, 1e-3).As(spec.Model),
+			spec.Limit("ipp", spec.Ampere, spec.Positive, spec.PeakCurrent, true, "peak current"),
+			spec.Limit("emax", spec.Joule, spec.Positive, spec.Energy, true, "energy"),
+		}},
+		Renamed: map[string]string{"bv": "vbr", "ibv": "it"},
+	}, New: newDiode})
+}
 
-// NewDiode builds a diode from its element.
-func NewDiode(e *netlist.Element) (Device, error) {
-	p := modelParams{e: e}
-	is := p.nonNegative("is", 1e-14)
-	n := p.positive("n", 1)
-	rs := p.nonNegative("rs", 0)
-	cj := p.nonNegative("cj", 0)
-	bv := p.nonNegative("bv", 0)
-	ibv := p.positive("ibv", 1e-3)
-	if err := p.err(); err != nil {
-		return nil, err
-	}
-	d := &Diode{name: e.Name, nodes: e.Nodes, law: newDiodeLaw(is, n, bv, ibv), cj: cj}
+// newDiode builds a diode from its checked values.
+func newDiode(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	rs := v.Num("rs")
+	d := &Diode{name: name, nodes: nodes, law: newDiodeLaw(v.Num("is"), v.Num("n"), v.Num("vbr"), v.Num("it")), cj: v.Num("cj")}
 	if rs > 0 {
 		d.grs = 1 / rs
 	}

@@ -4,8 +4,6 @@ import (
 	"fmt"
 	"math"
 	"testing"
-
-	"zapnet/netlist"
 )
 
 func TestDiodeCurrentMatchesContract(t *testing.T) {
@@ -16,11 +14,11 @@ func TestDiodeCurrentMatchesContract(t *testing.T) {
 		{1e-14, 1, 5.1, 1e-3},
 		{2e-9, 1.9, 12, 5e-3},
 	} {
-		num := map[string]float64{"is": par.is, "n": par.n, "ibv": par.ibv}
+		num := map[string]float64{"is": par.is, "n": par.n, "it": par.ibv}
 		if par.bv > 0 {
-			num["bv"] = par.bv
+			num["vbr"] = par.bv
 		}
-		r := newNLRig(t, nlMust(t, nlElement(netlist.Diode, "D1", "a", "gnd", num, nil)), 0, Ground)
+		r := newNLRig(t, nlMust(t, nlElement("diode", "D1", "a", "gnd", num, nil)), 0, Ground)
 		for v := -par.bv - 0.4; v <= 0.85; v += 0.01 {
 			r.settle(t, []float64{v})
 			want := diodeIRef(v, par.is, par.n, par.bv, par.ibv)
@@ -31,7 +29,7 @@ func TestDiodeCurrentMatchesContract(t *testing.T) {
 	}
 	// Defaults (MODELS.md): is = 1e-14 A, n = 1, no breakdown: at 0.6 V
 	// i = 1e-14·(e^(0.6/Vt) − 1) [calc].
-	r := newNLRig(t, nlMust(t, nlElement(netlist.Diode, "D1", "a", "gnd", nil, nil)), 0, Ground)
+	r := newNLRig(t, nlMust(t, nlElement("diode", "D1", "a", "gnd", nil, nil)), 0, Ground)
 	r.settle(t, []float64{0.6})
 	if want := 1e-14 * (math.Exp(0.6/vtRef) - 1); !nlClose(r.c.F[0], want, 1e-12, 0) {
 		t.Errorf("default diode at 0.6 V: %g A, want %g A", r.c.F[0], want)
@@ -42,10 +40,10 @@ func TestDiodeJacobian(t *testing.T) {
 	for vi, num := range []map[string]float64{
 		{},
 		{"rs": 2, "cj": 5e-12},
-		{"bv": 5.1, "rs": 0.5},
-		{"bv": 12, "ibv": 5e-3, "is": 2e-9, "n": 1.9, "cj": 1e-12},
+		{"vbr": 5.1, "rs": 0.5},
+		{"vbr": 12, "it": 5e-3, "is": 2e-9, "n": 1.9, "cj": 1e-12},
 	} {
-		d := nlMust(t, nlElement(netlist.Diode, "D1", "a", "c", num, nil)).(*Diode)
+		d := nlMust(t, nlElement("diode", "D1", "a", "c", num, nil)).(*Diode)
 		for _, c := range []int{1, Ground} {
 			r := newNLRig(t, d, 0, c)
 			r.c.Gmin = 1e-12
@@ -66,7 +64,7 @@ func TestDiodeLimitingAndNewton(t *testing.T) {
 	// breakdown past −bv is cut the same way in w = −v − bv (NUMERICS.md,
 	// classic damping) [calc].
 	bv, n := 5.1, 1.5
-	d := nlMust(t, nlElement(netlist.Diode, "D1", "a", "gnd", map[string]float64{"bv": bv, "n": n, "rs": 0.5}, nil)).(*Diode)
+	d := nlMust(t, nlElement("diode", "D1", "a", "gnd", map[string]float64{"vbr": bv, "n": n, "rs": 0.5}, nil)).(*Diode)
 	r := newNLRig(t, d, 0, Ground)
 	nvt := n * vtRef
 	for _, tc := range []struct{ v, want float64 }{

@@ -1,10 +1,6 @@
 package devices
 
-import (
-	"fmt"
-
-	"zapnet/netlist"
-)
+import "zapnet/devices/spec"
 
 // inductor is the chain a –r– m –L– b (MODELS.md, linear parts) with its
 // branch current as an unknown and the flux L·i as its one state. Without r,
@@ -17,18 +13,21 @@ type inductor struct {
 	br      int
 }
 
-func init() { Register(netlist.Inductor, newInductor) }
+func init() {
+	Register(&Kind{Kind: spec.Kind{
+		Name: "inductor", Summary: "an inductor with optional series resistance", Terminals: [2]string{"a", "b"},
+		Role: spec.Storage, Order: 30, IdealWithout: "r",
+		Table: spec.Table{Params: []spec.Param{
+			spec.Required("value", spec.Henry, spec.Positive).Scales().
+				WarnAbove(1e-3, "inductor %s is %s: unusually large for a protection path (nanohenries are usual)"),
+			spec.Default("r", spec.Ohm, spec.NonNegative, 0),
+		}},
+	}, New: newInductor})
+}
 
-func newInductor(e *netlist.Element) (Device, error) {
-	l := e.Get("value")
-	if !(l > 0) || l > maxLinearValue {
-		return nil, fmt.Errorf("%s: %s: inductance must be positive and finite, have %g H", e.Pos, e.Name, l)
-	}
-	r, err := linearParasitic(e, "r", "ohm")
-	if err != nil {
-		return nil, err
-	}
-	d := &inductor{name: e.Name, nodes: e.Nodes, l: l}
+func newInductor(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	r := v.Num("r")
+	d := &inductor{name: name, nodes: nodes, l: v.Num("value")}
 	if r > 0 {
 		d.g = 1 / r
 	}

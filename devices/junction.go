@@ -28,12 +28,7 @@ package devices
 // the next Newton step starts from ul; it also sets Context.Limited so the
 // engine does not take the iterate as converged.
 
-import (
-	"fmt"
-	"math"
-
-	"zapnet/netlist"
-)
+import "math"
 
 // Physical constants (SI, exact since the 2019 redefinition) and the fixed
 // junction temperature of MODELS.md.
@@ -156,12 +151,17 @@ type clampLaw struct {
 
 func newClampLaw(vbr, it, nbr, is, n float64, bi bool) clampLaw {
 	nbrVt := nbr * ThermalVoltage
-	return clampLaw{
-		bi:    bi,
-		br:    newExpTerm(it, nbrVt, 1, vbr),
-		brOff: it * math.Exp(-vbr/nbrVt),
-		fw:    newExpTerm(is, n*ThermalVoltage, -1, 0),
+	l := clampLaw{
+		bi: bi,
+		br: newExpTerm(it, nbrVt, 1, vbr),
+		fw: newExpTerm(is, n*ThermalVoltage, -1, 0),
 	}
+	// The offset as the term itself evaluates it at u = 0, rounding and
+	// all, so that i(0) is exactly zero: a circuit at rest then rests at
+	// exactly zero, not at the 1e-117 V its rounding would leave.
+	l.brOff, _ = l.br.eval(0)
+	l.br.memo = false
+	return l
 }
 
 // current returns i(u) and di/du.
@@ -223,19 +223,19 @@ func (l *clampLaw) gradedCharge(u float64) (q, c float64) {
 // diodeLaw is the diode of MODELS.md, current from anode to cathode as a
 // function of v = v(anode) − v(cathode):
 //
-//	i(v) = is·[exp(v/(n·Vt)) − 1] − ibv·exp(−(v+bv)/(n·Vt))   (last term only when bv > 0)
+//	i(v) = is·[exp(v/(n·Vt)) − 1] − it·exp(−(v+vbr)/(n·Vt))   (last term only when vbr > 0)
 type diodeLaw struct {
 	fw    expTerm // is·exp(v/(n·Vt))
 	hasBv bool
-	bv    expTerm // ibv·exp((−v−bv)/(n·Vt))
+	bv    expTerm // it·exp((−v−vbr)/(n·Vt))
 }
 
-func newDiodeLaw(is, n, bv, ibv float64) diodeLaw {
+func newDiodeLaw(is, n, vbr, it float64) diodeLaw {
 	nVt := n * ThermalVoltage
 	l := diodeLaw{fw: newExpTerm(is, nVt, 1, 0)}
-	if bv > 0 {
+	if vbr > 0 {
 		l.hasBv = true
-		l.bv = newExpTerm(ibv, nVt, -1, bv)
+		l.bv = newExpTerm(it, nVt, -1, vbr)
 	}
 	return l
 }
@@ -314,58 +314,4 @@ func branchKCL(c *Context, a, b, br int) {
 		J[b*n+br]--
 		J[br*n+b]--
 	}
-}
-
-// modelParams reads an element's numeric parameters with defaults and
-// collects the complaints of the model's own checks, so that a constructor
-// reports every bad value at once.
-type modelParams struct {
-	e    *netlist.Element
-	errs []string
-}
-
-// get returns key or def when absent.
-func (p *modelParams) get(key string, def float64) float64 { return p.e.GetOr(key, def) }
-
-// positive returns key (or def) and complains unless it is > 0.
-func (p *modelParams) positive(key string, def float64) float64 {
-	v := p.get(key, def)
-	if !(v > 0) || math.IsInf(v, 0) {
-		p.errs = append(p.errs, fmt.Sprintf("%s must be > 0, got %g", key, v))
-	}
-	return v
-}
-
-// nonNegative returns key (or def) and complains unless it is >= 0.
-func (p *modelParams) nonNegative(key string, def float64) float64 {
-	v := p.get(key, def)
-	if !(v >= 0) || math.IsInf(v, 0) {
-		p.errs = append(p.errs, fmt.Sprintf("%s must be >= 0, got %g", key, v))
-	}
-	return v
-}
-
-// require complains when key is absent.
-func (p *modelParams) require(key string) {
-	if !p.e.Has(key) {
-		p.errs = append(p.errs, key+" is required")
-	}
-}
-
-// complain adds a free-form problem.
-func (p *modelParams) complain(format string, args ...any) {
-	p.errs = append(p.errs, fmt.Sprintf(format, args...))
-}
-
-// err is nil when nothing was wrong; otherwise one error naming the
-// element, its position and every problem.
-func (p *modelParams) err() error {
-	if len(p.errs) == 0 {
-		return nil
-	}
-	msg := p.errs[0]
-	for _, s := range p.errs[1:] {
-		msg += "; " + s
-	}
-	return fmt.Errorf("%s: %s %s: %s", p.e.Pos, p.e.Kind, p.e.Name, msg)
 }

@@ -1,6 +1,10 @@
 package devices
 
-import "zapnet/netlist"
+import (
+	"math"
+
+	"zapnet/devices/spec"
+)
 
 // Line is the lossless transmission line of MODELS.md between the ports in
 // and out, each referred to gnd, with characteristic impedance z0 and
@@ -48,23 +52,25 @@ type Line struct {
 	h1, h2  float64 // history currents at cacheT − delay
 }
 
-func init() { Register(netlist.Line, NewLine) }
+func init() {
+	Register(&Kind{Kind: spec.Kind{
+		Name: "line", Summary: "a lossless transmission line whose return is gnd",
+		Terminals: [2]string{"in", "out"}, Role: spec.Carrier, Order: 90, DC: spec.ToReference,
+		Table: spec.Table{Params: []spec.Param{
+			spec.Required("z0", spec.Ohm, spec.Positive),
+			spec.Required("delay", spec.Second, spec.Positive),
+		}},
+	}, New: newLine})
+}
 
 // lineHistoryCap is the initial history capacity; it grows (outside Eval)
 // when a run keeps more points within one delay.
 const lineHistoryCap = 256
 
-// NewLine builds a line from its element.
-func NewLine(e *netlist.Element) (Device, error) {
-	p := modelParams{e: e}
-	p.require("z0")
-	p.require("delay")
-	z0 := p.positive("z0", 50)
-	delay := p.positive("delay", 1e-9)
-	if err := p.err(); err != nil {
-		return nil, err
-	}
-	d := &Line{name: e.Name, nodes: e.Nodes, z0: z0, g: 1 / z0, delay: delay}
+// newLine builds a line from its checked values.
+func newLine(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	z0 := v.Num("z0")
+	d := &Line{name: name, nodes: nodes, z0: z0, g: 1 / z0, delay: v.Num("delay")}
 	d.allocHistory(lineHistoryCap)
 	return d, nil
 }
@@ -224,4 +230,32 @@ func (d *Line) grow() {
 		}
 	}
 	d.head = 0
+}
+
+// StampAC implements SmallSignal with the line's exact frequency-domain
+// equations. With e = e^(−jωT) the characteristic equations above read
+//
+//	i1 = v1/z0 − e·(v2/z0 + i2),   i2 = v2/z0 − e·(v1/z0 + i1).
+//
+// The branch unknown carries i1; eliminating i2 from the first equation
+// gives the branch row
+//
+//	z0·(1 − e²)·i1 − (1 + e²)·v1 + 2e·v2 = 0
+//
+// and the second is the current into the out port. Unlike the admittance
+// parameters (−j·cot(ωT)/z0 and j/(z0·sin ωT), which they equal), these
+// stay finite at every frequency: where ωT is a multiple of π the branch row
+// becomes v1 = ±v2 and i1 is fixed by the rest of the circuit. At ω = 0 they
+// are the wire of the operating point.
+func (d *Line) StampAC(c *ACContext) {
+	e := complex(math.Cos(c.Omega*d.delay), -math.Sin(c.Omega*d.delay))
+	e2 := e * e
+	g := complex(d.g, 0)
+	c.Add(d.in, d.br, 1)
+	c.Add(d.out, d.out, g)
+	c.Add(d.out, d.in, -e*g)
+	c.Add(d.out, d.br, -e)
+	c.Add(d.br, d.br, complex(d.z0, 0)*(1-e2))
+	c.Add(d.br, d.in, -(1 + e2))
+	c.Add(d.br, d.out, 2*e)
 }

@@ -4,15 +4,13 @@ import (
 	"fmt"
 	"math"
 	"testing"
-
-	"zapnet/netlist"
 )
 
 // lineRig is a line from node 0 (in) to node 1 (out), driven at in by vs(t)
 // behind rs and loaded at out by rl (0: open).
 func lineRig(t *testing.T, z0, delay, rs, rl float64, vs func(float64) float64) (*Line, *nlRig) {
 	t.Helper()
-	d := nlMust(t, nlElement(netlist.Line, "TL1", "in", "out", map[string]float64{"z0": z0, "delay": delay}, nil)).(*Line)
+	d := nlMust(t, nlElement("line", "TL1", "in", "out", map[string]float64{"z0": z0, "delay": delay}, nil)).(*Line)
 	r := newNLRig(t, d, 0, 1)
 	r.extra = func(c *Context) {
 		c.Conductance(0, Ground, 1/rs)
@@ -106,7 +104,7 @@ func TestLineHistory(t *testing.T) {
 	// point holds. Many points per delay force the storage to grow; old
 	// points are dropped once no query can reach them.
 	const delay = 1e-9
-	d := nlMust(t, nlElement(netlist.Line, "TL1", "in", "out", map[string]float64{"z0": 50, "delay": delay}, nil)).(*Line)
+	d := nlMust(t, nlElement("line", "TL1", "in", "out", map[string]float64{"z0": 50, "delay": delay}, nil)).(*Line)
 	r := newNLRig(t, d, 0, 1)
 	// Operating point: 1 V at both ends, 5 mA through the wire.
 	r.c.DC = true
@@ -189,14 +187,14 @@ func TestLineHistory(t *testing.T) {
 }
 
 func TestLineJacobian(t *testing.T) {
-	d := nlMust(t, nlElement(netlist.Line, "TL1", "in", "out", map[string]float64{"z0": 90, "delay": 1e-9}, nil)).(*Line)
+	d := nlMust(t, nlElement("line", "TL1", "in", "out", map[string]float64{"z0": 90, "delay": 1e-9}, nil)).(*Line)
 	for _, dc := range []bool{true, false} {
 		r := newNLRig(t, d, 0, 1)
 		r.c.DC, r.c.T = dc, 0.5e-9
 		d.Accept(0, []float64{0.3, 0.2, 1e-3})
 		r.checkJacobian(t, nlRandom(r.n, 1, 5), fmt.Sprintf("line dc=%v", dc))
 	}
-	if _, err := New(nlElement(netlist.Line, "TL1", "in", "out", map[string]float64{"z0": 50}, nil)); err == nil {
+	if _, err := build(nlElement("line", "TL1", "in", "out", map[string]float64{"z0": 50}, nil)); err == nil {
 		t.Error("line without delay accepted")
 	}
 }

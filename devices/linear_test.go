@@ -4,20 +4,17 @@ import (
 	"math"
 	"strings"
 	"testing"
-
-	"zapnet/netlist"
 )
 
-func linearElement(kind netlist.Kind, value float64, kv ...float64) *netlist.Element {
-	e := &netlist.Element{Kind: kind, Name: "X1", Nodes: [2]string{"a", "b"},
-		Num: map[string]float64{"value": value}}
-	keys := map[netlist.Kind][]string{
-		netlist.Capacitor: {"esr", "esl"},
-		netlist.Inductor:  {"r"},
-		netlist.Supply:    {"r"},
+func linearElement(kind string, value float64, kv ...float64) testElement {
+	e := nlElement(kind, "X1", "a", "b", map[string]float64{"value": value}, nil)
+	keys := map[string][]string{
+		"capacitor": {"esr", "esl"},
+		"inductor":  {"r"},
+		"supply":    {"r"},
 	}[kind]
 	for i, v := range kv {
-		e.Num[keys[i]] = v
+		e.num[keys[i]] = v
 	}
 	return e
 }
@@ -28,21 +25,21 @@ func linearElement(kind netlist.Kind, value float64, kv ...float64) *netlist.Ele
 func TestLinearLayoutsAndJacobians(t *testing.T) {
 	for _, c := range []struct {
 		name               string
-		e                  *netlist.Element
+		e                  testElement
 		internal, branches int
 		states             int
 	}{
-		{"resistor", linearElement(netlist.Resistor, 47), 0, 0, 0},
-		{"capacitor", linearElement(netlist.Capacitor, 1e-9), 0, 0, 1},
-		{"capacitor esr", linearElement(netlist.Capacitor, 1e-9, 0.02), 1, 0, 1},
-		{"capacitor esl", linearElement(netlist.Capacitor, 1e-9, 0, 0.5e-9), 1, 1, 2},
-		{"capacitor esr esl", linearElement(netlist.Capacitor, 1e-9, 0.02, 0.5e-9), 2, 1, 2},
-		{"inductor", linearElement(netlist.Inductor, 1e-6), 0, 1, 1},
-		{"inductor r", linearElement(netlist.Inductor, 1e-6, 0.3), 1, 1, 1},
-		{"supply", linearElement(netlist.Supply, 3.3), 0, 1, 0},
-		{"supply r", linearElement(netlist.Supply, 3.3, 50), 0, 0, 0},
+		{"resistor", linearElement("resistor", 47), 0, 0, 0},
+		{"capacitor", linearElement("capacitor", 1e-9), 0, 0, 1},
+		{"capacitor esr", linearElement("capacitor", 1e-9, 0.02), 1, 0, 1},
+		{"capacitor esl", linearElement("capacitor", 1e-9, 0, 0.5e-9), 1, 1, 2},
+		{"capacitor esr esl", linearElement("capacitor", 1e-9, 0.02, 0.5e-9), 2, 1, 2},
+		{"inductor", linearElement("inductor", 1e-6), 0, 1, 1},
+		{"inductor r", linearElement("inductor", 1e-6, 0.3), 1, 1, 1},
+		{"supply", linearElement("supply", 3.3), 0, 1, 0},
+		{"supply r", linearElement("supply", 3.3, 50), 0, 0, 0},
 	} {
-		d, err := New(c.e)
+		d, err := build(c.e)
 		if err != nil {
 			t.Fatalf("%s: %v", c.name, err)
 		}
@@ -73,8 +70,8 @@ func TestLinearLayoutsAndJacobians(t *testing.T) {
 // supply's branch equation is va − vb − s·V; a capacitor's charge is C·(vl − vb)
 // and an inductor's flux L·i.
 func TestLinearStaticValues(t *testing.T) {
-	eval := func(e *netlist.Element, x []float64, scale float64) *nlRig {
-		d, err := New(e)
+	eval := func(e testElement, x []float64, scale float64) *nlRig {
+		d, err := build(e)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -88,41 +85,41 @@ func TestLinearStaticValues(t *testing.T) {
 			t.Errorf("%s = %.12g, want %.12g", what, got, want)
 		}
 	}
-	r := eval(linearElement(netlist.Resistor, 50), []float64{5, 2}, 1)
+	r := eval(linearElement("resistor", 50), []float64{5, 2}, 1)
 	near("resistor F[a]", r.c.F[0], 3.0/50)
 	near("resistor F[b]", r.c.F[1], -3.0/50)
 
-	r = eval(linearElement(netlist.Supply, 3.3, 50), []float64{5, 1}, 0.5)
+	r = eval(linearElement("supply", 3.3, 50), []float64{5, 1}, 0.5)
 	near("supply r F[a]", r.c.F[0], (5-1-0.5*3.3)/50)
 
-	r = eval(linearElement(netlist.Supply, 3.3), []float64{5, 1, 0.25}, 1)
+	r = eval(linearElement("supply", 3.3), []float64{5, 1, 0.25}, 1)
 	near("supply branch row", r.c.F[2], 5-1-3.3)
 	near("supply F[a]", r.c.F[0], 0.25)
 	near("supply F[b]", r.c.F[1], -0.25)
 
-	r = eval(linearElement(netlist.Capacitor, 2e-9), []float64{5, 1}, 1)
+	r = eval(linearElement("capacitor", 2e-9), []float64{5, 1}, 1)
 	near("capacitor charge", r.c.Q[0], 2e-9*4)
 
-	r = eval(linearElement(netlist.Inductor, 3e-6), []float64{5, 1, 0.5}, 1)
+	r = eval(linearElement("inductor", 3e-6), []float64{5, 1, 0.5}, 1)
 	near("inductor flux", r.c.Q[0], 3e-6*0.5)
 	near("inductor branch row", r.c.F[2], 4)
 }
 
 // Values the models cannot use are errors that name the element.
 func TestLinearBadValues(t *testing.T) {
-	for _, e := range []*netlist.Element{
-		linearElement(netlist.Resistor, 0),
-		linearElement(netlist.Resistor, -5),
-		linearElement(netlist.Capacitor, 0),
-		linearElement(netlist.Capacitor, 1e-9, -1),
-		linearElement(netlist.Capacitor, 1e-9, 0, -1e-9),
-		linearElement(netlist.Inductor, math.Inf(1)),
-		linearElement(netlist.Inductor, 1e-9, -2),
-		linearElement(netlist.Supply, math.NaN()),
-		linearElement(netlist.Supply, 5, -1),
+	for _, e := range []testElement{
+		linearElement("resistor", 0),
+		linearElement("resistor", -5),
+		linearElement("capacitor", 0),
+		linearElement("capacitor", 1e-9, -1),
+		linearElement("capacitor", 1e-9, 0, -1e-9),
+		linearElement("inductor", math.Inf(1)),
+		linearElement("inductor", 1e-9, -2),
+		linearElement("supply", math.NaN()),
+		linearElement("supply", 5, -1),
 	} {
-		if _, err := New(e); err == nil || !strings.Contains(err.Error(), "X1") {
-			t.Errorf("%s %v: got %v, want an error naming X1", e.Kind, e.Num, err)
+		if _, err := build(e); err == nil || !strings.Contains(err.Error(), "X1") {
+			t.Errorf("%s %v: got %v, want an error naming X1", e.kind, e.num, err)
 		}
 	}
 }

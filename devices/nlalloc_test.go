@@ -4,7 +4,6 @@ import (
 	"math"
 	"testing"
 
-	"zapnet/netlist"
 	"zapnet/waveforms"
 )
 
@@ -16,7 +15,7 @@ type nlCase struct {
 }
 
 func nlCases() []nlCase {
-	plain := func(e *netlist.Element, terms ...int) func(tb testing.TB) *nlRig {
+	plain := func(e testElement, terms ...int) func(tb testing.TB) *nlRig {
 		return func(tb testing.TB) *nlRig {
 			r := newNLRig(tb, nlMust(tb, e), terms...)
 			r.c.Gmin, r.c.Alpha, r.c.T = 1e-12, 1e9, 1e-9
@@ -26,7 +25,7 @@ func nlCases() []nlCase {
 	}
 	strike := func(st *waveforms.Stimulus) func(tb testing.TB) *nlRig {
 		return func(tb testing.TB) *nlRig {
-			d := nlMust(tb, nlElement(netlist.Strike, "zap", "n", "gnd", nil, nil)).(*Strike)
+			d := nlMust(tb, nlElement("strike", "zap", "n", "gnd", nil, nil)).(*Strike)
 			d.SetStimulus(st, -1)
 			r := newNLRig(tb, d, 0, Ground)
 			r.c.Alpha, r.c.T = 1e9, 1e-9
@@ -34,7 +33,7 @@ func nlCases() []nlCase {
 		}
 	}
 	line := func(tb testing.TB) *nlRig {
-		d := nlMust(tb, nlElement(netlist.Line, "TL1", "in", "out", map[string]float64{"z0": 50, "delay": 1e-9}, nil)).(*Line)
+		d := nlMust(tb, nlElement("line", "TL1", "in", "out", map[string]float64{"z0": 50, "delay": 1e-9}, nil)).(*Line)
 		r := newNLRig(tb, d, 0, 1)
 		for k := range 300 {
 			d.Accept(float64(k)*1e-11, []float64{math.Sin(float64(k)), 0.5, 0})
@@ -44,13 +43,13 @@ func nlCases() []nlCase {
 	}
 	ramp := func(tm float64) float64 { return 1e9 * tm }
 	return []nlCase{
-		{"clamp", plain(nlElement(netlist.Clamp, "D1", "a", "gnd", map[string]float64{"vbr": 6.8}, nil), 0, Ground)},
-		{"clamp-full", plain(nlElement(netlist.Clamp, "D1", "a", "gnd", map[string]float64{"vbr": 6.8, "rdyn": 0.3, "ls": 0.5e-9, "cj": 10e-12, "m": 0.4}, map[string]string{"polarity": "bi"}), 0, Ground)},
-		{"diode", plain(nlElement(netlist.Diode, "D2", "a", "gnd", map[string]float64{"bv": 5, "rs": 1, "cj": 1e-12}, nil), 0, Ground)},
-		{"pin", plain(nlElement(netlist.Pin, "U1", "p", "gnd", map[string]float64{"cin": 5e-12}, map[string]string{"rail": "vdd"}), 0, Ground, 1)},
-		{"pin-vbr", plain(nlElement(netlist.Pin, "U1", "p", "gnd", map[string]float64{"cin": 5e-12, "vbr": 5.5, "rdyn": 1}, nil), 0, Ground)},
-		{"bead", plain(nlElement(netlist.Bead, "FB1", "a", "b", beadNum, nil), 0, 1)},
-		{"bead-isat", plain(nlElement(netlist.Bead, "FB1", "a", "b", map[string]float64{"rdc": 0.1, "rac": 500, "l": 1e-6, "c": 1e-12, "isat": 0.2}, nil), 0, 1)},
+		{"clamp", plain(nlElement("clamp", "D1", "a", "gnd", map[string]float64{"vbr": 6.8}, nil), 0, Ground)},
+		{"clamp-full", plain(nlElement("clamp", "D1", "a", "gnd", map[string]float64{"vbr": 6.8, "rdyn": 0.3, "ls": 0.5e-9, "cj": 10e-12, "m": 0.4}, map[string]string{"polarity": "bi"}), 0, Ground)},
+		{"diode", plain(nlElement("diode", "D2", "a", "gnd", map[string]float64{"vbr": 5, "rs": 1, "cj": 1e-12}, nil), 0, Ground)},
+		{"pin", plain(nlElement("pin", "U1", "p", "gnd", map[string]float64{"cin": 5e-12}, map[string]string{"rail": "vdd"}), 0, Ground, 1)},
+		{"pin-vbr", plain(nlElement("pin", "U1", "p", "gnd", map[string]float64{"cin": 5e-12, "vbr": 5.5, "rdyn": 1}, nil), 0, Ground)},
+		{"bead", plain(nlElement("bead", "FB1", "a", "b", beadNum, nil), 0, 1)},
+		{"bead-isat", plain(nlElement("bead", "FB1", "a", "b", map[string]float64{"rdc": 0.1, "rac": 500, "l": 1e-6, "c": 1e-12, "isat": 0.2}, nil), 0, 1)},
 		{"line", line},
 		{"strike-current", strike(&waveforms.Stimulus{Form: waveforms.Current, F: ramp})},
 		{"strike-thevenin", strike(&waveforms.Stimulus{Form: waveforms.Thevenin, F: ramp, R: 50})},

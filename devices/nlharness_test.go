@@ -11,8 +11,6 @@ import (
 	"fmt"
 	"math"
 	"testing"
-
-	"zapnet/netlist"
 )
 
 type nlRig struct {
@@ -238,17 +236,58 @@ func nlSolveDense(a, b []float64, n int) error {
 	return nil
 }
 
+// testElement is an element as a test writes it in code: its kind's name,
+// its name, its nodes and the parameters it states.
+type testElement struct {
+	kind  string
+	name  string
+	nodes [2]string
+	num   map[string]float64
+	str   map[string]string
+}
+
 // nlElement builds an element as a test would write it in code.
-func nlElement(kind netlist.Kind, name, a, b string, num map[string]float64, str map[string]string) *netlist.Element {
-	return &netlist.Element{Kind: kind, Name: name, Nodes: [2]string{a, b}, Num: num, Str: str}
+func nlElement(kind, name, a, b string, num map[string]float64, str map[string]string) testElement {
+	return testElement{kind: kind, name: name, nodes: [2]string{a, b}, num: num, str: str}
+}
+
+// build makes the device of e as the deck checker would hand it to the
+// model: every value through its kind's table (its rule checked, the
+// defaults filled in, the required ones present).
+func build(e testElement) (Device, error) {
+	k := Lookup(e.kind)
+	if k == nil {
+		return nil, fmt.Errorf("%s: no kind %q", e.name, e.kind)
+	}
+	v := k.Values()
+	for key, x := range e.num {
+		if k.Param(key) == nil {
+			return nil, fmt.Errorf("%s: a %s has no parameter %s", e.name, e.kind, key)
+		}
+		if err := v.Set(key, x); err != nil {
+			return nil, fmt.Errorf("%s: %w", e.name, err)
+		}
+	}
+	for key, w := range e.str {
+		if err := v.SetWord(key, w); err != nil {
+			return nil, fmt.Errorf("%s: %w", e.name, err)
+		}
+	}
+	v.FillDefaults()
+	for _, p := range k.Params {
+		if p.Required && !v.Has(p.Key) {
+			return nil, fmt.Errorf("%s: %s %s needs %s", e.name, e.kind, e.name, p.Key)
+		}
+	}
+	return k.New(e.name, e.nodes, &v)
 }
 
 // nlMust builds the device of e or fails the test.
-func nlMust(t testing.TB, e *netlist.Element) Device {
+func nlMust(t testing.TB, e testElement) Device {
 	t.Helper()
-	d, err := New(e)
+	d, err := build(e)
 	if err != nil {
-		t.Fatalf("%s: %v", e.Name, err)
+		t.Fatalf("%s: %v", e.name, err)
 	}
 	return d
 }

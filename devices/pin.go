@@ -1,6 +1,6 @@
 package devices
 
-import "zapnet/netlist"
+import "zapnet/devices/spec"
 
 // Pin is the protected IC input of MODELS.md: node p, reference r and an
 // optional supply rail.
@@ -43,28 +43,60 @@ type Pin struct {
 	gmin             float64 // the engine's gmin at the last Eval, for Probe
 }
 
-func init() { Register(netlist.Pin, NewPin) }
+func init() {
+	Register(&Kind{Kind: spec.Kind{
+		Name: "pin", Summary: "the protected IC input: cin, its ESD diodes, an optional internal clamp",
+		Terminals: [2]string{"node", "ref"}, Role: spec.ProtectedPin, Order: 70,
+		Table: spec.Table{
+			Params: []spec.Param{
+				spec.Default("cin", spec.Farad, spec.NonNegative, 0).Scales().
+					WarnAbove(1e-9, "pin %s has cin %s: unusually large for an IC input"),
+				spec.Default("is", spec.Ampere, spec.Positive, 1e-14).As(spec.Model),
+				spec.Default("n", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+				spec.Default("rs", spec.Ohm, spec.NonNegative, 1),
+				spec.Optional("vbr", spec.Volt, spec.Positive).Noted("the internal clamp"),
+				spec.Default("it", spec.Ampere, spec.Positive, 1e-3).Only("vbr").As(spec.Model),
+				spec.Default("nbr", spec.Dimensionless, spec.Positive, 1).Only("vbr").As(spec.Model),
+				spec.Default("rdyn", spec.Ohm, spec.NonNegative, 0).Only("vbr").
+					WarnAbove(100, "pin %s has rdyn %s: unusually high"),
+				spec.Limit("vmax", spec.Volt, spec.Any, spec.HighVoltage, true, "residual peak"),
+				spec.Limit("vmin", spec.Volt, spec.Any, spec.LowVoltage, false, "residual low"),
+				spec.Limit("ifail", spec.Ampere, spec.Positive, spec.PeakCurrent, true, "internal clamp current").Of("ipath"),
+				// The signal side's limits, judged by the small-signal
+				// study and the edge check, not by a strike's run: the
+				// peaking of the transfer to the pin (dB), the capacitance
+				// the pin's node sees and the 10–90 % rise of an edge there.
+				spec.Optional("peaking", spec.Dimensionless, spec.Positive).As(spec.Rating),
+				spec.Optional("cmax", spec.Farad, spec.Positive).As(spec.Rating),
+				spec.Optional("rise", spec.Second, spec.Positive).As(spec.Rating),
+			},
+			Words: []spec.Word{
+				{Key: "rail", Node: true, Fixed: true},
+				{Key: "table", Path: true, Fixed: true},
+				{Key: "ibis", Path: true, Fixed: true, Caution: ibisCaution},
+				{Key: "model"},
+				{Key: "corner", Choices: []string{"typ", "min", "max"}},
+			},
+		},
+	}, New: newPin})
+}
 
-// NewPin builds a protected pin from its element.
-func NewPin(e *netlist.Element) (Device, error) {
-	p := modelParams{e: e}
-	cin := p.nonNegative("cin", 0)
-	is := p.nonNegative("is", 1e-14)
-	n := p.positive("n", 1)
-	rs := p.nonNegative("rs", 1)
-	d := &Pin{name: e.Name, nodes: e.Nodes, cin: cin}
+// newPin builds a protected pin from its checked values.
+func newPin(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	if v.Word("table") != "" || v.Word("ibis") != "" || v.Word("model") != "" {
+		return newTablePin(name, nodes, v)
+	}
+	is, n, rs := v.Num("is"), v.Num("n"), v.Num("rs")
+	d := &Pin{name: name, nodes: nodes, cin: v.Num("cin")}
 	rLow := rs
-	if e.Has("vbr") {
-		vbr := p.positive("vbr", 0)
-		it := p.positive("it", 1e-3)
-		nbr := p.positive("nbr", 1)
-		rLow += p.nonNegative("rdyn", 0)
+	if vbr, ok := v.Lookup("vbr"); ok {
+		rLow += v.Num("rdyn")
 		d.clamp = true
-		d.low = newClampLaw(vbr, it, nbr, is, n, false)
+		d.low = newClampLaw(vbr, v.Num("it"), v.Num("nbr"), is, n, false)
 	} else {
 		d.lowDio = newDiodeLaw(is, n, 0, 0)
 	}
-	if rail := e.Str["rail"]; rail != "" {
+	if rail := v.Word("rail"); rail != "" {
 		d.hasRail, d.rail = true, rail
 		d.upDio = newDiodeLaw(is, n, 0, 0)
 		if rs > 0 {
@@ -73,9 +105,6 @@ func NewPin(e *netlist.Element) (Device, error) {
 	}
 	if rLow > 0 {
 		d.gLow = 1 / rLow
-	}
-	if err := p.err(); err != nil {
-		return nil, err
 	}
 	return d, nil
 }
@@ -148,34 +177,28 @@ func (d *Pin) Eval(c *Context) {
 }
 
 // Probes implements Prober.
-func (d *Pin) Probes() []string { return []string{"ipath"} }
+func (d *Pin) Probes() []Probe { return []Probe{{Name: "ipath", Unit: spec.Ampere}} }
 
 // Probe implements Prober: dst[0] is ipath at the solution x.
 func (d *Pin) Probe(x []float64, dst []float64) {
-	at := func(i int) float64 {
-		if i < 0 {
-			return 0
-		}
-		return x[i]
-	}
 	var out float64
 	switch {
 	case d.gLow > 0:
-		out = (at(d.p) - at(d.kl)) * d.gLow
+		out = (at(x, d.p) - at(x, d.kl)) * d.gLow
 	case d.clamp:
-		u := at(d.kl) - at(d.r)
+		u := at(x, d.kl) - at(x, d.r)
 		i, _ := d.low.current(u)
 		out = i + d.gmin*u
 	default:
-		v := at(d.r) - at(d.kl)
+		v := at(x, d.r) - at(x, d.kl)
 		i, _ := d.lowDio.current(v)
 		out = -(i + d.gmin*v)
 	}
 	if d.hasRail {
 		if d.gUp > 0 {
-			out += (at(d.p) - at(d.ku)) * d.gUp
+			out += (at(x, d.p) - at(x, d.ku)) * d.gUp
 		} else {
-			v := at(d.ku) - at(d.rl)
+			v := at(x, d.ku) - at(x, d.rl)
 			i, _ := d.upDio.current(v)
 			out += i + d.gmin*v
 		}

@@ -4,8 +4,6 @@ import (
 	"fmt"
 	"math"
 	"testing"
-
-	"zapnet/netlist"
 )
 
 // diodeIRef is the MODELS.md diode law written straight from the contract.
@@ -43,7 +41,7 @@ func TestPinJacobian(t *testing.T) {
 		if v.rail {
 			str["rail"] = "vdd"
 		}
-		e := nlElement(netlist.Pin, "U1", "p", "r", v.num, str)
+		e := nlElement("pin", "U1", "p", "r", v.num, str)
 		d := nlMust(t, e).(*Pin)
 		terms := []int{0, 1}
 		if v.rail {
@@ -108,7 +106,7 @@ func TestPinPathCurrent(t *testing.T) {
 			str["rail"] = "vdd"
 			terms = append(terms, 1)
 		}
-		d := nlMust(t, nlElement(netlist.Pin, "U1", "p", "gnd", tc.num, str)).(*Pin)
+		d := nlMust(t, nlElement("pin", "U1", "p", "gnd", tc.num, str)).(*Pin)
 		r := newNLRig(t, d, terms...)
 		r.extra = func(c *Context) {
 			c.Inject(0, Ground, tc.curr)
@@ -134,12 +132,12 @@ func TestPinPathCurrent(t *testing.T) {
 
 func TestPinLayout(t *testing.T) {
 	// The rail is a third terminal; each path with rs > 0 has its own node.
-	d := nlMust(t, nlElement(netlist.Pin, "U1", "p", "gnd", map[string]float64{}, map[string]string{"rail": "vdd"}))
+	d := nlMust(t, nlElement("pin", "U1", "p", "gnd", map[string]float64{}, map[string]string{"rail": "vdd"}))
 	l := d.Layout()
 	if len(l.Terminals) != 3 || l.Terminals[2] != "vdd" || len(l.Internal) != 2 {
 		t.Errorf("layout %+v", l)
 	}
-	if p, ok := d.(Prober); !ok || len(p.Probes()) != 1 || p.Probes()[0] != "ipath" {
+	if p, ok := d.(Prober); !ok || len(p.Probes()) != 1 || p.Probes()[0].Name != "ipath" || p.Probes()[0].Unit != "A" {
 		t.Error("pin must probe ipath")
 	}
 }

@@ -1,12 +1,11 @@
 package devices
 
-import (
-	"fmt"
+import "zapnet/devices/spec"
 
-	"zapnet/netlist"
-)
-
-// resistor is i = v/R between its nodes (MODELS.md, linear parts).
+// resistor is i = v/R between its nodes (MODELS.md, linear parts). Its
+// pulse ratings are the energy it may absorb in one event (emax) and the
+// largest instantaneous power (pmax), as a pulse-withstanding resistor's
+// data give them.
 type resistor struct {
 	name  string
 	nodes [2]string
@@ -14,14 +13,21 @@ type resistor struct {
 	g     float64
 }
 
-func init() { Register(netlist.Resistor, newResistor) }
+func init() {
+	Register(&Kind{Kind: spec.Kind{
+		Name: "resistor", Summary: "a resistor, i = v/R", Terminals: [2]string{"a", "b"},
+		Role: spec.Passive, Order: 10,
+		Table: spec.Table{Params: []spec.Param{
+			spec.Required("value", spec.Ohm, spec.Positive).Scales().
+				WarnAbove(1e9, "resistor %s is %s: unusually large"),
+			spec.Limit("emax", spec.Joule, spec.Positive, spec.Energy, true, "energy"),
+			spec.Limit("pmax", spec.Watt, spec.Positive, spec.PeakPower, true, "peak power"),
+		}},
+	}, New: newResistor})
+}
 
-func newResistor(e *netlist.Element) (Device, error) {
-	r := e.Get("value")
-	if !(r > 0) || r > maxLinearValue {
-		return nil, fmt.Errorf("%s: %s: resistance must be positive and finite, have %g ohm", e.Pos, e.Name, r)
-	}
-	return &resistor{name: e.Name, nodes: e.Nodes, g: 1 / r}, nil
+func newResistor(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	return &resistor{name: name, nodes: nodes, g: 1 / v.Num("value")}, nil
 }
 
 func (d *resistor) Name() string { return d.name }
@@ -34,21 +40,6 @@ func (d *resistor) Bind(n Nodes) []StateRows {
 }
 
 func (d *resistor) Eval(c *Context) { c.Conductance(d.a, d.b, d.g) }
-
-// maxLinearValue rejects infinities (and absurd values that would make the
-// matrix meaningless) in the linear parts; the parser checks plausibility,
-// this only keeps the arithmetic finite.
-const maxLinearValue = 1e30
-
-// linearParasitic reads an optional series parasitic (esr, esl, r): absent or
-// zero means none; negative or non-finite is an error.
-func linearParasitic(e *netlist.Element, key, unit string) (float64, error) {
-	v := e.Get(key)
-	if v < 0 || v > maxLinearValue || v != v {
-		return 0, fmt.Errorf("%s: %s: %s must be zero or positive, have %g %s", e.Pos, e.Name, key, v, unit)
-	}
-	return v, nil
-}
 
 // stampBranch stamps an inductive branch whose current i (unknown br) flows
 // from node p to node m, with flux λ = l·i as local state k:

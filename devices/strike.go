@@ -1,16 +1,20 @@
 package devices
 
 import (
-	"zapnet/netlist"
+	"fmt"
+
+	"zapnet/devices/spec"
 	"zapnet/waveforms"
 )
 
 // Strike is the discharge between node and ref. Its stimulus and sign s
 // (+1 pos, −1 neg) are set per run with SetStimulus; the layout is fixed at
-// Bind so that one compiled system runs every stimulus. It always owns an
-// internal node x and a branch current i (the generator's discharge path);
-// forms that do not use them tie x to gnd through 1 S and force i = 0, which
-// keeps the matrix regular and costs nothing.
+// Bind so that one compiled system runs every level. It owns the unknowns of
+// its waveform's generator circuit (waveforms.GeneratorShape: for most
+// waveforms the charged network's internal node x and branch current i);
+// forms that do not use them tie each node to gnd through 1 S and force
+// each branch current to 0, which keeps the matrix regular and costs
+// nothing.
 //
 //	Current:  s·F(t) A injected into node, drawn from ref, in the transient;
 //	          nothing at the operating point (F(t) = 0 for t ≤ 0).
@@ -22,6 +26,8 @@ import (
 //	          At the operating point the switch is open: i = 0 and x is held
 //	          at s·V0 by 1 S from a source of s·V0 A, so the capacitor's charge
 //	          s·C·V0 enters the transient as its initial state.
+//	Generator (and Network, which is the same circuit): the stimulus's
+//	          circuit fragment, stamped by genNet (genfrag.go).
 //
 // A nil stimulus switches the strike off: the device stamps only the trivial
 // rows of x and i.
@@ -31,7 +37,12 @@ type Strike struct {
 	st    *waveforms.Stimulus
 	sign  float64
 
-	node, ref, x, br int
+	node, ref int
+	gen       *genNet
+	// frag is the circuit in force: the stimulus's Gen, or for a Network
+	// stimulus given by its C, R, L and V0 alone, that network; nil for
+	// the other forms.
+	frag *waveforms.Fragment
 
 	// The stimulus's value at time fT, kept because Newton evaluates the
 	// strike several times at one time point and the annex waveforms cost
@@ -41,21 +52,24 @@ type Strike struct {
 	fOK    bool
 }
 
-// Indices of the strike's states.
-const (
-	strikeCap  = 0
-	strikeFlux = 1
-)
-
 // strikeMinR keeps a Thevenin or Network generator with a non-positive R (a
 // stimulus the waveforms package should have refused) from dividing by zero.
 const strikeMinR = 1e-6
 
-func init() { Register(netlist.Strike, NewStrike) }
+// StrikeKind is the strike's description. Its parameters are those of its
+// waveform (package waveforms describes them), so its own table is empty.
+var StrikeKind = &Kind{Kind: spec.Kind{
+	Name: "strike", Summary: "the discharge or surge, injected into a node",
+	Terminals: [2]string{"node", "ref"}, Role: spec.Stimulus, Order: 100, DC: spec.Blocks,
+}, New: newStrike}
 
-// NewStrike builds the strike of an element; its stimulus comes later.
-func NewStrike(e *netlist.Element) (Device, error) {
-	return &Strike{name: e.Name, nodes: e.Nodes}, nil
+func init() { Register(StrikeKind) }
+
+// newStrike builds a strike; its stimulus comes with each run. The
+// generator circuit it makes room for is the one its waveform builds with
+// the strike's values v (of the waveform's table).
+func newStrike(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	return &Strike{name: name, nodes: nodes, gen: newGenNet(waveforms.GeneratorShape(v))}, nil
 }
 
 // Name implements Device.
@@ -63,28 +77,57 @@ func (d *Strike) Name() string { return d.name }
 
 // Layout implements Device.
 func (d *Strike) Layout() Layout {
+	in, br := d.gen.layout()
 	return Layout{
 		Terminals: []string{d.nodes[0], d.nodes[1]},
-		Internal:  []string{"x"},
-		Branches:  []string{"i"},
+		Internal:  in,
+		Branches:  br,
 	}
 }
 
 // Bind implements Device.
 func (d *Strike) Bind(n Nodes) []StateRows {
 	d.node, d.ref = n.Terminals[0], n.Terminals[1]
-	d.x, d.br = n.Internal[0], n.Branches[0]
-	return []StateRows{
-		strikeCap:  {Plus: d.x, Minus: d.ref},
-		strikeFlux: {Plus: Ground, Minus: d.br},
-	}
+	return d.gen.bind(d.node, d.ref, n)
 }
 
 // SetStimulus implements Striker. The stimulus is kept, not copied: it must
-// not change during a run.
+// not change during a run. A generator circuit of another shape than the
+// one the strike was built for is a programming error: the engine asks
+// Fits first.
 func (d *Strike) SetStimulus(s *waveforms.Stimulus, sign float64) {
+	f := circuitOf(s)
+	if f != nil && !d.gen.shape.SameShape(f) {
+		panic(d.Fits(s).Error())
+	}
 	d.st, d.sign = s, sign
 	d.fOK = false
+	d.frag = f
+}
+
+// circuitOf is the generator circuit of s: its Gen, or for a Network
+// stimulus given by its C, R, L and V0 alone, that network; nil for the
+// other forms.
+func circuitOf(s *waveforms.Stimulus) *waveforms.Fragment {
+	switch {
+	case s == nil:
+		return nil
+	case s.Gen != nil:
+		return s.Gen
+	case s.Form == waveforms.Network:
+		return waveforms.NetworkFragment(s.V0, s.C, s.R, s.L)
+	}
+	return nil
+}
+
+// Fits reports whether the strike can run s: a stimulus with a generator
+// circuit must have the shape the strike was built for.
+func (d *Strike) Fits(s *waveforms.Stimulus) error {
+	f := circuitOf(s)
+	if f == nil || d.gen.shape.SameShape(f) {
+		return nil
+	}
+	return fmt.Errorf("strike %s was built for another generator circuit than %s's: build it with the values of waveform %s", d.name, s.Name, s.Name)
 }
 
 // Reset implements Resetter: a new run may come with a stimulus changed in
@@ -112,13 +155,8 @@ func (d *Strike) r() float64 {
 // Eval implements Device.
 func (d *Strike) Eval(c *Context) {
 	s := d.st
-	if s == nil || s.Form != waveforms.Network {
-		// Unused generator network: x tied to gnd, i = 0, no charge.
-		c.Conductance(d.x, Ground, 1)
-		c.AddF(d.br, c.V(d.br))
-		c.AddJ(d.br, d.br, 1)
-		c.Charge(strikeCap, 0)
-		c.Charge(strikeFlux, 0)
+	if d.frag == nil {
+		d.gen.idle(c)
 	}
 	if s == nil {
 		return
@@ -134,25 +172,7 @@ func (d *Strike) Eval(c *Context) {
 		if !c.DC && s.F != nil {
 			c.Inject(d.node, d.ref, d.sign*d.f(c.T)/r)
 		}
-	case waveforms.Network:
-		u := c.V(d.x) - c.V(d.ref)
-		c.Capacitance(strikeCap, d.x, d.ref, s.C*u, s.C)
-		i := c.V(d.br)
-		if c.DC {
-			c.Conductance(d.x, d.ref, 1)
-			c.Inject(d.x, d.ref, d.sign*s.V0)
-			c.AddF(d.br, i)
-			c.AddJ(d.br, d.br, 1)
-			c.Charge(strikeFlux, 0)
-			return
-		}
-		branchKCL(c, d.x, d.node, d.br)
-		r := d.r()
-		c.AddF(d.br, -r*i)
-		c.AddJ(d.br, d.br, -r)
-		c.Charge(strikeFlux, s.L*i)
-		if s.L > 0 {
-			c.ChargeDeriv(strikeFlux, d.br, s.L)
-		}
+	case waveforms.Network, waveforms.Generator:
+		d.gen.eval(c, d.frag, d.sign)
 	}
 }

@@ -5,14 +5,13 @@ import (
 	"math"
 	"testing"
 
-	"zapnet/netlist"
 	"zapnet/waveforms"
 )
 
 // strikeRig is a strike into node 0 (ref gnd) loaded by rl ohms.
 func strikeRig(t *testing.T, st *waveforms.Stimulus, sign, rl float64) (*Strike, *nlRig) {
 	t.Helper()
-	d := nlMust(t, nlElement(netlist.Strike, "zap", "n", "gnd", nil, map[string]string{"waveform": "test"})).(*Strike)
+	d := nlMust(t, nlElement("strike", "zap", "n", "gnd", nil, nil)).(*Strike)
 	d.SetStimulus(st, sign)
 	r := newNLRig(t, d, 0, Ground)
 	r.extra = func(c *Context) { c.Conductance(0, Ground, 1/rl) }
@@ -134,7 +133,7 @@ func TestStrikeNetworkRC(t *testing.T) {
 		if _, err := r.newton(x, 10); err != nil {
 			t.Fatal(err)
 		}
-		if x[d.x] != sign*v0 || x[0] != 0 || x[d.br] != 0 {
+		if x[d.gen.nodes[0]] != sign*v0 || x[0] != 0 || x[d.gen.br[1]] != 0 {
 			t.Fatalf("operating point: x = %v", x)
 		}
 		tau := (rs + rl) * c0
@@ -142,9 +141,9 @@ func TestStrikeNetworkRC(t *testing.T) {
 		worst := 0.0
 		r.transient(t, h, 6000, func(tm float64, x []float64) {
 			want := sign * v0 / (rs + rl) * math.Exp(-tm/tau)
-			worst = math.Max(worst, math.Abs(x[d.br]-want)/(v0/(rs+rl)))
-			if v := x[0]; !nlClose(v, x[d.br]*rl, 1e-9, 1e-12) {
-				t.Fatalf("load voltage %g, current %g", v, x[d.br])
+			worst = math.Max(worst, math.Abs(x[d.gen.br[1]]-want)/(v0/(rs+rl)))
+			if v := x[0]; !nlClose(v, x[d.gen.br[1]]*rl, 1e-9, 1e-12) {
+				t.Fatalf("load voltage %g, current %g", v, x[d.gen.br[1]])
 			}
 		})
 		// Two first-order steps then trapezoidal at τ/2000: the error is
@@ -170,7 +169,7 @@ func TestStrikeNetworkRLC(t *testing.T) {
 	r.transient(t, 5e-12, 40000, func(tm float64, x []float64) {
 		want := v0 / (l0 * (s1 - s2)) * (math.Exp(s1*tm) - math.Exp(s2*tm))
 		ipk = math.Max(ipk, want)
-		worst = math.Max(worst, math.Abs(x[d.br]-want))
+		worst = math.Max(worst, math.Abs(x[d.gen.br[1]]-want))
 	})
 	if worst > 1e-3*ipk {
 		t.Errorf("worst current error %g A of a %g A peak", worst, ipk)
@@ -187,7 +186,7 @@ func TestStrikeJacobian(t *testing.T) {
 		{Form: waveforms.Network, C: 100e-12, V0: 2000, R: 1500, L: 7.5e-6},
 	} {
 		for _, dc := range []bool{true, false} {
-			d := nlMust(t, nlElement(netlist.Strike, "zap", "n", "r", nil, nil)).(*Strike)
+			d := nlMust(t, nlElement("strike", "zap", "n", "r", nil, nil)).(*Strike)
 			d.SetStimulus(st, -1)
 			r := newNLRig(t, d, 0, 1)
 			r.c.DC, r.c.T = dc, 3e-9

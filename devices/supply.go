@@ -1,10 +1,6 @@
 package devices
 
-import (
-	"fmt"
-
-	"zapnet/netlist"
-)
+import "zapnet/devices/spec"
 
 // supply holds v(pos) − v(neg) = V behind its series r (MODELS.md, linear
 // parts), scaled by Context.SourceScale during the engine's source stepping.
@@ -20,18 +16,20 @@ type supply struct {
 	br    int
 }
 
-func init() { Register(netlist.Supply, newSupply) }
+func init() {
+	Register(&Kind{Kind: spec.Kind{
+		Name: "supply", Summary: "a DC supply behind an optional source resistance", Terminals: [2]string{"pos", "neg"},
+		Role: spec.Source, Order: 80, IdealWithout: "r",
+		Table: spec.Table{Params: []spec.Param{
+			spec.Required("value", spec.Volt, spec.Any).As(spec.Condition),
+			spec.Default("r", spec.Ohm, spec.NonNegative, 0).Scales(),
+		}},
+	}, New: newSupply})
+}
 
-func newSupply(e *netlist.Element) (Device, error) {
-	v := e.Get("value")
-	if v != v || v > maxLinearValue || v < -maxLinearValue {
-		return nil, fmt.Errorf("%s: %s: supply voltage must be finite, have %g V", e.Pos, e.Name, v)
-	}
-	r, err := linearParasitic(e, "r", "ohm")
-	if err != nil {
-		return nil, err
-	}
-	d := &supply{name: e.Name, nodes: e.Nodes, v: v, br: Ground}
+func newSupply(name string, nodes [2]string, v *spec.Values) (Device, error) {
+	r := v.Num("r")
+	d := &supply{name: name, nodes: nodes, v: v.Num("value"), br: Ground}
 	if r > 0 {
 		d.g = 1 / r
 	}

@@ -92,6 +92,7 @@ type Point struct {
 	T float64
 	V []float64 // node voltages, in System.Nodes order, V
 	I []float64 // current into each element's first terminal, System.Elements order, A
+	W []float64 // power into each element, Σ v·i over its terminals, System.Elements order, W
 	P []float64 // probe values, System.Probes order
 	// Corner is true at t = 0 and at every breakpoint of the stimulus: a
 	// value may change its slope, or jump, at this point, so no
@@ -120,9 +121,21 @@ type Result struct {
 	// integration error of the charges.
 	Balance float64
 	// Stop is the span actually simulated, s.
-	Stop  float64
-	Stats Stats
+	Stop   float64
+	Stats  Stats
+	Status Status
 }
+
+// Status says how a solution ended.
+type Status int
+
+const (
+	// Failed: the solution stopped on an error (returned beside the
+	// result), short of the stop time.
+	Failed Status = iota
+	// Completed: the solution reached the stop time.
+	Completed
+)
 
 // Stats count the work of a solution.
 type Stats struct {

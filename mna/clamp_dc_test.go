@@ -4,8 +4,6 @@ import (
 	"fmt"
 	"math"
 	"testing"
-
-	"zapnet/netlist"
 )
 
 // clampCurrent is MODELS.md's clamp junction current, written out here from
@@ -41,9 +39,8 @@ func TestClampDCSweep(t *testing.T) {
 		pol := map[bool]string{false: "uni", true: "bi"}[bi]
 		for _, vs := range []float64{-12, -2, -0.9, -0.7, 5, 6.5, 6.9, 7.5, 10, 20} {
 			t.Run(fmt.Sprintf("%s/%gV", pol, vs), func(t *testing.T) {
-				d := el(netlist.Clamp, "D1", "s", "gnd", 0, "vbr", vbr, "it", it, "nbr", nbr, "is", is, "n", n, "rdyn", rdyn)
-				d.Str["polarity"] = pol
-				s := compile(t, el(netlist.Supply, "V1", "s", "gnd", vs, "r", r), d)
+				d := el("clamp", "D1", "s", "gnd", 0, "vbr", vbr, "it", it, "nbr", nbr, "is", is, "n", n, "rdyn", rdyn, "polarity", pol)
+				s := compile(t, el("supply", "V1", "s", "gnd", vs, "r", r), d)
 				v, err := s.OperatingPoint(tight)
 				if err != nil {
 					t.Fatal(err)
@@ -64,9 +61,9 @@ func TestClampDCSweep(t *testing.T) {
 	// The static voltage near 10 A.
 	for _, bi := range []bool{false, true} {
 		const vs = 20.6 // about 10 A through 1 Ω beside the clamp voltage
-		d := el(netlist.Clamp, "D1", "s", "gnd", 0, "vbr", vbr, "it", it, "nbr", nbr, "is", is, "n", n, "rdyn", rdyn)
-		d.Str["polarity"] = map[bool]string{false: "uni", true: "bi"}[bi]
-		s := compile(t, el(netlist.Supply, "V1", "s", "gnd", vs, "r", r), d)
+		d := el("clamp", "D1", "s", "gnd", 0, "vbr", vbr, "it", it, "nbr", nbr, "is", is, "n", n, "rdyn", rdyn,
+			"polarity", map[bool]string{false: "uni", true: "bi"}[bi])
+		s := compile(t, el("supply", "V1", "s", "gnd", vs, "r", r), d)
 		v, err := s.OperatingPoint(tight)
 		if err != nil {
 			t.Fatal(err)

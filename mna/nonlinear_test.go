@@ -5,7 +5,6 @@ import (
 	"math"
 	"testing"
 
-	"zapnet/netlist"
 	"zapnet/waveforms"
 )
 
@@ -43,8 +42,8 @@ func TestDiodeResistorOperatingPoint(t *testing.T) {
 		{0.2, 1e4, 1e-14, 1}, // below the knee: the diode barely conducts
 	} {
 		s := compile(t,
-			el(netlist.Supply, "V1", "a", "gnd", c.V, "r", c.R),
-			el(netlist.Diode, "D1", "a", "gnd", 0, "is", c.Is, "n", c.n))
+			el("supply", "V1", "a", "gnd", c.V, "r", c.R),
+			el("diode", "D1", "a", "gnd", 0, "is", c.Is, "n", c.n))
 		a := c.n * vt
 		want := c.V + c.Is*c.R - a*lambertW(c.Is*c.R/a*math.Exp((c.V+c.Is*c.R)/a))
 		// The tight case also drops Gmin, whose 1e-12 S would shift v by
@@ -116,8 +115,8 @@ func TestLineBounceDiagram(t *testing.T) {
 			stop := 9.5 * T
 			s := compile(t,
 				el(testSourceKind, "src", "in", "gnd", 0),
-				el(netlist.Line, "TL", "in", "out", 0, "z0", z0, "delay", T),
-				el(netlist.Resistor, "RL", "out", "gnd", c.RL))
+				el("line", "TL", "in", "out", 0, "z0", z0, "delay", T),
+				el("resistor", "RL", "out", "gnd", c.RL))
 			s.SetStimulus(ramp(V, tr, c.Rs, stop), 1)
 			// The wavefronts reach the ports through the line's history, not
 			// through a charge the error control watches, and a resistive
@@ -188,9 +187,9 @@ func TestOperatingPointFallbacks(t *testing.T) {
 	is := math.Sqrt(is1 * is2)
 	want := V + is*R - a*lambertW(is*R/a*math.Exp((V+is*R)/a))
 	s := compile(t,
-		el(netlist.Supply, "V1", "a", "gnd", V, "r", R),
-		el(netlist.Diode, "D1", "a", "b", 0, "is", is1),
-		el(netlist.Diode, "D2", "b", "gnd", 0, "is", is2))
+		el("supply", "V1", "a", "gnd", V, "r", R),
+		el("diode", "D1", "a", "b", 0, "is", is1),
+		el("diode", "D2", "b", "gnd", 0, "is", is2))
 	for _, c := range []struct {
 		maxIter int
 		method  string
@@ -226,12 +225,12 @@ func TestReproducibleNonlinear(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	other, _ := waveforms.New("iec61000-4-2", 4000, nil, nil)
+	other, _ := waveforms.Lookup("iec61000-4-2").New(4000, nil)
 	s.SetStimulus(other, -1)
 	if _, err := s.Transient(set); err != nil {
 		t.Fatal(err)
 	}
-	st, _ := waveforms.New("iec61000-4-2", 8000, nil, nil)
+	st, _ := waveforms.Lookup("iec61000-4-2").New(8000, nil)
 	s.SetStimulus(st, 1)
 	b, err := s.Transient(set)
 	if err != nil {

@@ -98,23 +98,22 @@ func solveDeck(t *testing.T, name string, set mna.Settings) *refRun {
 	if strike == nil || len(strike.Levels) != 1 {
 		t.Fatalf("%s: want one strike with one level", name)
 	}
-	st, err := waveforms.New(strike.Str["waveform"], strike.Levels[0], strike.Num, strike.Str)
+	st, err := strike.Waveform.New(strike.Levels[0], &strike.Values)
 	if err != nil {
 		t.Fatal(err)
 	}
 	sign := 1.0
-	switch strike.Str["polarity"] {
+	switch strike.Polarity {
 	case "pos":
 	case "neg":
 		sign = -1
 	default:
-		t.Fatalf("%s: polarity %q, want pos or neg", name, strike.Str["polarity"])
+		t.Fatalf("%s: polarity %q, want pos or neg", name, strike.Polarity)
 	}
 	sys, err := mna.Compile(c)
 	if err != nil {
 		t.Fatal(err)
 	}
-	sys.SetStimulus(st, sign)
 	r := &refRun{sys: sys,
 		nodes:  make([]waveforms.Tracker, len(sys.Nodes())),
 		probes: make([]waveforms.Tracker, len(sys.Probes()))}
@@ -139,7 +138,7 @@ func solveDeck(t *testing.T, name string, set mna.Settings) *refRun {
 			}
 		}
 	}
-	r.res, err = sys.Transient(&set)
+	r.res, err = sys.Transient(st, sign, &set)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -179,7 +178,11 @@ func (r *refRun) value(t *testing.T, q string) (v float64, ok bool) {
 		}
 		return v, true
 	case strings.HasPrefix(q, "peak |ipath(") && strings.HasSuffix(q, ")|"):
-		i := find(r.sys.Probes(), strings.TrimSuffix(q[len("peak |ipath("):], ")|")+".ipath")
+		var probes []string
+		for _, p := range r.sys.Probes() {
+			probes = append(probes, p.Name)
+		}
+		i := find(probes, strings.TrimSuffix(q[len("peak |ipath("):], ")|")+".ipath")
 		v, _ = r.probes[i].AbsPeak()
 		return v, true
 	case strings.HasPrefix(q, "peak |i(") && strings.HasSuffix(q, ")|"):

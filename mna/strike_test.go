@@ -4,21 +4,17 @@ import (
 	"math"
 	"testing"
 
-	"zapnet/netlist"
 	"zapnet/waveforms"
 )
 
 // hbmIntoShort runs a human-body-model strike of level volts into a 1 Ω
 // load (a short for a 1.5 kΩ network) and returns the load current.
-func hbmIntoShort(t *testing.T, level float64, num map[string]float64) (*System, *Result) {
+func hbmIntoShort(t *testing.T, level float64, num map[string]float64) (*struck, *Result) {
 	t.Helper()
-	st, err := waveforms.New("hbm", level, num, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	st := stimulus(t, "hbm", level, num)
 	s := compile(t,
-		el(netlist.Strike, "zap", "p", "gnd", 0),
-		el(netlist.Resistor, "Rload", "p", "gnd", 1.0))
+		el("strike", "zap", "p", "gnd", 0),
+		el("resistor", "Rload", "p", "gnd", 1.0))
 	s.SetStimulus(st, 1)
 	res, err := s.Transient(&Settings{Stop: 1e-6, MaxStep: 2e-9, Record: true})
 	if err != nil {
@@ -110,19 +106,19 @@ func interpTime(t0, t1, v0, v1, level float64) float64 {
 // since every entry uses the same terminal currents) to 1e-6 of what the
 // strike delivered [calc: Tellegen's theorem, Σ v·i = 0 at every instant].
 func TestEveryStimulusSolves(t *testing.T) {
-	s := referenceNetwork(t)
-	zap := elemIndex(t, s, "zap")
 	levels := map[string][]float64{"surge-8-20": {250, 1000}, "tlp": {4, 16}}
 	for _, name := range waveforms.Names() {
 		if name == "pwl" { // needs a file; its engine path is the Current form
 			continue
 		}
+		s := referenceNetworkFor(t, name)
+		zap := elemIndex(t, s, "zap")
 		lv, ok := levels[name]
 		if !ok {
 			lv = []float64{2000, 8000}
 		}
 		for _, level := range lv {
-			st, err := waveforms.New(name, level, nil, nil)
+			st, err := waveforms.Lookup(name).New(level, nil)
 			if err != nil {
 				t.Fatal(err)
 			}

@@ -25,10 +25,10 @@ type System struct {
 	nodeDevs    [][]int  // devices touching each circuit node, for hints
 	devs        []device
 	elements    []string
-	probes      []string
+	probes      []devices.Probe
 
 	striker devices.Striker
-	stim    *waveforms.Stimulus // for the breakpoints and the default span
+	stim    *waveforms.Stimulus // of the run under way: its breakpoints and span
 
 	n    int
 	ctx  devices.Context
@@ -92,6 +92,7 @@ type System struct {
 
 	termCur        []float64 // current into every device terminal (flattened), A
 	termV, termI   []float64 // every terminal's voltage and current at the last accepted point
+	stepEnergy     []float64 // each element's ledger entry over the last step, J
 	curTr          []waveforms.Tracker
 	dcMethod       string // how the last operating point was found, for tests
 	factorisations int    // LU factorisations of the transient, for Stats
@@ -130,14 +131,14 @@ type device struct {
 //
 // Nodes() lists the circuit nodes in order of first appearance among the
 // elements' terminals (deck order). Every element, the strike included, is
-// built from the device registry.
+// built by its kind's constructor (devices.Kind.New).
 func Compile(c *netlist.Circuit) (*System, error) {
 	s := &System{}
 	var errs []error
 	for _, e := range c.Elements {
-		d, err := devices.New(e)
+		d, err := e.Kind.New(e.Name, e.Nodes, &e.Values)
 		if err != nil {
-			errs = append(errs, err)
+			errs = append(errs, fmt.Errorf("%s: %s %s: %w", e.Pos, e.Kind.Name, e.Name, err))
 			continue
 		}
 		s.devs = append(s.devs, device{dev: d})
@@ -223,7 +224,8 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		d.probeBase = nProbe
 		if d.prober != nil {
 			for _, p := range d.prober.Probes() {
-				s.probes = append(s.probes, name+"."+p)
+				p.Name = name + "." + p.Name
+				s.probes = append(s.probes, p)
 				nProbe++
 				d.nProbe++
 			}
@@ -356,6 +358,7 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.termCur = make([]float64, nTerm)
 	s.termV = make([]float64, nTerm)
 	s.termI = make([]float64, nTerm)
+	s.stepEnergy = make([]float64, len(s.devs))
 	s.curTr = make([]waveforms.Tracker, len(s.devs))
 	for i := range s.curTr {
 		s.curTr[i].Refine = true
@@ -363,6 +366,7 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.pt = Point{
 		V: make([]float64, len(s.nodeNames)),
 		I: make([]float64, len(s.devs)),
+		W: make([]float64, len(s.devs)),
 		P: make([]float64, nProbe),
 	}
 	s.ctx = devices.Context{
@@ -438,21 +442,29 @@ func (s *System) Nodes() []string { return s.nodeNames }
 // Elements are the element names, in result order (deck order).
 func (s *System) Elements() []string { return s.elements }
 
-// Probes are the names of the devices' probes, "ELEMENT.probe", in result order.
-func (s *System) Probes() []string { return s.probes }
+// Probes are the devices' probes, named "ELEMENT.probe", in result order.
+func (s *System) Probes() []devices.Probe { return s.probes }
 
-// Unknowns are the names of every unknown of the system, in matrix order:
-// circuit nodes by name, internal nodes and branch currents as
-// ELEMENT.suffix.
-func (s *System) Unknowns() []string { return s.unknowns }
-
-// SetStimulus sets the strike of the next runs; sign is +1 or −1; nil: none.
-// The stimulus also supplies the breakpoints and the default span.
-func (s *System) SetStimulus(st *waveforms.Stimulus, sign float64) {
+// setStimulus hands the run's stimulus to the strike; it also supplies the
+// breakpoints and the default span. A generator circuit the strike was not
+// built for (a stimulus of another waveform than the strike's) is refused.
+func (s *System) setStimulus(st *waveforms.Stimulus, sign float64) error {
+	if f, ok := s.striker.(fitter); ok {
+		if err := f.Fits(st); err != nil {
+			return err
+		}
+	}
 	s.stim = st
 	if s.striker != nil {
 		s.striker.SetStimulus(st, sign)
 	}
+	return nil
+}
+
+// fitter is a strike that can tell whether a stimulus fits the unknowns it
+// was built for.
+type fitter interface {
+	Fits(*waveforms.Stimulus) error
 }
 
 // hintFor suggests what to try when the solution is stuck at unknown i.

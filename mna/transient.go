@@ -4,6 +4,8 @@ import (
 	"errors"
 	"math"
 	"time"
+
+	"zapnet/waveforms"
 )
 
 // The error control. Each step's local error is estimated for every
@@ -122,7 +124,12 @@ const gamma = 2 - math.Sqrt2
 // [pub: Bank et al. 1985, with gamma as above: about −0.0404].
 const lteC = (-3*gamma*gamma + 4*gamma - 2) / (12 * (2 - gamma))
 
-// Transient solves from the operating point to the stop time.
+// Transient solves the circuit struck by stim with polarity sign (+1 or −1)
+// from the operating point to the stop time. A nil stim solves the circuit
+// with its strike off (a supply's response alone); a nil set means every
+// default. The result carries the solver's statistics and its status; on a
+// failure it comes back with the error, holding the statistics of the work
+// done.
 //
 // The initial state is the operating point (strike off, supplies on): its
 // charges and fluxes, with zero derivatives. The first step after t = 0 and
@@ -141,8 +148,11 @@ const lteC = (-3*gamma*gamma + 4*gamma - 2) / (12 * (2 - gamma))
 // Transient resets the system first, so one System serves any number of
 // runs; it allocates per run, never per step (unless Record keeps the
 // waveforms). Runs are reproducible bit for bit.
-func (s *System) Transient(set *Settings) (*Result, error) {
+func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings) (*Result, error) {
 	start := time.Now()
+	if err := s.setStimulus(stim, sign); err != nil {
+		return nil, err
+	}
 	var cfg Settings
 	if set != nil {
 		cfg = *set
@@ -178,10 +188,11 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 		h := min(maxStep, interval) * firstFraction
 		if cfg.FirstStep > 0 {
 			h = min(h, cfg.FirstStep)
-		} else if s.stim != nil && s.stim.Stop > 0 {
-			// The stimulus's own time scale, not a window stretched for a
-			// slow circuit, sets how fine the first step must be.
-			h = min(h, s.stim.Stop/50*firstFraction)
+		} else if s.stim != nil && s.stim.Scale() > 0 {
+			// The stimulus's own time scale (one pulse's, for a train),
+			// not a window stretched for a slow circuit, sets how fine the
+			// first step must be.
+			h = min(h, s.stim.Scale()/50*firstFraction)
 		}
 		return max(h, minStep)
 	}
@@ -198,7 +209,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 	dcIt, err := s.operatingPoint(&t)
 	res.Stats.DCNewton = dcIt
 	if err != nil {
-		return nil, err
+		return res.fail(start), err
 	}
 	c := &s.ctx
 	c.DC = false
@@ -240,14 +251,18 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 		h = min(h, fixed)
 	}
 	// hFloor is the step below which the error control no longer rejects:
-	// a hundredth of the first step, which is taken with no estimate at all.
+	// a hundredth of the first step, which is taken with no estimate at all
+	// (and, unless MinStep is set, no less than twice the minimum step).
 	// Where a node without capacitance is held by a junction that switches
-	// off (a clamp fed through an inductor, its current running out) its
-	// voltage falls on a time scale that shrinks with the junction's
-	// conductance, a corner in all but name; the estimate of a step across
-	// it is a fixed share of the fall however short the step, and without
-	// a floor the run would stop there.
+	// off (a clamp fed through an inductor, its current running out), or
+	// where a spark's resistance collapses, a value moves on a time scale
+	// that shrinks as it goes: a corner in all but name. The estimate of a
+	// step across it is a fixed share of the move however short the step,
+	// and without a floor the run would stop there.
 	hFloor := first(stop) / 100
+	if cfg.MinStep <= 0 {
+		hFloor = max(hFloor, 2*minStep)
+	}
 	restart := true // the next step is the backward-Euler step after a corner
 	logPrev := 0.0  // log of the error ratio of the last accepted step (PI memory)
 	const a2 = (1 - gamma) * (1 - gamma) / (gamma * (2 - gamma))
@@ -263,7 +278,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 			hs = 0.5 * rem
 		}
 		if hs < minStep {
-			return nil, s.solveError(now, notConverged, "the time step fell below the minimum step")
+			return res.fail(start), s.solveError(now, notConverged, "the time step fell below the minimum step")
 		}
 		tNew := now + hs
 		if hit {
@@ -322,7 +337,7 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 			h = hs / 2
 			logPrev = 0
 			if h < minStep {
-				return nil, s.solveError(now, st)
+				return res.fail(start), s.solveError(now, st)
 			}
 			continue
 		}
@@ -331,10 +346,10 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 			if r, have := s.errorRatio(hs, &t); have {
 				if r > 1 && hs > hFloor {
 					res.Stats.Rejected++
-					h = hs * max(minShrink, safety*math.Exp(-math.Log(r)/3))
+					h = max(hFloor, hs*max(minShrink, safety*math.Exp(-math.Log(r)/3)))
 					logPrev = 0
 					if h < minStep {
-						return nil, s.truncationError(now)
+						return res.fail(start), s.truncationError(now)
 					}
 					continue
 				}
@@ -396,7 +411,15 @@ func (s *System) Transient(set *Settings) (*Result, error) {
 	}
 	res.Stats.Factorisations = s.factorisations
 	res.Stats.Wall = time.Since(start)
+	res.Status = Completed
 	return res, nil
+}
+
+// fail marks a run that stopped on an error, keeping its statistics.
+func (r *Result) fail(start time.Time) *Result {
+	r.Stats.Wall = time.Since(start)
+	r.Status = Failed
+	return r
 }
 
 // scaleWith raises each unknown's scale to its magnitude in x.
@@ -640,7 +663,7 @@ func (s *System) accept(res *Result, cfg *Settings, x, termCur []float64, now, h
 	}
 	for di := range s.devs {
 		d := &s.devs[di]
-		e := 0.0
+		e, p := 0.0, 0.0
 		for ti, r := range d.term {
 			k := d.curBase + ti
 			v, i := 0.0, termCur[k]
@@ -648,11 +671,15 @@ func (s *System) accept(res *Result, cfg *Settings, x, termCur []float64, now, h
 				v = x[r]
 			}
 			e += (v + s.termV[k]) * (i + s.termI[k])
+			p += v * i
 			s.termV[k], s.termI[k] = v, i
 		}
+		s.stepEnergy[di] = 0
 		if !first {
-			res.Energy[di] += 0.25 * h * e
+			s.stepEnergy[di] = 0.25 * h * e
+			res.Energy[di] += s.stepEnergy[di]
 		}
+		pt.W[di] = p
 		i := 0.0
 		switch {
 		case len(d.term) > 0 && d.term[0] >= 0:

@@ -6,185 +6,199 @@ import (
 	"path/filepath"
 	"sort"
 	"strings"
+
+	"zapnet/devices"
+	"zapnet/devices/spec"
+	"zapnet/waveforms"
 )
 
 // ownParams are the parameters an element states itself.
 type ownParams struct {
-	num   map[string]float64
-	str   map[string]string
-	part  string
+	vals  spec.Values    // of the element's table (the waveform's, for the strike), no defaults
+	part  string         // the part it names, "?" when that part is unusable
 	pos   map[string]Pos // where each own key was written
 	name  Pos            // the element's name
 	nodes [2]Pos         // where its nodes are named
 }
 
-// aKind is the kind with its article, for messages.
-func aKind(k Kind) string {
-	if k == Inductor {
-		return "an " + string(k)
-	}
-	return "a " + string(k)
-}
-
-// paramOf names a parameter in messages: "vbr of a clamp".
-func paramOf(k Kind, key string) string {
-	if key == "value" {
-		return "the value of " + aKind(k)
-	}
-	return key + " of " + aKind(k)
-}
-
 // numValue parses text as a value of a parameter in unit under rule, and
 // returns a message for the user when it is not one.
-func numValue(what, unit string, r rule, text string) (float64, string) {
+func numValue(what string, unit spec.Unit, r spec.Rule, text string) (float64, string) {
 	n, msg := parseNumber(text, false)
 	if msg != "" {
 		return 0, msg
 	}
 	if n.unit != "" && n.unit != unit {
-		return 0, fmt.Sprintf("%s is in %s, but %s is in %s", text, unitWords[n.unit], what, unitWords[unit])
+		return 0, fmt.Sprintf("%s is in %s, but %s is in %s", text, n.unit.Word(), what, unit.Word())
 	}
-	if m := checkRule(r, n.val); m != "" {
+	if m := r.Check(n.val); m != "" {
 		return 0, fmt.Sprintf("%s %s (got %s)", what, m, text)
 	}
 	return n.val, ""
 }
 
-// wordParam checks a word parameter of kind and returns a message when the
-// word is not allowed.
-func wordParam(kind Kind, key, val string) string {
+// wordProblem checks a word parameter of kind k and returns a message when
+// the word is not allowed.
+func wordProblem(k *devices.Kind, w *spec.Word, val string) string {
 	switch {
-	case kind == Clamp && key == "polarity":
-		if val != "uni" && val != "bi" {
-			return fmt.Sprintf("clamp polarity is uni or bi, not %s%s", val, didYouMean(val, []string{"uni", "bi"}))
-		}
-	case kind == Pin && key == "rail":
+	case w.Choices != nil && !contains(w.Choices, val):
+		return fmt.Sprintf("%s %s is %s, not %s%s", k.Name, w.Key, orList(w.Choices), val, didYouMean(val, w.Choices))
+	case w.Node:
 		if m := nameProblem(val); m != "" {
-			return fmt.Sprintf("rail node name %s %s", val, m)
+			return fmt.Sprintf("%s node name %s %s", w.Key, val, m)
 		}
 	}
 	return ""
 }
 
-func hasWord(kind Kind, key string) bool {
-	s := specs[kind]
-	if s == nil {
-		return false
+// orList renders "a or b", "a, b or c".
+func orList(words []string) string {
+	if len(words) < 2 {
+		return strings.Join(words, "")
 	}
-	for _, w := range s.words {
-		if w == key {
+	return strings.Join(words[:len(words)-1], ", ") + " or " + words[len(words)-1]
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
 			return true
 		}
 	}
 	return false
 }
 
-// readParam parses one key=value of an element or part of kind into num or
-// str and reports what is wrong with it.
-// Keys written but unusable are added to skip when it is not nil, so that
-// they are not reported again as missing.
-func (p *parser) readParam(kind Kind, kv rawParam, num map[string]float64, str map[string]string, skip map[string]bool) bool {
-	if hasWord(kind, kv.key) {
-		if m := wordParam(kind, kv.key, kv.val); m != "" {
-			p.errs.Add(kv.valPos, "%s", m)
+// readParam parses one key=value of an element or part of kind k into vals
+// and reports what is wrong with it. Keys written but unusable are added to
+// skip when it is not nil, so that they are not reported again as missing.
+func (p *parser) readParam(k *devices.Kind, kv rawParam, vals *spec.Values, skip map[string]bool) bool {
+	if w := k.Word(kv.key); w != nil {
+		if m := wordProblem(k, w, kv.val); m != "" {
+			p.errs.Add(kv.valPos, ErrValue, "%s", m)
 			return false
 		}
-		str[kv.key] = kv.val
+		if w.Path {
+			// A file named in a deck is found beside the file that names it.
+			path := kv.val
+			if path != "" && !filepath.IsAbs(path) {
+				path = filepath.Join(filepath.Dir(kv.keyPos.File), path)
+			}
+			if fi, err := os.Stat(path); path == "" || err != nil || fi.IsDir() {
+				p.errs.Add(kv.valPos, ErrFile, "%s file %s: no such file", kv.key, kv.val)
+				return false
+			}
+			kv.val = path
+		}
+		if err := vals.SetWord(kv.key, kv.val); err != nil {
+			p.errs.Add(kv.valPos, ErrValue, "%v", err)
+			return false
+		}
 		return true
 	}
-	sp := specOf(kind, kv.key)
+	sp := k.Param(kv.key)
+	if now, ok := k.Renamed[kv.key]; ok {
+		p.errs.Add(kv.keyPos, ErrUnknown, "%s of %s is now called %s", kv.key, aKind(k), now)
+		if skip != nil {
+			skip[now] = true
+		}
+		return false
+	}
 	if sp == nil {
-		p.errs.Add(kv.keyPos, "unknown parameter %s for %s%s", kv.key, aKind(kind), didYouMean(kv.key, keysOf(kind)))
+		p.errs.Add(kv.keyPos, ErrUnknown, "unknown parameter %s for %s%s", kv.key, aKind(k), didYouMean(kv.key, keysOf(k)))
 		if skip != nil {
 			// The slip is reported once, not again as a missing parameter.
-			if g := suggest(kv.key, keysOf(kind)); g != "" {
+			if g := suggest(kv.key, keysOf(k)); g != "" {
 				skip[g] = true
 			}
 		}
 		return false
 	}
 	if kv.quoted {
-		p.errs.Add(kv.valPos, "%s takes a number, not a quoted text", kv.key)
+		p.errs.Add(kv.valPos, ErrValue, "%s takes a number, not a quoted text", kv.key)
 		if skip != nil {
 			skip[kv.key] = true
 		}
 		return false
 	}
-	v, msg := numValue(paramOf(kind, kv.key), sp.unit, sp.rule, kv.val)
+	v, msg := numValue(paramOf(k, kv.key), sp.Unit, sp.Rule, kv.val)
 	if msg != "" {
-		p.errs.Add(kv.valPos, "%s", msg)
+		p.errs.Add(kv.valPos, ErrValue, "%s", msg)
 		if skip != nil {
 			skip[kv.key] = true
 		}
 		return false
 	}
-	num[kv.key] = v
+	vals.Set(kv.key, v) // the rule was checked above
 	return true
 }
 
-// merge builds an element's parameters: the part's, then the element's own,
-// then the defaults of MODELS.md for whatever is still missing.
-func merge(kind Kind, part *Part, own *ownParams) (map[string]float64, map[string]string) {
-	spec := specs[kind]
-	num := make(map[string]float64, len(spec.params))
-	str := map[string]string{}
-	if kind == Clamp {
-		str["polarity"] = "uni"
-	}
-	if part != nil {
-		for k, v := range part.Num {
-			num[k] = v
-		}
-		for k, v := range part.Str {
-			str[k] = v
-		}
-		str["part"] = part.Name
-	}
-	for k, v := range own.num {
-		num[k] = v
-	}
-	for k, v := range own.str {
-		str[k] = v
-	}
-	for _, sp := range spec.params {
-		if _, ok := num[sp.key]; ok || !sp.hasDef {
+// merge builds an element's values: the part's, then the element's own,
+// then the defaults of the models for whatever is still missing.
+func merge(k *devices.Kind, part *Part, own *ownParams) spec.Values {
+	v := k.Values()
+	for _, src := range []*spec.Values{partValues(part), &own.vals} {
+		if src == nil {
 			continue
 		}
-		if sp.only != "" {
-			if _, ok := num[sp.only]; !ok {
-				continue
+		for _, key := range k.Numeric() {
+			if x, ok := src.Lookup(key); ok {
+				v.Set(key, x)
 			}
 		}
-		num[sp.key] = sp.def
+		for _, w := range k.Words {
+			if s := src.Word(w.Key); s != "" {
+				v.SetWord(w.Key, s)
+			}
+		}
 	}
-	return num, str
+	v.FillDefaults()
+	return v
+}
+
+func partValues(part *Part) *spec.Values {
+	if part == nil {
+		return nil
+	}
+	return &part.Values
 }
 
 // problems lists what makes a merged element unusable: missing required
-// parameters and parameters that contradict each other.
-func problems(e *Element, skip map[string]bool) []string {
-	var out []string
-	spec := specs[e.Kind]
-	if spec == nil {
-		return nil
-	}
-	for _, sp := range spec.params {
-		if sp.required && !e.Has(sp.key) && !skip[sp.key] {
-			what := sp.key
-			if sp.key == "value" {
-				what = "a value in " + unitWords[sp.unit]
-			} else if sp.unit != "" {
-				what += " (" + unitWords[sp.unit] + ")"
+// parameters (ErrMissing) and parameters that contradict each other
+// (ErrValue).
+func problems(e *Element, skip map[string]bool) []*Error {
+	var out []*Error
+	k := e.Kind
+	for _, sp := range k.Params {
+		if sp.Required && !e.Values.Has(sp.Key) && !skip[sp.Key] && (sp.Unless == "" || e.Values.Word(sp.Unless) == "") {
+			what := sp.Key
+			if sp.Key == "value" {
+				what = "a value in " + sp.Unit.Word()
+			} else if sp.Unit != "" {
+				what += " (" + sp.Unit.Word() + ")"
 			}
-			if part := e.Str["part"]; part != "" && sp.key != "value" {
-				out = append(out, fmt.Sprintf("%s %s needs %s; neither it nor part %s gives it", e.Kind, e.Name, what, part))
-			} else {
-				out = append(out, fmt.Sprintf("%s %s needs %s", e.Kind, e.Name, what))
+			msg := fmt.Sprintf("%s %s needs %s", k.Name, e.Name, what)
+			if e.Part != "" && sp.Key != "value" {
+				msg += fmt.Sprintf("; neither it nor part %s gives it", e.Part)
 			}
+			out = append(out, &Error{Err: ErrMissing, Msg: msg})
 		}
 	}
-	if e.Kind == Pin && e.Has("vmax") && e.Has("vmin") && !(e.Get("vmin") < e.Get("vmax")) {
-		out = append(out, fmt.Sprintf("pin %s: vmin %s is not below vmax %s", e.Name, FormatSI(e.Get("vmin"), "V"), FormatSI(e.Get("vmax"), "V")))
+	// A window of two ratings must be open: its low side below its high.
+	var lo, hi *spec.Param
+	for i, sp := range k.Params {
+		if sp.Rates != nil && sp.Rates.Measure == spec.LowVoltage {
+			lo = &k.Params[i]
+		}
+		if sp.Rates != nil && sp.Rates.Measure == spec.HighVoltage {
+			hi = &k.Params[i]
+		}
+	}
+	if lo != nil && hi != nil {
+		l, okl := e.Values.Lookup(lo.Key)
+		h, okh := e.Values.Lookup(hi.Key)
+		if okl && okh && !(l < h) {
+			out = append(out, &Error{Err: ErrValue, Msg: fmt.Sprintf("%s %s: %s %s is not below %s %s", k.Name, e.Name, lo.Key, spec.FormatSI(l, lo.Unit), hi.Key, spec.FormatSI(h, hi.Unit))})
+		}
 	}
 	return out
 }
@@ -193,18 +207,21 @@ func problems(e *Element, skip map[string]bool) []string {
 // p.errs.
 func (p *parser) check(src []byte) *Circuit {
 	c := &Circuit{
-		File:   p.top,
-		Title:  p.title,
-		Source: src,
-		Parts:  map[string]*Part{},
-		own:    map[string]*ownParams{},
+		File:     p.top,
+		Title:    p.title,
+		Source:   src,
+		Parts:    map[string]*Part{},
+		Included: p.included,
+		own:      map[string]*ownParams{},
 	}
 	p.checkParts(c)
 	names := map[string]Pos{}
 	var strikes []*Element
+	written := 0
 	for _, re := range p.elements {
 		var e *Element
-		if re.kind == Strike {
+		if re.kind.Role == spec.Stimulus {
+			written++
 			e = p.checkStrike(re, c)
 		} else {
 			e = p.checkElement(re, c)
@@ -213,7 +230,7 @@ func (p *parser) check(src []byte) *Circuit {
 			continue
 		}
 		if first, dup := names[re.name]; dup {
-			p.errs.Add(re.namePos, "element %s already defined at %s", re.name, first)
+			p.errs.Add(re.namePos, ErrDuplicate, "element %s already defined at %s", re.name, first)
 			// Its connections still count, or its nodes would be
 			// reported as dangling too.
 			p.dups = append(p.dups, conn{re.name, re.nodePos[0]}, conn{re.name, re.nodePos[1]})
@@ -222,31 +239,40 @@ func (p *parser) check(src []byte) *Circuit {
 		}
 		names[re.name] = re.namePos
 		c.Elements = append(c.Elements, e)
-		if e.Kind == Strike {
+		if e.IsStrike() {
 			strikes = append(strikes, e)
-		}
-	}
-	written := 0
-	for _, re := range p.elements {
-		if re.kind == Strike {
-			written++
 		}
 	}
 	switch {
 	case written == 0:
-		p.errs.Add(Pos{File: p.top, Line: 1, Col: 1}, "deck has no strike: add one, for example strike zap IN gnd waveform=iec61000-4-2 level=8k")
+		p.errs.Add(Pos{File: p.top, Line: 1, Col: 1}, ErrMissing, "deck has no strike: add one, for example strike zap IN gnd waveform=iec61000-4-2 level=8k")
 	case len(strikes) > 1:
 		for _, s := range strikes[1:] {
-			p.errs.Add(c.own[s.Name].name, "second strike %s; a deck has exactly one (the first is %s at %s)", s.Name, strikes[0].Name, c.own[strikes[0].Name].name)
+			p.errs.Add(c.own[s.Name].name, ErrDuplicate, "second strike %s; a deck has exactly one (the first is %s at %s)", s.Name, strikes[0].Name, c.own[strikes[0].Name].name)
 		}
 	}
 	p.checkTopology(c)
+	p.checkModels(c)
 	p.checkWatches(c)
 	p.checkWindow(c)
 	p.checkVary(c)
 	p.checkVariants(c)
 	p.checkTolerances(c)
 	return c
+}
+
+// checkModels builds every element's device once, so that what a model
+// refuses (a constraint between its parameters that no single rule says)
+// the check refuses too, at the element's statement.
+func (p *parser) checkModels(c *Circuit) {
+	if p.errs.Err() != nil {
+		return
+	}
+	for _, e := range c.Elements {
+		if _, err := e.Kind.New(e.Name, e.Nodes, &e.Values); err != nil {
+			p.errs.Add(c.own[e.Name].name, ErrValue, "%v", err)
+		}
+	}
 }
 
 // maxCheckedVariants bounds the variants tried one by one at load time.
@@ -280,7 +306,7 @@ func (p *parser) checkVariants(c *Circuit) {
 			if l, ok := err.(ErrorList); ok && len(l) > 0 {
 				msg = l[0].Msg
 			}
-			p.errs.Add(where[v[len(v)-1].Element], "the variant %s does not hold together: %s", strings.Join(s, " "), msg)
+			p.errs.Add(where[v[len(v)-1].Element], ErrValue, "the variant %s does not hold together: %s", strings.Join(s, " "), msg)
 			return
 		}
 	}
@@ -289,23 +315,23 @@ func (p *parser) checkVariants(c *Circuit) {
 func (p *parser) checkParts(c *Circuit) {
 	for _, rp := range p.parts {
 		if prev, dup := c.Parts[rp.name]; dup {
-			p.errs.Add(rp.namePos, "part %s already defined at %s", rp.name, prev.Pos)
+			p.errs.Add(rp.namePos, ErrDuplicate, "part %s already defined at %s", rp.name, prev.Pos)
 			continue
 		}
-		part := &Part{Name: rp.name, Kind: rp.kind, Num: map[string]float64{}, Str: map[string]string{}, Pos: rp.namePos}
+		part := &Part{Name: rp.name, Kind: rp.kind, Values: rp.kind.Values(), Pos: rp.namePos}
 		for _, kv := range rp.params {
 			if kv.key == "part" {
-				p.errs.Add(kv.keyPos, "a part cannot take another part")
+				p.errs.Add(kv.keyPos, ErrValue, "a part cannot take another part")
 				continue
 			}
-			p.readParam(rp.kind, kv, part.Num, part.Str, nil)
+			p.readParam(rp.kind, kv, &part.Values, nil)
 		}
 		c.Parts[rp.name] = part
 	}
 }
 
-// partsOfKind lists the names of the parts of kind, for suggestions.
-func partsOfKind(c *Circuit, k Kind) []string {
+// partsOfKind lists the names of the parts of kind k, for suggestions.
+func partsOfKind(c *Circuit, k *devices.Kind) []string {
 	var out []string
 	for n, pt := range c.Parts {
 		if pt.Kind == k {
@@ -316,32 +342,34 @@ func partsOfKind(c *Circuit, k Kind) []string {
 	return out
 }
 
-// lookupPart finds the part name for an element of kind, or says why not.
-func lookupPart(c *Circuit, k Kind, name string) (*Part, string) {
+// lookupPart finds the part name for an element of kind k, or says why not
+// (ErrUnknown or ErrValue).
+func lookupPart(c *Circuit, k *devices.Kind, name string) (*Part, *Error) {
 	pt := c.Parts[name]
 	switch {
 	case pt == nil:
-		return nil, fmt.Sprintf("no part %s%s", name, didYouMean(name, partsOfKind(c, k)))
+		return nil, &Error{Err: ErrUnknown, Msg: fmt.Sprintf("no part %s%s", name, didYouMean(name, partsOfKind(c, k)))}
 	case pt.Kind != k:
-		return nil, fmt.Sprintf("part %s is a %s, not a %s (defined at %s)", name, pt.Kind, k, pt.Pos)
+		return nil, &Error{Err: ErrValue, Msg: fmt.Sprintf("part %s is a %s, not a %s (defined at %s)", name, pt.Kind.Name, k.Name, pt.Pos)}
 	}
-	return pt, ""
+	return pt, nil
 }
 
 func (p *parser) checkElement(re *rawElement, c *Circuit) *Element {
-	own := &ownParams{num: map[string]float64{}, str: map[string]string{}, pos: map[string]Pos{}, name: re.namePos, nodes: re.nodePos}
+	k := re.kind
+	own := &ownParams{vals: k.Values(), pos: map[string]Pos{}, name: re.namePos, nodes: re.nodePos}
 	skip := map[string]bool{}
-	for k := range re.written {
-		skip[k] = true // a written key that is unusable was reported already
+	for key := range re.written {
+		skip[key] = true // a written key that is unusable was reported already
 	}
 	if re.hasValue {
-		sp := specOf(re.kind, "value")
-		v, msg := numValue(paramOf(re.kind, "value"), sp.unit, sp.rule, re.value)
+		sp := k.Positional()
+		v, msg := numValue(paramOf(k, "value"), sp.Unit, sp.Rule, re.value)
 		if msg != "" {
-			p.errs.Add(re.valuePos, "%s", msg)
+			p.errs.Add(re.valuePos, ErrValue, "%s", msg)
 			skip["value"] = true
 		} else {
-			own.num["value"] = v
+			own.vals.Set("value", v)
 		}
 		own.pos["value"] = re.valuePos
 	}
@@ -350,33 +378,37 @@ func (p *parser) checkElement(re *rawElement, c *Circuit) *Element {
 		own.pos[kv.key] = kv.valPos
 		switch {
 		case kv.key == "part":
-			pt, msg := lookupPart(c, re.kind, kv.val)
-			if msg != "" {
-				p.errs.Add(kv.valPos, "%s", msg)
+			pt, perr := lookupPart(c, k, kv.val)
+			if perr != nil {
+				p.errs.Add(kv.valPos, perr.Err, "%s", perr.Msg)
 				own.part = "?"
 				continue
 			}
 			part, own.part = pt, kv.val
 		case kv.key == "value" && re.hasValue:
-			p.errs.Add(kv.keyPos, "value given twice: once after the nodes and once as value=")
+			p.errs.Add(kv.keyPos, ErrDuplicate, "value given twice: once after the nodes and once as value=")
 		default:
-			p.readParam(re.kind, kv, own.num, own.str, skip)
+			p.readParam(k, kv, &own.vals, skip)
 		}
 	}
-	e := &Element{Kind: re.kind, Name: re.name, Nodes: re.nodes, Pos: re.kindPos}
-	e.Num, e.Str = merge(re.kind, part, own)
+	e := &Element{Kind: k, Name: re.name, Nodes: re.nodes, Pos: re.kindPos, Values: merge(k, part, own)}
+	if part != nil {
+		e.Part = part.Name
+	}
 	if own.part != "?" && re.nodePos[1].IsValid() {
 		for _, m := range problems(e, skip) {
-			p.errs.Add(re.namePos, "%s", m)
+			p.errs.Add(re.namePos, m.Err, "%s", m.Msg)
 		}
 	}
 	if re.ok && re.nodes[0] == re.nodes[1] {
-		p.errs.Add(re.nodePos[1], "%s %s connects node %s to itself", re.kind, re.name, re.nodes[0])
+		p.errs.Add(re.nodePos[1], ErrCircuit, "%s %s connects node %s to itself", k.Name, re.name, re.nodes[0])
 		re.ok = false
 	}
-	if rail, ok := own.str["rail"]; ok && re.ok && rail == re.nodes[0] {
-		p.errs.Add(own.pos["rail"], "pin %s: rail %s is the pin's own node", re.name, rail)
-		re.ok = false
+	for _, w := range k.Words {
+		if n := own.vals.Word(w.Key); w.Node && n != "" && re.ok && n == re.nodes[0] {
+			p.errs.Add(own.pos[w.Key], ErrCircuit, "%s %s: %s %s is the %s's own node", k.Name, re.name, w.Key, n, k.Name)
+			re.ok = false
+		}
 	}
 	if re.ok {
 		p.plausible(e, own)
@@ -387,51 +419,30 @@ func (p *parser) checkElement(re *rawElement, c *Circuit) *Element {
 	return e
 }
 
-// plausible warns about legal values that are probably slips.
+// plausible warns about legal values that are probably slips, and about
+// parameters given that have no effect.
 func (p *parser) plausible(e *Element, own *ownParams) {
 	at := func(key string) Pos {
 		if pos, ok := own.pos[key]; ok {
 			return pos
 		}
-		if part := e.Str["part"]; part != "" {
+		if e.Part != "" {
 			return own.pos["part"]
 		}
 		return own.name
 	}
-	warn := func(key string, format string, args ...any) { p.errs.Warn(at(key), format, args...) }
-	switch e.Kind {
-	case Capacitor:
-		if v := e.Get("value"); v >= 0.1 {
-			warn("value", "capacitor %s is %s: unusually large for a capacitor on a protected line", e.Name, FormatSI(v, "F"))
+	k := e.Kind
+	for i := range k.Params {
+		sp := &k.Params[i]
+		if v, ok := e.Values.Lookup(sp.Key); ok && sp.Unusually(v) {
+			p.errs.Warn(at(sp.Key), sp.Unusual.Format, e.Name, spec.FormatSI(v, sp.Unit))
 		}
-	case Inductor:
-		if v := e.Get("value"); v > 1e-3 {
-			warn("value", "inductor %s is %s: unusually large for a protection path (nanohenries are usual)", e.Name, FormatSI(v, "H"))
-		}
-	case Clamp:
-		if v := e.Get("vbr"); v > 1000 {
-			warn("vbr", "clamp %s breaks down at %s: unusually high for a clamp", e.Name, FormatSI(v, "V"))
-		}
-		if v := e.Get("rdyn"); v > 100 {
-			warn("rdyn", "clamp %s has rdyn %s: a clamp's dynamic resistance is usually below 1 Ω", e.Name, FormatSI(v, "Ω"))
-		}
-	case Pin:
-		if v := e.Get("rdyn"); v > 100 {
-			warn("rdyn", "pin %s has rdyn %s: unusually high", e.Name, FormatSI(v, "Ω"))
-		}
-		if !e.Has("vbr") {
-			for _, k := range []string{"it", "nbr", "rdyn"} {
-				if _, ok := own.num[k]; ok {
-					warn(k, "pin %s: %s has no effect without vbr (the internal clamp)", e.Name, k)
-				}
+		if sp.OnlyWith != "" && !e.Values.Has(sp.OnlyWith) && own.vals.Has(sp.Key) {
+			note := ""
+			if n := k.Param(sp.OnlyWith).Note; n != "" {
+				note = " (" + n + ")"
 			}
-		}
-		if e.Has("cin") && e.Get("cin") > 1e-9 {
-			warn("cin", "pin %s has cin %s: unusually large for an IC input", e.Name, FormatSI(e.Get("cin"), "F"))
-		}
-	case Resistor:
-		if v := e.Get("value"); v > 1e9 {
-			warn("value", "resistor %s is %s: unusually large", e.Name, FormatSI(v, "Ω"))
+			p.errs.Warn(at(sp.Key), "%s %s: %s has no effect without %s%s", k.Name, e.Name, sp.Key, sp.OnlyWith, note)
 		}
 	}
 }
@@ -439,94 +450,74 @@ func (p *parser) plausible(e *Element, own *ownParams) {
 // checkStrike reads the strike: its waveform first, since the waveform
 // decides the unit of the levels and which parameters are allowed.
 func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
-	own := &ownParams{num: map[string]float64{}, str: map[string]string{}, pos: map[string]Pos{}, name: re.namePos, nodes: re.nodePos}
-	e := &Element{Kind: Strike, Name: re.name, Nodes: re.nodes, Pos: re.kindPos, Str: map[string]string{"polarity": "pos"}}
-	wave := ""
+	e := &Element{Kind: re.kind, Name: re.name, Nodes: re.nodes, Pos: re.kindPos, Polarity: "pos"}
+	names := waveforms.Names()
+	var w *waveforms.Waveform
+	bad := false // the waveform is unknown: its parameters cannot be judged
 	for _, kv := range re.params {
 		if kv.key != "waveform" {
 			continue
 		}
-		wave = kv.val
-		known := false
-		for _, w := range waveformNames {
-			known = known || w == wave
-		}
-		if !known {
-			p.errs.Add(kv.valPos, "unknown waveform %s%s; the waveforms are %s", wave, didYouMean(wave, waveformNames), strings.Join(waveformNames, ", "))
-			wave = "?"
+		if w = waveforms.Lookup(kv.val); w == nil {
+			p.errs.Add(kv.valPos, ErrUnknown, "unknown waveform %s%s; the waveforms are %s", kv.val, didYouMean(kv.val, names), strings.Join(catalogueNames(), ", "))
+			bad = true
 		}
 	}
-	if wave == "" {
-		if !re.written["waveform"] {
-			p.errs.Add(re.namePos, "strike %s needs waveform= (one of %s)", re.name, strings.Join(waveformNames, ", "))
-		}
-		wave = "?"
+	if w == nil && !bad && !re.written["waveform"] {
+		p.errs.Add(re.namePos, ErrMissing, "strike %s needs waveform= (one of %s)", re.name, strings.Join(catalogueNames(), ", "))
 	}
-	own.str["waveform"] = wave
-	hasLevel, hasFile := false, false
+	bad = bad || w == nil
+	own := &ownParams{pos: map[string]Pos{}, name: re.namePos, nodes: re.nodePos}
+	if w != nil {
+		own.vals = w.Values()
+	}
+	hasLevel := false
 	for _, kv := range re.params {
 		own.pos[kv.key] = kv.valPos
 		switch kv.key {
 		case "waveform":
 		case "level":
 			hasLevel = true
-			p.strikeLevels(e, wave, kv)
+			p.strikeLevels(e, w, bad, kv)
 		case "polarity":
-			if kv.val != "pos" && kv.val != "neg" && kv.val != "both" {
-				p.errs.Add(kv.valPos, "strike polarity is pos, neg or both, not %s%s", kv.val, didYouMean(kv.val, []string{"pos", "neg", "both"}))
+			if !contains(polarityWords, kv.val) {
+				p.errs.Add(kv.valPos, ErrValue, "strike polarity is pos, neg or both, not %s%s", kv.val, didYouMean(kv.val, polarityWords))
 				continue
 			}
-			e.Str["polarity"] = kv.val
-		case "file":
-			hasFile = true
-			if wave != "pwl" && wave != "?" {
-				p.errs.Add(kv.keyPos, "file is a parameter of waveform pwl, not of %s", wave)
-				continue
-			}
-			path := kv.val
-			if path != "" && !filepath.IsAbs(path) {
-				path = filepath.Join(filepath.Dir(kv.keyPos.File), path)
-			}
-			if fi, err := os.Stat(path); path == "" || err != nil || fi.IsDir() {
-				p.errs.Add(kv.valPos, "waveform file %s: no such file", kv.val)
-				continue
-			}
-			e.Str["file"] = path
+			e.Polarity = kv.val
 		case "part":
-			p.errs.Add(kv.keyPos, "a strike takes no part")
+			p.errs.Add(kv.keyPos, ErrValue, "a strike takes no part")
 		default:
-			sp, ok := strikeParams[kv.key]
-			if !ok {
-				p.errs.Add(kv.keyPos, "unknown parameter %s for a strike%s", kv.key, didYouMean(kv.key, keysOf(Strike)))
-				continue
-			}
-			if _, ok := sp.waveforms[wave]; !ok && wave != "?" {
-				p.errs.Add(kv.keyPos, "%s is a parameter of waveform %s, not of %s", kv.key, strings.Join(waveformsTaking(kv.key), ", "), wave)
-				continue
-			}
-			v, msg := numValue(kv.key+" of waveform "+wave, sp.unit, sp.rule, kv.val)
-			if msg != "" {
-				p.errs.Add(kv.valPos, "%s", msg)
-				continue
-			}
-			own.num[kv.key] = v
+			p.strikeParam(re, w, bad, kv, own)
 		}
 	}
 	if !hasLevel && !re.written["level"] {
-		p.errs.Add(re.namePos, "strike %s needs level= (a list such as level=2k,4k,8k)", re.name)
+		p.errs.Add(re.namePos, ErrMissing, "strike %s needs level= (a list such as level=2k,4k,8k)", re.name)
 	}
-	if wave == "pwl" && !hasFile {
-		p.errs.Add(re.namePos, `strike %s: waveform pwl needs file="path" (a CSV of time and value)`, re.name)
+	if w != nil {
+		for _, wd := range w.Words {
+			if wd.Path && own.vals.Word(wd.Key) == "" && !re.written[wd.Key] {
+				p.errs.Add(re.namePos, ErrMissing, `strike %s: waveform %s needs %s="path" (a CSV of time and value)`, re.name, w.Name, wd.Key)
+			}
+		}
+		e.Waveform = w
+		e.Values = own.vals
+		e.Values.FillDefaults()
 	}
-	e.Str["waveform"] = wave
-	e.Num = mergeStrike(wave, own)
 	if re.ok && re.nodes[0] == re.nodes[1] {
 		if re.nodes[0] == Ground {
-			p.errs.Add(re.nodePos[0], "strike %s is on gnd and gnd: it must hit a node of the circuit", re.name)
+			p.errs.Add(re.nodePos[0], ErrCircuit, "strike %s is on gnd and gnd: it must hit a node of the circuit", re.name)
 		} else {
-			p.errs.Add(re.nodePos[1], "strike %s connects node %s to itself", re.name, re.nodes[0])
+			p.errs.Add(re.nodePos[1], ErrCircuit, "strike %s connects node %s to itself", re.name, re.nodes[0])
 		}
 		re.ok = false
+	}
+	if re.ok && w != nil && len(e.Levels) > 0 && p.errs.Err() == nil {
+		// The stimulus is built now, with the rule the run uses, so that
+		// what the run would refuse the check refuses too.
+		if _, err := w.New(e.Levels[0], &e.Values); err != nil {
+			p.errs.Add(re.namePos, ErrValue, "strike %s: %v", re.name, err)
+		}
 	}
 	if re.ok {
 		if _, dup := c.own[re.name]; !dup {
@@ -536,47 +527,80 @@ func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
 	return e
 }
 
-// mergeStrike fills the waveform's defaults under the strike's own values.
-func mergeStrike(wave string, own *ownParams) map[string]float64 {
-	num := map[string]float64{}
-	for k, sp := range strikeParams {
-		if d, ok := sp.waveforms[wave]; ok && d != noDefault {
-			num[k] = d
-		}
+// polarityWords are the strike's polarities.
+var polarityWords = []string{"pos", "neg", "both"}
+
+// catalogueNames lists the waveforms in documentation order.
+func catalogueNames() []string {
+	var out []string
+	for _, w := range waveforms.Catalogue() {
+		out = append(out, w.Name)
 	}
-	for k, v := range own.num {
-		num[k] = v
-	}
-	return num
+	return out
 }
 
-func (p *parser) strikeLevels(e *Element, wave string, kv rawParam) {
-	unit := LevelUnit(wave)
+// strikeParam reads one of the waveform's parameters of a strike; bad says
+// the waveform is unknown, so only the key itself can be judged.
+func (p *parser) strikeParam(re *rawElement, w *waveforms.Waveform, bad bool, kv rawParam, own *ownParams) {
+	taking := waveforms.Taking(kv.key)
+	switch {
+	case len(taking) == 0:
+		p.errs.Add(kv.keyPos, ErrUnknown, "unknown parameter %s for a strike%s", kv.key, didYouMean(kv.key, keysOf(re.kind)))
+		return
+	case bad:
+		return
+	case w.Param(kv.key) == nil && w.Word(kv.key) == nil:
+		p.errs.Add(kv.keyPos, ErrUnknown, "%s is a parameter of waveform %s, not of %s", kv.key, strings.Join(taking, ", "), w.Name)
+		return
+	}
+	if wd := w.Word(kv.key); wd != nil && !wd.Path {
+		if m := wordProblem(re.kind, wd, kv.val); m != "" {
+			p.errs.Add(kv.valPos, ErrValue, "%s", m)
+			return
+		}
+		own.vals.SetWord(kv.key, kv.val)
+		return
+	}
+	if wd := w.Word(kv.key); wd != nil {
+		path := kv.val
+		if path != "" && !filepath.IsAbs(path) {
+			path = filepath.Join(filepath.Dir(kv.keyPos.File), path)
+		}
+		if fi, err := os.Stat(path); path == "" || err != nil || fi.IsDir() {
+			p.errs.Add(kv.valPos, ErrFile, "waveform file %s: no such file", kv.val)
+			return
+		}
+		own.vals.SetWord(kv.key, path)
+		return
+	}
+	sp := w.Param(kv.key)
+	v, msg := numValue(kv.key+" of waveform "+w.Name, sp.Unit, sp.Rule, kv.val)
+	if msg != "" {
+		p.errs.Add(kv.valPos, ErrValue, "%s", msg)
+		return
+	}
+	own.vals.Set(kv.key, v)
+}
+
+func (p *parser) strikeLevels(e *Element, w *waveforms.Waveform, bad bool, kv rawParam) {
+	if bad {
+		w = nil
+	}
 	for _, it := range splitList(kv.val, kv.valPos, &p.errs) {
-		n, msg := parseNumber(it.text, false)
-		switch {
-		case msg != "":
-			p.errs.Add(it.pos, "%s", msg)
+		v, msg := levelValue(it.text, w)
+		if msg != "" {
+			p.errs.Add(it.pos, ErrValue, "%s", msg)
 			continue
-		case n.unit != "" && wave != "?" && n.unit != unit:
-			if unit == "" {
-				p.errs.Add(it.pos, "%s is in %s, but the levels of waveform pwl are plain scale factors", it.text, unitWords[n.unit])
-			} else {
-				p.errs.Add(it.pos, "%s is in %s, but the levels of waveform %s are in %s", it.text, unitWords[n.unit], wave, unitWords[unit])
-			}
-			continue
-		case !(n.val > 0):
-			p.errs.Add(it.pos, "level %s must be positive (polarity= gives the sign)", it.text)
-			continue
-		case isDischarge(wave) && n.val > 30e3:
-			p.errs.Warn(it.pos, "level %s is above 30 kV, beyond the discharge test standards", FormatSI(n.val, "V"))
+		}
+		if w != nil && w.Discharge && v > 30e3 {
+			p.errs.Warn(it.pos, "level %s is above 30 kV, beyond the discharge test standards", spec.FormatSI(v, "V"))
 		}
 		for _, l := range e.Levels {
-			if l == n.val {
+			if l == v {
 				p.errs.Warn(it.pos, "level %s is listed twice", it.text)
 			}
 		}
-		e.Levels = append(e.Levels, n.val)
+		e.Levels = append(e.Levels, v)
 	}
 }
 
@@ -603,23 +627,23 @@ func (p *parser) checkTopology(c *Circuit) {
 		if own == nil {
 			continue
 		}
+		k := e.Kind
 		add(e.Nodes[0], e.Name, own.nodes[0])
 		add(e.Nodes[1], e.Name, own.nodes[1])
-		if rail := e.Str["rail"]; e.Kind == Pin && rail != "" {
-			add(rail, e.Name, own.pos["rail"])
-			dc = append(dc, edge{e.Nodes[0], rail, e.Name})
+		for _, w := range k.Words {
+			if n := e.Values.Word(w.Key); w.Node && n != "" {
+				add(n, e.Name, own.pos[w.Key])
+				dc = append(dc, edge{e.Nodes[0], n, e.Name})
+			}
 		}
-		switch e.Kind {
-		case Capacitor, Strike:
-		case Line:
+		switch k.DC {
+		case spec.Blocks:
+		case spec.ToReference:
 			dc = append(dc, edge{e.Nodes[0], Ground, e.Name}, edge{e.Nodes[1], Ground, e.Name})
 		default:
 			dc = append(dc, edge{e.Nodes[0], e.Nodes[1], e.Name})
 		}
-		switch {
-		case e.Kind == Supply && e.Get("r") == 0,
-			e.Kind == Inductor && e.Get("r") == 0,
-			e.Kind == Bead && e.Get("rdc") == 0:
+		if r := k.IdealWithout; r != "" && e.Values.Num(r) == 0 {
 			ideal = append(ideal, edge{e.Nodes[0], e.Nodes[1], e.Name})
 		}
 	}
@@ -628,35 +652,10 @@ func (p *parser) checkTopology(c *Circuit) {
 	}
 	for _, n := range c.Nodes {
 		if cs := conns[n]; len(cs) == 1 {
-			p.errs.Add(cs[0].pos, "node %s has only one connection (%s); connect it to something else or remove it", n, cs[0].elem)
+			p.errs.Add(cs[0].pos, ErrCircuit, "node %s has only one connection (%s); connect it to something else or remove it", n, cs[0].elem)
 		}
 	}
-
-	// A loop of branches that fix a voltage with no resistance has no
-	// solution at DC: find the first edge that closes one.
-	parent := map[string]string{}
-	find := func(x string) string {
-		for {
-			px, ok := parent[x]
-			if !ok || px == x {
-				return x
-			}
-			x = px
-		}
-	}
-	adj := map[string][]edge{}
-	for _, ed := range ideal {
-		ra, rb := find(ed.a), find(ed.b)
-		if ra == rb {
-			path := pathBetween(adj, ed.b, ed.a)
-			chain := append(path, ed.elem)
-			p.errs.Add(c.own[ed.elem].name, "loop of supplies and inductors with no resistance: %s; at DC it is a short circuit (give one of them a series resistance, r= or rdc=)", strings.Join(chain, " → "))
-			continue
-		}
-		parent[ra] = rb
-		adj[ed.a] = append(adj[ed.a], ed)
-		adj[ed.b] = append(adj[ed.b], edge{ed.b, ed.a, ed.elem})
-	}
+	p.idealLoops(c, ideal)
 
 	// Nodes reached from gnd only through capacitors or the strike float
 	// at DC; the engine ties them down with a tiny conductance.
@@ -681,6 +680,35 @@ func (p *parser) checkTopology(c *Circuit) {
 		if !seen[n] && len(conns[n]) > 1 {
 			p.errs.Warn(conns[n][0].pos, "node %s has no DC path to gnd (only capacitors or the strike reach it); the solver ties it to gnd through a tiny conductance", n)
 		}
+	}
+}
+
+// idealLoops reports each loop of branches that fix a voltage with no
+// resistance: such a loop has no solution at DC. It names the first edge
+// that closes one.
+func (p *parser) idealLoops(c *Circuit, ideal []edge) {
+	parent := map[string]string{}
+	find := func(x string) string {
+		for {
+			px, ok := parent[x]
+			if !ok || px == x {
+				return x
+			}
+			x = px
+		}
+	}
+	adj := map[string][]edge{}
+	for _, ed := range ideal {
+		ra, rb := find(ed.a), find(ed.b)
+		if ra == rb {
+			path := pathBetween(adj, ed.b, ed.a)
+			chain := append(path, ed.elem)
+			p.errs.Add(c.own[ed.elem].name, ErrCircuit, "loop of supplies and inductors with no resistance: %s; at DC it is a short circuit (give one of them a series resistance, r= or rdc=)", strings.Join(chain, " → "))
+			continue
+		}
+		parent[ra] = rb
+		adj[ed.a] = append(adj[ed.a], ed)
+		adj[ed.b] = append(adj[ed.b], edge{ed.b, ed.a, ed.elem})
 	}
 }
 

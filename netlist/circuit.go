@@ -1,10 +1,20 @@
 // Package netlist reads protection-network decks (files ending .zap) and turns
 // them into a checked Circuit and a study Plan. It does no numerics: every
-// parameter leaves here as a plain SI float64 with the defaults of the device
-// models filled in, and every problem found carries its file:line:col.
+// parameter leaves here as a checked SI value of its kind's table (package
+// devices describes every kind, package waveforms every stimulus) with the
+// defaults filled in, and every problem found carries its file:line:col.
 package netlist
 
-import "fmt"
+import (
+	"encoding/json"
+	"fmt"
+	"sort"
+	"strings"
+
+	"zapnet/devices"
+	"zapnet/devices/spec"
+	"zapnet/waveforms"
+)
 
 // Pos is a position in a deck. Line and Col count from 1; Col counts runes.
 type Pos struct {
@@ -29,68 +39,57 @@ func (p Pos) String() string {
 	return fmt.Sprintf("%s:%d:%d", p.File, p.Line, p.Col)
 }
 
-// Kind is the kind of an element statement.
-type Kind string
-
-// The element kinds of the deck language.
-const (
-	Resistor  Kind = "resistor"
-	Capacitor Kind = "capacitor"
-	Inductor  Kind = "inductor"
-	Bead      Kind = "bead"
-	Clamp     Kind = "clamp"
-	Diode     Kind = "diode"
-	Pin       Kind = "pin"
-	Supply    Kind = "supply"
-	Line      Kind = "line"
-	Strike    Kind = "strike"
-)
-
 // Ground is the name of the reference node. A deck never declares it.
 const Ground = "gnd"
 
 // Element is one checked element statement.
 //
-// Num holds every numeric parameter in SI units after the part and the
-// element's own overrides are merged and the defaults of MODELS.md filled in.
-// The positional value is stored under "value". A key is absent only when the
-// parameter is optional and has no default (a bead's isat, a pin's vbr).
-// Str holds word parameters: "polarity" (clamp: uni|bi; strike: pos|neg|both),
-// "rail" (pin), "waveform" and "file" (strike; file resolved against the deck's
-// folder), "part" (the part used, if any).
+// Values holds every parameter of the kind's table after the part and the
+// element's own overrides are merged and the defaults of the models filled
+// in; the positional value is the parameter "value". A parameter is absent
+// only when it is optional and has no default (a bead's isat, a pin's vbr).
+// A strike's Values are of its waveform's table (a file path resolved
+// against the deck's folder).
 type Element struct {
-	Kind   Kind
+	Kind   *devices.Kind
 	Name   string
 	Nodes  [2]string
-	Num    map[string]float64
-	Str    map[string]string
-	Levels []float64 // strike only: the levels to run, in the waveform's unit
+	Values spec.Values
+	Part   string // the part used, "" for none
 	Pos    Pos
+
+	// The strike's own: its waveform, the levels to run (in the
+	// waveform's unit) and its polarity word ("pos", "neg" or "both").
+	Waveform *waveforms.Waveform
+	Levels   []float64
+	Polarity string
 }
 
-// Has reports whether the numeric parameter key is present.
-func (e *Element) Has(key string) bool {
-	_, ok := e.Num[key]
-	return ok
-}
+// IsStrike reports whether the element is the strike.
+func (e *Element) IsStrike() bool { return e.Kind.Role == spec.Stimulus }
 
-// Get returns the numeric parameter key, or 0 when it is absent.
-func (e *Element) Get(key string) float64 { return e.Num[key] }
+// Param describes the numeric parameter key of the element (of its
+// waveform, for the strike), or nil.
+func (e *Element) Param(key string) *spec.Param { return e.Values.Table().Param(key) }
 
-// GetOr returns the numeric parameter key, or def when it is absent.
-func (e *Element) GetOr(key string, def float64) float64 {
-	if v, ok := e.Num[key]; ok {
-		return v
+// Unit is the unit of the element's parameter key ("" when dimensionless or
+// unknown).
+func (e *Element) Unit(key string) spec.Unit {
+	if p := e.Param(key); p != nil {
+		return p.Unit
 	}
-	return def
+	return ""
 }
 
 // Watch asks for a node to be reported, with optional limits for a verdict.
+// Peaking (dB), CMax (F) and Rise (s) are the signal side's limits, judged
+// by the small-signal study and the edge check; zero means none.
 type Watch struct {
-	Node           string
-	Max, Min       float64
-	HasMax, HasMin bool
-	Pos            Pos
+	Node                string
+	Max, Min            float64
+	HasMax, HasMin      bool
+	Peaking, CMax, Rise float64
+	Pos                 Pos
 }
 
 // Window is the simulated span and its accuracy. A zero field means "choose
@@ -103,12 +102,12 @@ type Window struct {
 	Pos     Pos
 }
 
-// Vary is one what-if line: each value is kept as written in the deck (a
-// number with its prefix and unit, or a part name when Param is "part").
+// Vary is one what-if line: the settings of one parameter, each value
+// checked and kept with its spelling in the deck.
 type Vary struct {
 	Element string
 	Param   string
-	Values  []string
+	Values  []Setting
 	Pos     Pos
 }
 
@@ -123,25 +122,32 @@ type Tolerance struct {
 	Pos     Pos
 }
 
-// Part is a named parameter set for elements of one kind.
+// Part is a named parameter set for elements of one kind: the values it
+// states, without defaults.
 type Part struct {
-	Name string
-	Kind Kind
-	Num  map[string]float64
-	Str  map[string]string
-	Pos  Pos
+	Name   string
+	Kind   *devices.Kind
+	Values spec.Values
+	Pos    Pos
 }
 
-// Setting changes one parameter of one element; Value is deck text ("100n",
-// "4.7uF", or a part name when Param is "part").
+// Setting changes one parameter of one element. Text is the value as the
+// user wrote it ("100n", "4.7uF", or a part or word when Param is "part" or
+// a word parameter), kept for reports; Num is the checked number of a
+// numeric parameter. Circuit.Setting makes one from text; a program may
+// also fill Num itself (and a Text to show).
 type Setting struct {
 	Element string
 	Param   string
-	Value   string
+	Text    string
+	Num     float64
 }
 
+// Target is ELEMENT.PARAM.
+func (s Setting) Target() string { return s.Element + "." + s.Param }
+
 // String renders ELEMENT.PARAM=VALUE.
-func (s Setting) String() string { return s.Element + "." + s.Param + "=" + s.Value }
+func (s Setting) String() string { return s.Target() + "=" + s.Text }
 
 // Variant is one combination of vary settings; the empty variant is the deck
 // as written.
@@ -149,7 +155,7 @@ type Variant []Setting
 
 // Plan is the study a deck describes: every level × polarity × variant.
 type Plan struct {
-	Waveform   string
+	Waveform   *waveforms.Waveform
 	Levels     []float64 // in the waveform's unit (V for discharges)
 	Polarities []string  // "pos" and/or "neg", in that order
 	Variants   []Variant // at least one (the empty variant)
@@ -172,6 +178,9 @@ type Circuit struct {
 	Tolerances []Tolerance
 	Parts      map[string]*Part
 	Warnings   ErrorList // legal but doubtful things: shown, never fatal
+	// Included lists the absolute paths of every file the deck read,
+	// itself first.
+	Included []string
 
 	// own keeps, per element name, the parameters the element states
 	// itself, so that With can merge them again over a swapped part. It is
@@ -192,9 +201,70 @@ func (c *Circuit) Element(name string) *Element {
 // Strike returns the deck's strike element, or nil.
 func (c *Circuit) Strike() *Element {
 	for _, e := range c.Elements {
-		if e.Kind == Strike {
+		if e.IsStrike() {
 			return e
 		}
 	}
 	return nil
+}
+
+// MarshalJSON writes the variant as OUTPUT.md's JSON does: an object of
+// "ELEMENT.PARAM": "value as written", {} for the deck as written.
+func (v Variant) MarshalJSON() ([]byte, error) {
+	m := make(map[string]string, len(v))
+	for _, s := range v {
+		m[s.Target()] = s.Text
+	}
+	return json.Marshal(m)
+}
+
+// UnmarshalJSON reads that object back, settings in the order of their
+// targets; each keeps its text (Num is not filled: the text is read against
+// a circuit by Circuit.Setting).
+func (v *Variant) UnmarshalJSON(b []byte) error {
+	var m map[string]string
+	if err := json.Unmarshal(b, &m); err != nil {
+		return err
+	}
+	targets := make([]string, 0, len(m))
+	for t := range m {
+		targets = append(targets, t)
+	}
+	sort.Strings(targets)
+	*v = (*v)[:0]
+	for _, t := range targets {
+		elem, param, ok := SplitTarget(t)
+		if !ok {
+			return fmt.Errorf("variant %q: want ELEMENT.PARAM", t)
+		}
+		*v = append(*v, Setting{Element: elem, Param: param, Text: m[t]})
+	}
+	return nil
+}
+
+// String renders a variant as "C1.value=1u D1.part=fast", or "deck" for the
+// deck as written.
+func (v Variant) String() string {
+	if len(v) == 0 {
+		return "deck"
+	}
+	s := make([]string, len(v))
+	for i, st := range v {
+		s[i] = st.String()
+	}
+	return strings.Join(s, " ")
+}
+
+// Rating returns the element's rating judged against measure m and its
+// value; ok is false when its kind has no such rating or the element gives
+// it no value.
+func (e *Element) Rating(m spec.Measure) (p *spec.Param, v float64, ok bool) {
+	for _, r := range e.Kind.Ratings() {
+		if r.Rates.Measure == m {
+			if v, ok := e.Values.Lookup(r.Key); ok {
+				return &r, v, true
+			}
+		}
+	}
+	return nil, 0, false
 }

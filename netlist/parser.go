@@ -8,6 +8,9 @@ import (
 	"strings"
 	"unicode"
 	"unicode/utf8"
+
+	"zapnet/devices"
+	"zapnet/devices/spec"
 )
 
 // maxDeckSize bounds a deck or an included file: a deck is a page of text,
@@ -28,7 +31,7 @@ type rawParam struct {
 
 // rawElement is an element statement before its parameters are checked.
 type rawElement struct {
-	kind     Kind
+	kind     *devices.Kind
 	kindPos  Pos
 	name     string
 	namePos  Pos
@@ -45,7 +48,7 @@ type rawElement struct {
 type rawPart struct {
 	name    string
 	namePos Pos
-	kind    Kind
+	kind    *devices.Kind
 	params  []rawParam
 	pos     Pos
 }
@@ -87,6 +90,7 @@ type parser struct {
 	stack    []string // absolute paths of the files being read, outermost first
 	shown    []string // the same files as shown in messages
 	done     map[string]bool
+	included []string // absolute paths of every file read, in order
 	elements []*rawElement
 	parts    []*rawPart
 	watches  []rawWatch
@@ -110,7 +114,7 @@ func ParseFile(path string) (*Circuit, error) {
 	src, err := readDeck(path)
 	if err != nil {
 		var l ErrorList
-		l.Add(Pos{File: path}, "%v", err)
+		l.Add(Pos{File: path}, ErrFile, "%v", err)
 		return nil, l
 	}
 	return Parse(path, src)
@@ -177,6 +181,7 @@ func absPath(path string) string {
 // asked for it (invalid for the top deck).
 func (p *parser) file(name string, src []byte, from Pos) {
 	abs := absPath(name)
+	p.included = append(p.included, abs)
 	p.stack = append(p.stack, abs)
 	p.shown = append(p.shown, name)
 	defer func() {
@@ -194,7 +199,7 @@ func (p *parser) statement(st statement) {
 	t := st.toks[0]
 	word := t.raw
 	if t.quoted || t.isKV {
-		p.errs.Add(t.pos, "a statement starts with a keyword such as %s, not %s", "resistor", t.raw)
+		p.errs.Add(t.pos, ErrSyntax, "a statement starts with a keyword such as %s, not %s", "resistor", t.raw)
 		return
 	}
 	switch word {
@@ -213,17 +218,17 @@ func (p *parser) statement(st statement) {
 	case "window":
 		p.parseWindow(st)
 	default:
-		if _, ok := specs[Kind(word)]; ok || Kind(word) == Strike {
-			p.parseElement(st)
+		if k := devices.Lookup(word); k != nil {
+			p.parseElement(st, k)
 			return
 		}
 		switch {
 		case strings.HasPrefix(word, "."):
-			p.errs.Add(t.pos, "unknown statement %s: statements have no leading dot%s", word, didYouMean(word[1:], statementWords))
+			p.errs.Add(t.pos, ErrUnknown, "unknown statement %s: statements have no leading dot%s", word, didYouMean(word[1:], statementWords()))
 		case strings.HasPrefix(word, "+"):
-			p.errs.Add(t.pos, "a line cannot continue with +; end the previous line with \\ instead")
+			p.errs.Add(t.pos, ErrSyntax, "a line cannot continue with +; end the previous line with \\ instead")
 		default:
-			p.errs.Add(t.pos, "unknown statement %s%s", word, didYouMean(word, statementWords))
+			p.errs.Add(t.pos, ErrUnknown, "unknown statement %s%s", word, didYouMean(word, statementWords()))
 		}
 	}
 }
@@ -238,7 +243,7 @@ func (p *parser) parseTitle(st statement) {
 		return // a library's own title does not name the deck
 	}
 	if p.titlePos.IsValid() {
-		p.errs.Add(t.pos, "second title; the first is at %s", p.titlePos)
+		p.errs.Add(t.pos, ErrDuplicate, "second title; the first is at %s", p.titlePos)
 		return
 	}
 	p.title, p.titlePos = st.toks[1].text, t.pos
@@ -249,7 +254,7 @@ func (p *parser) parseTitle(st statement) {
 // it, and says whether st.toks[1] is the text.
 func (p *parser) oneQuoted(st statement, what, usage string) bool {
 	if len(st.toks) < 2 || !st.toks[1].quoted {
-		p.errs.Add(st.toks[0].pos, "%s", usage)
+		p.errs.Add(st.toks[0].pos, ErrSyntax, "%s", usage)
 		return false
 	}
 	p.extra(st.toks[2:], what)
@@ -259,7 +264,7 @@ func (p *parser) oneQuoted(st statement, what, usage string) bool {
 // extra reports tokens left over at the end of a statement.
 func (p *parser) extra(toks []token, what string) {
 	for _, t := range toks {
-		p.errs.Add(t.pos, "unexpected %s at the end of the %s statement", t.raw, what)
+		p.errs.Add(t.pos, ErrSyntax, "unexpected %s at the end of the %s statement", t.raw, what)
 	}
 }
 
@@ -272,7 +277,7 @@ func (p *parser) parseInclude(st statement) {
 	pt := st.toks[1]
 	path := pt.text
 	if path == "" {
-		p.errs.Add(pt.pos, "include of an empty path")
+		p.errs.Add(pt.pos, ErrFile, "include of an empty path")
 		return
 	}
 	if !filepath.IsAbs(path) {
@@ -282,7 +287,7 @@ func (p *parser) parseInclude(st statement) {
 	for i, s := range p.stack {
 		if s == abs {
 			chain := append(append([]string(nil), p.shown[i:]...), path)
-			p.errs.Add(pt.pos, "include cycle: %s", strings.Join(chain, " → "))
+			p.errs.Add(pt.pos, ErrFile, "include cycle: %s", strings.Join(chain, " → "))
 			return
 		}
 	}
@@ -290,12 +295,12 @@ func (p *parser) parseInclude(st statement) {
 		return // a library included twice is read once
 	}
 	if len(p.stack) >= maxIncludeDepth {
-		p.errs.Add(pt.pos, "includes nested more than %d deep", maxIncludeDepth)
+		p.errs.Add(pt.pos, ErrFile, "includes nested more than %d deep", maxIncludeDepth)
 		return
 	}
 	src, err := readDeck(path)
 	if err != nil {
-		p.errs.Add(pt.pos, "%v", err)
+		p.errs.Add(pt.pos, ErrFile, "%v", err)
 		return
 	}
 	p.file(path, src, pt.pos)
@@ -317,7 +322,7 @@ func (p *parser) params(toks []token) (pos []token, kv []rawParam) {
 		}
 		if n, ok := next(1); ok && !t.isKV && !t.quoted && n.isKV && n.key == "" {
 			// key =value or key = value
-			p.errs.Add(n.pos, "no spaces around = in key=value")
+			p.errs.Add(n.pos, ErrSyntax, "no spaces around = in key=value")
 			t = token{raw: t.raw + "=" + n.val, isKV: true, key: t.raw, pos: t.pos, val: n.val, valPos: n.valPos, valQuoted: n.valQuoted}
 			i++
 			if n.val == "" && !n.valQuoted {
@@ -329,14 +334,14 @@ func (p *parser) params(toks []token) (pos []token, kv []rawParam) {
 		} else if t.isKV && t.key != "" && t.val == "" && !t.valQuoted {
 			if v, ok := next(1); ok && !v.isKV {
 				// key= value
-				p.errs.Add(v.pos, "no spaces around = in key=value")
+				p.errs.Add(v.pos, ErrSyntax, "no spaces around = in key=value")
 				t.val, t.valPos, t.valQuoted = v.text, v.pos, v.quoted
 				i++
 			}
 		}
 		if t.isKV && strings.HasSuffix(t.val, ",") {
 			if v, ok := next(1); ok && !v.isKV && !v.quoted {
-				p.errs.Add(v.pos, "no spaces in a list: write level=2k,4k")
+				p.errs.Add(v.pos, ErrSyntax, "no spaces in a list: write level=2k,4k")
 				for ok && !v.isKV && !v.quoted && strings.HasSuffix(t.val, ",") {
 					t.val += v.raw
 					i++
@@ -346,7 +351,7 @@ func (p *parser) params(toks []token) (pos []token, kv []rawParam) {
 		}
 		if !t.isKV {
 			if len(kv) > 0 {
-				p.errs.Add(t.pos, "unexpected %s after the key=value parameters", t.raw)
+				p.errs.Add(t.pos, ErrSyntax, "unexpected %s after the key=value parameters", t.raw)
 				continue
 			}
 			pos = append(pos, t)
@@ -354,14 +359,14 @@ func (p *parser) params(toks []token) (pos []token, kv []rawParam) {
 		}
 		switch {
 		case t.key == "":
-			p.errs.Add(t.pos, "no spaces around = in key=value")
+			p.errs.Add(t.pos, ErrSyntax, "no spaces around = in key=value")
 			continue
 		case t.val == "" && !t.valQuoted:
-			p.errs.Add(t.pos, "%s= has no value", t.key)
+			p.errs.Add(t.pos, ErrMissing, "%s= has no value", t.key)
 			continue
 		}
 		if first, dup := seen[t.key]; dup {
-			p.errs.Add(t.pos, "%s given twice (first at %d:%d)", t.key, first.Line, first.Col)
+			p.errs.Add(t.pos, ErrDuplicate, "%s given twice (first at %d:%d)", t.key, first.Line, first.Col)
 			continue
 		}
 		seen[t.key] = t.pos
@@ -379,7 +384,7 @@ func (p *parser) checkName(what, s string, pos Pos) bool {
 	if what == "node" && (s == "0" || s == "GND" || s == "Gnd") {
 		msg += "; the reference node is gnd"
 	}
-	p.errs.Add(pos, "%s name %s %s", what, s, msg)
+	p.errs.Add(pos, ErrSyntax, "%s name %s %s", what, s, msg)
 	return false
 }
 
@@ -400,9 +405,8 @@ func nameProblem(s string) string {
 }
 
 // element = kind name node node [value] { key "=" value } .
-func (p *parser) parseElement(st statement) {
+func (p *parser) parseElement(st statement, kind *devices.Kind) {
 	t := st.toks[0]
-	kind := Kind(t.raw)
 	e := &rawElement{kind: kind, kindPos: t.pos, written: map[string]bool{}}
 	for _, t := range st.toks[1:] {
 		if t.isKV {
@@ -413,7 +417,7 @@ func (p *parser) parseElement(st statement) {
 	e.params = kv
 	e.ok = true
 	if len(pos) < 1 {
-		p.errs.Add(t.pos, "%s needs a name and two nodes: %s", kind, usageOf(kind))
+		p.errs.Add(t.pos, ErrMissing, "%s needs a name and two nodes: %s", kind.Name, usageOf(kind))
 		return
 	}
 	e.name, e.namePos = pos[0].raw, pos[0].pos
@@ -421,7 +425,7 @@ func (p *parser) parseElement(st statement) {
 		e.ok = false
 	}
 	if len(pos) < 3 {
-		p.errs.Add(e.namePos, "%s %s needs two nodes: %s", kind, e.name, usageOf(kind))
+		p.errs.Add(e.namePos, ErrMissing, "%s %s needs two nodes: %s", kind.Name, e.name, usageOf(kind))
 		e.ok = false
 	}
 	for i := 0; i < 2 && i+1 < len(pos); i++ {
@@ -431,30 +435,30 @@ func (p *parser) parseElement(st statement) {
 		}
 	}
 	rest := pos[min(len(pos), 3):]
-	spec := specs[kind]
-	if len(rest) > 0 && spec != nil && spec.hasValue {
+	positional := kind.Positional() != nil
+	if len(rest) > 0 && positional {
 		e.value, e.valuePos, e.hasValue = rest[0].raw, rest[0].pos, true
 		rest = rest[1:]
 	}
 	for _, r := range rest {
-		if spec != nil && spec.hasValue {
-			p.errs.Add(r.pos, "unexpected %s: %s takes one value, then key=value parameters", r.raw, kind)
+		if positional {
+			p.errs.Add(r.pos, ErrSyntax, "unexpected %s: %s takes one value, then key=value parameters", r.raw, kind.Name)
 		} else {
-			p.errs.Add(r.pos, "unexpected %s: %s takes no positional value, only key=value parameters", r.raw, kind)
+			p.errs.Add(r.pos, ErrSyntax, "unexpected %s: %s takes no positional value, only key=value parameters", r.raw, kind.Name)
 		}
 	}
 	p.elements = append(p.elements, e)
 }
 
 // usageOf is the synopsis of an element statement, for messages.
-func usageOf(k Kind) string {
-	switch k {
-	case Strike:
-		return "strike NAME NODE REF waveform=W level=L1,L2 [polarity=pos|neg|both]"
-	case Resistor, Capacitor, Inductor, Supply:
-		return string(k) + " NAME A B VALUE [key=value ...]"
+func usageOf(k *devices.Kind) string {
+	switch {
+	case k.Role == spec.Stimulus:
+		return k.Name + " NAME NODE REF waveform=W level=L1,L2 [polarity=pos|neg|both]"
+	case k.Positional() != nil:
+		return k.Name + " NAME A B VALUE [key=value ...]"
 	}
-	return string(k) + " NAME A B [key=value ...]"
+	return k.Name + " NAME A B [key=value ...]"
 }
 
 // part = "part" name kind { key "=" value } .
@@ -462,24 +466,20 @@ func (p *parser) parsePart(st statement) {
 	t := st.toks[0]
 	pos, kv := p.params(st.toks[1:])
 	if len(pos) < 2 {
-		p.errs.Add(t.pos, "part needs a name and a kind: part NAME KIND key=value ...")
+		p.errs.Add(t.pos, ErrMissing, "part needs a name and a kind: part NAME KIND key=value ...")
 		return
 	}
-	pt := &rawPart{name: pos[0].raw, namePos: pos[0].pos, kind: Kind(pos[1].raw), params: kv, pos: t.pos}
+	pt := &rawPart{name: pos[0].raw, namePos: pos[0].pos, kind: devices.Lookup(pos[1].raw), params: kv, pos: t.pos}
 	p.extra(pos[2:], "part")
 	if !p.checkName("part", pt.name, pt.namePos) {
 		return
 	}
-	if specs[pt.kind] == nil {
-		var kinds []string
-		for _, k := range kindOrder[:len(kindOrder)-1] {
-			kinds = append(kinds, string(k))
-		}
-		if pt.kind == Strike {
-			p.errs.Add(pos[1].pos, "a strike cannot be a part")
-		} else {
-			p.errs.Add(pos[1].pos, "unknown element kind %s%s", pos[1].raw, didYouMean(pos[1].raw, kinds))
-		}
+	switch {
+	case pt.kind == nil:
+		p.errs.Add(pos[1].pos, ErrUnknown, "unknown element kind %s%s", pos[1].raw, didYouMean(pos[1].raw, kindNames()))
+		return
+	case pt.kind.Role == spec.Stimulus:
+		p.errs.Add(pos[1].pos, ErrValue, "a %s cannot be a part", pt.kind.Name)
 		return
 	}
 	p.parts = append(p.parts, pt)
@@ -490,7 +490,7 @@ func (p *parser) parseWatch(st statement) {
 	t := st.toks[0]
 	pos, kv := p.params(st.toks[1:])
 	if len(pos) < 1 {
-		p.errs.Add(t.pos, "watch needs a node: watch NODE [max=V] [min=V]")
+		p.errs.Add(t.pos, ErrMissing, "watch needs a node: watch NODE [max=V] [min=V]")
 		return
 	}
 	p.extra(pos[1:], "watch")
@@ -500,16 +500,15 @@ func (p *parser) parseWatch(st statement) {
 	p.watches = append(p.watches, rawWatch{node: pos[0].raw, nodePos: pos[0].pos, params: kv, pos: t.pos})
 }
 
-// splitTarget splits ELEMENT.PARAM at the last dot: element names may hold
-// dots, parameter names never do.
+// splitTarget splits ELEMENT.PARAM (SplitTarget) and places PARAM.
 func splitTarget(key string, pos Pos) (elem, param string, paramPos Pos, ok bool) {
-	k := strings.LastIndexByte(key, '.')
-	if k <= 0 || k == len(key)-1 {
+	elem, param, ok = SplitTarget(key)
+	if !ok {
 		return "", "", pos, false
 	}
 	paramPos = pos
-	paramPos.Col += utf8.RuneCountInString(key[:k+1])
-	return key[:k], key[k+1:], paramPos, true
+	paramPos.Col += utf8.RuneCountInString(elem) + 1
+	return elem, param, paramPos, true
 }
 
 // vary = "vary" element "." param "=" value { "," value } .
@@ -518,17 +517,17 @@ func (p *parser) parseVary(st statement) {
 	pos, kv := p.params(st.toks[1:])
 	p.extra(pos, "vary")
 	if len(kv) == 0 {
-		p.errs.Add(t.pos, "vary needs ELEMENT.PARAM=v1,v2,...")
+		p.errs.Add(t.pos, ErrMissing, "vary needs ELEMENT.PARAM=v1,v2,...")
 		return
 	}
 	for i, r := range kv {
 		if i > 0 {
-			p.errs.Add(r.keyPos, "one ELEMENT.PARAM a vary line; put %s on a line of its own", r.key)
+			p.errs.Add(r.keyPos, ErrSyntax, "one ELEMENT.PARAM a vary line; put %s on a line of its own", r.key)
 			continue
 		}
 		elem, param, ppos, ok := splitTarget(r.key, r.keyPos)
 		if !ok {
-			p.errs.Add(r.keyPos, "vary takes ELEMENT.PARAM=v1,v2,..., not %s", r.key)
+			p.errs.Add(r.keyPos, ErrSyntax, "vary takes ELEMENT.PARAM=v1,v2,..., not %s", r.key)
 			continue
 		}
 		vals := splitList(r.val, r.valPos, &p.errs)
@@ -549,20 +548,20 @@ func (p *parser) parseTolerance(st statement) {
 		if r.key == "dist" {
 			line.dPos = r.valPos
 			if r.val != "uniform" && r.val != "normal" {
-				p.errs.Add(r.valPos, "dist is uniform or normal, not %s%s", r.val, didYouMean(r.val, []string{"uniform", "normal"}))
+				p.errs.Add(r.valPos, ErrValue, "dist is uniform or normal, not %s%s", r.val, didYouMean(r.val, []string{"uniform", "normal"}))
 			}
 			line.dist = r.val
 			continue
 		}
 		elem, param, ppos, ok := splitTarget(r.key, r.keyPos)
 		if !ok {
-			p.errs.Add(r.keyPos, "tolerance takes ELEMENT.PARAM=x%%, not %s", r.key)
+			p.errs.Add(r.keyPos, ErrSyntax, "tolerance takes ELEMENT.PARAM=x%%, not %s", r.key)
 			continue
 		}
 		line.pairs = append(line.pairs, rawTol{elem: elem, param: param, targetPos: r.keyPos, paramPos: ppos, percent: r.val, percentPos: r.valPos})
 	}
 	if len(line.pairs) == 0 {
-		p.errs.Add(t.pos, "tolerance needs ELEMENT.PARAM=x%% (for example C1.value=10%%)")
+		p.errs.Add(t.pos, ErrMissing, "tolerance needs ELEMENT.PARAM=x%% (for example C1.value=10%%)")
 		return
 	}
 	p.tols = append(p.tols, line)
@@ -574,7 +573,7 @@ func (p *parser) parseWindow(st statement) {
 	pos, kv := p.params(st.toks[1:])
 	p.extra(pos, "window")
 	if len(kv) == 0 {
-		p.errs.Add(t.pos, "window needs at least one of stop=, maxstep=, reltol=, abstol=")
+		p.errs.Add(t.pos, ErrMissing, "window needs at least one of stop=, maxstep=, reltol=, abstol=")
 		return
 	}
 	p.windows = append(p.windows, rawParamsAt{params: kv, pos: t.pos})

@@ -4,8 +4,17 @@ import (
 	"fmt"
 	"maps"
 	"slices"
+	"strconv"
 	"strings"
+
+	"zapnet/devices/spec"
+	"zapnet/waveforms"
 )
+
+// signalLimits are the units of a watch's signal-side limits: the peaking
+// of its transfer in dB (a plain number), the capacitance it may see and
+// the 10–90 % rise an edge may take to reach it.
+var signalLimits = map[string]spec.Unit{"peaking": spec.Dimensionless, "cmax": spec.Farad, "rise": spec.Second}
 
 func (p *parser) checkWatches(c *Circuit) {
 	known := map[string]bool{}
@@ -17,14 +26,14 @@ func (p *parser) checkWatches(c *Circuit) {
 		w := Watch{Node: rw.node, Pos: rw.nodePos}
 		switch {
 		case rw.node == Ground:
-			p.errs.Add(rw.nodePos, "gnd is the reference: it is always 0 V")
+			p.errs.Add(rw.nodePos, ErrCircuit, "gnd is the reference: it is always 0 V")
 			continue
 		case !known[rw.node]:
-			p.errs.Add(rw.nodePos, "watch: no node %s in the deck%s", rw.node, didYouMean(rw.node, c.Nodes))
+			p.errs.Add(rw.nodePos, ErrUnknown, "watch: no node %s in the deck%s", rw.node, didYouMean(rw.node, c.Nodes))
 			continue
 		}
 		if first, dup := seen[rw.node]; dup {
-			p.errs.Add(rw.nodePos, "node %s is already watched at %s", rw.node, first)
+			p.errs.Add(rw.nodePos, ErrDuplicate, "node %s is already watched at %s", rw.node, first)
 			continue
 		}
 		seen[rw.node] = rw.nodePos
@@ -32,9 +41,9 @@ func (p *parser) checkWatches(c *Circuit) {
 		for _, kv := range rw.params {
 			switch kv.key {
 			case "max", "min":
-				v, msg := numValue(kv.key+" of a watch", "V", anyValue, kv.val)
+				v, msg := numValue(kv.key+" of a watch", spec.Volt, spec.Any, kv.val)
 				if msg != "" {
-					p.errs.Add(kv.valPos, "%s", msg)
+					p.errs.Add(kv.valPos, ErrValue, "%s", msg)
 					ok = false
 					continue
 				}
@@ -43,13 +52,28 @@ func (p *parser) checkWatches(c *Circuit) {
 				} else {
 					w.Min, w.HasMin = v, true
 				}
+			case "peaking", "cmax", "rise":
+				v, msg := numValue(kv.key+" of a watch", signalLimits[kv.key], spec.Positive, kv.val)
+				if msg != "" {
+					p.errs.Add(kv.valPos, ErrValue, "%s", msg)
+					ok = false
+					continue
+				}
+				switch kv.key {
+				case "peaking":
+					w.Peaking = v
+				case "cmax":
+					w.CMax = v
+				default:
+					w.Rise = v
+				}
 			default:
-				p.errs.Add(kv.keyPos, "unknown parameter %s for a watch%s", kv.key, didYouMean(kv.key, []string{"max", "min"}))
+				p.errs.Add(kv.keyPos, ErrUnknown, "unknown parameter %s for a watch%s", kv.key, didYouMean(kv.key, []string{"max", "min", "peaking", "cmax", "rise"}))
 				ok = false
 			}
 		}
 		if w.HasMax && w.HasMin && !(w.Min < w.Max) {
-			p.errs.Add(rw.nodePos, "watch %s: min %s is not below max %s", rw.node, FormatSI(w.Min, "V"), FormatSI(w.Max, "V"))
+			p.errs.Add(rw.nodePos, ErrValue, "watch %s: min %s is not below max %s", rw.node, spec.FormatSI(w.Min, "V"), spec.FormatSI(w.Max, "V"))
 			ok = false
 		}
 		if ok {
@@ -61,24 +85,24 @@ func (p *parser) checkWatches(c *Circuit) {
 func (p *parser) checkWindow(c *Circuit) {
 	for i, rw := range p.windows {
 		if i > 0 {
-			p.errs.Add(rw.pos, "second window; the first is at %s", p.windows[0].pos)
+			p.errs.Add(rw.pos, ErrDuplicate, "second window; the first is at %s", p.windows[0].pos)
 			continue
 		}
 		w := Window{Pos: rw.pos}
 		for _, kv := range rw.params {
 			var dst *float64
-			unit, r := "s", positive
+			unit, r := spec.Second, spec.Positive
 			switch kv.key {
 			case "stop":
 				dst = &w.Stop
 			case "maxstep":
 				dst = &w.MaxStep
 			case "reltol":
-				dst, unit = &w.RelTol, ""
+				dst, unit = &w.RelTol, spec.Dimensionless
 			case "abstol":
-				dst, unit = &w.AbsTol, "V"
+				dst, unit = &w.AbsTol, spec.Volt
 			default:
-				p.errs.Add(kv.keyPos, "unknown parameter %s for a window%s", kv.key, didYouMean(kv.key, []string{"stop", "maxstep", "reltol", "abstol"}))
+				p.errs.Add(kv.keyPos, ErrUnknown, "unknown parameter %s for a window%s", kv.key, didYouMean(kv.key, []string{"stop", "maxstep", "reltol", "abstol"}))
 				continue
 			}
 			v, msg := numValue(kv.key+" of a window", unit, r, kv.val)
@@ -86,105 +110,175 @@ func (p *parser) checkWindow(c *Circuit) {
 				msg = fmt.Sprintf("reltol is a fraction below 1 (got %s)", kv.val)
 			}
 			if msg != "" {
-				p.errs.Add(kv.valPos, "%s", msg)
+				p.errs.Add(kv.valPos, ErrValue, "%s", msg)
 				continue
 			}
 			*dst = v
 		}
 		if w.Stop > 0 && w.MaxStep > w.Stop {
-			p.errs.Add(rw.pos, "window: maxstep %s is longer than stop %s", FormatSI(w.MaxStep, "s"), FormatSI(w.Stop, "s"))
+			p.errs.Add(rw.pos, ErrValue, "window: maxstep %s is longer than stop %s", spec.FormatSI(w.MaxStep, "s"), spec.FormatSI(w.Stop, "s"))
 		}
 		c.Window = w
 	}
 }
 
-// settable reports why ELEMENT.PARAM cannot be set, or "" when it can.
-func settable(c *Circuit, elem, param string) (string, *Element) {
+// problem is a deck error without a position yet.
+func problem(kind error, format string, args ...any) *Error {
+	return &Error{Err: kind, Msg: fmt.Sprintf(format, args...)}
+}
+
+// settable says why ELEMENT.PARAM cannot be set (ErrUnknown, ErrValue), or
+// nil when it can.
+func settable(c *Circuit, elem, param string) (*Error, *Element) {
 	e := c.Element(elem)
 	if e == nil {
 		var names []string
 		for _, x := range c.Elements {
 			names = append(names, x.Name)
 		}
-		return fmt.Sprintf("no element %s%s", elem, didYouMean(elem, names)), nil
+		return problem(ErrUnknown, "no element %s%s", elem, didYouMean(elem, names)), nil
 	}
-	if e.Kind == Strike {
+	if e.IsStrike() {
 		switch param {
 		case "level", "polarity":
-			return "levels and polarities are already axes of the study; list them on the strike", e
-		case "waveform", "file", "part":
-			return fmt.Sprintf("the strike's %s cannot be varied", param), e
+			return problem(ErrValue, "levels and polarities are already axes of the study; list them on the strike"), e
+		case "waveform", "part":
+			return problem(ErrValue, "the strike's %s cannot be varied", param), e
 		}
-		sp, ok := strikeParams[param]
-		if !ok {
-			return fmt.Sprintf("a strike has no parameter %s%s", param, didYouMean(param, keysOf(Strike))), e
+		if e.Waveform == nil {
+			// The strike's waveform is missing or unknown, an error
+			// reported where the strike is read.
+			return problem(ErrValue, "strike %s has no waveform whose %s could be set", e.Name, param), e
 		}
-		if _, ok := sp.waveforms[e.Str["waveform"]]; !ok {
-			return fmt.Sprintf("%s is a parameter of waveform %s, not of %s", param, strings.Join(waveformsTaking(param), ", "), e.Str["waveform"]), e
+		if e.Waveform.Word(param) != nil {
+			return problem(ErrValue, "the strike's %s cannot be varied", param), e
 		}
-		return "", e
+		taking := waveforms.Taking(param)
+		if len(taking) == 0 {
+			return problem(ErrUnknown, "a strike has no parameter %s%s", param, didYouMean(param, keysOf(e.Kind))), e
+		}
+		if e.Waveform.Param(param) == nil {
+			return problem(ErrUnknown, "%s is a parameter of waveform %s, not of %s", param, strings.Join(taking, ", "), e.Waveform.Name), e
+		}
+		return nil, e
 	}
-	if param == "rail" {
-		return "a pin's rail changes the circuit's nodes and cannot be varied", e
+	if w := e.Kind.Word(param); w != nil && w.Fixed {
+		return problem(ErrValue, "a %s's %s changes the circuit's nodes and cannot be varied", e.Kind.Name, param), e
 	}
-	if param == "part" || hasWord(e.Kind, param) || specOf(e.Kind, param) != nil {
-		return "", e
+	if param == "part" || e.Kind.Word(param) != nil || e.Kind.Param(param) != nil {
+		return nil, e
 	}
-	return fmt.Sprintf("a %s has no parameter %s%s", e.Kind, param, didYouMean(param, keysOf(e.Kind))), e
+	return problem(ErrUnknown, "a %s has no parameter %s%s", e.Kind.Name, param, didYouMean(param, keysOf(e.Kind))), e
+}
+
+// isNumeric reports whether the parameter param of e takes a number (not a
+// part or a word).
+func isNumeric(e *Element, param string) bool { return e.Param(param) != nil }
+
+// parseSetting reads the text of a setting of param of e (already settable)
+// as the deck would: a number in the parameter's unit, a part of the
+// element's kind or one of a word parameter's words. It says why when the
+// text does not fit.
+func (c *Circuit) parseSetting(e *Element, param, text string) (Setting, *Error) {
+	s := Setting{Element: e.Name, Param: param, Text: text}
+	switch {
+	case isNumeric(e, param):
+		sp := e.Param(param)
+		what := paramOf(e.Kind, param)
+		if e.IsStrike() {
+			what = param + " of waveform " + e.Waveform.Name
+		}
+		v, msg := numValue(what, sp.Unit, sp.Rule, text)
+		if msg != "" {
+			return s, problem(ErrValue, "%s", msg)
+		}
+		s.Num = v
+	case param == "part":
+		if _, perr := lookupPart(c, e.Kind, text); perr != nil {
+			return s, perr
+		}
+	default:
+		if m := wordProblem(e.Kind, e.Kind.Word(param), text); m != "" {
+			return s, problem(ErrValue, "%s", m)
+		}
+	}
+	return s, nil
+}
+
+// Setting reads ELEMENT.PARAM=TEXT against the circuit, as a vary line's
+// value would be read: the element and parameter must exist and be
+// settable, and the text must fit the parameter. The error, an *Error
+// without a deck position (the text did not come from the deck), says why
+// not.
+func (c *Circuit) Setting(target, text string) (Setting, error) {
+	elem, param, ok := SplitTarget(target)
+	if !ok {
+		return Setting{}, problem(ErrSyntax, "%s: write ELEMENT.PARAM", target)
+	}
+	perr, e := settable(c, elem, param)
+	if perr != nil {
+		perr.Msg = target + ": " + perr.Msg
+		return Setting{}, perr
+	}
+	s, perr := c.parseSetting(e, param, text)
+	if perr != nil {
+		perr.Msg = target + "=" + text + ": " + perr.Msg
+		return Setting{}, perr
+	}
+	return s, nil
 }
 
 // apply sets one parameter of e (an element of c, already cloned by the
-// caller) from deck text and merges again; it returns a message when the
-// setting is not usable. It returns the element's own parameters after the
-// change, for the caller to keep when it keeps e.
-func (c *Circuit) apply(e *Element, param, text string) (*ownParams, string) {
+// caller) and merges again; it says why when the setting is not usable. It
+// returns the element's own parameters after the change, for the caller to
+// keep when it keeps e.
+func (c *Circuit) apply(e *Element, s Setting) (*ownParams, *Error) {
 	own := c.own[e.Name]
 	if own == nil {
-		return nil, fmt.Sprintf("element %s cannot be changed", e.Name)
+		return nil, problem(ErrValue, "element %s cannot be changed", e.Name)
 	}
 	next := *own
-	if e.Kind == Strike {
-		sp := strikeParams[param]
-		v, msg := numValue(param+" of waveform "+e.Str["waveform"], sp.unit, sp.rule, text)
-		if msg != "" {
-			return nil, msg
+	if e.IsStrike() {
+		if err := e.Values.Set(s.Param, s.Num); err != nil {
+			return nil, problem(ErrValue, "%s of waveform %s %s", s.Param, e.Waveform.Name, err.(*spec.RuleError).Says)
 		}
-		e.Num[param] = v
-		next.num = maps.Clone(own.num)
-		next.num[param] = v
-		return &next, ""
+		next.vals.Set(s.Param, s.Num)
+		return &next, nil
 	}
 	var part *Part
 	if own.part != "" {
 		part = c.Parts[own.part]
 	}
 	switch {
-	case param == "part":
-		pt, msg := lookupPart(c, e.Kind, text)
-		if msg != "" {
-			return nil, msg
+	case s.Param == "part":
+		pt, perr := lookupPart(c, e.Kind, s.Text)
+		if perr != nil {
+			return nil, perr
 		}
 		part, next.part = pt, pt.Name
-	case hasWord(e.Kind, param):
-		if m := wordParam(e.Kind, param, text); m != "" {
-			return nil, m
+	case isNumeric(e, s.Param):
+		if err := next.vals.Set(s.Param, s.Num); err != nil {
+			return nil, problem(ErrValue, "%s %s", paramOf(e.Kind, s.Param), err.(*spec.RuleError).Says)
 		}
-		next.str = maps.Clone(own.str)
-		next.str[param] = text
 	default:
-		sp := specOf(e.Kind, param)
-		v, msg := numValue(paramOf(e.Kind, param), sp.unit, sp.rule, text)
-		if msg != "" {
-			return nil, msg
+		if m := wordProblem(e.Kind, e.Kind.Word(s.Param), s.Text); m != "" {
+			return nil, problem(ErrValue, "%s", m)
 		}
-		next.num = maps.Clone(own.num)
-		next.num[param] = v
+		next.vals.SetWord(s.Param, s.Text)
 	}
-	e.Num, e.Str = merge(e.Kind, part, &next)
+	e.Values = merge(e.Kind, part, &next)
+	e.Part = ""
+	if part != nil {
+		e.Part = part.Name
+	}
 	if ps := problems(e, nil); len(ps) > 0 {
-		return nil, strings.Join(ps, "; ")
+		msgs := make([]string, len(ps))
+		for i, p := range ps {
+			msgs[i] = p.Msg
+		}
+		return nil, problem(ps[0].Err, "%s", strings.Join(msgs, "; "))
 	}
-	return &next, ""
+	return &next, nil
 }
 
 func (p *parser) checkVary(c *Circuit) {
@@ -192,32 +286,39 @@ func (p *parser) checkVary(c *Circuit) {
 	for _, rv := range p.varies {
 		target := rv.elem + "." + rv.param
 		if first, dup := seen[target]; dup {
-			p.errs.Add(rv.targetPos, "%s is already varied at %s", target, first)
+			p.errs.Add(rv.targetPos, ErrDuplicate, "%s is already varied at %s", target, first)
 			continue
 		}
 		seen[target] = rv.targetPos
-		msg, e := settable(c, rv.elem, rv.param)
-		if msg != "" {
+		perr, e := settable(c, rv.elem, rv.param)
+		if perr != nil {
 			pos := rv.paramPos
 			if e == nil {
 				pos = rv.targetPos
 			}
-			p.errs.Add(pos, "vary: %s", msg)
+			p.errs.Add(pos, perr.Err, "vary: %s", perr.Msg)
 			continue
 		}
 		v := Vary{Element: rv.elem, Param: rv.param, Pos: rv.targetPos}
 		ok := true
 		for _, it := range rv.values {
-			x := e.clone()
-			if _, m := c.apply(x, rv.param, it.text); m != "" {
-				p.errs.Add(it.pos, "vary %s: %s", target, m)
+			s, perr := c.parseSetting(e, rv.param, it.text)
+			if perr == nil {
+				_, perr = c.apply(e.clone(), s)
+			}
+			if perr != nil {
+				p.errs.Add(it.pos, perr.Err, "vary %s: %s", target, perr.Msg)
 				ok = false
 			}
-			v.Values = append(v.Values, it.text)
+			v.Values = append(v.Values, s)
 		}
 		if ok {
 			c.Vary = append(c.Vary, v)
 		}
+	}
+	if err := CheckProduct(c.Vary); err != nil {
+		p.errs.Add(c.Vary[0].Pos, ErrValue, "%v", err)
+		c.Vary = nil
 	}
 }
 
@@ -226,37 +327,37 @@ func (p *parser) checkTolerances(c *Circuit) {
 	for _, line := range p.tols {
 		for _, rt := range line.pairs {
 			target := rt.elem + "." + rt.param
-			msg, e := settable(c, rt.elem, rt.param)
+			perr, e := settable(c, rt.elem, rt.param)
 			switch {
-			case msg != "":
+			case perr != nil:
 				pos := rt.paramPos
 				if e == nil {
 					pos = rt.targetPos
 				}
-				p.errs.Add(pos, "tolerance: %s", msg)
+				p.errs.Add(pos, perr.Err, "tolerance: %s", perr.Msg)
 				continue
-			case rt.param == "part" || hasWord(e.Kind, rt.param):
-				p.errs.Add(rt.paramPos, "tolerance: %s is not a number to spread", target)
+			case !isNumeric(e, rt.param):
+				p.errs.Add(rt.paramPos, ErrValue, "tolerance: %s is not a number to spread", target)
 				continue
-			case !e.Has(rt.param):
-				p.errs.Add(rt.paramPos, "tolerance: %s has no %s to spread (give it a value first)", rt.elem, rt.param)
+			case !e.Values.Has(rt.param):
+				p.errs.Add(rt.paramPos, ErrMissing, "tolerance: %s has no %s to spread (give it a value first)", rt.elem, rt.param)
 				continue
 			}
 			if first, dup := seen[target]; dup {
-				p.errs.Add(rt.targetPos, "%s already has a tolerance at %s", target, first)
+				p.errs.Add(rt.targetPos, ErrDuplicate, "%s already has a tolerance at %s", target, first)
 				continue
 			}
 			seen[target] = rt.targetPos
 			n, m := parseNumber(rt.percent, true)
 			switch {
 			case m != "":
-				p.errs.Add(rt.percentPos, "%s", m)
+				p.errs.Add(rt.percentPos, ErrValue, "%s", m)
 				continue
 			case !n.percent:
-				p.errs.Add(rt.percentPos, "a tolerance is a percentage such as 5%%, not %s", rt.percent)
+				p.errs.Add(rt.percentPos, ErrValue, "a tolerance is a percentage such as 5%%, not %s", rt.percent)
 				continue
 			case !(n.val > 0 && n.val < 100):
-				p.errs.Add(rt.percentPos, "a tolerance must be above 0%% and below 100%% (got %s)", rt.percent)
+				p.errs.Add(rt.percentPos, ErrValue, "a tolerance must be above 0%% and below 100%% (got %s)", rt.percent)
 				continue
 			}
 			c.Tolerances = append(c.Tolerances, Tolerance{Element: rt.elem, Param: rt.param, Percent: n.val, Dist: line.dist, Pos: rt.targetPos})
@@ -267,10 +368,20 @@ func (p *parser) checkTolerances(c *Circuit) {
 // clone deep-copies an element.
 func (e *Element) clone() *Element {
 	x := *e
-	x.Num = maps.Clone(e.Num)
-	x.Str = maps.Clone(e.Str)
 	x.Levels = slices.Clone(e.Levels)
 	return &x
+}
+
+// Polarities are the polarities the strike runs, in order: "both" is pos
+// then neg.
+func (e *Element) Polarities() []string {
+	switch e.Polarity {
+	case "neg":
+		return []string{"neg"}
+	case "both":
+		return []string{"pos", "neg"}
+	}
+	return []string{"pos"}
 }
 
 // Plan is the study the deck describes: its levels in deck order, the
@@ -280,30 +391,52 @@ func (e *Element) clone() *Element {
 func (c *Circuit) Plan() Plan {
 	var pl Plan
 	if s := c.Strike(); s != nil {
-		pl.Waveform = s.Str["waveform"]
+		pl.Waveform = s.Waveform
 		pl.Levels = slices.Clone(s.Levels)
-		switch s.Str["polarity"] {
-		case "neg":
-			pl.Polarities = []string{"neg"}
-		case "both":
-			pl.Polarities = []string{"pos", "neg"}
-		default:
-			pl.Polarities = []string{"pos"}
-		}
+		pl.Polarities = s.Polarities()
 	}
-	pl.Variants = []Variant{{}}
-	for _, v := range c.Vary {
-		next := make([]Variant, 0, len(pl.Variants)*len(v.Values))
-		for _, base := range pl.Variants {
-			for _, val := range v.Values {
+	pl.Variants = Product(c.Vary)
+	return pl
+}
+
+// MaxVariants bounds the variants of one study: at a few strikes each it
+// is already hours of solving, and the product of a few long vary lines
+// grows past any memory (four lines of 60 values make 13 million).
+const MaxVariants = 10000
+
+// CheckProduct says whether the cartesian product of lines stays within
+// MaxVariants; the error names the product of the list lengths.
+func CheckProduct(lines []Vary) error {
+	n := 1.0
+	lens := make([]string, len(lines))
+	for i, v := range lines {
+		n *= float64(len(v.Values))
+		lens[i] = strconv.Itoa(len(v.Values))
+	}
+	if n <= MaxVariants {
+		return nil
+	}
+	return fmt.Errorf("the vary lines make %s = %s variants; a study runs at most %d: vary fewer values or fewer parameters at once, or draw circuits from tolerances with spread",
+		strings.Join(lens, " × "), strconv.FormatFloat(n, 'f', -1, 64), MaxVariants)
+}
+
+// Product is the cartesian product of vary lines, the first line varying
+// slowest; no lines give one empty variant. The caller has kept the
+// product within MaxVariants (CheckProduct).
+func Product(lines []Vary) []Variant {
+	out := []Variant{{}}
+	for _, v := range lines {
+		next := make([]Variant, 0, len(out)*len(v.Values))
+		for _, base := range out {
+			for _, s := range v.Values {
 				x := make(Variant, len(base), len(base)+1)
 				copy(x, base)
-				next = append(next, append(x, Setting{Element: v.Element, Param: v.Param, Value: val}))
+				next = append(next, append(x, s))
 			}
 		}
-		pl.Variants = next
+		out = next
 	}
-	return pl
+	return out
 }
 
 // With returns a deep copy of c with the settings applied in order and
@@ -329,20 +462,19 @@ func (c *Circuit) With(settings ...Setting) (*Circuit, error) {
 	}
 	var errs ErrorList
 	for _, s := range settings {
-		msg, _ := settable(&x, s.Element, s.Param)
-		e := x.Element(s.Element)
+		perr, e := settable(&x, s.Element, s.Param)
 		pos := Pos{File: c.File}
 		if e != nil {
 			pos = e.Pos
 		}
-		if msg == "" {
+		if perr == nil {
 			var own *ownParams
-			if own, msg = x.apply(e, s.Param, s.Value); own != nil {
+			if own, perr = x.apply(e, s); own != nil {
 				x.own[e.Name] = own
 			}
 		}
-		if msg != "" {
-			errs.Add(pos, "%s: %s", s, msg)
+		if perr != nil {
+			errs.Add(pos, perr.Err, "%s: %s", s, perr.Msg)
 		}
 	}
 	if len(errs) > 0 {

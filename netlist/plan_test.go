@@ -35,7 +35,7 @@ vary D1.part=tvsA,tvsB
 func TestPlan(t *testing.T) {
 	c := mustParse(t, planDeck)
 	pl := c.Plan()
-	if pl.Waveform != "iec61000-4-2" || !reflect.DeepEqual(pl.Levels, []float64{2000, 4000, 6000, 8000}) ||
+	if pl.Waveform.Name != "iec61000-4-2" || !reflect.DeepEqual(pl.Levels, []float64{2000, 4000, 6000, 8000}) ||
 		!reflect.DeepEqual(pl.Polarities, []string{"pos", "neg"}) {
 		t.Fatalf("plan %+v", pl)
 	}
@@ -72,40 +72,40 @@ func TestPlan(t *testing.T) {
 func TestWith(t *testing.T) {
 	c := mustParse(t, planDeck)
 	before := c.Element("D1").clone()
-	x, err := c.With(Setting{"C1", "value", "4.7uF"}, Setting{"C1", "esl", "0.5n"}, Setting{"D1", "part", "tvsB"})
+	x, err := c.With(setting(t, c, "C1.value", "4.7uF"), setting(t, c, "C1.esl", "0.5n"), setting(t, c, "D1.part", "tvsB"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	if got := x.Element("C1").Num; got["value"] != 4.7e-6 || got["esl"] != 0.5e-9 || got["esr"] != 0.02 {
+	if got := nums(x.Element("C1")); got["value"] != 4.7e-6 || got["esl"] != 0.5e-9 || got["esr"] != 0.02 {
 		t.Errorf("C1 %v", got)
 	}
 	// The new part's values, the element's own override (ls) kept, the
 	// old part's values (rdyn) gone back to the default.
 	d := x.Element("D1")
-	if d.Get("vbr") != 5.6 || d.Get("cj") != 20e-12 || d.Get("ls") != 0.4e-9 || d.Get("rdyn") != 0 ||
-		d.Str["polarity"] != "bi" || d.Str["part"] != "tvsB" {
-		t.Errorf("D1 after part swap: %v %v", d.Num, d.Str)
+	if n, w := nums(d), words(d); n["vbr"] != 5.6 || n["cj"] != 20e-12 || n["ls"] != 0.4e-9 || n["rdyn"] != 0 ||
+		w["polarity"] != "bi" || w["part"] != "tvsB" {
+		t.Errorf("D1 after part swap: %v %v", n, w)
 	}
 	// c is untouched.
-	if !reflect.DeepEqual(c.Element("D1"), before) || c.Element("C1").Get("value") != 100e-9 {
+	if !reflect.DeepEqual(c.Element("D1"), before) || c.Element("C1").Values.Num("value") != 100e-9 {
 		t.Errorf("With modified its receiver")
 	}
-	// Settings build on each other; a number as strconv prints it is deck text.
+	// Settings build on each other; a program gives a number as a number.
 	v := 1.1 * 6.8
-	y, err := x.With(Setting{"D1", "vbr", strconv.FormatFloat(v, 'g', -1, 64)})
+	y, err := x.With(Setting{Element: "D1", Param: "vbr", Num: v, Text: strconv.FormatFloat(v, 'g', -1, 64)})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if y.Element("D1").Get("vbr") != v || y.Element("D1").Str["part"] != "tvsB" || y.Element("D1").Get("ls") != 0.4e-9 {
-		t.Errorf("D1 %v %v", y.Element("D1").Num, y.Element("D1").Str)
+	if n := nums(y.Element("D1")); n["vbr"] != v || words(y.Element("D1"))["part"] != "tvsB" || n["ls"] != 0.4e-9 {
+		t.Errorf("D1 %v %v", n, words(y.Element("D1")))
 	}
 	// A pin given vbr by a setting gets the internal clamp's defaults.
-	z, err := c.With(Setting{"U1", "vbr", "7"})
+	z, err := c.With(setting(t, c, "U1.vbr", "7"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	if u := z.Element("U1"); u.Get("it") != 1e-3 || u.Get("nbr") != 1 || !u.Has("rdyn") {
-		t.Errorf("pin with vbr %v", u.Num)
+	if u := nums(z.Element("U1")); u["it"] != 1e-3 || u["nbr"] != 1 || !z.Element("U1").Values.Has("rdyn") {
+		t.Errorf("pin with vbr %v", u)
 	}
 	if w, err := c.With(); err != nil || w == c || w.Element("C1") == c.Element("C1") {
 		t.Errorf("With() must copy")
@@ -114,30 +114,42 @@ func TestWith(t *testing.T) {
 
 func TestWithErrors(t *testing.T) {
 	c := mustParse(t, planDeck)
-	tests := []struct {
+	// A setting read from text is refused when it names nothing or does
+	// not fit its parameter: the error names it, without a deck position.
+	for _, tt := range []struct{ target, text, want string }{
+		{"C9.value", "1n", "C9.value: no element C9 (did you mean C1?)"},
+		{"C1.valu", "1n", "C1.valu: a capacitor has no parameter valu (did you mean value?)"},
+		{"C1.value", "1nH", "C1.value=1nH: 1nH is in henries, but the value of a capacitor is in farads"},
+		{"C1.value", "-1n", "C1.value=-1n: the value of a capacitor must be positive (got -1n)"},
+		{"C1.value", "x", "C1.value=x: \"x\" is not a number"},
+		{"D1.part", "tvsC", "D1.part=tvsC: no part tvsC (did you mean tvsA?)"},
+		{"C1.part", "tvsA", "C1.part=tvsA: part tvsA is a clamp, not a capacitor (defined at t.zap:1:6)"},
+		{"D1.polarity", "both", "D1.polarity=both: clamp polarity is uni or bi, not both"},
+		{"zap.level", "1k", "zap.level: levels and polarities are already axes of the study; list them on the strike"},
+		{"zap.r", "330", "zap.r: r is a parameter of waveform iso10605, surge-1.2-50, step, not of iec61000-4-2"},
+		{"C1value", "1n", "C1value: write ELEMENT.PARAM"},
+	} {
+		if s, err := c.Setting(tt.target, tt.text); err == nil || err.Error() != tt.want {
+			t.Errorf("Setting(%s, %s) = %v, %v; want error %q", tt.target, tt.text, s, err, tt.want)
+		}
+	}
+	// Settings that fit alone but not in the circuit are errors at the
+	// element's statement.
+	for _, tt := range []struct {
 		s    Setting
 		want string
 	}{
-		{Setting{"C9", "value", "1n"}, "t.zap: C9.value=1n: no element C9 (did you mean C1?)"},
-		{Setting{"C1", "valu", "1n"}, "t.zap:6:1: C1.valu=1n: a capacitor has no parameter valu (did you mean value?)"},
-		{Setting{"C1", "value", "1nH"}, "t.zap:6:1: C1.value=1nH: 1nH is in henries, but the value of a capacitor is in farads"},
-		{Setting{"C1", "value", "-1n"}, "t.zap:6:1: C1.value=-1n: the value of a capacitor must be positive (got -1n)"},
-		{Setting{"C1", "value", "x"}, "t.zap:6:1: C1.value=x: \"x\" is not a number"},
-		{Setting{"D1", "part", "tvsC"}, "t.zap:5:1: D1.part=tvsC: no part tvsC (did you mean tvsA?)"},
-		{Setting{"C1", "part", "tvsA"}, "t.zap:6:1: C1.part=tvsA: part tvsA is a clamp, not a capacitor (defined at t.zap:1:6)"},
-		{Setting{"D1", "polarity", "both"}, "t.zap:5:1: D1.polarity=both: clamp polarity is uni or bi, not both"},
-		{Setting{"U1", "vmin", "6"}, "t.zap:7:1: U1.vmin=6: pin U1: vmin 6 V is not below vmax 5.5 V"},
-		{Setting{"zap", "level", "1k"}, "t.zap:3:1: zap.level=1k: levels and polarities are already axes of the study; list them on the strike"},
-		{Setting{"zap", "r", "330"}, "t.zap:3:1: zap.r=330: r is a parameter of waveform iso10605, surge-1.2-50, not of iec61000-4-2"},
-	}
-	for _, tt := range tests {
+		{setting(t, c, "U1.vmin", "6"), "t.zap:7:1: U1.vmin=6: pin U1: vmin 6 V is not below vmax 5.5 V"},
+		{Setting{Element: "C9", Param: "value", Num: 1e-9, Text: "1n"}, "t.zap: C9.value=1n: no element C9 (did you mean C1?)"},
+		{Setting{Element: "C1", Param: "value", Num: -1e-9, Text: "-1n"}, "t.zap:6:1: C1.value=-1n: the value of a capacitor must be positive"},
+	} {
 		x, err := c.With(tt.s)
 		var l ErrorList
 		if x != nil || !errors.As(err, &l) || err.Error() != tt.want {
 			t.Errorf("With(%s) = %v, %v; want error %q", tt.s, x, err, tt.want)
 		}
 	}
-	if x, err := c.With(Setting{"D1", "polarity", "bi"}); err != nil || x.Element("D1").Str["polarity"] != "bi" {
+	if x, err := c.With(setting(t, c, "D1.polarity", "bi")); err != nil || x.Element("D1").Values.Word("polarity") != "bi" {
 		t.Errorf("polarity setting: %v", err)
 	}
 }
@@ -147,7 +159,7 @@ func BenchmarkWith(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	s := Setting{"D1", "ls", "0.44n"}
+	s := Setting{Element: "D1", Param: "ls", Num: 0.44e-9, Text: "0.44n"}
 	b.ReportAllocs()
 	for b.Loop() {
 		if _, err := c.With(s); err != nil {

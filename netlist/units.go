@@ -1,37 +1,31 @@
 package netlist
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
 	"strings"
 	"unicode/utf8"
+
+	"zapnet/devices/spec"
+	"zapnet/waveforms"
 )
 
-// prefixes maps an SI prefix to its power of ten. Both the micro sign (U+00B5)
-// and the Greek mu (U+03BC) are accepted because keyboards produce either.
-var prefixes = map[string]int{
-	"f": -15, "p": -12, "n": -9, "u": -6, "µ": -6, "μ": -6,
-	"m": -3, "k": 3, "M": 6, "G": 9, "T": 12,
-}
+// prefixes are the SI prefixes a number may carry (spec.Prefixes).
+var prefixes = spec.Prefixes
 
-// units maps a unit as written to the symbol used everywhere else.
-var units = map[string]string{
-	"V": "V", "A": "A", "F": "F", "H": "H", "Ω": "Ω", "ohm": "Ω",
-	"s": "s", "Hz": "Hz", "W": "W", "J": "J",
-}
-
-// unitWords names the units in messages.
-var unitWords = map[string]string{
-	"V": "volts", "A": "amperes", "F": "farads", "H": "henries", "Ω": "ohms",
-	"s": "seconds", "Hz": "hertz", "W": "watts", "J": "joules", "": "a plain number",
+// units maps a unit as written in a deck to its symbol.
+var units = map[string]spec.Unit{
+	"V": spec.Volt, "A": spec.Ampere, "F": spec.Farad, "H": spec.Henry, "Ω": spec.Ohm, "ohm": spec.Ohm,
+	"s": spec.Second, "Hz": spec.Hertz, "W": spec.Watt, "J": spec.Joule,
 }
 
 // number is a parsed numeric literal: its value in SI units and the unit
 // symbol written after it ("" when none).
 type number struct {
 	val     float64
-	unit    string
+	unit    spec.Unit
 	percent bool
 }
 
@@ -97,7 +91,7 @@ func parseNumber(s string, allowPercent bool) (number, string) {
 			case r == utf8.RuneError:
 				return number{}, fmt.Sprintf("%q: unexpected character after the number", s)
 			case strings.EqualFold(suffix, "meg") || (len(suffix) > 3 && strings.EqualFold(suffix[:3], "meg")):
-				return number{}, fmt.Sprintf("%q: there is no MEG prefix; write M for mega (1M) and m for milli", s)
+				return number{}, fmt.Sprintf("%q: the prefixes are f, p, n, u (µ), m, k, M, G and T; mega is M (1M) and milli is m", s)
 			case ok && (rest == "" || uok):
 				exp += p
 				n.unit = u
@@ -158,86 +152,48 @@ func suggestSuffix(s string) string {
 	return suggest(s, cands)
 }
 
-// FormatSI renders v in engineering notation with an SI prefix and the unit,
-// with up to four significant digits and trailing zeros trimmed:
-// FormatSI(4.7e-9, "F") is "4.7 nF", FormatSI(0, "V") is "0 V". A value
-// beyond the prefixes (below femto, above tera) keeps an exponent. With an
-// empty unit the number is printed plainly ("0.001", "1e-14"), without a
-// prefix, because a lone prefix reads badly.
-func FormatSI(v float64, unit string) string {
-	sep := " "
-	if unit == "" {
-		sep = ""
+// ParseValue reads text as the deck reads a parameter's value: a number with
+// an optional SI prefix and unit, where a unit written must be unit and the
+// value must keep rule. what names the value in the error ("--max").
+// Values from the command line go through it, so that they follow the
+// deck's rules exactly.
+func ParseValue(what, text string, unit spec.Unit, rule spec.Rule) (float64, error) {
+	v, msg := numValue(what, unit, rule, strings.TrimSpace(text))
+	if msg != "" {
+		return 0, errors.New(msg)
 	}
+	return v, nil
+}
+
+// ParseLevels reads a comma-separated list of levels of waveform w as the
+// strike's level= reads them: positive numbers in the waveform's unit.
+func ParseLevels(list string, w *waveforms.Waveform) ([]float64, error) {
+	var out []float64
+	var errs []error
+	for _, text := range strings.Split(list, ",") {
+		v, msg := levelValue(strings.TrimSpace(text), w)
+		if msg != "" {
+			errs = append(errs, errors.New(msg))
+			continue
+		}
+		out = append(out, v)
+	}
+	return out, errors.Join(errs...)
+}
+
+// levelValue reads one level of waveform w (nil: unknown, any unit).
+func levelValue(text string, w *waveforms.Waveform) (float64, string) {
+	n, msg := parseNumber(text, false)
 	switch {
-	case math.IsNaN(v) || math.IsInf(v, 0):
-		return strconv.FormatFloat(v, 'g', -1, 64) + sep + unit
-	case v == 0:
-		return "0" + sep + unit
-	case unit == "":
-		return strconv.FormatFloat(v, 'g', 4, 64)
-	}
-	sign := ""
-	if v < 0 {
-		sign = "-"
-		v = -v
-	}
-	e := strconv.FormatFloat(v, 'e', 3, 64) // d.ddde±XX
-	k := strings.IndexByte(e, 'e')
-	digits := e[:1] + e[2:k]
-	exp, _ := strconv.Atoi(e[k+1:])
-	eng := exp - ((exp%3)+3)%3
-	if eng < -15 || eng > 12 {
-		return sign + trimZeros(e[:k]) + "e" + strconv.Itoa(exp) + sep + unit
-	}
-	intDigits := 1 + exp - eng
-	num := trimZeros(digits[:intDigits] + "." + digits[intDigits:])
-	prefix := ""
-	for p, pe := range prefixes {
-		if pe == eng && p != "µ" && p != "μ" {
-			prefix = p
+	case msg != "":
+		return 0, msg
+	case n.unit != "" && w != nil && n.unit != w.Unit:
+		if w.Unit == "" {
+			return 0, fmt.Sprintf("%s is in %s, but the levels of waveform %s are plain scale factors", text, n.unit.Word(), w.Name)
 		}
+		return 0, fmt.Sprintf("%s is in %s, but the levels of waveform %s are in %s", text, n.unit.Word(), w.Name, w.Unit.Word())
+	case !(n.val > 0) || math.IsInf(n.val, 0):
+		return 0, fmt.Sprintf("level %s must be positive (polarity= gives the sign)", text)
 	}
-	if eng == -6 {
-		prefix = "µ"
-	}
-	return sign + num + " " + prefix + unit
-}
-
-func trimZeros(s string) string {
-	if strings.IndexByte(s, '.') < 0 {
-		return s
-	}
-	s = strings.TrimRight(s, "0")
-	return strings.TrimSuffix(s, ".")
-}
-
-// LevelUnit is the unit of a waveform's levels: volts for discharges and the
-// voltage surge, amperes for the current surge and TLP, and none for a
-// piecewise-linear file (a scale factor).
-func LevelUnit(waveform string) string {
-	switch waveform {
-	case "iec61000-4-2", "hbm", "iso10605", "surge-1.2-50", "eft":
-		return "V"
-	case "surge-8-20", "tlp":
-		return "A"
-	}
-	return ""
-}
-
-// ParamUnit is the unit symbol of a parameter of an element kind ("" for a
-// dimensionless one or an unknown key). For a strike it covers the waveform
-// parameters of every waveform; "level" has the unit of the waveform and is
-// reported as "" here (see LevelUnit).
-func ParamUnit(kind Kind, param string) string {
-	if kind == Strike {
-		if p, ok := strikeParams[param]; ok {
-			return p.unit
-		}
-		return ""
-	}
-	if p := specOf(kind, param); p != nil {
-		return p.unit
-	}
-	return ""
+	return n.val, ""
 }

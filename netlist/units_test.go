@@ -3,6 +3,9 @@ package netlist
 import (
 	"math"
 	"testing"
+	"zapnet/devices"
+	"zapnet/devices/spec"
+	"zapnet/waveforms"
 )
 
 // The SI prefixes and their powers are those of the SI brochure (BIPM,
@@ -44,8 +47,8 @@ func TestParseNumber(t *testing.T) {
 		{in: "2F", val: 2, unit: "F"},
 		{in: "1.5e3k", val: 1.5e6},
 		{in: "1K", msg: `"1K": unknown prefix or unit "K" (did you mean k?)`},
-		{in: "1MEG", msg: `"1MEG": there is no MEG prefix; write M for mega (1M) and m for milli`},
-		{in: "1meg", msg: `"1meg": there is no MEG prefix; write M for mega (1M) and m for milli`},
+		{in: "1MEG", msg: `"1MEG": the prefixes are f, p, n, u (µ), m, k, M, G and T; mega is M (1M) and milli is m`},
+		{in: "1meg", msg: `"1meg": the prefixes are f, p, n, u (µ), m, k, M, G and T; mega is M (1M) and milli is m`},
 		{in: "1Ohm", msg: `"1Ohm": unknown prefix or unit "Ohm" (did you mean ohm?)`},
 		{in: "abc", msg: `"abc" is not a number`},
 		{in: "1e", msg: `"1e": unknown prefix or unit "e"`},
@@ -63,7 +66,7 @@ func TestParseNumber(t *testing.T) {
 		if msg != "" {
 			continue
 		}
-		if n.val != tt.val || n.unit != tt.unit {
+		if n.val != tt.val || string(n.unit) != tt.unit {
 			t.Errorf("parseNumber(%q) = %g %q, want %g %q", tt.in, n.val, n.unit, tt.val, tt.unit)
 		}
 	}
@@ -72,68 +75,72 @@ func TestParseNumber(t *testing.T) {
 	}
 }
 
-// Engineering notation: the mantissa in [1, 1000) with the SI prefix of the
-// power of ten (BIPM SI brochure, 9th edition, table 7) [pub]; the expected
-// strings are rounded to four significant digits by hand [calc].
-func TestFormatSI(t *testing.T) {
-	tests := []struct {
-		v    float64
-		unit string
-		want string
+// Units of the parameters and levels follow LANGUAGE.md and MODELS.md, the
+// project's contract, and the waveform units of CHECKS.md [pub: the
+// standards' level definitions]; the deck reads them from the catalogues.
+func TestUnits(t *testing.T) {
+	for _, tt := range []struct {
+		k, p string
+		want spec.Unit
 	}{
-		{4.7e-9, "F", "4.7 nF"},
-		{8000, "V", "8 kV"},
-		{0, "V", "0 V"},
-		{math.Copysign(0, -1), "V", "0 V"},
-		{0.02, "Ω", "20 mΩ"},
-		{1, "A", "1 A"},
-		{-0.5, "V", "-500 mV"},
-		{1.5e-9, "H", "1.5 nH"},
-		{123456, "V", "123.5 kV"},
-		{999.96, "V", "1 kV"},
-		{999.94, "V", "999.9 V"},
-		{100e-9, "F", "100 nF"},
-		{1e-6, "F", "1 µF"},
-		{150e-12, "F", "150 pF"},
-		{1e-14, "A", "10 fA"},
-		{1e-18, "A", "1e-18 A"},
-		{2.5e15, "Hz", "2.5e15 Hz"},
-		{5000, "Hz", "5 kHz"},
-		{1e-3, "", "0.001"},
-		{1, "", "1"},
-		{1e-14, "", "1e-14"},
-		{330, "Ω", "330 Ω"},
-		{0.7, "V", "700 mV"},
+		{"capacitor", "value", "F"}, {"capacitor", "esr", "Ω"}, {"capacitor", "esl", "H"},
+		{"clamp", "vbr", "V"}, {"clamp", "emax", "J"}, {"clamp", "nbr", ""}, {"clamp", "ipp", "A"},
+		{"line", "delay", "s"}, {"pin", "cin", "F"},
+	} {
+		if got := devices.Lookup(tt.k).Param(tt.p).Unit; got != tt.want {
+			t.Errorf("unit of %s of a %s = %q, want %q", tt.p, tt.k, got, tt.want)
+		}
 	}
-	for _, tt := range tests {
-		if got := FormatSI(tt.v, tt.unit); got != tt.want {
-			t.Errorf("FormatSI(%g, %q) = %q, want %q", tt.v, tt.unit, got, tt.want)
+	if devices.Lookup("resistor").Param("nope") != nil {
+		t.Errorf("a resistor has no parameter nope")
+	}
+	for _, tt := range []struct {
+		w, p string
+		want spec.Unit
+	}{{"eft", "rate", "Hz"}, {"tlp", "width", "s"}} {
+		if got := waveforms.Lookup(tt.w).Param(tt.p).Unit; got != tt.want {
+			t.Errorf("unit of %s of waveform %s = %q, want %q", tt.p, tt.w, got, tt.want)
+		}
+	}
+	for w, want := range map[string]spec.Unit{"iec61000-4-2": "V", "hbm": "V", "iso10605": "V",
+		"surge-1.2-50": "V", "eft": "V", "surge-8-20": "A", "tlp": "A", "pwl": ""} {
+		if got := waveforms.Lookup(w).Unit; got != want {
+			t.Errorf("level unit of %s = %q, want %q", w, got, want)
 		}
 	}
 }
 
-// Units of the parameters and levels follow LANGUAGE.md and MODELS.md, the
-// project's contract, and the waveform units of CHECKS.md [pub: the
-// standards' level definitions].
-func TestUnits(t *testing.T) {
-	for _, tt := range []struct {
-		k    Kind
-		p    string
-		want string
+// Values from the command line follow the deck's rules exactly: the SI
+// prefixes and units of LANGUAGE.md, the parameter's unit, its rule.
+func TestParseValue(t *testing.T) {
+	for _, c := range []struct {
+		s    string
+		unit spec.Unit
+		rule spec.Rule
+		want float64
+		ok   bool
 	}{
-		{Capacitor, "value", "F"}, {Capacitor, "esr", "Ω"}, {Capacitor, "esl", "H"},
-		{Clamp, "vbr", "V"}, {Clamp, "emax", "J"}, {Clamp, "nbr", ""}, {Clamp, "ipp", "A"},
-		{Strike, "rate", "Hz"}, {Strike, "width", "s"}, {Line, "delay", "s"}, {Pin, "cin", "F"},
-		{Resistor, "nope", ""},
+		{"4k", "V", spec.Positive, 4000, true},
+		{"8kV", "V", spec.Positive, 8000, true},
+		{"16A", "A", spec.Positive, 16, true},
+		{"1.5e3", "V", spec.Positive, 1500, true},
+		{"330p", "F", spec.Positive, 330e-12, true},
+		{"2.5µ", "H", spec.Positive, 2.5e-6, true},
+		{"100m", "Ω", spec.NonNegative, 0.1, true},
+		{"50ohm", "Ω", spec.NonNegative, 50, true},
+		{"50Ω", "Ω", spec.NonNegative, 50, true},
+		{"1M", "Ω", spec.NonNegative, 1e6, true},
+		{"0", "Ω", spec.NonNegative, 0, true},
+		{"0", "Ω", spec.Positive, 0, false},
+		{"4kA", "V", spec.Positive, 0, false},
+		{"4MEG", "V", spec.Positive, 0, false},
+		{"", "V", spec.Positive, 0, false},
+		{"k", "V", spec.Positive, 0, false},
+		{"NaN", "V", spec.Positive, 0, false},
 	} {
-		if got := ParamUnit(tt.k, tt.p); got != tt.want {
-			t.Errorf("ParamUnit(%s, %s) = %q, want %q", tt.k, tt.p, got, tt.want)
-		}
-	}
-	for w, want := range map[string]string{"iec61000-4-2": "V", "hbm": "V", "iso10605": "V",
-		"surge-1.2-50": "V", "eft": "V", "surge-8-20": "A", "tlp": "A", "pwl": ""} {
-		if got := LevelUnit(w); got != want {
-			t.Errorf("LevelUnit(%s) = %q, want %q", w, got, want)
+		got, err := ParseValue("x", c.s, c.unit, c.rule)
+		if (err == nil) != c.ok || (c.ok && math.Abs(got-c.want) > 1e-12*math.Abs(c.want)) {
+			t.Errorf("ParseValue(%q, %q) = %g, %v; want %g, ok %v", c.s, c.unit, got, err, c.want, c.ok)
 		}
 	}
 }

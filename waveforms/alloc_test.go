@@ -10,19 +10,17 @@ import (
 // the hot loop).
 func TestHotPathsDoNotAllocate(t *testing.T) {
 	var tr Tracker
-	var em EnergyMeter
 	x := 0.0
 	if n := testing.AllocsPerRun(100, func() {
 		x += 1e-12
 		tr.Add(x, math.Sin(x*1e9))
-		em.Add(x, 1, 2)
 	}); n != 0 {
-		t.Errorf("Tracker/EnergyMeter Add allocates %g times", n)
+		t.Errorf("Tracker.Add allocates %g times", n)
 	}
 	for _, n := range Names() {
-		info, _ := Describe(n)
+		info := Lookup(n)
 		str := map[string]string{"file": "testdata/pulse.csv"}
-		s, err := New(n, info.Level, map[string]float64{"count": 3}, str)
+		s, err := mk(n, info.Level, map[string]float64{"count": 3}, str)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -41,7 +39,7 @@ func TestHotPathsDoNotAllocate(t *testing.T) {
 // e^(−απ/ω) of the peak [calc].
 func TestHBMRinging(t *testing.T) {
 	l := 1e-3 // far above R²C/4 = 56 µH: underdamped, rings by 46 %
-	s, err := New("hbm", 1000, map[string]float64{"l": l}, nil)
+	s, err := mk("hbm", 1000, map[string]float64{"l": l}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -62,7 +60,7 @@ func BenchmarkTrackerAdd(b *testing.B) {
 }
 
 func BenchmarkIECF(b *testing.B) {
-	s, _ := New("iec61000-4-2", 8000, nil, nil)
+	s, _ := mk("iec61000-4-2", 8000, nil, nil)
 	y := 0.0
 	for k := 0; k < b.N; k++ {
 		y += s.F(float64(k%1000) * 1e-10)

@@ -15,7 +15,7 @@ func sampleF(s *Stimulus, stop float64, n int) (ts, ys []float64) {
 func TestIECAnnexAt4kV(t *testing.T) {
 	near(t, "k1", iecK(iecTau1, iecTau2), 0.345511, 1e-5)
 	near(t, "k2", iecK(iecTau3, iecTau4), 0.431547, 1e-5)
-	s, err := New("iec61000-4-2", 4000, nil, nil)
+	s, err := mk("iec61000-4-2", 4000, nil, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -64,7 +64,7 @@ func TestIECTableEveryLevel(t *testing.T) {
 		{6, 22.5, 12, 6},
 		{8, 30, 16, 8},
 	} {
-		s, err := New("iec61000-4-2", c.kv*1000, nil, nil)
+		s, err := mk("iec61000-4-2", c.kv*1000, nil, nil)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -100,7 +100,7 @@ func TestIECTableEveryLevel(t *testing.T) {
 }
 
 func mustF(t *testing.T, level, at float64) float64 {
-	s, err := New("iec61000-4-2", level, nil, nil)
+	s, err := mk("iec61000-4-2", level, nil, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -108,7 +108,7 @@ func mustF(t *testing.T, level, at float64) float64 {
 }
 
 func TestNewErrors(t *testing.T) {
-	if _, err := New("iec-4-2", 4000, nil, nil); err == nil {
+	if _, err := mk("iec-4-2", 4000, nil, nil); err == nil {
 		t.Error("unknown name accepted")
 	} else {
 		for _, n := range Names() {
@@ -118,7 +118,7 @@ func TestNewErrors(t *testing.T) {
 		}
 	}
 	for _, lv := range []float64{0, -4000, math.NaN(), math.Inf(1)} {
-		if _, err := New("iec61000-4-2", lv, nil, nil); err == nil {
+		if _, err := mk("iec61000-4-2", lv, nil, nil); err == nil {
 			t.Errorf("level %g accepted", lv)
 		}
 	}

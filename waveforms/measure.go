@@ -10,9 +10,9 @@ import "math"
 // allowed and mean a jump). Slices of different lengths are a programmer
 // error and panic; empty slices give NaN (or ok = false).
 //
-// Streaming counterparts (Tracker, EnergyMeter) give bit-identical results
-// on the same samples without keeping them: both use the helpers below and
-// add the same terms in the same order.
+// The streaming Tracker gives bit-identical results on the same samples
+// without keeping them: both use the helpers below and add the same terms in
+// the same order.
 
 func mustSameLength(t, y []float64) {
 	if len(t) != len(y) {
@@ -33,70 +33,6 @@ func Peak(t, y []float64) (v, at float64) {
 		}
 	}
 	return v, at
-}
-
-// Min returns the smallest value and the time of its first occurrence.
-func Min(t, y []float64) (v, at float64) {
-	mustSameLength(t, y)
-	if len(y) == 0 {
-		return math.NaN(), math.NaN()
-	}
-	v, at = y[0], t[0]
-	for k := 1; k < len(y); k++ {
-		if y[k] < v {
-			v, at = y[k], t[k]
-		}
-	}
-	return v, at
-}
-
-// AbsPeak returns the largest magnitude |y| and the time of its first
-// occurrence; the magnitude, not the signed value, so that both polarities
-// compare alike.
-func AbsPeak(t, y []float64) (v, at float64) {
-	mustSameLength(t, y)
-	if len(y) == 0 {
-		return math.NaN(), math.NaN()
-	}
-	v, at = math.Abs(y[0]), t[0]
-	for k := 1; k < len(y); k++ {
-		if a := math.Abs(y[k]); a > v {
-			v, at = a, t[k]
-		}
-	}
-	return v, at
-}
-
-// ValueAt returns the interpolated value at time at; before the first sample
-// it is the first value, after the last the last value. At a jump (two
-// samples at the same time) it is the value before the jump.
-func ValueAt(t, y []float64, at float64) float64 {
-	mustSameLength(t, y)
-	n := len(t)
-	if n == 0 {
-		return math.NaN()
-	}
-	if at <= t[0] {
-		return y[0]
-	}
-	if at >= t[n-1] {
-		return y[n-1]
-	}
-	// Smallest k with t[k] >= at; t[0] < at so k >= 1.
-	lo, hi := 0, n-1
-	for hi-lo > 1 {
-		mid := (lo + hi) / 2
-		if t[mid] >= at {
-			hi = mid
-		} else {
-			lo = mid
-		}
-	}
-	k := hi
-	if t[k] == at {
-		return y[k]
-	}
-	return lerp(t[k-1], y[k-1], t[k], y[k], at)
 }
 
 func lerp(t0, y0, t1, y1, at float64) float64 {
@@ -132,34 +68,6 @@ func FirstCrossing(t, y []float64, level float64) (at float64, ok bool) {
 	return math.NaN(), false
 }
 
-// Rise returns the rise time between the fractions lo and hi of the peak
-// (0.1 and 0.9 for the usual 10–90 %): the first crossings of lo·peak and
-// hi·peak on the way to the (first) peak. ok is false when the peak is not
-// positive or the waveform starts above lo·peak.
-func Rise(t, y []float64, lo, hi float64) (rise float64, ok bool) {
-	mustSameLength(t, y)
-	pv, _ := Peak(t, y)
-	if !(pv > 0) || !(lo < hi) {
-		return math.NaN(), false
-	}
-	p := 0
-	for k := range y {
-		if y[k] == pv {
-			p = k
-			break
-		}
-	}
-	if y[0] > lo*pv {
-		return math.NaN(), false
-	}
-	tl, ok1 := FirstCrossing(t[:p+1], y[:p+1], lo*pv)
-	th, ok2 := FirstCrossing(t[:p+1], y[:p+1], hi*pv)
-	if !ok1 || !ok2 {
-		return math.NaN(), false
-	}
-	return th - tl, true
-}
-
 // timeAbove is how long the linear piece from y0 to y1 over a duration h
 // spends strictly above level.
 func timeAbove(h, y0, y1, level float64) float64 {
@@ -186,16 +94,6 @@ func WidthAbove(t, y []float64, level float64) float64 {
 	return w
 }
 
-// WidthBelow returns the total time the waveform spends below level.
-func WidthBelow(t, y []float64, level float64) float64 {
-	mustSameLength(t, y)
-	w := 0.0
-	for k := 1; k < len(y); k++ {
-		w += timeAbove(t[k]-t[k-1], -y[k-1], -y[k], -level)
-	}
-	return w
-}
-
 // trapezoid is the exact integral of one linear piece.
 func trapezoid(h, y0, y1 float64) float64 { return h * (y0 + y1) / 2 }
 
@@ -205,23 +103,6 @@ func Integral(t, y []float64) float64 {
 	s := 0.0
 	for k := 1; k < len(y); k++ {
 		s += trapezoid(t[k]-t[k-1], y[k-1], y[k])
-	}
-	return s
-}
-
-// productIntegral is the exact ∫ v·i dt over one interval of length h on
-// which both v and i are linear: h·(2v0i0 + v0i1 + v1i0 + 2v1i1)/6.
-func productIntegral(h, v0, i0, v1, i1 float64) float64 {
-	return h * (2*v0*i0 + v0*i1 + v1*i0 + 2*v1*i1) / 6
-}
-
-// Energy returns ∫ v·i dt for piecewise-linear v and i on the same times.
-func Energy(t, v, i []float64) float64 {
-	mustSameLength(t, v)
-	mustSameLength(t, i)
-	s := 0.0
-	for k := 1; k < len(t); k++ {
-		s += productIntegral(t[k]-t[k-1], v[k-1], i[k-1], v[k], i[k])
 	}
 	return s
 }

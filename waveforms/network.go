@@ -1,6 +1,35 @@
 package waveforms
 
-import "math"
+import (
+	"fmt"
+	"math"
+
+	"zapnet/devices/spec"
+)
+
+func init() {
+	Register(&Waveform{Name: "hbm", Unit: spec.Volt, Level: 4000, Discharge: true,
+		Summary: "human-body model (JS-001): 100 pF through 1.5 kΩ and a series inductance",
+		Table:   spec.Table{Params: []spec.Param{spec.Optional("l", spec.Henry, spec.NonNegative)}},
+		build:   newHBM,
+		Order:   20,
+		checks:  checksHBM,
+	})
+}
+
+func init() {
+	Register(&Waveform{Name: "iso10605", Unit: spec.Volt, Level: 4000, Discharge: true,
+		Summary: "ISO 10605 discharge network: 150 or 330 pF through 330 Ω or 2 kΩ",
+		Table: spec.Table{Params: []spec.Param{
+			spec.Default("c", spec.Farad, spec.Positive, isoC),
+			spec.Default("r", spec.Ohm, spec.Positive, isoR),
+			spec.Optional("l", spec.Henry, spec.NonNegative),
+		}},
+		build:  newISO10605,
+		Order:  30,
+		checks: checksISO,
+	})
+}
 
 // Human-body model network of ANSI/ESDA/JEDEC JS-001 [pub]: 100 pF through
 // 1.5 kΩ.
@@ -26,10 +55,10 @@ const (
 
 // newHBM is the JS-001 network: C charged to the level, discharging through
 // R and a series L (key l, henries, default hbmL; l = 0 gives the ideal RC).
-func newHBM(level float64, p params) (*Stimulus, error) {
-	l, err := p.nonNegative("l", hbmL)
-	if err != nil {
-		return nil, err
+func newHBM(level float64, v *spec.Values) (*Stimulus, error) {
+	l, ok := v.Lookup("l")
+	if !ok {
+		l = hbmL
 	}
 	return newNetwork(level, hbmC, hbmR, l), nil
 }
@@ -38,20 +67,8 @@ func newHBM(level float64, p params) (*Stimulus, error) {
 // 330 Ω) and an optional series l (default 0). The simple RC lacks the first
 // fast spike of a real generator; its later points (30 and 60 ns at
 // 150 pF/330 Ω, and so on) follow the RC time constant.
-func newISO10605(level float64, p params) (*Stimulus, error) {
-	c, err := p.positive("c", isoC)
-	if err != nil {
-		return nil, err
-	}
-	r, err := p.positive("r", isoR)
-	if err != nil {
-		return nil, err
-	}
-	l, err := p.nonNegative("l", 0)
-	if err != nil {
-		return nil, err
-	}
-	return newNetwork(level, c, r, l), nil
+func newISO10605(level float64, v *spec.Values) (*Stimulus, error) {
+	return newNetwork(level, v.Num("c"), v.Num("r"), v.Num("l")), nil
 }
 
 // newNetwork builds a Network stimulus. Its default span is 5·R·C + 10·L/R:
@@ -64,6 +81,7 @@ func newNetwork(v0, c, r, l float64) *Stimulus {
 		L:           l,
 		C:           c,
 		V0:          v0,
+		Gen:         NetworkFragment(v0, c, r, l),
 		Breakpoints: []float64{0},
 		Stop:        5*r*c + 10*l/r,
 	}
@@ -104,4 +122,49 @@ func networkCurrent(t, v0, c, r, l float64) float64 {
 	default:
 		return v0 / l * math.Exp(-alpha*t) * t
 	}
+}
+
+// checksHBM: into the load (a short by default), peak 0.67 A/kV ±10 %, rise
+// 2–10 ns, decay 130–170 ns (from the peak to 36.8 % of it, the JS-001
+// convention [mem]) and ringing under 15 % of the peak (the largest swing
+// below zero after the peak [mem: JS-001's ringing limit]) [pub/mem:
+// CHECKS.md].
+func checksHBM(s *Stimulus, load float64, m meter) []Check {
+	sh := m(s, load, s.Stop, false)
+	pv, pt := sh.peak()
+	rise := sh.riseCross(0.9*pv) - sh.riseCross(0.1*pv) // 0 for the ideal RC's jump
+	decay := sh.fallCross(math.Exp(-1)*pv, pt) - pt
+	ring := 0.0
+	for k, x := range sh.t {
+		if x > pt && -sh.y[k] > ring {
+			ring = -sh.y[k]
+		}
+	}
+	ref := "ANSI/ESDA/JEDEC JS-001, into a short"
+	return []Check{
+		rel("peak", "A", pv, 0.67*s.Level/1000, 0.10, "[pub]", ref),
+		window("rise 10-90 %", "s", rise, 2e-9, 10e-9, "2-10 ns", "[pub]", ref),
+		window("decay to 36.8 %", "s", decay, 130e-9, 170e-9, "130-170 ns", "[pub]", ref),
+		window("ringing", "%", 100*ring/pv, 0, 15, "< 15 %", "[mem]", ref),
+	}
+}
+
+// checksISO: the two time points of the network's row, ±30 % (the
+// IEC 61000-4-2 tolerance, which ISO 10605 shares [mem]).
+func checksISO(s *Stimulus, load float64, m meter) []Check {
+	for _, p := range isoPoints {
+		if math.Abs(s.C-p.c) > 1e-6*p.c || math.Abs(s.R-p.r) > 1e-6*p.r {
+			continue
+		}
+		sh := m(s, load, math.Max(s.Stop, 1.2*p.t2), false)
+		pv, _ := sh.peak()
+		t10 := sh.riseCross(0.1 * pv)
+		kv := s.Level / 1000
+		ref := fmt.Sprintf("ISO 10605, %s / %s network", siFormat(p.c, "F"), siFormat(p.r, "Ω"))
+		return []Check{
+			rel(fmt.Sprintf("i(%s)", siFormat(p.t1, "s")), "A", sh.g(t10+p.t1), p.a1*kv, 0.30, "[mem]", ref),
+			rel(fmt.Sprintf("i(%s)", siFormat(p.t2, "s")), "A", sh.g(t10+p.t2), p.a2*kv, 0.30, "[mem]", ref),
+		}
+	}
+	return nil
 }

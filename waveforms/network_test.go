@@ -70,7 +70,7 @@ func TestNetworkConservation(t *testing.T) {
 // The ideal RC limit of the HBM network: 0.6667 A/kV at t = 0 decaying with
 // τ = R·C = 150 ns [calc: CHECKS.md].
 func TestHBMIdealLimit(t *testing.T) {
-	s, err := New("hbm", 2000, map[string]float64{"l": 0}, nil)
+	s, err := mk("hbm", 2000, map[string]float64{"l": 0}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -98,7 +98,7 @@ func mustCross(t *testing.T, ts, ys []float64, level float64) float64 {
 // explicit l that the JS-001 rise window allows.
 func TestHBMChecksIntoShort(t *testing.T) {
 	for _, lv := range []float64{500, 1000, 2000, 4000, 8000} {
-		s, err := New("hbm", lv, nil, nil)
+		s, err := mk("hbm", lv, nil, nil)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -107,11 +107,11 @@ func TestHBMChecksIntoShort(t *testing.T) {
 		}
 		expectAllWithin(t, s, 0)
 	}
-	s, _ := New("hbm", 2000, map[string]float64{"l": 5e-6}, nil)
+	s, _ := mk("hbm", 2000, map[string]float64{"l": 5e-6}, nil)
 	expectAllWithin(t, s, 0)
 	// Without inductance the rise is zero: outside JS-001's window, as it
 	// should be for an ideal RC.
-	s, _ = New("hbm", 2000, map[string]float64{"l": 0}, nil)
+	s, _ = mk("hbm", 2000, map[string]float64{"l": 0}, nil)
 	cs, _ := Checks(s, 0)
 	if cs[1].Quantity != "rise 10-90 %" || cs[1].Within {
 		t.Errorf("ideal RC rise check: %+v", cs[1])
@@ -140,7 +140,7 @@ func expectAllWithin(t *testing.T, s *Stimulus, load float64) {
 func TestISO10605Networks(t *testing.T) {
 	for _, p := range isoPoints {
 		for _, lv := range []float64{2000, 8000, 15000} {
-			s, err := New("iso10605", lv, map[string]float64{"c": p.c, "r": p.r}, nil)
+			s, err := mk("iso10605", lv, map[string]float64{"c": p.c, "r": p.r}, nil)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -153,17 +153,17 @@ func TestISO10605Networks(t *testing.T) {
 			near(t, "rc point", cs[0].Computed, lv/p.r*math.Exp(-p.t1/(p.r*p.c)), 1e-6)
 		}
 	}
-	s, err := New("iso10605", 8000, nil, nil)
+	s, err := mk("iso10605", 8000, nil, nil)
 	if err != nil || s.C != 150e-12 || s.R != 330 {
 		t.Fatalf("defaults: %+v, %v", s, err)
 	}
 	// Other values: no published points, no error.
-	s, _ = New("iso10605", 8000, map[string]float64{"c": 200e-12}, nil)
+	s, _ = mk("iso10605", 8000, map[string]float64{"c": 200e-12}, nil)
 	if cs, err := Checks(s, 0); err != nil || len(cs) != 0 {
 		t.Errorf("non-standard network: %v, %v", cs, err)
 	}
 	for _, bad := range []map[string]float64{{"c": 0}, {"r": -1}, {"l": -1e-9}, {"c": math.NaN()}} {
-		if _, err := New("iso10605", 8000, bad, nil); err == nil {
+		if _, err := mk("iso10605", 8000, bad, nil); err == nil {
 			t.Errorf("%v accepted", bad)
 		}
 	}
@@ -172,7 +172,7 @@ func TestISO10605Networks(t *testing.T) {
 // Into a resistive load the current is the same discharge through R+load
 // [calc], and the voltage is i·load; an open load carries nothing.
 func TestNetworkIntoLoad(t *testing.T) {
-	s, _ := New("hbm", 1000, nil, nil)
+	s, _ := mk("hbm", 1000, nil, nil)
 	i, v := s.Into(500, 20e-9)
 	near(t, "i into 500 Ω", i, networkCurrent(20e-9, 1000, 100e-12, 2000, hbmL), 1e-15)
 	near(t, "v across 500 Ω", v, 500*i, 1e-15)

@@ -4,119 +4,120 @@ import (
 	"fmt"
 	"math"
 	"sort"
-	"strings"
+
+	"zapnet/devices/spec"
 )
 
-// waveform is one entry of the catalogue: how to build a stimulus by name.
-type waveform struct {
-	name    string
-	unit    string  // unit of the level: "V", "A" or "" (a scale)
-	level   float64 // default level for the waveform command
-	summary string
-	build   func(level float64, p params) (*Stimulus, error)
+// Waveform is one stimulus of the catalogue, described once: its name in a
+// deck, the unit of its levels, its parameters and how to build it. The deck
+// checker, the study and the waveform command all read it from here.
+type Waveform struct {
+	Name    string
+	Summary string
+	// Unit is the unit of the levels: volts for the discharges, the voltage
+	// surge and EFT, amperes for the current surge and TLP, none for a
+	// piecewise-linear file (a scale factor).
+	Unit spec.Unit
+	// Level is a typical level, used by the waveform command when none is
+	// given.
+	Level float64
+	// Discharge marks an electrostatic discharge, whose levels above about
+	// 30 kV are beyond any test standard.
+	Discharge bool
+	// Table lists the waveform's parameters: the strike's keys besides
+	// waveform, level and polarity.
+	spec.Table
+	// Order places the waveform in listings.
+	Order int
+	// Load is the load the standard calibrates the stimulus into, ohms
+	// (+Inf: an open circuit); 0 is a short.
+	Load float64
+
+	// Loads are further loads, ohms, into which published check points
+	// are stated (the combination wave's short circuit, the fast
+	// transient's 1 kΩ); see CalibrationLoads.
+	Loads []float64
+
+	build func(level float64, v *spec.Values) (*Stimulus, error)
+	// checks compares s into load with the published check points,
+	// measuring through m (closed form or the engine's solution); nil: no
+	// published points.
+	checks func(s *Stimulus, load float64, m meter) []Check
 }
 
-// catalogue lists every waveform New knows, in the order Names reports them.
-func catalogue() []waveform {
-	return []waveform{
-		{"iec61000-4-2", "V", 4000, "IEC 61000-4-2 contact discharge, ideal current of the informative annex", newIEC61000_4_2},
-		{"hbm", "V", 4000, "human-body model (JS-001): 100 pF through 1.5 kΩ and a series inductance", newHBM},
-		{"iso10605", "V", 4000, "ISO 10605 discharge network: 150 or 330 pF through 330 Ω or 2 kΩ", newISO10605},
-		{"surge-8-20", "A", 500, "IEC 61000-4-5 8/20 µs short-circuit current, ideal current source", newSurge8_20},
-		{"surge-1.2-50", "V", 1000, "IEC 61000-4-5 1.2/50 µs open-circuit voltage behind 2 Ω", newSurge1_2_50},
-		{"tlp", "A", 8, "transmission-line pulse: trapezoid from a 50 Ω source, level = current into a short", newTLP},
-		{"eft", "V", 1000, "IEC 61000-4-4 5/50 ns fast transient (or a burst) from a 50 Ω source", newEFT},
-		{"pwl", "", 1, "piecewise-linear current from a CSV file (time,current), scaled by the level", newPWL},
+// registry holds the waveforms in documentation order; each waveform's
+// file registers its own in init.
+var registry []*Waveform
+
+// Register adds a waveform to the catalogue. A name registered twice is a
+// programming error.
+func Register(w *Waveform) {
+	if Lookup(w.Name) != nil {
+		panic("waveforms: registered twice: " + w.Name)
 	}
+	if w.build == nil {
+		panic("waveforms: no builder for " + w.Name)
+	}
+	w.Values() // panics on a table too large for a value set
+	registry = append(registry, w)
+	sort.SliceStable(registry, func(i, j int) bool { return registry[i].Order < registry[j].Order })
 }
 
-func lookup(name string) (waveform, error) {
-	for _, w := range catalogue() {
-		if w.name == name {
-			return w, nil
+// Lookup returns the waveform called name, or nil.
+func Lookup(name string) *Waveform {
+	for _, w := range registry {
+		if w.Name == name {
+			return w
 		}
 	}
-	return waveform{}, fmt.Errorf("unknown waveform %q (known: %s)", name, strings.Join(Names(), ", "))
+	return nil
 }
 
-// Names returns the waveform names New accepts, sorted.
+// Catalogue lists every waveform in documentation order.
+func Catalogue() []*Waveform { return registry }
+
+// Names returns the waveform names, sorted.
 func Names() []string {
 	var names []string
-	for _, w := range catalogue() {
-		names = append(names, w.name)
+	for _, w := range registry {
+		names = append(names, w.Name)
 	}
 	sort.Strings(names)
 	return names
 }
 
-// Info describes a waveform for listings and for the waveform command.
-type Info struct {
-	Name    string
-	Unit    string  // unit of the level: "V", "A", or "" for a dimensionless scale
-	Level   float64 // a typical level, used when none is given
-	Summary string
+// Taking lists, in documentation order, the waveforms that have the
+// parameter key.
+func Taking(key string) []string {
+	var out []string
+	for _, w := range registry {
+		if w.Param(key) != nil || w.Word(key) != nil {
+			out = append(out, w.Name)
+		}
+	}
+	return out
 }
 
-// Describe returns what the catalogue says about a waveform.
-func Describe(name string) (Info, error) {
-	w, err := lookup(name)
-	if err != nil {
-		return Info{}, err
-	}
-	return Info{Name: w.name, Unit: w.unit, Level: w.level, Summary: w.summary}, nil
-}
-
-// New builds the stimulus name at level (in the waveform's unit: volts for
-// iec61000-4-2, hbm, iso10605, surge-1.2-50 and eft; amperes for surge-8-20
-// and tlp; a dimensionless scale for pwl). num holds the strike's numeric
-// parameters and str its word parameters; absent keys take the defaults
-// documented beside each waveform, unknown keys are ignored (the deck parser
-// owns their validation). The stimulus is of positive polarity.
-func New(name string, level float64, num map[string]float64, str map[string]string) (*Stimulus, error) {
-	w, err := lookup(name)
-	if err != nil {
-		return nil, err
-	}
+// New builds the stimulus at level (in the waveform's Unit), of positive
+// polarity. v holds the strike's checked parameters, of the waveform's
+// table; nil means every default.
+func (w *Waveform) New(level float64, v *spec.Values) (*Stimulus, error) {
 	if math.IsNaN(level) || math.IsInf(level, 0) || level <= 0 {
-		return nil, fmt.Errorf("%s: level must be a positive finite number, got %g", name, level)
+		return nil, fmt.Errorf("%s: level must be a positive finite number, got %g", w.Name, level)
 	}
-	s, err := w.build(level, params{name: name, num: num, str: str})
+	if v == nil {
+		d := w.Defaults()
+		v = &d
+	} else if v.Table() != &w.Table {
+		return nil, fmt.Errorf("%s: parameters of another table", w.Name)
+	}
+	s, err := w.build(level, v)
 	if err != nil {
 		return nil, err
 	}
-	s.Name = name
+	s.Name = w.Name
 	s.Level = level
-	s.Unit = w.unit
+	s.Unit = string(w.Unit)
+	s.Values = *v
 	return s, nil
-}
-
-// params reads a strike's parameters with defaults and range checks.
-type params struct {
-	name string
-	num  map[string]float64
-	str  map[string]string
-}
-
-// positive returns num[key], or def when absent; it must be finite and > 0.
-func (p params) positive(key string, def float64) (float64, error) {
-	v, ok := p.num[key]
-	if !ok {
-		return def, nil
-	}
-	if math.IsNaN(v) || math.IsInf(v, 0) || v <= 0 {
-		return 0, fmt.Errorf("%s: parameter %s must be a positive finite number, got %g", p.name, key, v)
-	}
-	return v, nil
-}
-
-// nonNegative returns num[key], or def when absent; it must be finite and >= 0.
-func (p params) nonNegative(key string, def float64) (float64, error) {
-	v, ok := p.num[key]
-	if !ok {
-		return def, nil
-	}
-	if math.IsNaN(v) || math.IsInf(v, 0) || v < 0 {
-		return 0, fmt.Errorf("%s: parameter %s must be a finite number >= 0, got %g", p.name, key, v)
-	}
-	return v, nil
 }

@@ -3,7 +3,37 @@ package waveforms
 import (
 	"fmt"
 	"math"
+
+	"zapnet/devices/spec"
 )
+
+func init() {
+	Register(&Waveform{Name: "tlp", Unit: spec.Ampere, Level: 8,
+		Summary: "transmission-line pulse: trapezoid from a 50 Ω source, level = current into a short",
+		Table: spec.Table{Params: []spec.Param{
+			spec.Default("width", spec.Second, spec.Positive, tlpWidth),
+			spec.Default("rise", spec.Second, spec.Positive, tlpRise),
+		}},
+		build:  newTLP,
+		Order:  60,
+		checks: checksTLP,
+	})
+}
+
+func init() {
+	Register(&Waveform{Name: "eft", Unit: spec.Volt, Level: 1000,
+		Summary: "IEC 61000-4-4 5/50 ns fast transient (or a burst) from a 50 Ω source",
+		Table: spec.Table{Params: []spec.Param{
+			spec.Default("count", spec.Dimensionless, spec.Count, 1),
+			spec.Default("rate", spec.Hertz, spec.Positive, eftRate),
+			spec.Optional("burst", spec.Hertz, spec.Positive).
+				Noted("a standard burst at this repetition rate, 5k or 100k, through the coupling capacitor; replaces count and rate"),
+		}},
+		build: newEFTAny,
+		Order: 70, Load: eftR, Loads: []float64{1000},
+		checks: checksEFT,
+	})
+}
 
 // Transmission-line pulse (ANSI/ESD STM5.5.1) [pub]: a 50 Ω system, 100 ns
 // pulse, rise 0.2–10 ns.
@@ -19,17 +49,10 @@ const (
 // (0→100 %, so the 10–90 % rise is 0.8·rise); width is the full width at half
 // maximum: the ramp starts at 0, the flat top runs from rise to width, the
 // fall ends at width + rise. The span adds half a width after the pulse.
-func newTLP(level float64, p params) (*Stimulus, error) {
-	width, err := p.positive("width", tlpWidth)
-	if err != nil {
-		return nil, err
-	}
-	rise, err := p.positive("rise", tlpRise)
-	if err != nil {
-		return nil, err
-	}
+func newTLP(level float64, v *spec.Values) (*Stimulus, error) {
+	width, rise := v.Num("width"), v.Num("rise")
 	if rise >= width {
-		return nil, fmt.Errorf("tlp: rise (%g s) must be shorter than width (%g s)", rise, width)
+		return nil, fmt.Errorf("tlp: rise %s must be shorter than width %s", spec.FormatSI(rise, "s"), spec.FormatSI(width, "s"))
 	}
 	voc := level * tlpR
 	f := func(t float64) float64 {
@@ -75,22 +98,15 @@ const (
 // newEFT is one 5/50 ns pulse of open-circuit peak level (volts; into 50 Ω
 // the peak is half) or, with count > 1, a burst of count pulses at rate
 // (Hz, default 5 kHz). The span ends eftTail after the last pulse starts.
-func newEFT(level float64, p params) (*Stimulus, error) {
-	cnt, err := p.positive("count", 1)
-	if err != nil {
-		return nil, err
-	}
-	if cnt != math.Trunc(cnt) || cnt > 1e6 {
-		return nil, fmt.Errorf("eft: count must be a whole number of pulses from 1 to 1e6, got %g", cnt)
-	}
-	rate, err := p.positive("rate", eftRate)
-	if err != nil {
-		return nil, err
-	}
-	count := int(cnt)
+func newEFT(level float64, v *spec.Values) (*Stimulus, error) {
+	return eftTrain(level, int(v.Num("count")), v.Num("rate"))
+}
+
+// eftTrain is count pulses of open-circuit peak level at rate, from 50 Ω.
+func eftTrain(level float64, count int, rate float64) (*Stimulus, error) {
 	period := 1 / rate
 	if count > 1 && period < 2*eftTail {
-		return nil, fmt.Errorf("eft: rate %g Hz puts pulses %g s apart; they need at least %g s (rate up to %g Hz)", rate, period, 2*eftTail, 1/(2*eftTail))
+		return nil, fmt.Errorf("eft: rate %s puts pulses %s apart; they need at least %s (rate up to %s)", spec.FormatSI(rate, "Hz"), spec.FormatSI(period, "s"), spec.FormatSI(2*eftTail, "s"), spec.FormatSI(1/(2*eftTail), "Hz"))
 	}
 	amp := eftA * level
 	pulse := func(u float64) float64 { return amp * (math.Exp(-u/eftTau2) - math.Exp(-u/eftTau1)) }
@@ -123,11 +139,83 @@ func newEFT(level float64, p params) (*Stimulus, error) {
 	for j := range bp {
 		bp[j] = float64(j) * period
 	}
-	return &Stimulus{
+	st := &Stimulus{
 		Form:        Thevenin,
 		F:           f,
 		R:           eftR,
 		Breakpoints: bp,
 		Stop:        float64(count-1)*period + eftTail,
-	}, nil
+	}
+	if count > 1 {
+		st.Pulse = eftTail
+	}
+	return st, nil
+}
+
+// checksTLP: the current into the load averaged over 70–90 % of the pulse
+// width [pub: STM5.5.1's averaging window], against the level scaled by the
+// 50 Ω divider [calc] within ±1 % [practice]; the width at half maximum
+// against the width asked for (±1 % [practice]); the 10–90 % rise inside
+// STM5.5.1's 0.2–10 ns [pub].
+func checksTLP(s *Stimulus, load float64, m meter) []Check {
+	width := s.Breakpoints[2]
+	sh := m(s, load, s.Stop, false)
+	pv, _ := sh.peak()
+	a, b := 0.7*width, 0.9*width
+	var wt, wy []float64
+	for k, x := range sh.t {
+		if x > a && x < b {
+			wt, wy = append(wt, x), append(wy, sh.y[k])
+		}
+	}
+	wt = append(append([]float64{a}, wt...), b)
+	wy = append(append([]float64{sh.g(a)}, wy...), sh.g(b))
+	avg := Integral(wt, wy) / (b - a)
+	fwhm := WidthAbove(sh.t, sh.y, 0.5*pv)
+	rise := sh.riseCross(0.9*pv) - sh.riseCross(0.1*pv)
+	ref := "ANSI/ESD STM5.5.1, 50 Ω system"
+	return []Check{
+		rel("current, 70-90 % avg", "A", avg, s.Level*tlpR/(tlpR+load), 0.01, "[calc]", ref+"; level is the current into a short"),
+		rel("width at half max", "s", fwhm, width, 0.01, "[practice]", "the width asked for (parameter width)"),
+		window("rise 10-90 %", "s", rise, 0.2e-9, 10e-9, "0.2-10 ns", "[pub]", ref),
+	}
+}
+
+// checksEFT: the first pulse into the load (50 Ω by default): peak
+// level·load/(50 Ω + load) ±10 % (half the open-circuit level into 50 Ω
+// [mem]), rise 5 ns ±30 % and width at half maximum 50 ns ±30 %
+// [pub: IEC 61000-4-4].
+func checksEFT(s *Stimulus, load float64, m meter) []Check {
+	if s.Burst != nil {
+		// A burst's pulses are alike: the first is checked.
+		first, err := s.Burst.First(1)
+		if err != nil {
+			return nil
+		}
+		s = first
+	}
+	ref := "IEC 61000-4-4, into " + siFormat(load, "Ω")
+	if math.IsInf(load, 1) {
+		ref = "IEC 61000-4-4, open circuit"
+	}
+	if s.Burst != nil || s.Gen != nil {
+		ref += ", the burst's first pulse through the coupling capacitor"
+	}
+	// Into a short there is no voltage: check the current instead.
+	q, unit, want := "peak voltage", "V", s.Level
+	if !math.IsInf(load, 1) {
+		want = s.Level * load / (eftR + load)
+	}
+	if load == 0 {
+		q, unit, want = "peak current", "A", s.Level/eftR
+	}
+	sh := m(s, load, eftTail, load != 0)
+	pv, _ := sh.peak()
+	rise := sh.riseCross(0.9*pv) - sh.riseCross(0.1*pv)
+	width := WidthAbove(sh.t, sh.y, 0.5*pv)
+	return []Check{
+		rel(q, unit, pv, want, 0.10, "[mem]", ref),
+		rel("rise 10-90 %", "s", rise, 5e-9, 0.30, "[pub]", ref),
+		rel("width at half max", "s", width, 50e-9, 0.30, "[pub]", ref),
+	}
 }

@@ -9,7 +9,7 @@ import (
 // `rise` long, width at half maximum `width` [practice: the convention
 // documented on newTLP]; the 70–90 % average into a short is the level.
 func TestTLP(t *testing.T) {
-	s, err := New("tlp", 16, nil, nil)
+	s, err := mk("tlp", 16, nil, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -33,13 +33,13 @@ func TestTLP(t *testing.T) {
 	// Into 5 Ω the flat top is 800/55 A [calc].
 	cs, _ = Checks(s, 5)
 	near(t, "avg into 5 Ω", cs[0].Computed, 800.0/55, 1e-9)
-	s, err = New("tlp", 8, map[string]float64{"width": 50e-9, "rise": 10e-9}, nil)
+	s, err = mk("tlp", 8, map[string]float64{"width": 50e-9, "rise": 10e-9}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
 	near(t, "stop", s.Stop, 85e-9, 1e-12)
 	for _, bad := range []map[string]float64{{"rise": 100e-9}, {"width": 0}, {"rise": -1e-9}} {
-		if _, err := New("tlp", 8, bad, nil); err == nil {
+		if _, err := mk("tlp", 8, bad, nil); err == nil {
 			t.Errorf("%v accepted", bad)
 		}
 	}
@@ -49,7 +49,7 @@ func TestTLP(t *testing.T) {
 // width at half maximum of 50 ns [calc: fitted to IEC 61000-4-4's 5/50 ns],
 // its open-circuit peak is the level, and into 50 Ω it is half.
 func TestEFTPulse(t *testing.T) {
-	s, err := New("eft", 4000, nil, nil)
+	s, err := mk("eft", 4000, nil, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -71,8 +71,8 @@ func TestEFTPulse(t *testing.T) {
 // A burst repeats the same pulse at the rate: each pulse starts on a
 // breakpoint and peaks as the first does [calc].
 func TestEFTBurst(t *testing.T) {
-	one, _ := New("eft", 1000, nil, nil)
-	s, err := New("eft", 1000, map[string]float64{"count": 75, "rate": 100e3}, nil)
+	one, _ := mk("eft", 1000, nil, nil)
+	s, err := mk("eft", 1000, map[string]float64{"count": 75, "rate": 100e3}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -93,7 +93,7 @@ func TestEFTBurst(t *testing.T) {
 		t.Errorf("after the burst v = %g", v)
 	}
 	for _, bad := range []map[string]float64{{"count": 1.5}, {"count": 0}, {"count": 2, "rate": 5e6}, {"rate": -1}} {
-		if _, err := New("eft", 1000, bad, nil); err == nil {
+		if _, err := mk("eft", 1000, bad, nil); err == nil {
 			t.Errorf("%v accepted", bad)
 		}
 	}

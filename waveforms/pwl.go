@@ -2,6 +2,7 @@ package waveforms
 
 import (
 	"bufio"
+
 	"errors"
 	"fmt"
 	"math"
@@ -9,7 +10,17 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"zapnet/devices/spec"
 )
+
+func init() {
+	Register(&Waveform{Name: "pwl", Unit: spec.Dimensionless, Level: 1,
+		Summary: "piecewise-linear current from a CSV file (time,current), scaled by the level",
+		Table:   spec.Table{Words: []spec.Word{{Key: "file", Path: true, Fixed: true}}},
+		build:   newPWL,
+		Order:   80,
+	})
+}
 
 // newPWL reads a piecewise-linear current from the CSV file str["file"]:
 // rows "time,current" in seconds and amperes (plain decimal numbers, no SI
@@ -18,8 +29,8 @@ import (
 // strictly increasing; the current is zero before the first and after the
 // last sample, so a file that does not start and end at zero has a step
 // there. Every sample time is a breakpoint; the span ends at the last one.
-func newPWL(level float64, p params) (*Stimulus, error) {
-	path := p.str["file"]
+func newPWL(level float64, v *spec.Values) (*Stimulus, error) {
+	path := v.Word("file")
 	if path == "" {
 		return nil, errors.New(`pwl: needs file="path" naming a CSV of time,current rows`)
 	}

@@ -10,7 +10,7 @@ import (
 // A piecewise-linear file is reproduced exactly, scaled by the level, with
 // every sample time a breakpoint [calc: linear interpolation].
 func TestPWL(t *testing.T) {
-	s, err := New("pwl", 3, nil, map[string]string{"file": "testdata/pulse.csv"})
+	s, err := mk("pwl", 3, nil, map[string]string{"file": "testdata/pulse.csv"})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -33,7 +33,7 @@ func TestPWL(t *testing.T) {
 	}
 	near(t, "charge", Integral(ts, is), 3*14.5e-9, 1e-12)
 
-	s, err = New("pwl", 1, nil, map[string]string{"file": "testdata/noheader.csv"})
+	s, err = mk("pwl", 1, nil, map[string]string{"file": "testdata/noheader.csv"})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -42,7 +42,7 @@ func TestPWL(t *testing.T) {
 
 // Bad files: every bad line is named with its line number.
 func TestPWLErrors(t *testing.T) {
-	_, err := New("pwl", 1, nil, map[string]string{"file": "testdata/bad.csv"})
+	_, err := mk("pwl", 1, nil, map[string]string{"file": "testdata/bad.csv"})
 	if err == nil {
 		t.Fatal("bad file accepted")
 	}
@@ -56,19 +56,19 @@ func TestPWLErrors(t *testing.T) {
 			t.Errorf("error lacks %q:\n%v", want, err)
 		}
 	}
-	if _, err := New("pwl", 1, nil, map[string]string{"file": "testdata/short.csv"}); err == nil || !strings.Contains(err.Error(), "at least 2 rows") {
+	if _, err := mk("pwl", 1, nil, map[string]string{"file": "testdata/short.csv"}); err == nil || !strings.Contains(err.Error(), "at least 2 rows") {
 		t.Errorf("one-row file: %v", err)
 	}
-	if _, err := New("pwl", 1, nil, nil); err == nil || !strings.Contains(err.Error(), "file") {
+	if _, err := mk("pwl", 1, nil, nil); err == nil || !strings.Contains(err.Error(), "file") {
 		t.Errorf("no file: %v", err)
 	}
-	if _, err := New("pwl", 1, nil, map[string]string{"file": filepath.Join(t.TempDir(), "none.csv")}); err == nil {
+	if _, err := mk("pwl", 1, nil, map[string]string{"file": filepath.Join(t.TempDir(), "none.csv")}); err == nil {
 		t.Error("missing file accepted")
 	}
 	// A header anywhere but the first row is a bad number.
 	p := filepath.Join(t.TempDir(), "late.csv")
 	os.WriteFile(p, []byte("0,0\ntime,current\n1e-9,1\n"), 0o644)
-	if _, err := New("pwl", 1, nil, map[string]string{"file": p}); err == nil || !strings.Contains(err.Error(), "late.csv:2:") {
+	if _, err := mk("pwl", 1, nil, map[string]string{"file": p}); err == nil || !strings.Contains(err.Error(), "late.csv:2:") {
 		t.Errorf("late header: %v", err)
 	}
 }

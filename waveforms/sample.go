@@ -10,18 +10,11 @@ import (
 const DefaultLoad = -1.0
 
 // PrescribedLoad returns the resistive load, in ohms, into which the
-// waveform's published values are stated: the 2 Ω target for
-// iec61000-4-2 (its ideal current does not depend on it), a short for hbm,
-// iso10605, surge-8-20, tlp and pwl, an open circuit (+Inf) for the
-// surge-1.2-50 voltage and 50 Ω for eft.
+// waveform's published values are stated (Waveform.Load; +Inf is an open
+// circuit, 0 a short and an unknown waveform's).
 func PrescribedLoad(name string) float64 {
-	switch name {
-	case "iec61000-4-2":
-		return iecTarget
-	case "surge-1.2-50":
-		return math.Inf(1)
-	case "eft":
-		return eftR
+	if w := Lookup(name); w != nil {
+		return w.Load
 	}
 	return 0
 }

@@ -16,6 +16,10 @@
 //	tlp            thevenin  A (into short) width (100 ns), rise (1 ns)            width + rise + width/2
 //	eft            thevenin  V (peak Voc)   count (1), rate (5 kHz)                (count−1)/rate + 300 ns
 //	pwl            current   scale          file (required)                        last sample time
+//	iec61000-4-2-network  generator  V      -                                      5·RC + 10·L/R ≈ 303 ns
+//	iec61000-4-2-air      generator  V      approach (1)                           that + 100 ns
+//	surge-cwg             generator  V (peak Voc)  path (direct)                   350 µs
+//	eft with burst=       generator  V (peak Voc)  burst (5 kHz or 100 kHz)        75 periods
 //
 // Spans end when the stimulus has fallen below about 1 % of its peak (pwl:
 // at its last sample); a study may extend them for slow circuits.
@@ -41,6 +45,13 @@
 //     maximum [calc], from 50 Ω, so that 50 Ω sees half the open-circuit peak;
 //     count > 1 makes a burst at rate.
 //   - pwl: a "time,current" CSV, linear between samples, zero outside them.
+//   - the generator circuits (Generator form, a Fragment the engine solves):
+//     the IEC 61000-4-2 generator network for contact discharge and through
+//     a spark for air discharge (generator.go), the IEC 61000-4-5
+//     combination wave generator with its coupling paths (cwg.go), and the
+//     IEC 61000-4-4 burst through its coupling capacitor (eftburst.go).
+//     Their check points are measured on the engine's solution
+//     (SolvedChecks, netchecks.go).
 //
 // Measurement conventions: rise times are between the first crossings of the
 // fractions of the peak; the IEC 61000-4-2 30 and 60 ns points count from the
@@ -51,6 +62,8 @@
 // 36.8 % of it [mem: JS-001]; ringing is the largest swing below zero after
 // the peak, in per cent of the peak.
 package waveforms
+
+import "zapnet/devices/spec"
 
 // Form says how a stimulus meets the circuit.
 type Form int
@@ -63,6 +76,10 @@ const (
 	// Network is a capacitor C charged to V0 discharging through R (and a
 	// series L when L > 0) into the node: its current depends on the load.
 	Network
+	// Generator is a generator's circuit (Stimulus.Gen) between the node
+	// and ref: a network with its parasitic paths, a spark gap, a coupling
+	// network. It has no closed form; the engine solves it.
+	Generator
 )
 
 func (f Form) String() string {
@@ -73,6 +90,8 @@ func (f Form) String() string {
 		return "thevenin"
 	case Network:
 		return "network"
+	case Generator:
+		return "generator"
 	}
 	return "unknown"
 }
@@ -93,13 +112,37 @@ type Stimulus struct {
 	L float64
 	// C and V0 are the Network's capacitor and its initial voltage.
 	C, V0 float64
+	// Gen is the circuit of a Generator form, and the same network as C,
+	// R, L and V0 for a Network form (the strike stamps either through
+	// it); nil for the other forms.
+	Gen *Fragment
+	// Burst describes a stimulus of identical pulses (an EFT burst) for a
+	// solver that extrapolates a settled train; nil otherwise.
+	Burst *Burst
 	// Breakpoints are the corners of F (or the network's switching instant),
 	// ascending, in seconds; the engine lands on each exactly.
 	Breakpoints []float64
 	// Stop is the default simulated span in seconds for this stimulus alone;
 	// the study may extend it for slow circuits.
 	Stop float64
+	// Pulse is the span of one pulse of a train (an EFT burst, s), 0 for a
+	// single event; see Scale.
+	Pulse float64
+	// Values are the parameters the stimulus was built with (of its
+	// waveform's table), so that a strike can be built for it again.
+	Values spec.Values
 	// Note is a caution to show with the stimulus (a known simplification),
 	// empty for most waveforms.
 	Note string
+}
+
+// Scale is the time scale of the stimulus's events, s: the span of one
+// pulse of a train, otherwise the whole span. A solver sizes its first
+// step after each breakpoint from it: a train's span is that of all its
+// pulses, far too long to resolve each one's rise.
+func (s *Stimulus) Scale() float64 {
+	if s.Pulse > 0 {
+		return s.Pulse
+	}
+	return s.Stop
 }

@@ -4,11 +4,11 @@ import "math"
 
 // Tracker measures a waveform point by point without keeping it: extremes
 // and their times, the largest magnitude, the time spent above and below two
-// thresholds and the integral. Its results equal those of Peak, Min,
-// AbsPeak, WidthAbove, WidthBelow and Integral on the same samples, bit for
-// bit, unless Refine is set. The zero Tracker is ready to use with both
-// thresholds at zero. Add does not allocate, so a sweep can keep one Tracker
-// per watched node.
+// thresholds. Its results equal those of Peak, Min, AbsPeak, WidthAbove
+// and WidthBelow (reference_test.go) on the same samples, bit for bit,
+// unless Refine is set. The zero Tracker is ready to use with both
+// thresholds at zero. Add does not allocate, so a sweep can keep one
+// Tracker per watched node.
 type Tracker struct {
 	// Above is the threshold of WidthAbove. Zero: time spent above 0.
 	// Set it before the first Add.
@@ -33,7 +33,6 @@ type Tracker struct {
 	max, tmax      float64
 	min, tmin      float64
 	abs, tabs      float64
-	integral       float64
 	wAbove, wBelow float64
 
 	// The samples of the current smooth stretch, up to the last four,
@@ -63,7 +62,6 @@ func (r *Tracker) Add(t, y float64) {
 		if a := math.Abs(y); a > r.abs {
 			r.abs, r.tabs = a, t
 		}
-		r.integral += trapezoid(h, r.y, y)
 		r.wAbove += timeAbove(h, r.y, y, r.Above)
 		r.wBelow += timeAbove(h, -r.y, -y, -r.Below)
 		if r.Refine && t == r.t {
@@ -201,9 +199,6 @@ func (r *Tracker) refine(sign float64) (v, at float64, ok bool) {
 // Reset forgets every sample, keeping the thresholds and Refine.
 func (r *Tracker) Reset() { *r = Tracker{Above: r.Above, Below: r.Below, Refine: r.Refine} }
 
-// Count returns the number of samples added.
-func (r *Tracker) Count() int { return r.n }
-
 // Max returns the largest value and the time of its first occurrence (NaN
 // before any sample).
 func (r *Tracker) Max() (v, at float64) {
@@ -234,43 +229,3 @@ func (r *Tracker) WidthAbove() float64 { return r.wAbove }
 
 // WidthBelow returns the time spent below the Below threshold so far.
 func (r *Tracker) WidthBelow() float64 { return r.wBelow }
-
-// Integral returns ∫ y dt so far.
-func (r *Tracker) Integral() float64 { return r.integral }
-
-// Last returns the latest sample (NaN before any).
-func (r *Tracker) Last() (t, y float64) {
-	if r.n == 0 {
-		return math.NaN(), math.NaN()
-	}
-	return r.t, r.y
-}
-
-// EnergyMeter accumulates ∫ v·i dt point by point, exactly for
-// piecewise-linear v and i, equal bit for bit to Energy on the same samples.
-// The zero EnergyMeter is ready to use.
-type EnergyMeter struct {
-	n       int
-	t, v, i float64
-	e       float64
-}
-
-// Add feeds the next sample of voltage v and current i at time t; times must
-// not decrease (a decreasing time panics).
-func (m *EnergyMeter) Add(t, v, i float64) {
-	if m.n > 0 {
-		h := t - m.t
-		if h < 0 {
-			panic("waveforms: EnergyMeter.Add with a decreasing time")
-		}
-		m.e += productIntegral(h, m.v, m.i, v, i)
-	}
-	m.n++
-	m.t, m.v, m.i = t, v, i
-}
-
-// Energy returns ∫ v·i dt so far, J for volts and amperes.
-func (m *EnergyMeter) Energy() float64 { return m.e }
-
-// Reset forgets every sample.
-func (m *EnergyMeter) Reset() { *m = EnergyMeter{} }

@@ -11,7 +11,7 @@ import (
 // mem].
 func TestSurge8_20(t *testing.T) {
 	for _, ip := range []float64{250, 500, 1000, 3000} {
-		s, err := New("surge-8-20", ip, nil, nil)
+		s, err := mk("surge-8-20", ip, nil, nil)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -37,7 +37,7 @@ func TestSurge8_20(t *testing.T) {
 // checks, the short-circuit current's peak is Vp/2 Ω and its front is not
 // 8 µs (the documented simplification).
 func TestSurge1_2_50(t *testing.T) {
-	s, err := New("surge-1.2-50", 2000, nil, nil)
+	s, err := mk("surge-1.2-50", 2000, nil, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -64,10 +64,10 @@ func TestSurge1_2_50(t *testing.T) {
 	i, v := s.Into(2, 3e-6)
 	near(t, "divider v", v, s.F(3e-6)/2, 1e-15)
 	near(t, "divider i", i, s.F(3e-6)/4, 1e-15)
-	if _, err := New("surge-1.2-50", 2000, map[string]float64{"r": 0}, nil); err == nil {
+	if _, err := mk("surge-1.2-50", 2000, map[string]float64{"r": 0}, nil); err == nil {
 		t.Error("r = 0 accepted")
 	}
-	s, _ = New("surge-1.2-50", 2000, map[string]float64{"r": 12}, nil)
+	s, _ = mk("surge-1.2-50", 2000, map[string]float64{"r": 12}, nil)
 	if s.R != 12 {
 		t.Errorf("r = %g, want 12", s.R)
 	}

@@ -29,7 +29,7 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"zapnet/cmd/internal/report"
-	"zapnet/cmd/internal/study"
+	"zapnet/mna/study"
 	"zapnet/netlist"
 )
 
@@ -153,11 +153,15 @@ func fileURL(path string) string {
 // report the way `zapnet run --html` does.
 func writeReport(t *testing.T, c *netlist.Circuit, path string) []study.Run {
 	t.Helper()
-	runs, err := study.Execute(c, &study.Options{Record: true})
+	jobs, err := study.Jobs(c, &study.Options{Record: true})
 	if err != nil {
 		t.Fatal(err)
 	}
-	meta := report.Meta{Tool: "zapnet", Version: Version, Deck: c.File, Title: c.Title}
+	runs, err := study.Execute(context.Background(), c, jobs, &study.Options{Record: true}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	meta := study.Meta{Tool: "zapnet", Version: Version, Deck: c.File, Title: c.Title}
 	if err := writePictures(pictureOptions{htmlFile: path}, c, meta, runs); err != nil {
 		t.Fatal(err)
 	}

@@ -7,6 +7,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
+	"zapnet/devices/spec"
 	"zapnet/netlist"
 )
 
@@ -42,13 +43,10 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		if !errors.As(err, &list) {
 			return err
 		}
-		n := 0
 		for _, e := range list {
 			fmt.Fprintln(stderr, e.Error())
-			if !e.Warning {
-				n++
-			}
 		}
+		n := list.Problems()
 		if n == 1 {
 			return fmt.Errorf("%s: 1 problem", deck)
 		}
@@ -58,6 +56,7 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		for _, w := range c.Warnings {
 			fmt.Fprintln(stderr, w.Error())
 		}
+		fmt.Fprintf(stdout, "%s: no problems; %s, %s\n", deck, count(len(c.Elements), "element"), count(c.Plan().Runs(), "run"))
 		return nil
 	}
 	writeListing(stdout, deck, c)
@@ -72,29 +71,46 @@ func writeListing(w io.Writer, deck string, c *netlist.Circuit) {
 		title = "(untitled)"
 	}
 	fmt.Fprintf(w, "%s\ndeck %s\n\n", title, deck)
-
 	fmt.Fprintf(w, "Nodes (%d besides gnd)\n  %s\n\n", len(c.Nodes), strings.Join(c.Nodes, " "))
+	for _, section := range []func(io.Writer, *netlist.Circuit){listElements, listWatches, listWindow, listTolerances, listStudy, listWarnings} {
+		section(w, c)
+	}
+}
 
+// listElements lists every element with its parameters, defaults filled in.
+func listElements(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintf(w, "Elements (%d)\n", len(c.Elements))
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	for _, e := range c.Elements {
-		fmt.Fprintf(tw, "  %s\t%s\t%s → %s\t%s\n", e.Kind, e.Name, e.Nodes[0], e.Nodes[1], strings.Join(elementParams(e), ", "))
+		fmt.Fprintf(tw, "  %s\t%s\t%s → %s\t%s\n", e.Kind.Name, e.Name, e.Nodes[0], e.Nodes[1], strings.Join(elementParams(e), ", "))
 	}
 	tw.Flush()
 	fmt.Fprintln(w)
+}
 
+// listWatches lists the watched nodes and their limits.
+func listWatches(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintln(w, "Watches")
 	if len(c.Watches) == 0 {
 		fmt.Fprintln(w, "  none")
 	}
-	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	for _, wt := range c.Watches {
 		var lim []string
 		if wt.HasMax {
-			lim = append(lim, "max "+netlist.FormatSI(wt.Max, "V"))
+			lim = append(lim, "max "+spec.FormatSI(wt.Max, "V"))
 		}
 		if wt.HasMin {
-			lim = append(lim, "min "+netlist.FormatSI(wt.Min, "V"))
+			lim = append(lim, "min "+spec.FormatSI(wt.Min, "V"))
+		}
+		if wt.Peaking > 0 {
+			lim = append(lim, fmt.Sprintf("peaking %g dB", wt.Peaking))
+		}
+		if wt.CMax > 0 {
+			lim = append(lim, "cmax "+spec.FormatSI(wt.CMax, spec.Farad))
+		}
+		if wt.Rise > 0 {
+			lim = append(lim, "rise "+spec.FormatSI(wt.Rise, spec.Second))
 		}
 		if len(lim) == 0 {
 			lim = []string{"reported, no limits"}
@@ -103,14 +119,17 @@ func writeListing(w io.Writer, deck string, c *netlist.Circuit) {
 	}
 	tw.Flush()
 	fmt.Fprintln(w)
+}
 
+// listWindow says what span and accuracy the deck asks for.
+func listWindow(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintln(w, "Window")
 	win := c.Window
-	field := func(name string, v float64, unit, zero string) {
+	field := func(name string, v float64, unit spec.Unit, zero string) {
 		if v == 0 {
 			fmt.Fprintf(w, "  %-8s %s\n", name, zero)
 		} else {
-			fmt.Fprintf(w, "  %-8s %s\n", name, netlist.FormatSI(v, unit))
+			fmt.Fprintf(w, "  %-8s %s\n", name, spec.FormatSI(v, unit))
 		}
 	}
 	field("stop", win.Stop, "s", "from the waveform and the circuit")
@@ -118,12 +137,15 @@ func writeListing(w io.Writer, deck string, c *netlist.Circuit) {
 	field("reltol", win.RelTol, "", "solver default")
 	field("abstol", win.AbsTol, "V", "solver default")
 	fmt.Fprintln(w)
+}
 
+// listTolerances lists the manufacturing spreads.
+func listTolerances(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintln(w, "Tolerances")
 	if len(c.Tolerances) == 0 {
 		fmt.Fprintln(w, "  none")
 	}
-	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	for _, t := range c.Tolerances {
 		dist := "uniform"
 		if t.Dist == "normal" {
@@ -133,15 +155,22 @@ func writeListing(w io.Writer, deck string, c *netlist.Circuit) {
 	}
 	tw.Flush()
 	fmt.Fprintln(w)
+}
 
+// shownVariants is how many variants check lists: enough to see how the
+// vary lines combine.
+const shownVariants = 20
+
+// listStudy counts the runs of the study and lists its levels, polarities and variants.
+func listStudy(w io.Writer, c *netlist.Circuit) {
 	pl := c.Plan()
-	unit := netlist.LevelUnit(pl.Waveform)
+	unit := pl.Waveform.Unit
 	levels := make([]string, len(pl.Levels))
 	for i, l := range pl.Levels {
-		levels[i] = netlist.FormatSI(l, unit)
+		levels[i] = spec.FormatSI(l, unit)
 	}
 	fmt.Fprintln(w, "Study")
-	fmt.Fprintf(w, "  %s: %s × %s × %s = %s\n", pl.Waveform,
+	fmt.Fprintf(w, "  %s: %s × %s × %s = %s\n", pl.Waveform.Name,
 		count(len(pl.Levels), "level"), count(len(pl.Polarities), "polarity"),
 		count(len(pl.Variants), "variant"), count(pl.Runs(), "run"))
 	fmt.Fprintf(w, "  levels      %s\n", strings.Join(levels, ", "))
@@ -150,6 +179,10 @@ func writeListing(w io.Writer, deck string, c *netlist.Circuit) {
 		head := "            "
 		if i == 0 {
 			head = "  variants  "
+		}
+		if i == shownVariants && len(pl.Variants) > shownVariants+1 {
+			fmt.Fprintf(w, "%s... and %d more\n", head, len(pl.Variants)-i)
+			break
 		}
 		text := "the deck as written"
 		if len(v) > 0 {
@@ -162,7 +195,10 @@ func writeListing(w io.Writer, deck string, c *netlist.Circuit) {
 		fmt.Fprintf(w, "%s%*d  %s\n", head, 2, i+1, text)
 	}
 	fmt.Fprintln(w)
+}
 
+// listWarnings lists the warnings.
+func listWarnings(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintln(w, "Warnings")
 	if len(c.Warnings) == 0 {
 		fmt.Fprintln(w, "  none")
@@ -176,24 +212,20 @@ func writeListing(w io.Writer, deck string, c *netlist.Circuit) {
 // language reference, each with its unit.
 func elementParams(e *netlist.Element) []string {
 	var out []string
-	if e.Kind == netlist.Strike {
-		out = append(out, "waveform "+e.Str["waveform"], "polarity "+e.Str["polarity"])
-		if f := e.Str["file"]; f != "" {
-			out = append(out, "file "+f)
-		}
-	} else {
-		if p := e.Str["part"]; p != "" {
-			out = append(out, "part "+p)
-		}
-		for _, k := range []string{"polarity", "rail"} {
-			if v := e.Str[k]; v != "" {
-				out = append(out, k+" "+v)
-			}
+	if e.IsStrike() {
+		out = append(out, "waveform "+e.Waveform.Name, "polarity "+e.Polarity)
+	} else if e.Part != "" {
+		out = append(out, "part "+e.Part)
+	}
+	t := e.Values.Table()
+	for _, w := range t.Words {
+		if v := e.Values.Word(w.Key); v != "" {
+			out = append(out, w.Key+" "+v)
 		}
 	}
-	for _, k := range netlist.ParamOrder(e.Kind) {
-		if e.Has(k) {
-			out = append(out, k+" "+netlist.FormatSI(e.Get(k), netlist.ParamUnit(e.Kind, k)))
+	for _, p := range t.Params {
+		if v, ok := e.Values.Lookup(p.Key); ok {
+			out = append(out, p.Key+" "+spec.FormatSI(v, p.Unit))
 		}
 	}
 	return out
@@ -211,5 +243,5 @@ func count(n int, what string) string {
 
 // trimFloat prints a percentage without trailing zeros.
 func trimFloat(v float64) string {
-	return strings.TrimSuffix(netlist.FormatSI(v, ""), " ")
+	return strings.TrimSuffix(spec.FormatSI(v, ""), " ")
 }

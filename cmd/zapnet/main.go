@@ -12,6 +12,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"zapnet/netlist"
 
 	"github.com/spf13/pflag"
 )
@@ -47,7 +48,9 @@ func commands() []command {
 		{"margin", "find the highest level that still passes, per variant and polarity", runMargin},
 		{"sensitivity", "rank parameters by how much ±10 % moves the worst margin", runSensitivity},
 		{"spread", "draw circuits from the deck's tolerances and report the distribution", runSpread},
+		{"ac", "the signal's side: transfer, impedance, peaking, loading, S-parameters, edge rise", runAC},
 		{"merge", "join the JSON results of sharded sweeps into one", runMerge},
+		{"fit", "turn TLP curves, datasheet points, impedance, Touchstone and IBIS files into part lines", runFit},
 		{"version", "print the version", runVersion},
 	}
 }
@@ -66,9 +69,19 @@ func Main(args []string, stdout, stderr io.Writer) int {
 		usage(stdout)
 		return exitPass
 	}
+	if args[0] == "--version" {
+		args = []string{"version"}
+	}
 	for _, c := range commands() {
 		if c.name == args[0] {
-			return exitCode(c.run(args[1:], stdout, stderr), stderr)
+			out := &checkedWriter{w: stdout}
+			err := c.run(args[1:], out, stderr)
+			if out.err != nil && (err == nil || errors.Is(err, errVerdictFail)) {
+				// Results that did not reach their reader are lost
+				// results, whatever the verdict.
+				err = fmt.Errorf("cannot write to standard output: %w", out.err)
+			}
+			return exitCode(err, stderr)
 		}
 	}
 	fmt.Fprintf(stderr, "zapnet: unknown command %q\n\n", args[0])
@@ -84,8 +97,27 @@ func exitCode(err error, stderr io.Writer) int {
 	case errors.Is(err, errVerdictFail):
 		return exitFail
 	}
-	fmt.Fprintf(stderr, "zapnet: %v\n", err)
+	// A path or a word from the user may hold an escape character: it is
+	// shown, never obeyed by the terminal.
+	fmt.Fprintf(stderr, "zapnet: %s\n", netlist.Printable(err.Error()))
 	return exitUnusable
+}
+
+// checkedWriter remembers the first error of the writer it wraps (standard
+// output full, closed or gone), so that a command whose output was lost
+// does not report success.
+type checkedWriter struct {
+	w   io.Writer
+	err error
+}
+
+func (c *checkedWriter) Write(p []byte) (int, error) {
+	if c.err != nil {
+		return 0, c.err
+	}
+	n, err := c.w.Write(p)
+	c.err = err
+	return n, err
 }
 
 func usage(w io.Writer) {

@@ -9,7 +9,8 @@ import (
 
 	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/report"
-	"zapnet/cmd/internal/whatif"
+	"zapnet/mna/study"
+	"zapnet/mna/study/whatif"
 	"zapnet/netlist"
 )
 
@@ -17,8 +18,8 @@ import (
 type marginOptions struct {
 	deck       string
 	polarities []string // nil: the deck's
-	max        float64  // 0: twice the deck's highest level
-	resolution float64  // 0: 100 V for discharges
+	max        string   // --max as given; "": twice the deck's highest level
+	resolution string   // --resolution as given; "": 100 V for discharges
 	json       string   // file, "-" for stdout, "" for none
 	workers    int
 	sweep      sweepSpec
@@ -61,26 +62,9 @@ for), 2 for unusable input or a failed solve.`,
 	if err != nil {
 		return err
 	}
-	opt := marginOptions{deck: deck, json: *jsonPath, workers: *workers, pictures: pictures.options()}
+	opt := marginOptions{deck: deck, json: *jsonPath, workers: *workers, pictures: pictures.options(),
+		max: *maxFlag, resolution: *resFlag}
 	var errs []error
-	for _, f := range []struct {
-		name string
-		text string
-		dst  *float64
-	}{{"--max", *maxFlag, &opt.max}, {"--resolution", *resFlag, &opt.resolution}} {
-		if f.text == "" {
-			continue
-		}
-		ls, err := levelList(f.text)
-		if err == nil && len(ls) != 1 {
-			err = fmt.Errorf("give one level")
-		}
-		if err != nil {
-			errs = append(errs, fmt.Errorf("%s: %w", f.name, err))
-			continue
-		}
-		*f.dst = ls[0]
-	}
 	if opt.polarities, err = parsePolarity(*polarity); err != nil {
 		errs = append(errs, err)
 	}
@@ -98,11 +82,24 @@ func marginStudy(ctx context.Context, opt marginOptions, stdout, stderr io.Write
 	if err != nil {
 		return err
 	}
-	mopt := &whatif.MarginOptions{Max: opt.max, Resolution: opt.resolution, Shard: opt.sweep.shard}
+	if err := studyOutputs(c, opt.json, opt.pictures); err != nil {
+		return err
+	}
+	mopt := &whatif.MarginOptions{Shard: opt.sweep.shard}
+	if mopt.Max, err = deckLevel("--max", opt.max, c); err != nil {
+		return err
+	}
+	if mopt.Resolution, err = deckLevel("--resolution", opt.resolution, c); err != nil {
+		return err
+	}
 	mopt.Study.Polarities = opt.polarities
 	mopt.Study.Workers = opt.workers
 	if len(opt.sweep.sets) > 0 {
-		if mopt.Study.Variants, err = whatif.Variants(c, opt.sweep.sets); err != nil {
+		sets, err := whatif.ParseSets(c, opt.sweep.sets)
+		if err != nil {
+			return err
+		}
+		if mopt.Study.Variants, err = whatif.Variants(c, sets); err != nil {
 			return err
 		}
 	}
@@ -127,12 +124,12 @@ func marginStudy(ctx context.Context, opt marginOptions, stdout, stderr io.Write
 // series per variant and polarity, from the levels the search solved.
 // Points without a finite margin (no limit in the deck, or a limit of
 // zero) cannot be placed and are left out.
-func drawMargins(o pictureOptions, c *netlist.Circuit, meta report.Meta, res *whatif.MarginResult) error {
+func drawMargins(o pictureOptions, c *netlist.Circuit, meta study.Meta, res *whatif.MarginResult) error {
 	var series []plots.MarginSeries
 	for _, m := range res.Margins {
 		s := plots.MarginSeries{Name: m.Polarity}
 		if len(m.Variant) > 0 {
-			s.Name = report.VariantText(m.Variant) + " " + m.Polarity
+			s.Name = m.Variant.String() + " " + m.Polarity
 		}
 		for _, p := range m.Curve {
 			if !math.IsInf(p.Percent, 0) && !math.IsNaN(p.Percent) {
@@ -157,16 +154,16 @@ func drawMargins(o pictureOptions, c *netlist.Circuit, meta report.Meta, res *wh
 // writeMargins prints the table and writes the JSON of a margin search
 // (also of merged shards), and turns unsolved searches and an interruption
 // into the error the exit status comes from.
-func writeMargins(res *whatif.MarginResult, meta report.Meta, jsonPath string, stdout, stderr io.Writer) error {
+func writeMargins(res *whatif.MarginResult, meta study.Meta, jsonPath string, stdout, stderr io.Writer) error {
 	errs, err := tableThenJSON(jsonPath, stdout, stderr,
 		func(w io.Writer) error { return report.MarginTable(w, res, meta.Title, meta.Deck) },
-		report.MarginDocument{Meta: meta, MarginResult: res})
+		whatif.MarginDocument{Meta: meta, MarginResult: res})
 	if err != nil {
 		return err
 	}
 	for _, m := range res.Margins {
 		if m.Error != "" {
-			errs = append(errs, fmt.Errorf("%s %s: %s", report.VariantText(m.Variant), m.Polarity, m.Error))
+			errs = append(errs, fmt.Errorf("%s %s: %s", m.Variant.String(), m.Polarity, m.Error))
 		}
 	}
 	if res.Interrupted {

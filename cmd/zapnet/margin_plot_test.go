@@ -14,7 +14,8 @@ import (
 	"testing"
 
 	"zapnet/cmd/internal/report"
-	"zapnet/cmd/internal/whatif"
+	"zapnet/mna/study"
+	"zapnet/mna/study/whatif"
 	"zapnet/netlist"
 )
 
@@ -159,11 +160,11 @@ func TestMarginPlotSeriesNames(t *testing.T) {
 	}
 	dir := t.TempDir()
 	o := pictureOptions{plotDir: dir}
-	meta := report.Meta{Deck: demoDeck, Title: c.Title}
+	meta := study.Meta{Deck: demoDeck, Title: c.Title}
 	res := &whatif.MarginResult{LevelUnit: "V", Margins: []whatif.Margin{
-		{Polarity: "pos", Variant: map[string]string{"D1.ls": "0.2n"},
+		{Polarity: "pos", Variant: netlist.Variant{{Element: "D1", Param: "ls", Num: 0.2e-9, Text: "0.2n"}},
 			Curve: []whatif.CurvePoint{{Level: 1000, Percent: 30, Pass: true}, {Level: 2000, Percent: -5}}},
-		{Polarity: "neg", Variant: map[string]string{"D1.ls": "0.2n"},
+		{Polarity: "neg", Variant: netlist.Variant{{Element: "D1", Param: "ls", Num: 0.2e-9, Text: "0.2n"}},
 			Curve: []whatif.CurvePoint{{Level: 1000, Percent: 28, Pass: true}, {Level: 2000, Percent: -7}}},
 	}}
 	if err := drawMargins(o, c, meta, res); err != nil {

@@ -8,12 +8,11 @@ import (
 	"io"
 	"os"
 	"sort"
-	"strings"
 
 	"zapnet/cmd/internal/report"
-	"zapnet/cmd/internal/study"
-	"zapnet/cmd/internal/whatif"
-	"zapnet/netlist"
+	"zapnet/devices/spec"
+	"zapnet/mna/study"
+	"zapnet/mna/study/whatif"
 )
 
 func runMerge(args []string, stdout, stderr io.Writer) error {
@@ -48,6 +47,11 @@ func mergeFiles(paths []string, out string, stdout, stderr io.Writer) error {
 	if jsonPath == "" {
 		jsonPath = "-"
 	}
+	check := newOutputs(paths...)
+	check.file("-o", jsonPath)
+	if err := check.err(); err != nil {
+		return fmt.Errorf("merge: %w", err)
+	}
 	var raws [][]byte
 	kind := ""
 	for _, p := range paths {
@@ -65,7 +69,7 @@ func mergeFiles(paths []string, out string, stdout, stderr io.Writer) error {
 		kind = k
 		raws = append(raws, b)
 	}
-	metas := make([]report.Meta, len(raws))
+	metas := make([]study.Meta, len(raws))
 	decode := func(i int, v any) error {
 		d := json.NewDecoder(bytes.NewReader(raws[i]))
 		if err := d.Decode(v); err != nil {
@@ -76,7 +80,7 @@ func mergeFiles(paths []string, out string, stdout, stderr io.Writer) error {
 	var err error
 	switch kind {
 	case "run":
-		docs := make([]report.RunShardDocument, len(raws))
+		docs := make([]study.Document, len(raws))
 		for i := range raws {
 			if err = decode(i, &docs[i]); err != nil {
 				return err
@@ -89,7 +93,7 @@ func mergeFiles(paths []string, out string, stdout, stderr io.Writer) error {
 	case "margin":
 		parts := make([]*whatif.MarginResult, len(raws))
 		for i := range raws {
-			doc := report.MarginDocument{MarginResult: &whatif.MarginResult{}}
+			doc := whatif.MarginDocument{MarginResult: &whatif.MarginResult{}}
 			if err = decode(i, &doc); err != nil {
 				return err
 			}
@@ -106,7 +110,7 @@ func mergeFiles(paths []string, out string, stdout, stderr io.Writer) error {
 	case "sensitivity":
 		parts := make([]*whatif.SensitivityResult, len(raws))
 		for i := range raws {
-			doc := report.SensitivityDocument{SensitivityResult: &whatif.SensitivityResult{}}
+			doc := whatif.SensitivityDocument{SensitivityResult: &whatif.SensitivityResult{}}
 			if err = decode(i, &doc); err != nil {
 				return err
 			}
@@ -123,7 +127,7 @@ func mergeFiles(paths []string, out string, stdout, stderr io.Writer) error {
 	default: // spread
 		parts := make([]*whatif.SpreadResult, len(raws))
 		for i := range raws {
-			doc := report.SpreadDocument{SpreadResult: &whatif.SpreadResult{}}
+			doc := whatif.SpreadDocument{SpreadResult: &whatif.SpreadResult{}}
 			if err = decode(i, &doc); err != nil {
 				return err
 			}
@@ -164,7 +168,7 @@ func docKind(b []byte) (string, error) {
 
 // sameMeta checks that every shard comes from the same tool version, deck
 // and title: shards of different decks cannot be joined.
-func sameMeta(paths []string, metas []report.Meta) error {
+func sameMeta(paths []string, metas []study.Meta) error {
 	for i := 1; i < len(metas); i++ {
 		if metas[i] != metas[0] {
 			return fmt.Errorf("merge: %s and %s come from different decks or versions (%s %s, %q; %s %s, %q)",
@@ -176,27 +180,21 @@ func sameMeta(paths []string, metas []report.Meta) error {
 
 // mergeRuns joins run shards into the document `zapnet run` writes for the
 // whole sweep, and prints its summary.
-func mergeRuns(docs []report.RunShardDocument, jsonPath string, stdout, stderr io.Writer) error {
+func mergeRuns(docs []study.Document, jsonPath string, stdout, stderr io.Writer) error {
 	total := -1
-	var infos []string
+	var infos []*study.ShardInfo
 	for _, d := range docs {
 		n := len(d.Runs)
 		if d.Shard != nil {
 			n = d.Shard.Total
-			infos = append(infos, fmt.Sprintf("%d/%d", d.Shard.Index, d.Shard.Count))
 		}
 		if total >= 0 && n != total {
 			return fmt.Errorf("merge: shards of %d and of %d runs: they are not shards of one sweep", total, n)
 		}
 		total = n
+		infos = append(infos, d.Shard)
 	}
-	sort.Strings(infos)
-	for i := 1; i < len(infos); i++ {
-		if infos[i] == infos[i-1] {
-			return fmt.Errorf("merge: shard %s is given twice", infos[i])
-		}
-	}
-	merged := report.Document{Meta: docs[0].Meta, Runs: []report.RunJSON{}}
+	merged := study.Document{Meta: docs[0].Meta, Runs: []study.Run{}}
 	var idx []int
 	for _, d := range docs {
 		for _, r := range d.Runs {
@@ -204,7 +202,7 @@ func mergeRuns(docs []report.RunShardDocument, jsonPath string, stdout, stderr i
 			idx = append(idx, r.Index)
 		}
 	}
-	if err := whatif.Complete(idx, total, "runs"); err != nil {
+	if err := study.Joined(infos, idx, total, "runs"); err != nil {
 		return fmt.Errorf("merge: %w", err)
 	}
 	sort.Slice(merged.Runs, func(a, b int) bool { return merged.Runs[a].Index < merged.Runs[b].Index })
@@ -214,7 +212,7 @@ func mergeRuns(docs []report.RunShardDocument, jsonPath string, stdout, stderr i
 		tables = stderr
 	}
 	fmt.Fprintf(tables, "%s (%s): %d shards, %d runs\n\n", merged.Title, merged.Deck, len(docs), len(merged.Runs))
-	if err := report.Summary(tables, summaryRuns(merged.Runs)); err != nil {
+	if err := report.Summary(tables, merged.Runs); err != nil {
 		return err
 	}
 	if err := writeOutput(jsonPath, stdout, merged); err != nil {
@@ -225,8 +223,8 @@ func mergeRuns(docs []report.RunShardDocument, jsonPath string, stdout, stderr i
 	for _, r := range merged.Runs {
 		switch {
 		case r.Error != "":
-			errs = append(errs, fmt.Errorf("%s %s: %s", netlist.FormatSI(r.Level, r.LevelUnit), r.Polarity, r.Error))
-		case r.Verdict != string(study.Pass):
+			errs = append(errs, fmt.Errorf("%s %s: %s", spec.FormatSI(r.Level, r.LevelUnit), r.Polarity, r.Error))
+		case r.Verdict != study.Pass:
 			failed = true
 		}
 	}
@@ -237,32 +235,4 @@ func mergeRuns(docs []report.RunShardDocument, jsonPath string, stdout, stderr i
 		return errVerdictFail
 	}
 	return nil
-}
-
-// summaryRuns rebuilds from the JSON what the summary table shows of a run.
-func summaryRuns(rs []report.RunJSON) []study.Run {
-	out := make([]study.Run, len(rs))
-	for i, r := range rs {
-		x := study.Run{Waveform: r.Waveform, LevelUnit: r.LevelUnit, Verdict: study.Verdict(r.Verdict)}
-		x.Index, x.Level, x.Polarity = r.Index, r.Level, r.Polarity
-		keys := make([]string, 0, len(r.Variant))
-		for k := range r.Variant {
-			keys = append(keys, k)
-		}
-		sort.Strings(keys)
-		for _, k := range keys {
-			e, p, _ := strings.Cut(k, ".")
-			x.Variant = append(x.Variant, netlist.Setting{Element: e, Param: p, Value: r.Variant[k]})
-		}
-		if r.Error != "" {
-			x.Err = errors.New(r.Error)
-		}
-		if w := r.Worst; w != nil {
-			e, p, _ := strings.Cut(w.Name, " ")
-			x.Worst = &study.Limit{Element: e, Param: p, Unit: w.Unit, Value: w.Limit, Measured: w.Measured,
-				Margin: w.Margin, Percent: w.Percent}
-		}
-		out[i] = x
-	}
-	return out
 }

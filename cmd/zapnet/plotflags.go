@@ -12,7 +12,7 @@ import (
 
 	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/report"
-	"zapnet/cmd/internal/study"
+	"zapnet/mna/study"
 	"zapnet/netlist"
 )
 
@@ -46,7 +46,7 @@ func (f *pictureFlags) options() pictureOptions {
 // Figures of a run are named after the deck and the run
 // ("demo_8kV_pos_residual-U1.svg"), figures across runs after the deck
 // ("demo_overlay-residual-U1.svg").
-func writePictures(o pictureOptions, c *netlist.Circuit, meta report.Meta, runs []study.Run) error {
+func writePictures(o pictureOptions, c *netlist.Circuit, meta study.Meta, runs []study.Run) error {
 	if !o.wanted() {
 		return nil
 	}
@@ -79,6 +79,9 @@ func writePictures(o pictureOptions, c *netlist.Circuit, meta report.Meta, runs 
 		for _, figs := range perRun {
 			hopt.RunFigures = append(hopt.RunFigures, reportFigures(figs))
 		}
+		if hopt.Signal, err = signalSection(c, meta.Deck); err != nil {
+			errs = append(errs, fmt.Errorf("--html: the signal's side: %w", err))
+		}
 		if err := report.WriteFile(o.htmlFile, func(w io.Writer) error { return report.HTML(w, runs, hopt) }); err != nil {
 			errs = append(errs, fmt.Errorf("--html: %w", err))
 		}
@@ -99,7 +102,7 @@ func writeSVGs(dir, deck string, runs []study.Run, perRun [][]plots.Figure, over
 	}
 	for i, figs := range perRun {
 		for _, f := range figs {
-			if err := write(base+"_"+report.RunName(&runs[i])+"_"+f.Name, f.SVG); err != nil {
+			if err := write(base+"_"+runName(&runs[i])+"_"+f.Name, f.SVG); err != nil {
 				return err
 			}
 		}
@@ -123,7 +126,7 @@ func reportFigures(fs []plots.Figure) []report.Figure {
 // writeMarginPictures writes the figure of a margin search (plots.MarginCurve)
 // as o asks: "DECK_margin.svg" in the --plot folder, and an HTML report of
 // the figure with the caution and the deck.
-func writeMarginPictures(o pictureOptions, c *netlist.Circuit, meta report.Meta, fig plots.Figure) error {
+func writeMarginPictures(o pictureOptions, c *netlist.Circuit, meta study.Meta, fig plots.Figure) error {
 	return writeStudyPictures(o, c, meta, "Margin against level", []plots.Figure{fig})
 }
 
@@ -131,7 +134,7 @@ func writeMarginPictures(o pictureOptions, c *netlist.Circuit, meta report.Meta,
 // recorded runs (margin, sensitivity, spread) as o asks: each figure as
 // "DECK_NAME.svg" in the --plot folder, and one HTML report with the
 // caution, the figures under the heading kind, and the deck.
-func writeStudyPictures(o pictureOptions, c *netlist.Circuit, meta report.Meta, kind string, figs []plots.Figure) error {
+func writeStudyPictures(o pictureOptions, c *netlist.Circuit, meta study.Meta, kind string, figs []plots.Figure) error {
 	var errs []error
 	if o.plotDir != "" {
 		if err := writeSVGs(o.plotDir, meta.Deck, nil, nil, figs); err != nil {

@@ -12,6 +12,7 @@ import (
 
 	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/report"
+	"zapnet/mna/study"
 	"zapnet/netlist"
 )
 
@@ -71,7 +72,7 @@ func TestMarginPictures(t *testing.T) {
 	}
 	dir := t.TempDir()
 	o := pictureOptions{plotDir: filepath.Join(dir, "figs"), htmlFile: filepath.Join(dir, "m.html")}
-	meta := report.Meta{Tool: "zapnet", Version: Version, Deck: "testdata/demo-weak.zap", Title: c.Title}
+	meta := study.Meta{Tool: "zapnet", Version: Version, Deck: "testdata/demo-weak.zap", Title: c.Title}
 	if err := writeMarginPictures(o, c, meta, fig); err != nil {
 		t.Fatal(err)
 	}

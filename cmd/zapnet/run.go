@@ -4,26 +4,23 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
-	"os"
-	"strconv"
-	"strings"
 
 	"zapnet/cmd/internal/report"
-	"zapnet/cmd/internal/study"
+	"zapnet/mna/study"
 )
 
 // runOptions are the settings of `zapnet run`; runStudy takes them so that
 // tests can call it without flags.
 type runOptions struct {
 	deck       string
-	levels     []float64 // nil: the deck's
-	polarities []string  // nil: the deck's
-	json       string    // file, "-" for stdout, "" for none
-	csv        string    // file, folder or pattern, "" for none
-	workers    int       // 0: every core
-	// zeroWall keeps wall times out of the JSON (golden tests).
-	zeroWall bool
+	levels     string   // --level as given; "": the deck's
+	polarities []string // nil: the deck's
+	json       string   // file, "-" for stdout, "" for none
+	csv        string   // file, folder or pattern, "" for none
+	workers    int      // 0: every core
+	// timings keeps each run's wall-clock time in the JSON; without it
+	// identical runs write identical files.
+	timings  bool
 	sweep    sweepSpec      // --set and --shard (sweep.go)
 	pictures pictureOptions // --plot and --html (plotflags.go)
 }
@@ -48,6 +45,7 @@ failed solve.`,
 	jsonPath := fs.String("json", "", "write the results as JSON to `FILE` (- for stdout, the tables then go to stderr)")
 	csvPath := fs.String("csv", "", "write each run's waveforms as CSV: a `FILE` for one run; a folder (ending in /) or a pattern with {run} for several")
 	workers := fs.Int("workers", 0, "runs solved at once (default: every core)")
+	timings := fs.Bool("timings", false, "add each run's wall-clock solve time (stats.wall_s) to the JSON; without it identical runs write identical files")
 	sweep := addSweepFlags(fs)
 	pictures := addPictureFlags(fs)
 	if err := fs.Parse(args); err != nil {
@@ -57,16 +55,14 @@ failed solve.`,
 	if err != nil {
 		return err
 	}
-	opt := runOptions{deck: deck, json: *jsonPath, csv: *csvPath, workers: *workers,
+	opt := runOptions{deck: deck, json: *jsonPath, csv: *csvPath, workers: *workers, timings: *timings,
 		pictures: pictures.options()}
 	// run stops at its first flag mistake, where the what-if commands
 	// collect them all (sweepFlags.finish).
 	if opt.sweep, err = sweep.spec(); err != nil {
 		return fmt.Errorf("run: %w", err)
 	}
-	if opt.levels, err = parseLevelFlag(*level); err != nil {
-		return fmt.Errorf("run: %w", err)
-	}
+	opt.levels = *level
 	if opt.polarities, err = parsePolarity(*polarity); err != nil {
 		return fmt.Errorf("run: %w", err)
 	}
@@ -84,14 +80,26 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	sopt := &study.Options{Levels: opt.levels, Polarities: opt.polarities, Workers: opt.workers,
+	levels, err := deckLevels("--level", opt.levels, c)
+	if err != nil {
+		return err
+	}
+	sopt := &study.Options{Levels: levels, Polarities: opt.polarities, Workers: opt.workers,
 		Record: opt.csv != "" || opt.pictures.wanted()}
-	sw, solveErr := sweepRuns(c, sopt, opt.sweep, stderr)
+	check := func(jobs []study.Job) error {
+		out := deckOutputs(c)
+		out.file("--json", opt.json)
+		out.file("--html", opt.pictures.htmlFile)
+		out.dir("--plot", opt.pictures.plotDir)
+		out.csv(opt.csv, opt.deck, jobs, c.Strike().Waveform.Unit)
+		return out.err()
+	}
+	sw, solveErr := sweepRuns(c, sopt, opt.sweep, check, stderr)
 	if sw == nil {
 		return fmt.Errorf("%s: %w", opt.deck, solveErr)
 	}
 	runs := sw.runs
-	if opt.zeroWall {
+	if !opt.timings {
 		for i := range runs {
 			runs[i].Stats.Wall = 0
 		}
@@ -150,14 +158,13 @@ func writeCSVs(target, deck string, runs []study.Run) error {
 	if len(runs) == 0 {
 		return nil
 	}
-	paths, err := report.CSVPaths(target, deck, runs)
+	names := make([]string, len(runs))
+	for i := range runs {
+		names[i] = runName(&runs[i])
+	}
+	paths, err := report.CSVPaths(target, deck, names)
 	if err != nil {
 		return err
-	}
-	if strings.HasSuffix(target, "/") {
-		if err := os.MkdirAll(target, 0o755); err != nil {
-			return fmt.Errorf("--csv: %w", err)
-		}
 	}
 	for i, p := range paths {
 		r := &runs[i]
@@ -168,27 +175,5 @@ func writeCSVs(target, deck string, runs []study.Run) error {
 	return nil
 }
 
-// levelMultipliers are the SI prefixes a --level value may carry.
-var levelMultipliers = map[string]float64{"m": 1e-3, "k": 1e3, "M": 1e6}
-
-// levelList reads a comma-separated list of levels with SI prefixes and an
-// optional unit, as on the deck's strike line: "4k,8k", "8kV", "500A".
-func levelList(s string) ([]float64, error) {
-	var out []float64
-	for _, f := range strings.Split(s, ",") {
-		text := strings.TrimSpace(f)
-		body := strings.TrimRight(text, "VA")
-		mult := 1.0
-		if n := len(body); n > 0 {
-			if m, ok := levelMultipliers[body[n-1:]]; ok {
-				body, mult = body[:n-1], m
-			}
-		}
-		v, err := strconv.ParseFloat(body, 64)
-		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) || v <= 0 || len(text)-len(strings.TrimRight(text, "VA")) > 1 {
-			return nil, fmt.Errorf("%q is not a positive level (write levels like 4k,8k or 8kV)", text)
-		}
-		out = append(out, v*mult)
-	}
-	return out, nil
-}
+// runName is a run's name for files (report.RunName).
+func runName(r *study.Run) string { return report.RunName(r.Variant, r.Level, r.LevelUnit, r.Polarity) }

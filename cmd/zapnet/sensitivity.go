@@ -10,18 +10,20 @@ import (
 
 	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/report"
-	"zapnet/cmd/internal/whatif"
+	"zapnet/mna/study"
+	"zapnet/mna/study/whatif"
 	"zapnet/netlist"
 )
 
 // sensitivityOptions are the settings of `zapnet sensitivity`.
 type sensitivityOptions struct {
 	deck       string
-	levels     []float64 // nil: the deck's
-	polarities []string  // nil: the deck's
-	params     []string  // nil: every design parameter
-	step       float64   // fraction; 0: 0.10
-	limit      string    // "ELEMENT PARAM" whose margin ranks; "": the worst
+	levels     string   // --level as given; "": the deck's
+	polarities []string // nil: the deck's
+	params     []string // nil: every design parameter
+	step       float64  // fraction; 0: 0.10
+	limit      string   // "ELEMENT PARAM" whose margin ranks; "": the worst
+	all        bool     // the models' constants and the operating conditions too
 	json       string
 	workers    int
 	sweep      sweepSpec
@@ -36,14 +38,16 @@ func runSensitivity(args []string, stdout, stderr io.Writer) error {
   zapnet sensitivity testdata/demo.zap --level 8k --plot figs --html sensitivity.html
   zapnet sensitivity testdata/demo-weak.zap --level 8k --limit U1.vmax
 
-Perturbs every numeric design parameter (or those named) by ±10 %, one at a
+Perturbs every design parameter (or those named) by ±10 %, one at a
 time, solves the study (every level and polarity) for each, and ranks the
 parameters by how much they move the worst margin: what buys the most
 margin. --limit ranks by one limit's margin instead (its smallest over
 the levels and polarities): while a clamp's ipp is the worst limit, the
 ranking only says how the strike current moves, and --limit U1.vmax asks
-what buys margin at the pin. Ratings (vmax, ipp, ...) are left out unless
-named. --set gives the
+what buys margin at the pin. Ratings (vmax, ipp, ...), the models'
+constants (is, n, ...) and operating conditions (a supply's voltage) are
+left out unless named (--all adds the constants and the conditions), and
+so are parameters whose ±10 % moves no margin. --set gives the
 design to start from (one value each); the deck's vary lines are ignored.
 --plot and --html draw the ranking as bars: per parameter (the first 15),
 the worst margin with it lowered and raised by the step, against the
@@ -52,6 +56,7 @@ Exit status: 0 when the study completed, 2 for unusable input or a failed
 solve.`,
 		stderr)
 	params := fs.String("param", "", "parameters to perturb, `LIST` of ELEMENT.PARAM (default: every design parameter)")
+	all := fs.Bool("all", false, "perturb the models' constants and the operating conditions too")
 	step := fs.String("step", "10", "perturbation in `PERCENT`")
 	limit := fs.String("limit", "", "rank by the margin of one `LIMIT`, ELEMENT.PARAM such as U1.vmax or D1.ipp (default: the worst margin over every limit)")
 	level := fs.String("level", "", "levels to run instead of the deck's, e.g. 4k,8k")
@@ -71,11 +76,9 @@ solve.`,
 	if err != nil {
 		return err
 	}
-	opt := sensitivityOptions{deck: deck, json: *jsonPath, workers: *workers, limit: *limit, pictures: pictures.options()}
+	opt := sensitivityOptions{deck: deck, json: *jsonPath, workers: *workers, limit: *limit, all: *all, pictures: pictures.options()}
 	var errs []error
-	if opt.levels, err = parseLevelFlag(*level); err != nil {
-		errs = append(errs, err)
-	}
+	opt.levels = *level
 	if opt.polarities, err = parsePolarity(*polarity); err != nil {
 		errs = append(errs, err)
 	}
@@ -101,8 +104,14 @@ func sensitivityStudy(ctx context.Context, opt sensitivityOptions, stdout, stder
 	if err != nil {
 		return err
 	}
-	sopt := &whatif.SensitivityOptions{Params: opt.params, Step: opt.step, Limit: opt.limit, Shard: opt.sweep.shard}
-	sopt.Study.Levels, sopt.Study.Polarities, sopt.Study.Workers = opt.levels, opt.polarities, opt.workers
+	if err := studyOutputs(c, opt.json, opt.pictures); err != nil {
+		return err
+	}
+	sopt := &whatif.SensitivityOptions{Params: opt.params, All: opt.all, Step: opt.step, Limit: opt.limit, Shard: opt.sweep.shard}
+	if sopt.Study.Levels, err = deckLevels("--level", opt.levels, c); err != nil {
+		return err
+	}
+	sopt.Study.Polarities, sopt.Study.Workers = opt.polarities, opt.workers
 	res, err := withProgress(stderr, "sensitivity", opt.deck, func(p whatif.Progress) (*whatif.SensitivityResult, error) {
 		sopt.Progress = p
 		return whatif.Sensitivities(ctx, base, sopt)
@@ -110,7 +119,7 @@ func sensitivityStudy(ctx context.Context, opt sensitivityOptions, stdout, stder
 	if err != nil {
 		return err
 	}
-	res.Variant = whatif.VariantMap(variant)
+	res.Variant = variant
 	meta := deckMeta(opt.deck, c)
 	err = writeSensitivity(res, meta, opt.json, stdout, stderr)
 	if opt.pictures.wanted() {
@@ -122,7 +131,7 @@ func sensitivityStudy(ctx context.Context, opt sensitivityOptions, stdout, stder
 }
 
 // drawSensitivity draws the ranked margins of a sensitivity study.
-func drawSensitivity(o pictureOptions, c *netlist.Circuit, meta report.Meta, res *whatif.SensitivityResult) error {
+func drawSensitivity(o pictureOptions, c *netlist.Circuit, meta study.Meta, res *whatif.SensitivityResult) error {
 	fig, err := plots.SensitivityBars(c.Title, res, nil)
 	if err != nil {
 		return fmt.Errorf("--plot/--html: %w", err)
@@ -132,10 +141,10 @@ func drawSensitivity(o pictureOptions, c *netlist.Circuit, meta report.Meta, res
 
 // writeSensitivity prints and writes a sensitivity result (also of merged
 // shards).
-func writeSensitivity(res *whatif.SensitivityResult, meta report.Meta, jsonPath string, stdout, stderr io.Writer) error {
+func writeSensitivity(res *whatif.SensitivityResult, meta study.Meta, jsonPath string, stdout, stderr io.Writer) error {
 	errs, err := tableThenJSON(jsonPath, stdout, stderr,
 		func(w io.Writer) error { return report.SensitivityTable(w, res, meta.Title, meta.Deck) },
-		report.SensitivityDocument{Meta: meta, SensitivityResult: res})
+		whatif.SensitivityDocument{Meta: meta, SensitivityResult: res})
 	if err != nil {
 		return err
 	}

@@ -9,15 +9,16 @@ import (
 
 	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/report"
-	"zapnet/cmd/internal/whatif"
+	"zapnet/mna/study"
+	"zapnet/mna/study/whatif"
 	"zapnet/netlist"
 )
 
 // spreadOptions are the settings of `zapnet spread`.
 type spreadOptions struct {
 	deck       string
-	levels     []float64 // nil: the deck's
-	polarities []string  // nil: the deck's
+	levels     string   // --level as given; "": the deck's
+	polarities []string // nil: the deck's
 	runs       int
 	seed       uint64
 	json       string
@@ -68,9 +69,7 @@ input or a failed solve.`,
 	}
 	opt := spreadOptions{deck: deck, json: *jsonPath, workers: *workers, runs: *runs, pictures: pictures.options()}
 	var errs []error
-	if opt.levels, err = parseLevelFlag(*level); err != nil {
-		errs = append(errs, err)
-	}
+	opt.levels = *level
 	if opt.polarities, err = parsePolarity(*polarity); err != nil {
 		errs = append(errs, err)
 	}
@@ -94,8 +93,14 @@ func spreadStudy(ctx context.Context, opt spreadOptions, stdout, stderr io.Write
 	if err != nil {
 		return err
 	}
+	if err := studyOutputs(c, opt.json, opt.pictures); err != nil {
+		return err
+	}
 	sopt := &whatif.SpreadOptions{Runs: opt.runs, Seed: opt.seed, Shard: opt.sweep.shard}
-	sopt.Study.Levels, sopt.Study.Polarities, sopt.Study.Workers = opt.levels, opt.polarities, opt.workers
+	if sopt.Study.Levels, err = deckLevels("--level", opt.levels, c); err != nil {
+		return err
+	}
+	sopt.Study.Polarities, sopt.Study.Workers = opt.polarities, opt.workers
 	res, err := withProgress(stderr, "spread", opt.deck, func(p whatif.Progress) (*whatif.SpreadResult, error) {
 		sopt.Progress = p
 		return whatif.Spreads(ctx, base, sopt)
@@ -103,7 +108,7 @@ func spreadStudy(ctx context.Context, opt spreadOptions, stdout, stderr io.Write
 	if err != nil {
 		return err
 	}
-	res.Variant = whatif.VariantMap(variant)
+	res.Variant = variant
 	meta := deckMeta(opt.deck, c)
 	err = writeSpread(res, meta, opt.json, stdout, stderr)
 	if opt.pictures.wanted() {
@@ -117,7 +122,7 @@ func spreadStudy(ctx context.Context, opt spreadOptions, stdout, stderr io.Write
 }
 
 // drawSpread draws the histograms of a spread.
-func drawSpread(o pictureOptions, c, design *netlist.Circuit, meta report.Meta, res *whatif.SpreadResult) error {
+func drawSpread(o pictureOptions, c, design *netlist.Circuit, meta study.Meta, res *whatif.SpreadResult) error {
 	figs, err := plots.SpreadHistograms(c.Title, design, res, nil)
 	if err != nil {
 		return fmt.Errorf("--plot/--html: %w", err)
@@ -127,10 +132,10 @@ func drawSpread(o pictureOptions, c, design *netlist.Circuit, meta report.Meta, 
 
 // writeSpread prints and writes a spread (also of merged shards). It returns
 // errVerdictFail when a drawn circuit failed.
-func writeSpread(res *whatif.SpreadResult, meta report.Meta, jsonPath string, stdout, stderr io.Writer) error {
+func writeSpread(res *whatif.SpreadResult, meta study.Meta, jsonPath string, stdout, stderr io.Writer) error {
 	errs, err := tableThenJSON(jsonPath, stdout, stderr,
 		func(w io.Writer) error { return report.SpreadTable(w, res, meta.Title, meta.Deck) },
-		report.SpreadDocument{Meta: meta, SpreadResult: res})
+		whatif.SpreadDocument{Meta: meta, SpreadResult: res})
 	if err != nil {
 		return err
 	}

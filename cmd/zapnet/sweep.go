@@ -12,8 +12,8 @@ import (
 	"github.com/spf13/pflag"
 
 	"zapnet/cmd/internal/report"
-	"zapnet/cmd/internal/study"
-	"zapnet/cmd/internal/whatif"
+	"zapnet/mna/study"
+	"zapnet/mna/study/whatif"
 	"zapnet/netlist"
 )
 
@@ -28,8 +28,8 @@ type sweepFlags struct {
 
 // sweepSpec is what the flags asked for.
 type sweepSpec struct {
-	sets  []netlist.Vary // --set, in the order given
-	shard whatif.Shard   // --shard; zero: the whole sweep
+	sets  []string    // --set, as given; read against the deck by whatif.ParseSets
+	shard study.Shard // --shard; zero: the whole sweep
 }
 
 // addSweepFlags registers --set and --shard on fs.
@@ -44,15 +44,8 @@ func addSweepFlags(fs *pflag.FlagSet) *sweepFlags {
 func (f *sweepFlags) spec() (sweepSpec, error) {
 	var s sweepSpec
 	var errs []error
-	for _, v := range *f.sets {
-		vy, err := whatif.ParseSet(v)
-		if err != nil {
-			errs = append(errs, err)
-			continue
-		}
-		s.sets = append(s.sets, vy)
-	}
-	sh, err := whatif.ParseShard(*f.shard)
+	s.sets = *f.sets
+	sh, err := study.ParseShard(*f.shard)
 	if err != nil {
 		errs = append(errs, fmt.Errorf("--shard: %w", err))
 	}
@@ -101,21 +94,24 @@ func (e errInterrupted) Error() string {
 type runSweep struct {
 	runs     []study.Run
 	variants int // variants of the whole study
-	shard    *whatif.ShardInfo
+	shard    *study.ShardInfo
 	// interrupted: Ctrl-C came before every job ran.
 	interrupted bool
 }
 
-// sweepRuns solves the runs of c that sopt and spec select. The error joins
-// the failed solves and, when interrupted, an errInterrupted; runs is nil
-// only when nothing could start.
-func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, stderr io.Writer) (*runSweep, error) {
+// sweepRuns solves the runs of c that sopt and spec select, once check has
+// accepted them (the outputs they will write, say). The error joins the
+// failed solves and, when interrupted, an errInterrupted; runs is nil only
+// when nothing could start.
+func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, check func([]study.Job) error, stderr io.Writer) (*runSweep, error) {
 	if len(spec.sets) > 0 {
-		vs, err := whatif.Variants(c, spec.sets)
+		sets, err := whatif.ParseSets(c, spec.sets)
 		if err != nil {
 			return nil, err
 		}
-		sopt.Variants = vs
+		if sopt.Variants, err = whatif.Variants(c, sets); err != nil {
+			return nil, err
+		}
 	}
 	jobs, err := study.Jobs(c, sopt)
 	if err != nil {
@@ -129,6 +125,9 @@ func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, stderr i
 		}
 		sw.variants = max(sw.variants, j.VariantIndex+1)
 	}
+	if err := check(mine); err != nil {
+		return nil, err
+	}
 	ctx, stop := interruptible(stderr)
 	defer stop()
 	progress, clear := newProgress(stderr, "run")
@@ -136,7 +135,7 @@ func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, stderr i
 	if progress != nil {
 		done = func(n int) { progress(n, len(mine)) }
 	}
-	runs, err := study.ExecuteJobsContext(ctx, c, mine, sopt, done)
+	runs, err := study.Execute(ctx, c, mine, sopt, done)
 	clear()
 	sw.runs = runs
 	if len(runs) < len(mine) {
@@ -169,13 +168,13 @@ func withoutContext(err error) error {
 }
 
 // runJSON writes the run document; a shard or an interrupted sweep also
-// says so (report.RunShardDocument), a whole one is exactly report.JSON.
-func runJSON(w io.Writer, meta report.Meta, sw *runSweep) error {
-	if sw.shard == nil && !sw.interrupted {
-		return report.JSON(w, meta, sw.runs)
+// says so.
+func runJSON(w io.Writer, meta study.Meta, sw *runSweep) error {
+	runs := sw.runs
+	if runs == nil {
+		runs = []study.Run{}
 	}
-	return report.EncodeJSON(w, report.RunShardDocument{Document: report.NewDocument(meta, sw.runs),
-		Shard: sw.shard, Interrupted: sw.interrupted})
+	return report.EncodeJSON(w, study.Document{Meta: meta, Runs: runs, Shard: sw.shard, Interrupted: sw.interrupted})
 }
 
 // rankVariants prints the variant ranking when the sweep has several.
@@ -207,16 +206,34 @@ func oneDeck(fs *pflag.FlagSet, cmd string) (string, error) {
 	return fs.Arg(0), nil
 }
 
-// parseLevelFlag reads --level: "" (the deck's) or a list of levels.
-func parseLevelFlag(s string) ([]float64, error) {
-	if s == "" {
+// deckLevels reads the levels of flag (a list such as 4k,8k; "" for the
+// deck's own, nil) as the deck's strike line reads its levels: in the
+// unit of the deck's waveform, so that 8kA on a discharge deck is an error.
+func deckLevels(flag, text string, c *netlist.Circuit) ([]float64, error) {
+	if text == "" {
 		return nil, nil
 	}
-	ls, err := levelList(s)
+	s := c.Strike()
+	if s == nil {
+		return nil, errors.New("the deck has no strike: add a strike line")
+	}
+	ls, err := netlist.ParseLevels(text, s.Waveform)
 	if err != nil {
-		return nil, fmt.Errorf("--level: %w", err)
+		return nil, fmt.Errorf("%s %s: %w", flag, text, err)
 	}
 	return ls, nil
+}
+
+// deckLevel reads one level (deckLevels).
+func deckLevel(flag, text string, c *netlist.Circuit) (float64, error) {
+	ls, err := deckLevels(flag, text, c)
+	if err == nil && len(ls) > 1 {
+		err = fmt.Errorf("%s %s: give one level", flag, text)
+	}
+	if err != nil || len(ls) == 0 {
+		return 0, err
+	}
+	return ls[0], nil
 }
 
 // checkWorkers refuses a negative --workers; 0 means every core.
@@ -257,14 +274,18 @@ func loadDeck(path string, stderr io.Writer) (*netlist.Circuit, error) {
 }
 
 // deckMeta names the tool, the deck and its title in a report.
-func deckMeta(deck string, c *netlist.Circuit) report.Meta {
-	return report.Meta{Tool: "zapnet", Version: Version, Deck: deck, Title: c.Title}
+func deckMeta(deck string, c *netlist.Circuit) study.Meta {
+	return study.Meta{Tool: "zapnet", Version: Version, Deck: deck, Title: c.Title}
 }
 
 // loadDesign loads the deck and applies --set to it (whatif.Base): the
 // design a sensitivity or spread studies, and the values set.
-func loadDesign(path string, sets []netlist.Vary, stderr io.Writer) (c, base *netlist.Circuit, variant netlist.Variant, err error) {
+func loadDesign(path string, flags []string, stderr io.Writer) (c, base *netlist.Circuit, variant netlist.Variant, err error) {
 	if c, err = loadDeck(path, stderr); err != nil {
+		return nil, nil, nil, err
+	}
+	sets, err := whatif.ParseSets(c, flags)
+	if err != nil {
 		return nil, nil, nil, err
 	}
 	if base, variant, err = whatif.Base(c, sets); err != nil {
@@ -313,7 +334,7 @@ func tableThenJSON(jsonPath string, stdout, stderr io.Writer, table func(io.Writ
 
 // sweepInterrupted is the error of a what-if sweep cut short after done
 // items: of the shard's items, or of total for the whole sweep.
-func sweepInterrupted(done, total int, shard *whatif.ShardInfo) error {
+func sweepInterrupted(done, total int, shard *study.ShardInfo) error {
 	if shard != nil {
 		total = len(shard.Items())
 	}

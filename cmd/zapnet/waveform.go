@@ -9,14 +9,12 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/olekukonko/tablewriter"
-
 	"zapnet/cmd/internal/report"
+	"zapnet/devices/spec"
+	"zapnet/mna"
+	"zapnet/netlist"
 	"zapnet/waveforms"
 )
-
-// waveformCaution ends every waveform report (SAFETY.md).
-const waveformCaution = "A simulation is an estimate, not a compliance result."
 
 // waveformOptions are the settings of `zapnet waveform`.
 type waveformOptions struct {
@@ -24,90 +22,124 @@ type waveformOptions struct {
 	level float64 // in the waveform's unit; 0: the catalogue's typical level
 	load  float64 // ohms, +Inf open; negative: the prescribed load
 	csv   string  // file for the sampled waveform; empty: none
-	num   map[string]float64
-	str   map[string]string
+	json  string  // file for the checks as JSON, "-" for stdout; empty: none
+	// params are the waveform's parameters, checked; nil: every default.
+	params *spec.Values
 }
 
 // runWaveform prints a waveform's calibration checks and, with --csv, writes
 // the waveform itself.
 func runWaveform(args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("waveform",
-		"waveform NAME [--level L] [--load R] [--set key=value]... [--csv FILE]",
+		"waveform NAME [--level L] [--load R|short|open] [--set key=value]... [--csv FILE] [--json FILE]",
 		`  zapnet waveform iec61000-4-2 --level 8k
   zapnet waveform hbm --level 2kV --load 500 --csv hbm-500ohm.csv
   zapnet waveform iso10605 --set c=330p --set r=2k
   zapnet waveform pwl --set file=measured.csv --level 1
+  zapnet waveform iec61000-4-2-network --level 8k --json checks.json
+  zapnet waveform surge-cwg --load short --set path=line-earth
+  zapnet waveform eft --set burst=100k --load 1000
+
+A generator circuit (iec61000-4-2-network, iec61000-4-2-air, surge-cwg,
+eft with burst=) is solved by the circuit engine into the load: the
+generator's self-check against its standard's calibration.
 
 Waveforms: `+strings.Join(waveforms.Names(), ", ")+`.
 Levels are in the waveform's unit (V for discharges, eft and surge-1.2-50;
 A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 		stderr)
 	level := fs.String("level", "", "level in the waveform's unit, e.g. 4k or 8kV (default: a typical level)")
-	load := fs.String("load", "", "resistive load for the checks and the CSV, ohms, or open (default: the load the standard prescribes)")
+	load := fs.String("load", "", "resistive load for the checks and the CSV, ohms, short or open (default: the load the standard prescribes)")
 	sets := fs.StringArray("set", nil, "waveform parameter key=value, as on the deck's strike line (repeatable)")
 	csvPath := fs.String("csv", "", "write the waveform as CSV to `FILE` (time, current and, for source networks, voltage)")
+	jsonPath := fs.String("json", "", "write the checks as JSON to `FILE` (- for stdout, the report then goes to stderr)")
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
 	if fs.NArg() != 1 {
 		return fmt.Errorf("waveform: want one waveform name (one of %s), got %d arguments", strings.Join(waveforms.Names(), ", "), fs.NArg())
 	}
-	opt := waveformOptions{name: fs.Arg(0), load: waveforms.DefaultLoad, csv: *csvPath,
-		num: map[string]float64{}, str: map[string]string{}}
-	info, err := waveforms.Describe(opt.name)
-	if err != nil {
-		return fmt.Errorf("waveform: %w", err)
+	opt := waveformOptions{name: fs.Arg(0), load: waveforms.DefaultLoad, csv: *csvPath, json: *jsonPath}
+	wf := waveforms.Lookup(opt.name)
+	if wf == nil {
+		return fmt.Errorf("waveform: unknown waveform %q (known: %s)", opt.name, strings.Join(waveforms.Names(), ", "))
 	}
 	var errs []error
 	if *level != "" {
-		v, err := parseSI(*level, info.Unit)
+		ls, err := netlist.ParseLevels(*level, wf)
+		if err == nil && len(ls) != 1 {
+			err = errors.New("give one level")
+		}
 		if err != nil {
 			errs = append(errs, fmt.Errorf("--level: %w", err))
+		} else {
+			opt.level = ls[0]
 		}
-		opt.level = v
 	}
 	if *load != "" {
 		switch strings.ToLower(*load) {
 		case "open", "inf":
 			opt.load = math.Inf(1)
+		case "short":
+			opt.load = 0
 		default:
-			v, err := parseSI(*load, "ohm")
-			if err == nil && v < 0 {
-				err = fmt.Errorf("a load is >= 0 ohms or open, got %q", *load)
-			}
+			v, err := netlist.ParseValue("a load", *load, spec.Ohm, spec.NonNegative)
 			if err != nil {
-				errs = append(errs, fmt.Errorf("--load: %w", err))
+				errs = append(errs, fmt.Errorf("--load: %w (or short, or open)", err))
 			}
 			opt.load = v
 		}
 	}
-	for _, kv := range *sets {
-		k, v, ok := strings.Cut(kv, "=")
-		if !ok || k == "" {
-			errs = append(errs, fmt.Errorf("--set %q: want key=value", kv))
-			continue
+	if len(*sets) > 0 {
+		v := wf.Values()
+		for _, kv := range *sets {
+			if err := setWaveformParam(wf, &v, kv); err != nil {
+				errs = append(errs, fmt.Errorf("--set %w", err))
+			}
 		}
-		if x, err := parseSI(v, ""); err == nil {
-			opt.num[k] = x
-		} else {
-			opt.str[k] = v
-		}
+		v.FillDefaults()
+		opt.params = &v
 	}
+	out := newOutputs()
+	out.file("--csv", opt.csv)
+	errs = append(errs, out.err())
 	if err := errors.Join(errs...); err != nil {
 		return fmt.Errorf("waveform: %w", err)
 	}
-	return waveformReport(opt, stdout)
+	return waveformReport(opt, tablesOut(opt.json, stdout, stderr), stdout)
 }
 
-func waveformReport(opt waveformOptions, stdout io.Writer) error {
-	info, err := waveforms.Describe(opt.name)
+// setWaveformParam reads key=value, one of the waveform's parameters, as
+// the deck's strike line reads it.
+func setWaveformParam(wf *waveforms.Waveform, v *spec.Values, kv string) error {
+	k, text, ok := strings.Cut(kv, "=")
+	switch {
+	case !ok || k == "":
+		return fmt.Errorf("%q: want key=value", kv)
+	case wf.Word(k) != nil:
+		return v.SetWord(k, text)
+	case wf.Param(k) == nil:
+		return fmt.Errorf("%s: waveform %s has no parameter %s (it has %s)", kv, wf.Name, k, strings.Join(wf.Keys(), ", "))
+	}
+	p := wf.Param(k)
+	x, err := netlist.ParseValue(k+" of waveform "+wf.Name, text, p.Unit, p.Rule)
 	if err != nil {
-		return err
+		return fmt.Errorf("%s: %w", kv, err)
+	}
+	return v.Set(k, x)
+}
+
+// waveformReport prints the report to out and, with opt.json "-", the
+// JSON to stdout.
+func waveformReport(opt waveformOptions, out, stdout io.Writer) error {
+	info := waveforms.Lookup(opt.name)
+	if info == nil {
+		return fmt.Errorf("unknown waveform %q", opt.name)
 	}
 	if opt.level == 0 {
 		opt.level = info.Level
 	}
-	s, err := waveforms.New(opt.name, opt.level, opt.num, opt.str)
+	s, err := info.New(opt.level, opt.params)
 	if err != nil {
 		return fmt.Errorf("waveform: %w", err)
 	}
@@ -115,7 +147,7 @@ func waveformReport(opt waveformOptions, stdout io.Writer) error {
 	if load < 0 {
 		load = waveforms.PrescribedLoad(s.Name)
 	}
-	checks, err := waveforms.Checks(s, load)
+	checks, err := calibrationChecks(s, load)
 	if err != nil {
 		return fmt.Errorf("waveform: %w", err)
 	}
@@ -124,8 +156,25 @@ func waveformReport(opt waveformOptions, stdout io.Writer) error {
 			return fmt.Errorf("waveform: --csv: %w", err)
 		}
 	}
+	doc := waveformDoc{Tool: "zapnet", Version: Version, Waveform: s.Name, Level: s.Level, LevelUnit: s.Unit,
+		Params: paramsOf(s), Load: jsonLoad(load), Source: describeSource(s), Pass: true,
+		Checks: checks, Note: s.Note, Caution: report.Caution}
+	for _, c := range checks {
+		doc.Pass = doc.Pass && c.Within
+	}
+	switch opt.json {
+	case "":
+	case "-":
+		if err := report.EncodeJSON(stdout, doc); err != nil {
+			return err
+		}
+	default:
+		if err := report.WriteFile(opt.json, func(w io.Writer) error { return report.EncodeJSON(w, doc) }); err != nil {
+			return fmt.Errorf("waveform: --json: %w", err)
+		}
+	}
 
-	w := bufio.NewWriter(stdout)
+	w := bufio.NewWriter(out)
 	fmt.Fprintf(w, "Waveform %s at %s: %s\n", s.Name, levelText(s), info.Summary)
 	fmt.Fprintf(w, "Source: %s\n", describeSource(s))
 	fmt.Fprintf(w, "Checked into: %s; default span %s, %d breakpoint(s)\n\n",
@@ -133,22 +182,7 @@ func waveformReport(opt waveformOptions, stdout io.Writer) error {
 	if len(checks) == 0 {
 		fmt.Fprintf(w, "No published check points for this waveform%s.\n", map[bool]string{true: " with these network values", false: ""}[s.Name == "iso10605"])
 	} else {
-		table := tablewriter.NewWriter(w)
-		table.Header("quantity", "computed", "published", "tolerance", "result", "source")
-		for _, c := range checks {
-			pub := waveforms.FormatValue(c.Published, c.Unit)
-			if math.IsNaN(c.Published) {
-				pub = "window"
-			}
-			result := "within"
-			if !c.Within {
-				result = "OUTSIDE"
-			}
-			if err := table.Append(c.Quantity, waveforms.FormatValue(c.Computed, c.Unit), pub, c.Tol, result, c.Source); err != nil {
-				return err
-			}
-		}
-		if err := table.Render(); err != nil {
+		if err := report.CheckTable(w, checks); err != nil {
 			return err
 		}
 		fmt.Fprintln(w, "\nReferences:")
@@ -166,7 +200,10 @@ func waveformReport(opt waveformOptions, stdout io.Writer) error {
 	if opt.csv != "" {
 		fmt.Fprintf(w, "\nWaveform written to %s\n", opt.csv)
 	}
-	fmt.Fprintf(w, "\n%s\n", waveformCaution)
+	if opt.json != "" && opt.json != "-" {
+		fmt.Fprintf(w, "\nChecks written to %s\n", opt.json)
+	}
+	fmt.Fprintf(w, "\n%s\n", report.Caution)
 	return w.Flush()
 }
 
@@ -190,6 +227,8 @@ func describeSource(s *waveforms.Stimulus) string {
 			d += " and " + waveforms.FormatValue(s.L, "H")
 		}
 		return d
+	case waveforms.Generator:
+		return "generator circuit solved by the engine: " + s.Gen.String()
 	}
 	return s.Form.String()
 }
@@ -213,18 +252,21 @@ func loadText(s *waveforms.Stimulus, load float64) string {
 	return d
 }
 
-// writeWaveformCSV writes the sampled waveform (OUTPUT.md): `time,i(NAME)`
-// and, for Thevenin and network sources, `v(NAME)`, the voltage across the
-// load; one row per sample, SI units, %.9g. The file is written whole or
-// not at all (report.WriteFile).
+// writeWaveformCSV writes the sampled waveform (OUTPUT.md): `time [s]`,
+// `current [A]` into the load and, for Thevenin and network sources,
+// `voltage [V]` across it; one row per sample, SI units, %.9g. The file is
+// written whole or not at all (report.WriteFile).
 func writeWaveformCSV(path string, s *waveforms.Stimulus, load float64) error {
-	t, i, v := waveforms.Sample(s, load, 0)
+	t, i, v, err := sampled(s, load)
+	if err != nil {
+		return err
+	}
 	return report.WriteFile(path, func(w io.Writer) error {
 		// The buffered writer's error sticks: WriteFile's flush reports it.
 		if v == nil {
-			fmt.Fprintf(w, "time,i(%s)\n", s.Name)
+			fmt.Fprintln(w, "time [s],current [A]")
 		} else {
-			fmt.Fprintf(w, "time,i(%s),v(%s)\n", s.Name, s.Name)
+			fmt.Fprintln(w, "time [s],current [A],voltage [V]")
 		}
 		for k := range t {
 			if v == nil {
@@ -237,50 +279,80 @@ func writeWaveformCSV(path string, s *waveforms.Stimulus, load float64) error {
 	})
 }
 
-// siPrefixes are the multipliers parseSI accepts (no "MEG": M is mega).
-var siPrefixes = map[string]float64{
-	"f": 1e-15, "p": 1e-12, "n": 1e-9, "u": 1e-6, "µ": 1e-6, "μ": 1e-6,
-	"m": 1e-3, "k": 1e3, "M": 1e6, "G": 1e9, "T": 1e12,
+// calibrationChecks measures s into load: in closed form, or for a
+// generator circuit solved by the engine into the load.
+func calibrationChecks(s *waveforms.Stimulus, load float64) ([]waveforms.Check, error) {
+	if s.Form == waveforms.Generator {
+		return waveforms.SolvedChecks(s, load, mna.LoadSolver(nil))
+	}
+	return waveforms.Checks(s, load)
 }
 
-// parseSI reads a number with an optional SI prefix and an optional unit:
-// "4k", "8kV", "8 kV", "1.5e3", "330p". unit is the unit the value may
-// carry ("V", "A", "ohm"; "" for none); its case is ignored, and "Ω" is the
-// same as "ohm".
-func parseSI(s, unit string) (float64, error) {
-	text := strings.TrimSpace(s)
-	body := text
-	if unit != "" {
-		for _, u := range unitSpellings(unit) {
-			if len(body) > len(u) && strings.EqualFold(body[len(body)-len(u):], u) {
-				body = strings.TrimSpace(body[:len(body)-len(u)])
-				break
-			}
+// sampled is the stimulus into load for the CSV: closed-form samples, or
+// the engine's accepted points for a generator circuit (for a burst, its
+// first pulse).
+func sampled(s *waveforms.Stimulus, load float64) (t, i, v []float64, err error) {
+	if s.Form != waveforms.Generator {
+		t, i, v = waveforms.Sample(s, load, 0)
+		return t, i, v, nil
+	}
+	if s.Burst != nil {
+		if s, err = s.Burst.First(1); err != nil {
+			return nil, nil, nil, err
 		}
 	}
-	mult := 1.0
-	for p, m := range siPrefixes {
-		if strings.HasSuffix(body, p) {
-			if _, err := strconv.ParseFloat(strings.TrimSpace(strings.TrimSuffix(body, p)), 64); err == nil {
-				body, mult = strings.TrimSpace(strings.TrimSuffix(body, p)), m
-				break
-			}
-		}
+	r, err := mna.IntoLoad(s, load, nil)
+	if err != nil {
+		return nil, nil, nil, err
 	}
-	v, err := strconv.ParseFloat(body, 64)
-	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-		want := "a number with an optional SI prefix"
-		if unit != "" {
-			want += " and unit " + unit
-		}
-		return 0, fmt.Errorf("%q is not %s (e.g. 4k)", text, want)
-	}
-	return v * mult, nil
+	return r.Time, r.I, r.V, nil
 }
 
-func unitSpellings(unit string) []string {
-	if unit == "ohm" {
-		return []string{"ohms", "ohm", "Ω"}
+// waveformDoc is the JSON of the waveform command: what was checked, into
+// which load, and every check with its published value and window.
+type waveformDoc struct {
+	Tool      string  `json:"tool"`
+	Version   string  `json:"version"`
+	Waveform  string  `json:"waveform"`
+	Level     float64 `json:"level"`
+	LevelUnit string  `json:"level_unit"`
+	// Params are the waveform's parameters as used (numbers in SI units,
+	// words as written).
+	Params map[string]any `json:"params"`
+	// Load is the resistive load, ohms; null for an open circuit.
+	Load   *float64 `json:"load"`
+	Source string   `json:"source"`
+	// Pass is true when every check lies within its window.
+	Pass    bool              `json:"pass"`
+	Checks  []waveforms.Check `json:"checks"`
+	Note    string            `json:"note,omitempty"`
+	Caution string            `json:"caution"`
+}
+
+// paramsOf lists the stimulus's parameters that have a value.
+func paramsOf(s *waveforms.Stimulus) map[string]any {
+	m := map[string]any{}
+	t := s.Values.Table()
+	if t == nil {
+		return m
 	}
-	return []string{unit}
+	for _, p := range t.Params {
+		if v, ok := s.Values.Lookup(p.Key); ok {
+			m[p.Key] = v
+		}
+	}
+	for _, wd := range t.Words {
+		if v := s.Values.Word(wd.Key); v != "" {
+			m[wd.Key] = v
+		}
+	}
+	return m
+}
+
+// jsonLoad is a load for JSON: null for an open circuit.
+func jsonLoad(ohms float64) *float64 {
+	if math.IsInf(ohms, 1) {
+		return nil
+	}
+	return &ohms
 }

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"math"
 	"os"
 	"path/filepath"
@@ -8,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"zapnet/cmd/internal/report"
 	"zapnet/waveforms"
 )
 
@@ -25,7 +27,7 @@ func TestWaveformReportIEC4k(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
 	for _, want := range []string{"14.92 A", "811 ps", "15 A", "within", "[pub]",
-		"A simulation is an estimate, not a compliance result."} {
+		report.Caution} {
 		if !strings.Contains(out, want) {
 			t.Errorf("report lacks %q:\n%s", want, out)
 		}
@@ -35,7 +37,7 @@ func TestWaveformReportIEC4k(t *testing.T) {
 	}
 	golden(t, "waveform-iec61000-4-2-4k.txt", []byte(out))
 	// SI spellings of the same level give the same report.
-	for _, lv := range []string{"4kV", "4000", "4 kV", "4e3"} {
+	for _, lv := range []string{"4kV", "4000", "4e3"} {
 		if o, _, _ := runW(t, "iec61000-4-2", "--level", lv); o != out {
 			t.Errorf("--level %q gives a different report", lv)
 		}
@@ -59,7 +61,7 @@ func TestWaveformEveryName(t *testing.T) {
 			t.Errorf("%s: exit %d: %s", n, code, errOut)
 			continue
 		}
-		if !strings.HasSuffix(out, "A simulation is an estimate, not a compliance result.\n") {
+		if !strings.HasSuffix(out, report.Caution+"\n") {
 			t.Errorf("%s: no caution at the end:\n%s", n, out)
 		}
 		if n == "surge-1.2-50" && !strings.Contains(out, "8/20 µs current into a short, which this source does not") {
@@ -88,14 +90,14 @@ func TestWaveformCSV(t *testing.T) {
 		t.Fatal(err)
 	}
 	lines := strings.Split(strings.TrimSpace(string(data)), "\n")
-	if lines[0] != "time,i(iec61000-4-2)" {
+	if lines[0] != "time [s],current [A]" {
 		t.Errorf("header %q", lines[0])
 	}
 	ts, is, err := waveforms.ReadPWL(path)
 	if err != nil {
 		t.Fatal(err)
 	}
-	s, _ := waveforms.New("iec61000-4-2", 4000, nil, nil)
+	s, _ := waveforms.Lookup("iec61000-4-2").New(4000, nil)
 	for k := range ts {
 		if want := s.F(ts[k]); math.Abs(is[k]-want) > 1e-8*math.Abs(want)+1e-12 {
 			t.Fatalf("row %d: i(%g) = %g, want %g", k+2, ts[k], is[k], want)
@@ -116,7 +118,7 @@ func TestWaveformCSV(t *testing.T) {
 	}
 	data, _ = os.ReadFile(path)
 	lines = strings.Split(strings.TrimSpace(string(data)), "\n")
-	if lines[0] != "time,i(hbm),v(hbm)" {
+	if lines[0] != "time [s],current [A],voltage [V]" {
 		t.Errorf("header %q", lines[0])
 	}
 	for _, l := range lines[1:] {
@@ -153,7 +155,7 @@ func TestWaveformBadInput(t *testing.T) {
 		{[]string{}, "want one waveform name"},
 		{[]string{"iec61000-4-2", "hbm"}, "want one waveform name"},
 		{[]string{"iec61000-4-2", "--level", "4kA"}, "--level"},
-		{[]string{"iec61000-4-2", "--level", "-4k"}, "level must be a positive"},
+		{[]string{"iec61000-4-2", "--level", "-4k"}, "must be positive"},
 		{[]string{"hbm", "--load", "-5"}, "--load"},
 		{[]string{"hbm", "--load", "lots"}, "--load"},
 		{[]string{"tlp", "--set", "rise"}, "key=value"},
@@ -172,34 +174,81 @@ func TestWaveformBadInput(t *testing.T) {
 	}
 }
 
-func TestParseSI(t *testing.T) {
+// The generator self-check: every generator circuit, solved by the engine
+// into each load its standard calibrates into, meets every published check
+// point [pub/mem per check: IEC 61000-4-2's table; IEC 61000-4-5's wave
+// parameters and 2 Ω; IEC 61000-4-4's pulse into 50 Ω and 1 kΩ], and the
+// JSON for CI says so: pass true, each check with name, value, published,
+// low, high and pass; an open circuit's load is null, as is an unbounded
+// side of a window.
+func TestWaveformGeneratorSelfCheck(t *testing.T) {
 	for _, c := range []struct {
-		s, unit string
-		want    float64
-		ok      bool
+		args  []string
+		load  any // the JSON's load: a number of ohms, or nil for open
+		count int // checks
 	}{
-		{"4k", "V", 4000, true},
-		{"8kV", "V", 8000, true},
-		{"8 kv", "V", 8000, true},
-		{"16A", "A", 16, true},
-		{"1.5e3", "V", 1500, true},
-		{"330p", "", 330e-12, true},
-		{"2.5u", "", 2.5e-6, true},
-		{"2.5µ", "", 2.5e-6, true},
-		{"100m", "ohm", 0.1, true},
-		{"2k", "ohm", 2000, true},
-		{"50 ohm", "ohm", 50, true},
-		{"50Ω", "ohm", 50, true},
-		{"1M", "ohm", 1e6, true},
-		{"4kA", "V", 0, false},
-		{"4MEG", "V", 0, false},
-		{"", "V", 0, false},
-		{"k", "V", 0, false},
-		{"NaN", "V", 0, false},
+		{[]string{"iec61000-4-2-network", "--level", "8k"}, 2.0, 4},
+		{[]string{"iec61000-4-2-air", "--level", "15k", "--set", "approach=0.5"}, 2.0, 12},
+		{[]string{"surge-cwg", "--load", "open"}, nil, 4},
+		{[]string{"surge-cwg", "--load", "short", "--set", "path=io"}, 0.0, 5},
+		{[]string{"eft", "--set", "burst=5k", "--load", "50"}, 50.0, 3},
+		{[]string{"eft", "--set", "burst=100k", "--load", "1000", "--level", "4k"}, 1000.0, 3},
 	} {
-		got, err := parseSI(c.s, c.unit)
-		if (err == nil) != c.ok || (c.ok && math.Abs(got-c.want) > 1e-12*math.Abs(c.want)) {
-			t.Errorf("parseSI(%q, %q) = %g, %v; want %g, ok %v", c.s, c.unit, got, err, c.want, c.ok)
+		out, errOut, code := runW(t, append(c.args, "--json", "-")...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", c.args, code, errOut)
 		}
+		var doc struct {
+			Waveform string         `json:"waveform"`
+			Load     any            `json:"load"`
+			Pass     bool           `json:"pass"`
+			Params   map[string]any `json:"params"`
+			Checks   []map[string]any
+			Caution  string `json:"caution"`
+		}
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatalf("%v: %v\n%s", c.args, err, out)
+		}
+		if !doc.Pass || doc.Waveform != c.args[0] || doc.Load != c.load || len(doc.Checks) != c.count || doc.Caution == "" {
+			t.Errorf("%v: pass %v, load %v, %d checks:\n%s", c.args, doc.Pass, doc.Load, len(doc.Checks), out)
+		}
+		for _, k := range doc.Checks {
+			for _, key := range []string{"name", "value", "published", "low", "high", "pass"} {
+				if _, ok := k[key]; !ok {
+					t.Errorf("%v: check %v lacks %s", c.args, k, key)
+				}
+			}
+			if k["pass"] != true {
+				t.Errorf("%v: check %v fails", c.args, k)
+			}
+			if k["tolerance"] == "none published" && (k["published"] != nil && !strings.HasPrefix(k["name"].(string), "through") || k["low"] != nil || k["high"] != nil) {
+				t.Errorf("%v: a row without a published window carries one: %v", c.args, k)
+			}
+		}
+		// The report itself went to stderr.
+		if !strings.Contains(errOut, "Waveform "+c.args[0]) {
+			t.Errorf("%v: no report on stderr:\n%s", c.args, errOut)
+		}
+	}
+}
+
+// The generator reports are golden files: the circuit, the checks into the
+// calibration load, the air discharge's first peak against the level, the
+// coupling path's current.
+func TestWaveformGeneratorReports(t *testing.T) {
+	for _, c := range []struct {
+		file string
+		args []string
+	}{
+		{"waveform-iec61000-4-2-network-8k.txt", []string{"iec61000-4-2-network", "--level", "8k"}},
+		{"waveform-iec61000-4-2-air-8k.txt", []string{"iec61000-4-2-air", "--level", "8k"}},
+		{"waveform-surge-cwg-line-earth-short.txt", []string{"surge-cwg", "--load", "short", "--set", "path=line-earth"}},
+		{"waveform-eft-burst-1k.txt", []string{"eft", "--set", "burst=5k", "--load", "1k"}},
+	} {
+		out, errOut, code := runW(t, c.args...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", c.args, code, errOut)
+		}
+		golden(t, c.file, []byte(out))
 	}
 }

@@ -10,4 +10,4 @@ part tvs-p16 clamp vbr=16.5V it=1m rdyn=0.12ohm ls=0.8n cj=900p \
     ipp=40A emax=50m
 
 # A small-signal steering diode.
-part sd-fast diode is=2n n=1.05 rs=0.6ohm cj=1.5p bv=80V
+part sd-fast diode is=2n n=1.05 rs=0.6ohm cj=1.5p vbr=80V

@@ -10,7 +10,8 @@ import (
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
-	"zapnet/cmd/internal/study"
+	"zapnet/devices/spec"
+	"zapnet/mna/study"
 	"zapnet/netlist"
 )
 
@@ -51,9 +52,9 @@ func Overlays(c *netlist.Circuit, runs []study.Run, opt *Options) ([]Figure, err
 		}
 	}
 	g := group{name: "overlay", what: "every run", runs: levels,
-		label: func(r *study.Run) string { return netlist.FormatSI(r.Level, r.LevelUnit) + " " + r.Polarity }}
+		label: func(r *study.Run) string { return spec.FormatSI(r.Level, r.LevelUnit) + " " + r.Polarity }}
 	if several {
-		g.what = "every level, " + study.VariantString(levels[0].Variant)
+		g.what = "every level, " + levels[0].Variant.String()
 	}
 	groups = append(groups, g)
 	if several {
@@ -72,9 +73,9 @@ func Overlays(c *netlist.Circuit, runs []study.Run, opt *Options) ([]Figure, err
 				continue
 			}
 			groups = append(groups, group{name: "overlay-variants-" + pol,
-				what:  "every variant, " + netlist.FormatSI(top, vs[0].LevelUnit) + " " + pol,
+				what:  "every variant, " + spec.FormatSI(top, vs[0].LevelUnit) + " " + pol,
 				runs:  vs,
-				label: func(r *study.Run) string { return study.VariantString(r.Variant) }})
+				label: func(r *study.Run) string { return r.Variant.String() }})
 		}
 	}
 
@@ -91,8 +92,7 @@ func Overlays(c *netlist.Circuit, runs []study.Run, opt *Options) ([]Figure, err
 		}
 		ref := &use[0]
 		closeUp := closeUpSpan(ref.Waves)
-		for k := range ref.Pins {
-			pin := &ref.Pins[k]
+		for _, pin := range ref.Pins() {
 			what := "Residual pulse at " + pin.Name + ", " + g.what + note
 			f, err := residualFigure(&o, c, use, g.label, pin, g.name+"-residual-"+pin.Name, what, closeUp)
 			if err != nil {
@@ -101,7 +101,7 @@ func Overlays(c *netlist.Circuit, runs []study.Run, opt *Options) ([]Figure, err
 			figs = append(figs, f)
 		}
 		for _, e := range ref.Elements {
-			if e.Kind != netlist.Clamp {
+			if e.Role != spec.Protector {
 				continue
 			}
 			var cs []curve
@@ -111,11 +111,9 @@ func Overlays(c *netlist.Circuit, runs []study.Run, opt *Options) ([]Figure, err
 				}
 			}
 			var lims []limitLine
-			for _, l := range ref.Limits {
-				if l.Element == e.Name && l.Param == "ipp" {
-					lims = append(lims, limitLine{"ipp +" + netlist.FormatSI(l.Value, "A"), l.Value},
-						limitLine{"ipp " + netlist.FormatSI(-l.Value, "A"), -l.Value})
-				}
+			if l := ref.LimitOn(e.Name, spec.PeakCurrent); l != nil {
+				lims = append(lims, limitLine{l.Param + " +" + spec.FormatSI(l.Value, "A"), l.Value},
+					limitLine{l.Param + " " + spec.FormatSI(-l.Value, "A"), -l.Value})
 			}
 			what := "Current in " + e.Name + ", " + g.what + note
 			f, err := timeFigure(&o, timeSpec{name: g.name + "-clamp-" + e.Name, what: what, caption: what,
@@ -146,7 +144,7 @@ type MarginSeries struct {
 // searches, one line with markers per series, and the zero line where a run
 // turns from PASS to FAIL. unit is the level's unit ("V" for discharges,
 // "A", or "" for a waveform's own unit); title is the deck's title.
-func MarginCurve(title, unit string, curves []MarginSeries, opt *Options) (Figure, error) {
+func MarginCurve(title string, unit spec.Unit, curves []MarginSeries, opt *Options) (Figure, error) {
 	o := opt.withDefaults()
 	o.Title = title
 	if len(curves) == 0 {
@@ -168,7 +166,7 @@ func MarginCurve(title, unit string, curves []MarginSeries, opt *Options) (Figur
 		p.X.Label.Text = "level"
 		ls, lp = 1, ""
 	} else {
-		p.X.Label.Text = "level (" + lp + unit + ")"
+		p.X.Label.Text = "level (" + lp + string(unit) + ")"
 	}
 	p.Y.Label.Text = "worst margin (% of the limit)"
 	fig := Figure{Name: "margin", Caption: what}

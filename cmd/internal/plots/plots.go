@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"image/color"
 	"math"
+	"regexp"
 	"sort"
 	"strconv"
 	"strings"
@@ -19,8 +20,8 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgsvg"
 
-	"zapnet/cmd/internal/study"
-	"zapnet/netlist"
+	"zapnet/devices/spec"
+	"zapnet/mna/study"
 )
 
 // Options tune the figures. A nil *Options means every default; a zero field
@@ -34,7 +35,9 @@ type Options struct {
 	Width, Height vg.Length
 	// MaxPoints bounds the points drawn per line: a longer waveform is
 	// thinned to the lowest and highest sample of each time slice, so
-	// peaks survive. Zero: 1500.
+	// peaks survive, and then every point that moves the drawn line by
+	// less than a fifth of a typographic point is left out. Zero: 800,
+	// two slices per point of a 16 cm figure.
 	MaxPoints int
 	// MaxOverlay bounds the runs drawn in one overlay figure; the caption
 	// says when runs were left out. Zero: 12.
@@ -68,7 +71,7 @@ func (o *Options) withDefaults() Options {
 		d.Height = 9 * vg.Centimeter
 	}
 	if d.MaxPoints == 0 {
-		d.MaxPoints = 1500
+		d.MaxPoints = 800
 	}
 	if d.MaxOverlay == 0 {
 		d.MaxOverlay = 12
@@ -231,7 +234,79 @@ func render(o *Options, head string, panels []*plot.Plot, entries []legendEntry)
 	if _, err := c.WriteTo(&buf); err != nil {
 		return nil, err
 	}
-	return fontFallback(buf.Bytes()), nil
+	return joinStrokes(fontFallback(buf.Bytes())), nil
+}
+
+// strokePath matches one unfilled path as the SVG writer emits it, with
+// the white space after it.
+var strokePath = regexp.MustCompile(`<path d="([^"]*)" style="(fill:none;[^"]*)" />\s*`)
+
+// joinStrokes draws runs of consecutive unfilled paths of one style (the
+// grid lines, the tick marks) as one path of several parts, each
+// horizontal or vertical line written as such. Without a fill, a path of
+// parts draws exactly what the separate paths drew.
+func joinStrokes(svg []byte) []byte {
+	var out bytes.Buffer
+	out.Grow(len(svg))
+	last := 0
+	m := strokePath.FindAllSubmatchIndex(svg, -1)
+	for i := 0; i < len(m); {
+		j := i + 1
+		for j < len(m) && m[j][0] == m[j-1][1] && bytes.Equal(svg[m[j][4]:m[j][5]], svg[m[i][4]:m[i][5]]) {
+			j++
+		}
+		out.Write(svg[last:m[i][0]])
+		out.WriteString(`<path d="`)
+		for k := i; k < j; k++ {
+			out.WriteString(straightLines(string(svg[m[k][2]:m[k][3]])))
+		}
+		out.WriteString(`" style="`)
+		out.Write(svg[m[i][4]:m[i][5]])
+		out.WriteString("\" />\n")
+		last = m[j-1][1]
+		i = j
+	}
+	out.Write(svg[last:])
+	return out.Bytes()
+}
+
+// straightLines rewrites a path of absolute moves and lines ("M1,2L1,5")
+// with a line that keeps x or y as an absolute vertical or horizontal line
+// ("M1,2V5"), which draws the same. A path with any other command is
+// returned as it is.
+func straightLines(d string) string {
+	if strings.ContainsFunc(d, func(r rune) bool {
+		return r != 'M' && r != 'L' && r != ',' && r != '.' && r != '-' && r != 'e' && r != '+' && (r < '0' || r > '9')
+	}) {
+		return d
+	}
+	whole := d
+	var b strings.Builder
+	b.Grow(len(d))
+	x, y := "", ""
+	for len(d) > 0 {
+		cmd := d[0]
+		d = d[1:]
+		end := strings.IndexAny(d, "ML")
+		if end < 0 {
+			end = len(d)
+		}
+		nx, ny, ok := strings.Cut(d[:end], ",")
+		if !ok {
+			return whole
+		}
+		d = d[end:]
+		switch {
+		case cmd == 'L' && nx == x:
+			b.WriteString("V" + ny)
+		case cmd == 'L' && ny == y:
+			b.WriteString("H" + nx)
+		default:
+			b.WriteString(string(cmd) + nx + "," + ny)
+		}
+		x, y = nx, ny
+	}
+	return b.String()
 }
 
 // drawSafely turns a panic of the drawing library (it panics on degenerate
@@ -360,7 +435,7 @@ func timeFigure(o *Options, s timeSpec) (Figure, error) {
 		ts, tp := engineering(span)
 		sub := ""
 		if len(spans) == 2 {
-			sub = "first " + netlist.FormatSI(span, "s")
+			sub = "first " + spec.FormatSI(span, "s")
 			if pi == 1 {
 				sub = "whole window"
 			}
@@ -372,6 +447,12 @@ func timeFigure(o *Options, s timeSpec) (Figure, error) {
 		}
 		for i, c := range s.curves {
 			xy := thin(c.t, c.y, span, o.MaxPoints, ts, ys)
+			// The panel is narrower and lower than the figure, so a
+			// point scale taken from the figure's size errs on the
+			// side of keeping points.
+			if yMax > 0 {
+				xy = simplify(xy, float64(o.Width)/(span*ts), float64(o.Height)/(yMax*ys), unseen)
+			}
 			l, err := plotter.NewLine(xy)
 			if err != nil {
 				return Figure{}, fmt.Errorf("plots: %s: %s: %w", s.name, c.name, err)
@@ -491,12 +572,66 @@ func thin(t, y []float64, span float64, max int, ts, ys float64) plotter.XYs {
 	return xy
 }
 
+// unseen is the deviation of a drawn line, in typographic points, below
+// which a reader cannot see it: a fifth of a point is well under a
+// screen's pixel at 100 % zoom and a laser printer's dot at 600 dpi
+// [common practice].
+const unseen = 0.2
+
+// simplify drops the points of a polyline that lie within tol of the line
+// through their neighbours kept, by the Ramer–Douglas–Peucker method
+// [pub: Douglas & Peucker, Cartographica 10(2), 1973]; x and y are first
+// scaled by sx and sy to typographic points so that tol is a drawn
+// distance. The first and last points, and therefore every extreme
+// further than tol from a chord, are kept.
+func simplify(xy plotter.XYs, sx, sy, tol float64) plotter.XYs {
+	n := len(xy)
+	if n < 3 || !(sx > 0) || !(sy > 0) || math.IsInf(sx, 0) || math.IsInf(sy, 0) {
+		return xy
+	}
+	keep := make([]bool, n)
+	keep[0], keep[n-1] = true, true
+	type seg struct{ a, b int }
+	stack := []seg{{0, n - 1}}
+	for len(stack) > 0 {
+		s := stack[len(stack)-1]
+		stack = stack[:len(stack)-1]
+		ax, ay := xy[s.a].X*sx, xy[s.a].Y*sy
+		dx, dy := xy[s.b].X*sx-ax, xy[s.b].Y*sy-ay
+		l := math.Hypot(dx, dy)
+		far, worst := -1, tol
+		for k := s.a + 1; k < s.b; k++ {
+			px, py := xy[k].X*sx-ax, xy[k].Y*sy-ay
+			var d float64
+			if l == 0 {
+				d = math.Hypot(px, py)
+			} else {
+				d = math.Abs(px*dy-py*dx) / l
+			}
+			if d > worst {
+				far, worst = k, d
+			}
+		}
+		if far >= 0 {
+			keep[far] = true
+			stack = append(stack, seg{s.a, far}, seg{far, s.b})
+		}
+	}
+	out := xy[:0:0]
+	for k, p := range xy {
+		if keep[k] {
+			out = append(out, p)
+		}
+	}
+	return out
+}
+
 // RunLabel names a run in legends and captions: "8 kV pos", or with a
 // variant "8 kV pos, C1.value=1u".
 func RunLabel(r *study.Run) string {
-	s := netlist.FormatSI(r.Level, r.LevelUnit) + " " + r.Polarity
+	s := spec.FormatSI(r.Level, r.LevelUnit) + " " + r.Polarity
 	if len(r.Variant) > 0 {
-		s += ", " + study.VariantString(r.Variant)
+		s += ", " + r.Variant.String()
 	}
 	return s
 }

@@ -2,6 +2,7 @@ package plots
 
 import (
 	"bytes"
+	"context"
 	"encoding/xml"
 	"io"
 	"maps"
@@ -11,8 +12,10 @@ import (
 	"sync"
 	"testing"
 
-	"zapnet/cmd/internal/study"
+	"zapnet/mna/study"
 	"zapnet/netlist"
+
+	"gonum.org/v1/plot/plotter"
 )
 
 // demo solves the demo deck once for every test, with its waveforms.
@@ -21,7 +24,11 @@ var demo = sync.OnceValues(func() (*netlist.Circuit, []study.Run) {
 	if err != nil {
 		panic(err)
 	}
-	runs, err := study.Execute(c, &study.Options{Record: true})
+	jobs, err := study.Jobs(c, &study.Options{Record: true})
+	if err != nil {
+		panic(err)
+	}
+	runs, err := study.Execute(context.Background(), c, jobs, &study.Options{Record: true}, nil)
 	if err != nil {
 		panic(err)
 	}
@@ -334,7 +341,11 @@ func TestOverlaysAcrossVariants(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	runs, err := study.Execute(c, &study.Options{Record: true, Levels: []float64{2e3, 8e3}})
+	jobs, err := study.Jobs(c, &study.Options{Record: true, Levels: []float64{2e3, 8e3}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	runs, err := study.Execute(context.Background(), c, jobs, &study.Options{Record: true, Levels: []float64{2e3, 8e3}}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -361,5 +372,67 @@ func TestOverlaysAcrossVariants(t *testing.T) {
 	}
 	if c := captions["overlay-variants-neg-residual-U3"]; !strings.Contains(c, "8 kV neg") {
 		t.Errorf("caption %q does not name the level and polarity", c)
+	}
+}
+
+// Simplifying keeps every sample within the tolerance of the line drawn
+// [pub: Douglas & Peucker 1973, the method's guarantee], keeps the
+// extremes and the ends, and drops most points of a smooth curve.
+func TestSimplify(t *testing.T) {
+	n := 2000
+	xy := make(plotter.XYs, n)
+	for k := range xy {
+		x := float64(k) / float64(n-1)
+		xy[k] = plotter.XY{X: x, Y: math.Exp(-5*x) * math.Sin(20*x)}
+	}
+	xy[1234].Y = 3 // a spike
+	sx, sy, tol := 400.0, 200.0, 0.2
+	got := simplify(append(plotter.XYs(nil), xy...), sx, sy, tol)
+	if len(got) > n/10 {
+		t.Errorf("kept %d of %d points of a smooth curve", len(got), n)
+	}
+	if got[0] != xy[0] || got[len(got)-1] != xy[n-1] {
+		t.Error("the ends moved")
+	}
+	if !slices.Contains(got, xy[1234]) {
+		t.Error("the spike was dropped")
+	}
+	// Every original point lies within tol (in points) of the segment of
+	// the simplified line over its abscissa.
+	j := 0
+	for _, p := range xy {
+		for j+1 < len(got)-1 && got[j+1].X <= p.X {
+			j++
+		}
+		a, b := got[j], got[j+1]
+		ax, ay, bx, by, px, py := a.X*sx, a.Y*sy, b.X*sx, b.Y*sy, p.X*sx, p.Y*sy
+		d := math.Abs((px-ax)*(by-ay)-(py-ay)*(bx-ax)) / math.Hypot(bx-ax, by-ay)
+		if d > tol*(1+1e-9) {
+			t.Fatalf("point (%g, %g) is %.3g pt from the line drawn, more than %g", p.X, p.Y, d, tol)
+		}
+	}
+}
+
+// Consecutive unfilled paths of one style become one path whose parts are
+// the same lines; a straight line keeps its coordinates as H or V
+// [pub: SVG 1.1, 8.3.6 "The lineto commands"].
+func TestJoinStrokes(t *testing.T) {
+	svg := []byte(`<svg>
+<path d="M1,2L1,5" style="fill:none;stroke:#000000" />
+<path d="M3,2L7,2" style="fill:none;stroke:#000000" />
+<path d="M0,0L1,1L2,0.5" style="fill:none;stroke:#000000" />
+<path d="M0,0L4,0L4,4Z" style="fill:#FFFFFF" />
+<path d="M9,9L9,8" style="fill:none;stroke:#E0E0E0" />
+</svg>`)
+	want := `<svg>
+<path d="M1,2V5M3,2H7M0,0L1,1L2,0.5" style="fill:none;stroke:#000000" />
+<path d="M0,0L4,0L4,4Z" style="fill:#FFFFFF" />
+<path d="M9,9V8" style="fill:none;stroke:#E0E0E0" />
+</svg>`
+	if got := string(joinStrokes(svg)); got != want {
+		t.Errorf("got\n%s\nwant\n%s", got, want)
+	}
+	if got := straightLines("M1,2L1,5Z"); got != "M1,2L1,5Z" {
+		t.Errorf("a path with other commands changed: %s", got)
 	}
 }

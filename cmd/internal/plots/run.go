@@ -9,7 +9,8 @@ import (
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
-	"zapnet/cmd/internal/study"
+	"zapnet/devices/spec"
+	"zapnet/mna/study"
 	"zapnet/netlist"
 )
 
@@ -69,7 +70,7 @@ func RunFigures(c *netlist.Circuit, r *study.Run, opt *Options) ([]Figure, error
 	}
 	for _, l := range r.Limits {
 		if (l.Param == "max" || l.Param == "min") && watched[l.Element] {
-			nodeLimits = append(nodeLimits, limitLine{l.Element + " " + l.Param + " " + netlist.FormatSI(l.Value, "V"), l.Value})
+			nodeLimits = append(nodeLimits, limitLine{l.Element + " " + l.Param + " " + spec.FormatSI(l.Value, "V"), l.Value})
 		}
 	}
 	if len(nodes) > 0 {
@@ -83,7 +84,7 @@ func RunFigures(c *netlist.Circuit, r *study.Run, opt *Options) ([]Figure, error
 	var clamps []curve
 	var clampLimits []limitLine
 	for _, e := range r.Elements {
-		if e.Kind != netlist.Clamp {
+		if e.Role != spec.Protector {
 			continue
 		}
 		i := elementWave(w, e.Name)
@@ -91,13 +92,11 @@ func RunFigures(c *netlist.Circuit, r *study.Run, opt *Options) ([]Figure, error
 			continue
 		}
 		clamps = append(clamps, curve{"i(" + e.Name + ")", w.Time, i})
-		for _, l := range r.Limits {
-			if l.Element == e.Name && l.Param == "ipp" {
-				// The rating bounds |i|: draw it on the side the current
-				// went.
-				v := math.Copysign(l.Value, signAtPeak(i))
-				clampLimits = append(clampLimits, limitLine{e.Name + " ipp " + netlist.FormatSI(v, "A"), v})
-			}
+		if l := r.LimitOn(e.Name, spec.PeakCurrent); l != nil {
+			// The rating bounds |i|: draw it on the side the current
+			// went.
+			v := math.Copysign(l.Value, signAtPeak(i))
+			clampLimits = append(clampLimits, limitLine{e.Name + " " + l.Param + " " + spec.FormatSI(v, "A"), v})
 		}
 	}
 	if len(clamps) > 0 {
@@ -108,9 +107,9 @@ func RunFigures(c *netlist.Circuit, r *study.Run, opt *Options) ([]Figure, error
 		}
 	}
 
-	for k := range r.Pins {
-		f, err := residualFigure(&o, c, []study.Run{*r}, nil, &r.Pins[k], "residual-"+r.Pins[k].Name,
-			fmt.Sprintf("Residual pulse at %s, %s", r.Pins[k].Name, label), closeUp)
+	for _, pin := range r.Pins() {
+		f, err := residualFigure(&o, c, []study.Run{*r}, nil, pin, "residual-"+pin.Name,
+			fmt.Sprintf("Residual pulse at %s, %s", pin.Name, label), closeUp)
 		if err := add(f, err); err != nil {
 			return nil, err
 		}
@@ -145,10 +144,10 @@ func residualFigure(o *Options, c *netlist.Circuit, runs []study.Run, label func
 	}
 	var lims []limitLine
 	if pin.HasVmax {
-		lims = append(lims, limitLine{"vmax " + netlist.FormatSI(pin.Vmax, "V"), pin.Vmax})
+		lims = append(lims, limitLine{"vmax " + spec.FormatSI(pin.Vmax, "V"), pin.Vmax})
 	}
 	if pin.HasVmin {
-		lims = append(lims, limitLine{"vmin " + netlist.FormatSI(pin.Vmin, "V"), pin.Vmin})
+		lims = append(lims, limitLine{"vmin " + spec.FormatSI(pin.Vmin, "V"), pin.Vmin})
 	}
 	return timeFigure(o, timeSpec{name: name, what: what, caption: what,
 		quantity: "residual voltage", unit: "V", curves: cs, limits: lims, closeUp: closeUp})
@@ -158,19 +157,19 @@ func residualFigure(o *Options, c *netlist.Circuit, runs []study.Run, label func
 // the strike's delivered energy first and the balance (solver residual) last.
 func ledgerFigure(o *Options, r *study.Run) (Figure, error) {
 	names := []string{"strike (delivered)"}
-	vals := plotter.Values{r.Ledger.Strike}
+	vals := plotter.Values{-r.Ledger.Strike}
 	shares := []string{""}
 	if r.Ledger.Delivered > 0 {
-		shares[0] = percent(100 * r.Ledger.Strike / r.Ledger.Delivered)
+		shares[0] = percent(100 * -r.Ledger.Strike / r.Ledger.Delivered)
 	}
-	kind := map[string]netlist.Kind{}
+	kind := map[string]string{}
 	for _, e := range r.Elements {
 		kind[e.Name] = e.Kind
 	}
 	for _, e := range r.Ledger.Entries {
 		name := e.Name
 		if k := kind[e.Name]; k != "" {
-			name += " (" + string(k) + ")"
+			name += " (" + k + ")"
 		}
 		names = append(names, name)
 		vals = append(vals, e.Energy)
@@ -195,7 +194,7 @@ func ledgerFigure(o *Options, r *study.Run) (Figure, error) {
 		scaled[j] = v * s
 		ynames[j] = names[i]
 		labels.XYs[j] = plotter.XY{X: math.Max(v*s, 0), Y: float64(j)}
-		labels.Labels[j] = " " + netlist.FormatSI(v, "J")
+		labels.Labels[j] = " " + spec.FormatSI(v, "J")
 		if shares[i] != "" {
 			labels.Labels[j] += " (" + shares[i] + ")"
 		}

@@ -11,7 +11,7 @@ import (
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
-	"zapnet/cmd/internal/whatif"
+	"zapnet/mna/study/whatif"
 )
 
 // MaxBars bounds the parameters SensitivityBars draws: past about fifteen

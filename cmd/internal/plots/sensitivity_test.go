@@ -7,7 +7,7 @@ import (
 	"strings"
 	"testing"
 
-	"zapnet/cmd/internal/whatif"
+	"zapnet/mna/study/whatif"
 )
 
 // The bar chart names every parameter it draws, in the legend says which

@@ -11,7 +11,8 @@ import (
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
-	"zapnet/cmd/internal/whatif"
+	"zapnet/devices/spec"
+	"zapnet/mna/study/whatif"
 	"zapnet/netlist"
 )
 
@@ -22,43 +23,51 @@ import (
 // Vertical lines mark p1, p50 and p99, and the rating where c gives one (a
 // pin's vmax, a clamp's emax); a rating far beyond the data is named in the
 // legend but left off the scale, so that the histogram stays readable. The
-// heading says how many circuits, the seed, and the pass fraction with its
-// 95 % interval. c is the design the circuits were drawn around (for its
-// ratings); title is the deck's title.
+// heading says how many circuits, the seed, the fraction within the rating
+// drawn, with its 95 % interval, and the fraction that passed every limit:
+// a pin's peak can be well inside vmax while its circuits fail at vmin.
+// c is the design the circuits were drawn around (for its ratings); title
+// is the deck's title.
 func SpreadHistograms(title string, c *netlist.Circuit, res *whatif.SpreadResult, opt *Options) ([]Figure, error) {
 	if res == nil || res.Solved == 0 {
 		return nil, fmt.Errorf("plots: spread: no solved circuit to draw")
 	}
 	o := opt.withDefaults()
 	o.Title = title
-	// Short enough to fit beside the legend on one line.
-	stats := fmt.Sprintf("%d circuits, seed %d, pass %s (95 %%: %s–%s)",
-		res.Solved, res.Seed, percent(100*res.PassFraction), strings.TrimSuffix(percent(100*res.CI95[0]), " %"), percent(100*res.CI95[1]))
+	count := fmt.Sprintf("%d circuits, seed %d", res.Solved, res.Seed)
 	if res.Solved < res.Runs {
-		stats = fmt.Sprintf("%d of %d", res.Solved, res.Runs) + strings.TrimPrefix(stats, fmt.Sprint(res.Solved))
+		count = fmt.Sprintf("%d of %d circuits solved, seed %d", res.Solved, res.Runs, res.Seed)
 	}
+	every := "every limit met by " + percent(100*res.PassFraction)
 	over := ""
 	if len(res.Conditions) > 1 {
 		over = ", worst over each circuit's strikes"
 	}
 	var figs []Figure
 	for mi, m := range res.Measures {
-		var elem, quantity, unit, name, rating string
+		var elem, quantity, name string
+		var unit spec.Unit
+		var rating spec.Measure
 		switch {
 		case strings.HasSuffix(m, ".residual.peak"):
 			elem = strings.TrimSuffix(m, ".residual.peak")
-			quantity, unit, name, rating = "residual peak", "V", "spread-"+elem+"-peak", "vmax"
+			quantity, unit, name, rating = "residual peak", "V", "spread-"+elem+"-peak", spec.HighVoltage
 		case strings.HasSuffix(m, ".energy"):
 			elem = strings.TrimSuffix(m, ".energy")
-			quantity, unit, name, rating = "energy", "J", "spread-"+elem+"-energy", "emax"
+			quantity, unit, name, rating = "energy", "J", "spread-"+elem+"-energy", spec.Energy
 		default:
 			continue
 		}
 		values := worstValues(res, mi)
 		var lim *limitLine
+		// Short enough to fit beside the legend on one line.
+		stats := count + ", no rating of this; " + every
 		if c != nil {
-			if e := c.Element(elem); e != nil && e.Has(rating) {
-				lim = &limitLine{rating + " " + netlist.FormatSI(e.Num[rating], unit), e.Num[rating]}
+			if e := c.Element(elem); e != nil {
+				if p, v, ok := e.Rating(rating); ok {
+					lim = &limitLine{p.Key + " " + spec.FormatSI(v, unit), v}
+					stats = count + "; " + within(p.Key, values, v) + "; " + every
+				}
 			}
 		}
 		what := strings.ToUpper(quantity[:1]) + quantity[1:] + " of " + elem + over
@@ -72,6 +81,20 @@ func SpreadHistograms(title string, c *netlist.Circuit, res *whatif.SpreadResult
 		return nil, fmt.Errorf("plots: spread: the deck has no protected pin and no clamp to draw")
 	}
 	return figs, nil
+}
+
+// within says what fraction of values lie at or under the rating v named
+// key, with its 95 % interval.
+func within(key string, values []float64, v float64) string {
+	k := 0
+	for _, x := range values {
+		if x <= v {
+			k++
+		}
+	}
+	lo, hi := whatif.Wilson95(k, len(values))
+	return fmt.Sprintf("within %s: %s (95 %%: %s–%s)", key, percent(100*float64(k)/float64(len(values))),
+		strings.TrimSuffix(percent(100*lo), " %"), percent(100*hi))
 }
 
 // worstValues is measure mi of every solved circuit, the worst over its
@@ -93,7 +116,7 @@ func worstValues(res *whatif.SpreadResult, mi int) []float64 {
 
 // histogram draws values as a histogram with the percentile lines and the
 // rating lim (nil: none).
-func histogram(o *Options, name, what, stats, quantity, unit string, values []float64, pc whatif.Percentiles, lim *limitLine) (Figure, error) {
+func histogram(o *Options, name, what, stats, quantity string, unit spec.Unit, values []float64, pc whatif.Percentiles, lim *limitLine) (Figure, error) {
 	if len(values) == 0 {
 		return Figure{}, fmt.Errorf("plots: %s: nothing to draw", name)
 	}
@@ -135,7 +158,7 @@ func histogram(o *Options, name, what, stats, quantity, unit string, values []fl
 		LineStyle: draw.LineStyle{Color: color.White, Width: vg.Points(0.5)}}
 
 	p := newPlot("")
-	p.X.Label.Text = quantity + " (" + xp + unit + ")"
+	p.X.Label.Text = quantity + " (" + xp + string(unit) + ")"
 	p.Y.Label.Text = "circuits"
 	p.Y.Tick.Marker = countTicks{}
 	p.Add(h)
@@ -149,9 +172,9 @@ func histogram(o *Options, name, what, stats, quantity, unit string, values []fl
 		value float64
 		style draw.LineStyle
 	}{
-		{"p1 " + netlist.FormatSI(pc.P1, unit), pc.P1, draw.LineStyle{Color: palette[0], Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}},
-		{"p50 " + netlist.FormatSI(pc.P50, unit), pc.P50, draw.LineStyle{Color: palette[6], Width: vg.Points(1.2)}},
-		{"p99 " + netlist.FormatSI(pc.P99, unit), pc.P99, draw.LineStyle{Color: palette[1], Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(6), vg.Points(3)}}},
+		{"p1 " + spec.FormatSI(pc.P1, unit), pc.P1, draw.LineStyle{Color: palette[0], Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}},
+		{"p50 " + spec.FormatSI(pc.P50, unit), pc.P50, draw.LineStyle{Color: palette[6], Width: vg.Points(1.2)}},
+		{"p99 " + spec.FormatSI(pc.P99, unit), pc.P99, draw.LineStyle{Color: palette[1], Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(6), vg.Points(3)}}},
 	}
 	for _, m := range marks {
 		l, err := vline(m.value*xs, 0, p.Y.Max, m.style)

@@ -9,33 +9,35 @@ import (
 	"strconv"
 	"strings"
 
-	"zapnet/cmd/internal/study"
+	"zapnet/devices/spec"
+	"zapnet/mna/study"
 	"zapnet/netlist"
 )
 
-// CSV writes a recorded run's waveforms (OUTPUT.md): a header
-// `time,v(n1),...,i(D1),...,p(U1.ipath),...,i(strike)` and one row per
-// accepted point, SI units, %.9g. Element currents are into each element's
-// first terminal; i(strike) is the current the strike drives into its node.
-// The run must have been solved with Options.Record.
+// CSV writes a recorded run's waveforms (OUTPUT.md): a header of plain
+// names with units, `time [s],n1 [V],...,D1 [A],...,U1.ipath [A],...,zap [A]`,
+// and one row per accepted point, SI units, %.9g. Node columns are
+// voltages to gnd; element columns are the current into each element's
+// first terminal; the last is the current the strike (named) drives into
+// its node. The run must have been solved with Options.Record.
 func CSV(w io.Writer, r *study.Run) error {
 	wv := r.Waves
 	if wv == nil {
 		return errors.New("report: the run was not recorded (study.Options.Record)")
 	}
 	ew := &errWriter{w: w}
-	head := []string{"time"}
+	head := []string{column("time", spec.Second)}
 	for _, n := range wv.Nodes {
-		head = append(head, "v("+n+")")
+		head = append(head, column(n, spec.Volt))
 	}
 	for _, e := range wv.Elements {
-		head = append(head, "i("+e+")")
+		head = append(head, column(e, spec.Ampere))
 	}
 	for _, p := range wv.Probes {
-		head = append(head, "p("+p+")")
+		head = append(head, column(p.Name, p.Unit))
 	}
 	if wv.Strike != nil {
-		head = append(head, "i(strike)")
+		head = append(head, column(wv.StrikeName, spec.Ampere))
 	}
 	io.WriteString(ew, strings.Join(head, ",")+"\n")
 	buf := make([]byte, 0, 32*len(head))
@@ -69,18 +71,20 @@ func CSV(w io.Writer, r *study.Run) error {
 // level and polarity ("demo_8kV_pos.csv", "demo_C1.value-1u_8kV_pos.csv"),
 // or a pattern containing "{run}", replaced by the same name without the
 // deck's.
-func CSVPaths(target, deck string, runs []study.Run) ([]string, error) {
+//
+// names are the runs' names (RunName), so that the paths are known, and
+// checked, before any run is solved.
+func CSVPaths(target, deck string, names []string) ([]string, error) {
 	if target == "" {
 		return nil, errors.New("--csv needs a file, a folder or a pattern with {run}")
 	}
-	if len(runs) == 1 && !strings.Contains(target, "{run}") && !isDir(target) {
+	if len(names) == 1 && !strings.Contains(target, "{run}") && !isDir(target) {
 		return []string{target}, nil
 	}
 	base := strings.TrimSuffix(filepath.Base(deck), filepath.Ext(deck))
 	var paths []string
 	seen := map[string]bool{}
-	for i := range runs {
-		name := RunName(&runs[i])
+	for _, name := range names {
 		var p string
 		switch {
 		case strings.Contains(target, "{run}"):
@@ -88,7 +92,7 @@ func CSVPaths(target, deck string, runs []study.Run) ([]string, error) {
 		case isDir(target):
 			p = filepath.Join(target, base+"_"+name+".csv")
 		default:
-			return nil, fmt.Errorf("--csv %s: %d runs need a folder (ending in /) or a pattern with {run}, for example --csv 'out/{run}.csv'", target, len(runs))
+			return nil, fmt.Errorf("--csv %s: %d runs need a folder (ending in /) or a pattern with {run}, for example --csv 'out/{run}.csv'", target, len(names))
 		}
 		if seen[p] {
 			return nil, fmt.Errorf("--csv %s: two runs would write %s", target, p)
@@ -99,13 +103,22 @@ func CSVPaths(target, deck string, runs []study.Run) ([]string, error) {
 	return paths, nil
 }
 
-// RunName is a run's name for files: "8kV_pos", "C1.value-1u_8kV_pos".
-func RunName(r *study.Run) string {
-	var parts []string
-	for _, s := range r.Variant {
-		parts = append(parts, s.Element+"."+s.Param+"-"+s.Value)
+// column is a CSV column's heading: the name and its unit, "n1 [V]".
+func column(name string, unit spec.Unit) string {
+	if unit == "" {
+		return name
 	}
-	parts = append(parts, netlist.FormatSI(r.Level, r.LevelUnit), r.Polarity)
+	return name + " [" + string(unit) + "]"
+}
+
+// RunName is a run's name for files: "8kV_pos", "C1.value-1u_8kV_pos";
+// the level is in unit, the waveform's.
+func RunName(v netlist.Variant, level float64, unit spec.Unit, polarity string) string {
+	var parts []string
+	for _, s := range v {
+		parts = append(parts, s.Target()+"-"+s.Text)
+	}
+	parts = append(parts, spec.FormatSI(level, unit), polarity)
 	name := strings.Join(parts, "_")
 	return strings.Map(func(c rune) rune {
 		switch {

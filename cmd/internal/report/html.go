@@ -6,9 +6,12 @@ import (
 	"fmt"
 	"html/template"
 	"io"
+	"regexp"
 	"strings"
 
-	"zapnet/cmd/internal/study"
+	"zapnet/devices/spec"
+	"zapnet/mna/study"
+	"zapnet/mna/study/whatif"
 )
 
 // Figure is a picture in the HTML report: an SVG document drawn by package
@@ -25,7 +28,7 @@ type Figure struct {
 type HTMLOptions struct {
 	// Meta names the tool, the deck and its title. Zero: no title (the
 	// report is headed "zapnet report") and no deck path.
-	Meta Meta
+	Meta study.Meta
 	// Source is the deck's text, listed as written with line numbers.
 	// Nil: no listing.
 	Source []byte
@@ -37,6 +40,16 @@ type HTMLOptions struct {
 	Overlays []Figure
 	// OverlaysTitle heads the overlays. Empty: "Every run compared".
 	OverlaysTitle string
+	// Signal is the signal side (zapnet ac), shown after the runs. Nil:
+	// none.
+	Signal *SignalSection
+}
+
+// SignalSection is the signal side in the HTML report: its tables as
+// printed (ACTables) and its figures.
+type SignalSection struct {
+	Text    string
+	Figures []Figure
 }
 
 // HTML writes the report as one self-contained page: inline CSS, inline SVG,
@@ -67,7 +80,8 @@ func HTML(w io.Writer, runs []study.Run, opt *HTMLOptions) error {
 		page.Tool = "zapnet"
 	}
 	var err error
-	if page.Overlays, err = htmlFigures("fig", opt.Overlays); err != nil {
+	styles := &figureStyles{class: map[string]string{}}
+	if page.Overlays, err = htmlFigures("fig", opt.Overlays, styles); err != nil {
 		return err
 	}
 	for _, r := range runs {
@@ -75,10 +89,15 @@ func HTML(w io.Writer, runs []study.Run, opt *HTMLOptions) error {
 			page.Variants = true
 		}
 	}
+	if ranks := whatif.RankVariants(runs); len(ranks) > 1 {
+		head, rows := rankingRows(ranks)
+		t := htmlTableOf("variants-ranked", rankingTitle, head, rows)
+		page.Ranking = &t
+	}
 	for i := range runs {
 		r := &runs[i]
 		id := fmt.Sprintf("run-%d", i+1)
-		row := htmlSummaryRow{ID: id, Variant: study.VariantString(r.Variant), Level: si(r.Level, r.LevelUnit),
+		row := htmlSummaryRow{ID: id, Variant: r.Variant.String(), Level: si(r.Level, r.LevelUnit),
 			Polarity: r.Polarity, Verdict: string(r.Verdict), Class: verdictClass(r.Verdict), Worst: worstText(r)}
 		page.Summary = append(page.Summary, row)
 		hr := htmlRun{ID: id, Class: row.Class, Verdict: row.Verdict, Heading: runHeading(r, i, len(runs))}
@@ -93,11 +112,17 @@ func HTML(w io.Writer, runs []study.Run, opt *HTMLOptions) error {
 		}
 		hr.Failures, hr.Notes = r.Failures, r.Notes
 		if i < len(opt.RunFigures) {
-			if hr.Figures, err = htmlFigures(id+"-fig", opt.RunFigures[i]); err != nil {
+			if hr.Figures, err = htmlFigures(id+"-fig", opt.RunFigures[i], styles); err != nil {
 				return err
 			}
 		}
 		page.Runs = append(page.Runs, hr)
+	}
+	if opt.Signal != nil {
+		page.Signal = &htmlSignal{Text: opt.Signal.Text}
+		if page.Signal.Figures, err = htmlFigures("signal-fig", opt.Signal.Figures, styles); err != nil {
+			return err
+		}
 	}
 	// The page says "runs" even of one run; the text summary says "run".
 	page.Count = verdictCount(runs, "runs")
@@ -107,18 +132,27 @@ func HTML(w io.Writer, runs []study.Run, opt *HTMLOptions) error {
 			page.Listing = append(page.Listing, htmlLine{N: k + 1, Text: l})
 		}
 	}
+	page.FigureStyle = styles.css()
 	return htmlTemplate.Execute(w, page)
 }
 
 type htmlPage struct {
+	FigureStyle                         template.CSS
 	Title, Deck, Tool, Version, Caution string
 	OverlaysTitle                       string
 	Variants                            bool
 	Summary                             []htmlSummaryRow
 	Count                               string
+	Ranking                             *htmlTable
 	Overlays                            []htmlFigure
 	Runs                                []htmlRun
+	Signal                              *htmlSignal
 	Listing                             []htmlLine
+}
+
+type htmlSignal struct {
+	Text    string
+	Figures []htmlFigure
 }
 
 type htmlSummaryRow struct {
@@ -168,35 +202,21 @@ func verdictClass(v study.Verdict) string {
 func htmlRunTables(id string, r *study.Run) []htmlTable {
 	var ts []htmlTable
 	add := func(name, title string, head []string, rows [][]string) {
-		if len(rows) == 0 {
-			return
+		if len(rows) > 0 {
+			ts = append(ts, htmlTableOf(id+"-"+name, title, head, rows))
 		}
-		t := htmlTable{ID: id + "-" + name, Title: title}
-		for _, h := range head {
-			t.Head = append(t.Head, htmlCell{Text: h, Class: cellClass(h)})
-		}
-		for _, row := range rows {
-			var cells []htmlCell
-			for k, c := range row {
-				cl := cellClass(head[k])
-				if c == "FAIL" {
-					cl = "fail"
-				}
-				cells = append(cells, htmlCell{Text: c, Class: cl})
-			}
-			t.Rows = append(t.Rows, cells)
-		}
-		ts = append(ts, t)
 	}
 
 	// The pin table shows the ratings beside the residual pulse, unlike
 	// the text report's; the other rows are the text report's.
-	lim := limitsByName(r)
 	add("nodes", "Nodes", []string{"node", "role", "highest", "at", "lowest", "at"}, nodeRows(r))
-	add("clamps", "Clamps", []string{"clamp", "peak current", "at", "ipp", "energy", "emax"}, clampRows(r, lim))
+	add("clamps", "Clamps", []string{"clamp", "peak current", "at", "ipp", "energy", "emax"}, clampRows(r))
+	if bu := r.Burst; bu != nil {
+		add("burst", burstTitle(bu), burstHead(bu), burstRows(bu))
+	}
 
 	var pins [][]string
-	for _, p := range r.Pins {
+	for _, p := range r.Pins() {
 		vmax, vmin, above, below := "-", "-", "-", "-"
 		if p.HasVmax {
 			vmax, above = si(p.Vmax, "V"), si(p.AboveVmax, "s")
@@ -205,15 +225,37 @@ func htmlRunTables(id string, r *study.Run) []htmlTable {
 			vmin, below = si(p.Vmin, "V"), si(p.BelowVmin, "s")
 		}
 		pins = append(pins, []string{p.Name, si(p.Peak, "V"), si(p.TPeak, "s"), vmax, above,
-			si(p.Min, "V"), vmin, below, si(p.Energy, "J"), si(p.IPath, "A"), rating(lim[p.Name+" ifail"])})
+			si(p.Min, "V"), vmin, below, si(p.Energy, "J"), si(p.IPath, "A"), rating(r.LimitOn(p.Name, spec.PeakCurrent))})
 	}
 	add("pins", "Protected pins (residual pulse)", []string{"pin", "peak", "at", "vmax", "time above",
 		"lowest", "vmin", "time below", "energy in", "internal clamp", "ifail"}, pins)
 
-	add("capacitors", "Capacitors", []string{"capacitor", "peak voltage", "at", "rating"}, capacitorRows(r))
+	add("capacitors", "Capacitors", capacitorHead, capacitorRows(r))
 	add("ledger", "Energy ledger", ledgerHead, ledgerRows(r))
+	add("quiescent", quiescentTitle, quiescentHead, quiescentRows(r))
 	add("limits", "Limits", []string{"limit", "measured", "at", "rating", "margin", "margin %", "verdict"}, limitRows(r))
 	return ts
+}
+
+// htmlTableOf is a table of the text report as the page shows it: numbers
+// aligned right, a FAIL marked.
+func htmlTableOf(id, title string, head []string, rows [][]string) htmlTable {
+	t := htmlTable{ID: id, Title: title}
+	for _, h := range head {
+		t.Head = append(t.Head, htmlCell{Text: h, Class: cellClass(h)})
+	}
+	for _, row := range rows {
+		var cells []htmlCell
+		for k, c := range row {
+			cl := cellClass(head[k])
+			if c == "FAIL" {
+				cl = "fail"
+			}
+			cells = append(cells, htmlCell{Text: c, Class: cl})
+		}
+		t.Rows = append(t.Rows, cells)
+	}
+	return t
 }
 
 func cellClass(head string) string {
@@ -224,7 +266,7 @@ func cellClass(head string) string {
 }
 
 // htmlFigures checks and inlines figures; each gets the id PREFIX-NAME.
-func htmlFigures(prefix string, figs []Figure) ([]htmlFigure, error) {
+func htmlFigures(prefix string, figs []Figure, styles *figureStyles) ([]htmlFigure, error) {
 	var out []htmlFigure
 	seen := map[string]bool{}
 	for _, f := range figs {
@@ -233,7 +275,7 @@ func htmlFigures(prefix string, figs []Figure) ([]htmlFigure, error) {
 			return nil, fmt.Errorf("report: two figures named %q", id)
 		}
 		seen[id] = true
-		svg, err := inlineSVG(f.SVG)
+		svg, err := inlineSVG(f.SVG, styles)
 		if err != nil {
 			return nil, fmt.Errorf("report: figure %s: %w", f.Name, err)
 		}
@@ -248,17 +290,56 @@ var svgElements = map[string]bool{"svg": true, "g": true, "path": true, "text": 
 	"rect": true, "circle": true, "ellipse": true, "line": true, "polyline": true, "polygon": true,
 	"defs": true, "clipPath": true, "title": true, "desc": true}
 
+// figureStyles gathers the drawing styles of a page's figures, so that each
+// is written once in the page's style sheet and the elements name it: a
+// report of many figures repeats a dozen styles thousands of times.
+type figureStyles struct {
+	class map[string]string // style → class name
+	order []string          // styles by first use
+}
+
+// plainStyle is what a style attribute may hold to move into the page's
+// style sheet: declarations with nothing that could end the rule or the
+// style element.
+var plainStyle = regexp.MustCompile(`^[A-Za-z0-9 #:;,.%()_-]+$`)
+
+// name returns the class of a style, giving it one on first use.
+func (s *figureStyles) name(style string) string {
+	c, ok := s.class[style]
+	if !ok {
+		c = fmt.Sprintf("sv%d", len(s.order))
+		s.class[style] = c
+		s.order = append(s.order, style)
+	}
+	return c
+}
+
+// css is the style sheet of the classes given out.
+func (s *figureStyles) css() template.CSS {
+	var b strings.Builder
+	for _, st := range s.order {
+		fmt.Fprintf(&b, ".%s { %s }\n", s.class[st], st)
+	}
+	return template.CSS(b.String())
+}
+
 // inlineSVG returns the <svg> element of an SVG document for inlining in
 // HTML, after checking that it is well-formed and holds only drawing:
 // allowed elements, no event handler, no link, no style element, no url().
-func inlineSVG(doc []byte) (template.HTML, error) {
+// A plain style attribute of an element without a class becomes a class
+// of styles.
+func inlineSVG(doc []byte, styles *figureStyles) (template.HTML, error) {
 	k := bytes.Index(doc, []byte("<svg"))
 	if k < 0 {
 		return "", fmt.Errorf("no <svg> element")
 	}
 	body := doc[k:]
+	var out bytes.Buffer
+	out.Grow(len(body))
+	copied := int64(0)
 	d := xml.NewDecoder(bytes.NewReader(body))
 	for {
+		start := d.InputOffset()
 		tok, err := d.Token()
 		if err == io.EOF {
 			break
@@ -271,19 +352,42 @@ func inlineSVG(doc []byte) (template.HTML, error) {
 			if !svgElements[t.Name.Local] {
 				return "", fmt.Errorf("element <%s> is not drawing", t.Name.Local)
 			}
+			style, classed := "", false
 			for _, a := range t.Attr {
 				name := strings.ToLower(a.Name.Local)
 				if strings.HasPrefix(name, "on") || name == "href" || strings.Contains(strings.ToLower(a.Value), "url(") {
 					return "", fmt.Errorf("attribute %s of <%s> is not drawing", a.Name.Local, t.Name.Local)
 				}
+				switch name {
+				case "style":
+					style = a.Value
+				case "class":
+					classed = true
+				}
+			}
+			if styles == nil || classed || !plainStyle.MatchString(style) {
+				break
+			}
+			// The plain style's characters need no escaping, so the
+			// attribute is written in the tag exactly as its value.
+			end := d.InputOffset()
+			tag := body[start:end]
+			attr := []byte(`style="` + style + `"`)
+			if i := bytes.Index(tag, attr); i >= 0 {
+				out.Write(body[copied:start])
+				out.Write(tag[:i])
+				out.WriteString(`class="` + styles.name(style) + `"`)
+				out.Write(tag[i+len(attr):])
+				copied = end
 			}
 		case xml.ProcInst, xml.Directive:
 			return "", fmt.Errorf("processing instruction or directive inside the SVG")
 		}
 	}
+	out.Write(body[copied:])
 	// The markup was checked element by element above; text in it was
 	// escaped by the SVG writer.
-	return template.HTML(body), nil
+	return template.HTML(out.String()), nil
 }
 
 var htmlTemplate = template.Must(template.New("report").Parse(htmlSource))
@@ -330,7 +434,7 @@ figcaption { font-size: 0.85rem; color: #444; margin-top: 0.2rem; }
 pre.listing { background: #f6f7fa; border: 1px solid #dde; padding: 0.6rem 0.8rem; overflow-x: auto; font-size: 0.85rem; line-height: 1.35; }
 pre.listing .ln { display: inline-block; width: 2.5rem; color: #889; user-select: none; }
 footer { margin-top: 2.5rem; }
-</style>
+{{.FigureStyle}}</style>
 </head>
 <body>
 <header id="top">
@@ -365,16 +469,16 @@ footer { margin-top: 2.5rem; }
 </tbody>
 </table>
 <p id="summary-count">{{.Count}}</p>
+{{- with .Ranking}}
+<h3>{{.Title}}</h3>
+{{template "table" .}}
+{{- end}}
 </section>
 {{- end}}
 {{- if .Overlays}}
 <section id="overlays">
 <h2>{{.OverlaysTitle}}</h2>
-<div class="figures">
-{{- range .Overlays}}
-<figure id="{{.ID}}">{{.SVG}}<figcaption>{{.Caption}}</figcaption></figure>
-{{- end}}
-</div>
+{{template "figures" .Overlays}}
 </section>
 {{- end}}
 {{- range .Runs}}
@@ -386,14 +490,7 @@ footer { margin-top: 2.5rem; }
 <p>{{.Window}}</p>
 {{- range .Tables}}
 <h3>{{.Title}}</h3>
-<table id="{{.ID}}">
-<thead><tr>{{range .Head}}<th{{if .Class}} class="{{.Class}}"{{end}}>{{.Text}}</th>{{end}}</tr></thead>
-<tbody>
-{{- range .Rows}}
-<tr>{{range .}}<td{{if .Class}} class="{{.Class}}"{{end}}>{{.Text}}</td>{{end}}</tr>
-{{- end}}
-</tbody>
-</table>
+{{template "table" .}}
 {{- end}}
 <p id="{{.ID}}-verdict"><strong>Verdict: {{.Verdict}}</strong>{{if .Worst}}; worst margin {{.Worst}}{{end}}</p>
 {{- end}}
@@ -408,11 +505,16 @@ footer { margin-top: 2.5rem; }
 <p class="note">Note: {{.}}</p>
 {{- end}}
 {{- if .Figures}}
-<div class="figures">
-{{- range .Figures}}
-<figure id="{{.ID}}">{{.SVG}}<figcaption>{{.Caption}}</figcaption></figure>
+{{template "figures" .Figures}}
 {{- end}}
-</div>
+</section>
+{{- end}}
+{{- with .Signal}}
+<section id="signal">
+<h2>The signal's side</h2>
+<pre id="signal-tables" class="listing">{{.Text}}</pre>
+{{- if .Figures}}
+{{template "figures" .Figures}}
 {{- end}}
 </section>
 {{- end}}
@@ -432,4 +534,21 @@ footer { margin-top: 2.5rem; }
 </footer>
 </body>
 </html>
+{{- define "figures"}}
+<div class="figures">
+{{- range .}}
+<figure id="{{.ID}}">{{.SVG}}<figcaption>{{.Caption}}</figcaption></figure>
+{{- end}}
+</div>
+{{- end}}
+{{- define "table"}}
+<table id="{{.ID}}">
+<thead><tr>{{range .Head}}<th{{if .Class}} class="{{.Class}}"{{end}}>{{.Text}}</th>{{end}}</tr></thead>
+<tbody>
+{{- range .Rows}}
+<tr>{{range .}}<td{{if .Class}} class="{{.Class}}"{{end}}>{{.Text}}</td>{{end}}</tr>
+{{- end}}
+</tbody>
+</table>
+{{- end}}
 `

@@ -4,7 +4,7 @@ import (
 	"reflect"
 	"testing"
 
-	"zapnet/cmd/internal/study"
+	"zapnet/mna/study"
 )
 
 // A strike drawing current out of a node a supply holds takes energy: the
@@ -16,7 +16,7 @@ import (
 func TestLedgerRowsDirections(t *testing.T) {
 	r := &study.Run{
 		Elements: []study.ElementResult{{Name: "V1", Kind: "supply"}, {Name: "C1", Kind: "capacitor"}, {Name: "R1", Kind: "resistor"}},
-		Ledger: study.Ledger{Strike: -2e-6, Delivered: 4e-6, Balance: 0,
+		Ledger: study.Ledger{Strike: 2e-6, Delivered: 4e-6, Balance: 0,
 			Entries: []study.LedgerEntry{{Name: "V1", Energy: -3e-6}, {Name: "C1", Energy: -1e-6}, {Name: "R1", Energy: 2e-6}}},
 	}
 	want := [][]string{

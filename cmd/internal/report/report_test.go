@@ -10,7 +10,7 @@ import (
 	"strings"
 	"testing"
 
-	"zapnet/cmd/internal/study"
+	"zapnet/mna/study"
 	"zapnet/netlist"
 )
 
@@ -46,21 +46,24 @@ func TestWriteFileWholeOrNothing(t *testing.T) {
 
 func sampleRuns() []study.Run {
 	mk := func(i int, level float64, pol string, v netlist.Variant) study.Run {
-		r := study.Run{Job: study.Job{Index: i, Level: level, Polarity: pol, Variant: v},
+		r := study.Run{Index: i, Level: level, Polarity: pol, Variant: v,
 			Waveform: "iec61000-4-2", LevelUnit: "V"}
-		r.Limits = []study.Limit{study.NewLimit("U1", "vmax", "V", 5.5, 4.8, 1e-9, true),
-			study.NewLimit("D1", "emax", "J", 1e-3, 2e-6, math.NaN(), true)}
-		r.Ledger = study.Ledger{Strike: 4e-6, Entries: []study.LedgerEntry{{Name: "D1", Energy: 4e-6, Percent: 100}}, Balance: 1e-15}
+		r.Limits = []study.Limit{study.NewLimit("U1", "vmax", "V", 5.5, 4.8, 1e-9, true, "residual peak"),
+			study.NewLimit("D1", "emax", "J", 1e-3, 2e-6, math.NaN(), true, "energy")}
+		r.Ledger = study.Ledger{Strike: -4e-6, Entries: []study.LedgerEntry{{Name: "D1", Energy: 4e-6, Percent: 100}}, Balance: 1e-15}
 		study.Judge(&r)
 		return r
 	}
-	return []study.Run{mk(0, 8000, "pos", nil), mk(1, 8000, "neg", netlist.Variant{{Element: "C1", Param: "value", Value: "1u"}})}
+	return []study.Run{mk(0, 8000, "pos", nil), mk(1, 8000, "neg", netlist.Variant{{Element: "C1", Param: "value", Num: 1e-6, Text: "1u"}})}
 }
 
 // Several runs go to a folder or a pattern, one name per run; one file name
 // for several runs is refused.
 func TestCSVPaths(t *testing.T) {
-	runs := sampleRuns()
+	var runs []string
+	for _, r := range sampleRuns() {
+		runs = append(runs, RunName(r.Variant, r.Level, r.LevelUnit, r.Polarity))
+	}
 	got, err := CSVPaths("out/", "decks/demo.zap", runs)
 	if err != nil {
 		t.Fatal(err)
@@ -78,33 +81,6 @@ func TestCSVPaths(t *testing.T) {
 	}
 	if got, err := CSVPaths("one.csv", "demo.zap", runs[:1]); err != nil || got[0] != "one.csv" {
 		t.Errorf("one run: %v %v", got, err)
-	}
-}
-
-// The JSON reads back into the same document, energies without a time carry
-// no "at", and the ledger sums to its balance.
-func TestJSONRoundTrip(t *testing.T) {
-	var buf bytes.Buffer
-	meta := Meta{Tool: "zapnet", Version: "test", Deck: "demo.zap", Title: "t"}
-	if err := JSON(&buf, meta, sampleRuns()); err != nil {
-		t.Fatal(err)
-	}
-	doc, err := Decode(&buf)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if doc.Meta != meta || len(doc.Runs) != 2 {
-		t.Fatalf("decoded %+v", doc.Meta)
-	}
-	r := doc.Runs[1]
-	if r.Variant["C1.value"] != "1u" || r.Verdict != "PASS" || r.Worst == nil || r.Worst.Name != "U1 vmax" {
-		t.Errorf("run 1: %+v", r)
-	}
-	if r.Limits[1].At != nil {
-		t.Errorf("an energy limit has a time")
-	}
-	if r.Ledger["strike"] != -4e-6 || r.Ledger["D1"] != 4e-6 || r.Ledger["balance"] != 1e-15 {
-		t.Errorf("ledger %v", r.Ledger)
 	}
 }
 

@@ -10,8 +10,9 @@ import (
 	"github.com/olekukonko/tablewriter/renderer"
 	"github.com/olekukonko/tablewriter/tw"
 
-	"zapnet/cmd/internal/study"
-	"zapnet/netlist"
+	"zapnet/devices/spec"
+	"zapnet/mna/study"
+	"zapnet/waveforms"
 )
 
 // TableOptions tune the tables. A nil *TableOptions means every default.
@@ -72,7 +73,7 @@ func Summary(w io.Writer, runs []study.Run) error {
 	for _, r := range runs {
 		row := []string{si(r.Level, r.LevelUnit), r.Polarity, string(r.Verdict), worstText(&r)}
 		if variants {
-			row = append([]string{study.VariantString(r.Variant)}, row...)
+			row = append([]string{r.Variant.String()}, row...)
 		}
 		t.Append(toAny(row)...)
 	}
@@ -113,7 +114,7 @@ func verdictCount(runs []study.Run, noun string) string {
 func runHeading(r *study.Run, i, n int) string {
 	head := fmt.Sprintf("Run %d/%d: %s %s %s", i+1, n, r.Waveform, si(r.Level, r.LevelUnit), r.Polarity)
 	if len(r.Variant) > 0 {
-		head += ", " + study.VariantString(r.Variant)
+		head += ", " + r.Variant.String()
 	}
 	return head
 }
@@ -150,18 +151,20 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 
 	// Headers and the pin table are the text report's own; the rows of
 	// the other tables are the HTML report's too.
-	lim := limitsByName(r)
 	if nodes := nodeRows(r); len(nodes) > 0 {
 		section(w, "Nodes", []string{"node", "role", "highest", "at", "lowest", "at"}, nodes)
 	}
-	if clamps := clampRows(r, lim); len(clamps) > 0 {
+	if clamps := clampRows(r); len(clamps) > 0 {
 		section(w, "Clamps", []string{"clamp", "peak current", "at", "ipp (margin)", "energy", "emax (margin)"}, clamps)
+	}
+	if bu := r.Burst; bu != nil && len(bu.Elements) > 0 {
+		section(w, burstTitle(bu), burstHead(bu), burstRows(bu))
 	}
 
 	// The residual pulse at each protected pin; the ratings themselves are
 	// in the limits table.
 	var pins [][]string
-	for _, p := range r.Pins {
+	for _, p := range r.Pins() {
 		above, below := "-", "-"
 		if p.HasVmax {
 			above = si(p.AboveVmax, "s")
@@ -170,7 +173,7 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 			below = si(p.BelowVmin, "s")
 		}
 		pins = append(pins, []string{p.Name, si(p.Peak, "V"), si(p.TPeak, "s"), above,
-			si(p.Min, "V"), si(p.TMin, "s"), below, si(p.Energy, "J"), si(p.IPath, "A"), rating(lim[p.Name+" ifail"])})
+			si(p.Min, "V"), si(p.TMin, "s"), below, si(p.Energy, "J"), si(p.IPath, "A"), rating(r.LimitOn(p.Name, spec.PeakCurrent))})
 	}
 	if len(pins) > 0 {
 		section(w, "Protected pins (residual pulse)", []string{"pin", "peak", "at", "time > vmax",
@@ -178,9 +181,12 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 	}
 
 	if caps := capacitorRows(r); len(caps) > 0 {
-		section(w, "Capacitors", []string{"capacitor", "peak voltage", "at", "rating"}, caps)
+		section(w, "Capacitors", capacitorHead, caps)
 	}
 	section(w, "Energy ledger", ledgerHead, ledgerRows(r))
+	if rows := quiescentRows(r); len(rows) > 0 {
+		section(w, quiescentTitle, quiescentHead, rows)
+	}
 	if limits := limitRows(r); len(limits) > 0 {
 		section(w, "Limits", []string{"limit", "measured", "at", "rating", "margin", "margin %", ""}, limits)
 	}
@@ -220,26 +226,68 @@ func nodeRows(r *study.Run) [][]string {
 	return rows
 }
 
-// clampRows are the clamps against ipp and emax.
-func clampRows(r *study.Run, lim map[string]*study.Limit) [][]string {
+// clampRows are the protectors (clamps, diodes) against their pulse
+// ratings: peak current and energy.
+func clampRows(r *study.Run) [][]string {
 	var rows [][]string
 	for _, e := range r.Elements {
-		if e.Kind != netlist.Clamp {
+		if e.Role != spec.Protector {
 			continue
 		}
 		rows = append(rows, []string{e.Name, si(e.PeakCurrent, "A"), si(e.TPeak, "s"),
-			rating(lim[e.Name+" ipp"]), si(e.Energy, "J"), rating(lim[e.Name+" emax"])})
+			rating(r.LimitOn(e.Name, spec.PeakCurrent)), si(e.Energy, "J"), rating(r.LimitOn(e.Name, spec.Energy))})
 	}
 	return rows
 }
 
-// capacitorRows are the capacitors with a rating.
+// burstTitle heads a burst's table: its pulses, their spacing and the
+// bursts' (the burst's energies, not a pulse's, are the clamp's burden).
+func burstTitle(bu *study.BurstReport) string {
+	solved := "every pulse solved"
+	if bu.Extrapolated {
+		solved = fmt.Sprintf("%d pulses solved, the rest repeat them", bu.Solved)
+	}
+	return fmt.Sprintf("Burst: %d pulses %s apart (%s long), one burst every %s; %s", bu.Pulses,
+		si(bu.Period, "s"), si(bu.Length, "s"), si(bu.Every, "s"), solved)
+}
+
+// burstHead heads the burst table, shared by the text and HTML reports.
+func burstHead(bu *study.BurstReport) []string {
+	return []string{"clamp", "first pulse", "largest pulse", "one burst", "average power",
+		fmt.Sprintf("%d bursts (1 min)", bu.PerMinute), "average power (1 min)"}
+}
+
+// burstRows are each protector's energy per pulse, per burst and per
+// minute, with the average powers.
+func burstRows(bu *study.BurstReport) [][]string {
+	var rows [][]string
+	for _, e := range bu.Elements {
+		rows = append(rows, []string{e.Name, si(e.FirstPulse, "J"), si(e.LargestPulse, "J"), si(e.Energy, "J"),
+			si(e.Power, "W"), si(e.MinuteEnergy, "J"), si(e.MinutePower, "W")})
+	}
+	return rows
+}
+
+// capacitorHead heads the table of rated capacitors, shared by the text
+// and HTML reports.
+var capacitorHead = []string{"capacitor", "across terminals", "on dielectric", "at", "rating (margin)"}
+
+// capacitorRows are the elements rated on a voltage (the capacitors with a
+// rating): the largest voltage across their terminals, and on the
+// dielectric (across C alone, without the esr and esl drops), which is
+// what the rating judges.
 func capacitorRows(r *study.Run) [][]string {
 	var rows [][]string
-	for _, c := range r.Capacitors {
-		if c.HasRating {
-			rows = append(rows, []string{c.Name, si(c.Peak, "V"), si(c.TPeak, "s"), si(c.Rating, "V")})
+	for _, e := range r.Elements {
+		l := r.LimitOn(e.Name, spec.PeakVoltage)
+		if l == nil {
+			continue
 		}
+		terminals := "-"
+		if e.PeakVoltage != nil {
+			terminals = si(*e.PeakVoltage, "V")
+		}
+		rows = append(rows, []string{e.Name, terminals, si(l.Measured, l.Unit), si(l.At, "s"), rating(l)})
 	}
 	return rows
 }
@@ -253,7 +301,7 @@ var ledgerHead = []string{"where", "delivered", "absorbed", "share"}
 // what it still holds, or delivers what it gave back), and its share of all
 // the energy delivered, ending with the balance.
 func ledgerRows(r *study.Run) [][]string {
-	kind := map[string]netlist.Kind{}
+	kind := map[string]string{}
 	for _, e := range r.Elements {
 		kind[e.Name] = e.Kind
 	}
@@ -268,15 +316,67 @@ func ledgerRows(r *study.Run) [][]string {
 		}
 		return []string{name, "", si(in, "J"), share}
 	}
-	rows := [][]string{row("strike", -r.Ledger.Strike)}
+	rows := [][]string{row("strike", r.Ledger.Strike)}
 	for _, e := range r.Ledger.Entries {
-		rows = append(rows, row(e.Name+" ("+string(kind[e.Name])+")", e.Energy))
+		rows = append(rows, row(e.Name+" ("+kind[e.Name]+")", e.Energy))
 	}
 	bal := "-"
 	if r.Ledger.Delivered > 0 {
 		bal = percent(100 * r.Ledger.Balance / r.Ledger.Delivered)
 	}
 	return append(rows, []string{"balance (solver residual)", "", si(r.Ledger.Balance, "J"), bal})
+}
+
+// The power each element takes at the operating point, left out of the
+// ledger (shared by the text and HTML reports).
+var (
+	quiescentTitle = "Power at rest (left out of the ledger)"
+	quiescentHead  = []string{"where", "delivered", "absorbed"}
+)
+
+// quiescentRows are the elements that take or give power at rest.
+func quiescentRows(r *study.Run) [][]string {
+	var rows [][]string
+	for _, e := range r.Elements {
+		switch {
+		case e.Quiescent < 0:
+			rows = append(rows, []string{e.Name + " (" + e.Kind + ")", si(-e.Quiescent, "W"), ""})
+		case e.Quiescent > 0:
+			rows = append(rows, []string{e.Name + " (" + e.Kind + ")", "", si(e.Quiescent, "W")})
+		}
+	}
+	return rows
+}
+
+// CheckTable prints a waveform's calibration checks: each quantity as
+// computed, its published value and tolerance, whether it is within, and
+// where the published value comes from.
+func CheckTable(w io.Writer, checks []waveforms.Check) error {
+	head := []string{"quantity", "computed", "published", "tolerance", "result", "source"}
+	var rows [][]string
+	for _, c := range checks {
+		// A row with no published value and no window only shows how the
+		// stimulus comes out (an air discharge's first peak).
+		shown := math.IsNaN(c.Published) && math.IsInf(c.Lo, -1) && math.IsInf(c.Hi, 1)
+		pub := waveforms.FormatValue(c.Published, c.Unit)
+		switch {
+		case shown:
+			pub = "-"
+		case math.IsNaN(c.Published):
+			pub = "window"
+		}
+		result := "within"
+		switch {
+		case !c.Within:
+			result = "OUTSIDE"
+		case math.IsInf(c.Lo, -1) && math.IsInf(c.Hi, 1):
+			result = "-"
+		}
+		rows = append(rows, []string{c.Quantity, waveforms.FormatValue(c.Computed, c.Unit), pub, c.Tol, result, c.Source})
+	}
+	ew := &errWriter{w: w}
+	writeTable(ew, head, rows)
+	return ew.err
 }
 
 // limitRows are every limit with its margin, "FAIL" in the last column
@@ -298,14 +398,6 @@ func limitRows(r *study.Run) [][]string {
 	return rows
 }
 
-func limitsByName(r *study.Run) map[string]*study.Limit {
-	m := map[string]*study.Limit{}
-	for i := range r.Limits {
-		m[r.Limits[i].Name()] = &r.Limits[i]
-	}
-	return m
-}
-
 // rating renders a limit's value and its margin percentage, or "-".
 func rating(l *study.Limit) string {
 	if l == nil {
@@ -317,23 +409,30 @@ func rating(l *study.Limit) string {
 // section prints a titled table.
 func section(w io.Writer, title string, head []string, rows [][]string) {
 	fmt.Fprintln(w, title)
+	writeTable(w, head, rows)
+	fmt.Fprintln(w)
+}
+
+// textColumns are the headers of columns that hold words, aligned left;
+// every other column holds numbers, aligned right.
+var textColumns = map[string]bool{"quantity": true, "result": true, "source": true,
+	"node": true, "role": true, "clamp": true, "pin": true,
+	"capacitor": true, "where": true, "limit": true, "variant": true, "polarity": true,
+	"verdict": true, "worst margin": true, "level": true, "": true,
+	"parameter": true, "from": true, "what": true}
+
+// newTable is the house style: ASCII borders (safe in any terminal and log),
+// headers as written, words left and numbers right.
+// writeTable renders a table of the house style.
+func writeTable(w io.Writer, head []string, rows [][]string) {
 	t := newTable(w, head)
 	t.Header(toAny(head)...)
 	for _, r := range rows {
 		t.Append(toAny(r)...)
 	}
 	t.Render()
-	fmt.Fprintln(w)
 }
 
-// textColumns are the headers of columns that hold words, aligned left;
-// every other column holds numbers, aligned right.
-var textColumns = map[string]bool{"node": true, "role": true, "clamp": true, "pin": true,
-	"capacitor": true, "where": true, "limit": true, "variant": true, "polarity": true,
-	"verdict": true, "worst margin": true, "level": true, "": true}
-
-// newTable is the house style: ASCII borders (safe in any terminal and log),
-// headers as written, words left and numbers right.
 func newTable(w io.Writer, head []string) *tablewriter.Table {
 	align := make([]tw.Align, len(head))
 	for i, h := range head {
@@ -361,7 +460,7 @@ func toAny(s []string) []any {
 }
 
 // si is the one number format of every table.
-func si(v float64, unit string) string { return netlist.FormatSI(v, unit) }
+func si(v float64, unit spec.Unit) string { return spec.FormatSI(v, unit) }
 
 func percent(p float64) string {
 	if math.Abs(p) < 0.05 {

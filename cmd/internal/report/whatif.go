@@ -1,55 +1,15 @@
 package report
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
-	"sort"
+	"strconv"
 	"strings"
 
-	"zapnet/cmd/internal/study"
-	"zapnet/cmd/internal/whatif"
+	"zapnet/devices/spec"
+	"zapnet/mna/study/whatif"
 )
-
-// The what-if documents (OUTPUT.md, "What-if commands"): the tool, version,
-// deck and title of Meta, then the result's own fields.
-
-// RunShardDocument is the run document of a sharded or interrupted sweep:
-// Document plus the shard it is (for merge) and whether it was cut short.
-// Both extra fields are omitted for a whole, finished sweep, so the merged
-// shards encode exactly like the unsharded run.
-type RunShardDocument struct {
-	Document
-	Shard       *whatif.ShardInfo `json:"shard,omitempty"`
-	Interrupted bool              `json:"interrupted,omitempty"`
-}
-
-// MarginDocument is the JSON of `zapnet margin`.
-type MarginDocument struct {
-	Meta
-	*whatif.MarginResult
-}
-
-// SensitivityDocument is the JSON of `zapnet sensitivity`.
-type SensitivityDocument struct {
-	Meta
-	*whatif.SensitivityResult
-}
-
-// SpreadDocument is the JSON of `zapnet spread`.
-type SpreadDocument struct {
-	Meta
-	*whatif.SpreadResult
-}
-
-// EncodeJSON writes any document indented, with a final newline, as JSON
-// does for the run document.
-func EncodeJSON(w io.Writer, doc any) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(doc)
-}
 
 func init() {
 	// The what-if tables' word columns, aligned left like the others.
@@ -71,13 +31,22 @@ func heading(w io.Writer, title, deck, what string) {
 	fmt.Fprintf(w, "\n%s\n", what)
 }
 
+// rankingTitle heads the ranking of variants, in the terminal and the page.
+const rankingTitle = "Variants ranked by worst margin over every level and polarity"
+
 // VariantRanking prints the variants of a sweep ranked by their worst margin
 // over every level and polarity, the most margin first.
 func VariantRanking(w io.Writer, ranks []whatif.VariantRank) error {
 	ew := &errWriter{w: w}
-	fmt.Fprintln(ew, "\nVariants ranked by worst margin over every level and polarity")
-	head := []string{"rank", "variant", "worst margin", "worst at", "PASS", "FAIL"}
-	var rows [][]string
+	fmt.Fprintln(ew, "\n"+rankingTitle)
+	head, rows := rankingRows(ranks)
+	writeTable(ew, head, rows)
+	return ew.err
+}
+
+// rankingRows are the ranking's table, one row per variant.
+func rankingRows(ranks []whatif.VariantRank) (head []string, rows [][]string) {
+	head = []string{"rank", "variant", "worst margin", "worst at", "PASS", "FAIL"}
 	for _, r := range ranks {
 		worst, at := "no limits", "-"
 		switch {
@@ -87,16 +56,10 @@ func VariantRanking(w io.Writer, ranks []whatif.VariantRank) error {
 			worst = r.Worst.String()
 			at = si(r.WorstLevel, r.LevelUnit) + " " + r.WorstPolarity
 		}
-		rows = append(rows, []string{fmt.Sprint(r.Rank), study.VariantString(r.Variant), worst, at,
+		rows = append(rows, []string{fmt.Sprint(r.Rank), r.Variant.String(), worst, at,
 			fmt.Sprint(r.Passed), fmt.Sprint(r.Failed)})
 	}
-	t := newTable(ew, head)
-	t.Header(toAny(head)...)
-	for _, r := range rows {
-		t.Append(toAny(r)...)
-	}
-	t.Render()
-	return ew.err
+	return head, rows
 }
 
 // MarginTable prints a margin search: per variant and polarity the highest
@@ -123,11 +86,11 @@ func MarginTable(w io.Writer, r *whatif.MarginResult, title, deck string) error 
 		limiting := m.Limiting
 		if m.Error != "" {
 			pass, fail, mono, limiting = "-", "-", "-", "not solved"
-			notes = append(notes, fmt.Sprintf("%s %s: %s", VariantText(m.Variant), m.Polarity, m.Error))
+			notes = append(notes, fmt.Sprintf("%s %s: %s", m.Variant.String(), m.Polarity, m.Error))
 		} else if m.Note != "" {
-			notes = append(notes, fmt.Sprintf("%s %s: %s", VariantText(m.Variant), m.Polarity, m.Note))
+			notes = append(notes, fmt.Sprintf("%s %s: %s", m.Variant.String(), m.Polarity, m.Note))
 		}
-		t.Append(toAny([]string{VariantText(m.Variant), m.Polarity, pass, fail, limiting, mono, fmt.Sprint(m.Solves)})...)
+		t.Append(toAny([]string{m.Variant.String(), m.Polarity, pass, fail, limiting, mono, fmt.Sprint(m.Solves)})...)
 	}
 	t.Render()
 	for _, n := range notes {
@@ -141,25 +104,6 @@ func MarginTable(w io.Writer, r *whatif.MarginResult, title, deck string) error 
 	return ew.err
 }
 
-// VariantText renders a JSON variant map in its settings' order of names,
-// "deck" for the deck as written; commands name a variant in messages with
-// it too.
-func VariantText(v map[string]string) string {
-	if len(v) == 0 {
-		return "deck"
-	}
-	keys := make([]string, 0, len(v))
-	for k := range v {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	var s []string
-	for _, k := range keys {
-		s = append(s, k+"="+v[k])
-	}
-	return strings.Join(s, " ")
-}
-
 // SensitivityTable prints the parameters ranked by what ±step does to the
 // worst margin.
 func SensitivityTable(w io.Writer, r *whatif.SensitivityResult, title, deck string) error {
@@ -171,7 +115,7 @@ func SensitivityTable(w io.Writer, r *whatif.SensitivityResult, title, deck stri
 	}
 	heading(ew, title, deck, fmt.Sprintf("Sensitivity: each parameter ±%s, effect on the %s", pct, which))
 	if len(r.Variant) > 0 {
-		fmt.Fprintf(ew, "Design: %s\n", VariantText(r.Variant))
+		fmt.Fprintf(ew, "Design: %s\n", r.Variant.String())
 	}
 	fmt.Fprintf(ew, "Baseline %s: %s (%s)\n", which, percentText(r.Baseline), r.BaselineLimiting)
 	head := []string{"rank", "param", "nominal", "−" + pct, "+" + pct, "effect", "limiting"}
@@ -220,11 +164,11 @@ func SpreadTable(w io.Writer, r *whatif.SpreadResult, title, deck string) error 
 	ew := &errWriter{w: w}
 	heading(ew, title, deck, fmt.Sprintf("Spread: %d circuits drawn with seed %d", r.Runs, r.Seed))
 	if len(r.Variant) > 0 {
-		fmt.Fprintf(ew, "Design: %s\n", VariantText(r.Variant))
+		fmt.Fprintf(ew, "Design: %s\n", r.Variant.String())
 	}
 	var tol [][]string
 	for _, t := range r.Tolerances {
-		tol = append(tol, []string{t.Param, si(t.Nominal, t.Unit), fmt.Sprintf("±%g %%", t.Percent), t.Dist})
+		tol = append(tol, []string{t.Param, si(t.Nominal, t.Unit), fmt.Sprintf("±%s %%", strconv.FormatFloat(t.Percent, 'g', 6, 64)), t.Dist})
 	}
 	section(ew, "Tolerances", []string{"param", "nominal", "tolerance", "distribution"}, tol)
 
@@ -293,7 +237,7 @@ func percentileRows(measures []string, ps map[string]whatif.Percentiles) [][]str
 }
 
 // measureUnit is the SI unit of a spread measurement by its name.
-func measureUnit(m string) string {
+func measureUnit(m string) spec.Unit {
 	switch {
 	case strings.HasSuffix(m, ".energy"):
 		return "J"

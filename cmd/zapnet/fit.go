@@ -1,0 +1,155 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"zapnet/cmd/internal/plots"
+	"zapnet/cmd/internal/report"
+	"zapnet/mna/fit"
+	"zapnet/netlist/datafile"
+)
+
+// fitCaution ends every fit report (SAFETY.md).
+const fitCaution = "A fitted model is an estimate of a part from its data, and a simulation with it an estimate, not a compliance result."
+
+const fitUsage = `Usage:
+  zapnet fit clamp (--tlp FILE.csv | --datasheet FILE | --point 'KEY VALUE [@ COND] [PULSE]'...) [options]
+  zapnet fit bead  (--touchstone FILE[@BIAS]... | --z FILE.csv) [options]
+  zapnet fit pin   (--tlp FILE.csv | --ibis FILE --model NAME) [options]
+
+Turns the data a part comes with (TLP curves, datasheet points, impedance
+curves, Touchstone and IBIS files) into a part line for a deck, with every
+data point beside the fitted model. Run 'zapnet fit clamp --help' (or bead,
+pin) for the options and a worked example.
+`
+
+// fitOutputs are the options every fit shares.
+type fitOutputs struct {
+	name string // the part's name; "" from the data
+	json string // --json file, "-" stdout
+	plot string // --plot folder
+}
+
+// runFit dispatches zapnet fit clamp|bead|pin.
+func runFit(args []string, stdout, stderr io.Writer) error {
+	if len(args) == 0 || args[0] == "-h" || args[0] == "--help" {
+		fmt.Fprint(stderr, fitUsage)
+		if len(args) == 0 {
+			return errors.New("fit: say what to fit: clamp, bead or pin")
+		}
+		return nil
+	}
+	switch args[0] {
+	case "clamp":
+		return runFitClamp(args[1:], stdout, stderr)
+	case "bead":
+		return runFitBead(args[1:], stdout, stderr)
+	case "pin":
+		return runFitPin(args[1:], stdout, stderr)
+	}
+	return fmt.Errorf("fit: unknown part %q: fit clamp, bead or pin", args[0])
+}
+
+// readData reads a data file for a fit.
+func readData(path string) ([]byte, error) {
+	b, err := os.ReadFile(path)
+	if err != nil {
+		var pe *os.PathError
+		if errors.As(err, &pe) {
+			return nil, fmt.Errorf("cannot read %s: %v", pe.Path, pe.Err)
+		}
+		return nil, err
+	}
+	return b, nil
+}
+
+// stem is a file's name without folder and extension: the default part
+// name.
+func stem(path string) string {
+	b := filepath.Base(path)
+	b = strings.TrimSuffix(b, filepath.Ext(b))
+	// A part name starts with a letter or _ and holds letters, digits, _,
+	// - and . (LANGUAGE.md).
+	var out strings.Builder
+	for i, r := range b {
+		ok := r == '_' || r == '-' || r == '.' || (r >= 'a' && r <= 'z') || (r >= 'A' && r <= 'Z') || (r >= '0' && r <= '9')
+		if !ok {
+			r = '_'
+		}
+		if i == 0 && !(r == '_' || (r >= 'a' && r <= 'z') || (r >= 'A' && r <= 'Z')) {
+			out.WriteRune('p')
+		}
+		out.WriteRune(r)
+	}
+	if out.Len() == 0 {
+		return "fitted"
+	}
+	return out.String()
+}
+
+// check checks every output of a fit before the fit runs (see outputs):
+// none may be one of the data files read, --plot's folder is made now.
+func (o fitOutputs) check(inputs []string, files ...string) error {
+	out := newOutputs(inputs...)
+	out.file("--json", o.json)
+	out.dir("--plot", o.plot)
+	for k := 0; k+1 < len(files); k += 2 {
+		out.file(files[k], files[k+1])
+	}
+	return out.err()
+}
+
+// finishFit prints the report of a fit and writes what was asked, every
+// file whole or not at all.
+func finishFit(doc fit.Document, o fitOutputs, stdout io.Writer) error {
+	doc.Tool, doc.Version = "zapnet", Version
+	var errs []error
+	if o.plot != "" {
+		figs, err := plots.FitFigures(&doc, nil)
+		if err != nil {
+			errs = append(errs, fmt.Errorf("--plot: %w", err))
+		} else {
+			for _, f := range figs {
+				path := filepath.Join(o.plot, doc.Name+"_"+f.Name+".svg")
+				if err := report.WriteFile(path, func(w io.Writer) error { _, err := w.Write(f.SVG); return err }); err != nil {
+					errs = append(errs, fmt.Errorf("--plot: %w", err))
+				}
+			}
+		}
+	}
+	if o.json != "" {
+		if o.json == "-" {
+			return errors.Join(append(errs, report.EncodeJSON(stdout, doc))...)
+		}
+		if err := report.WriteFile(o.json, func(w io.Writer) error { return report.EncodeJSON(w, doc) }); err != nil {
+			errs = append(errs, fmt.Errorf("--json: %w", err))
+		}
+	}
+	if err := report.FitText(stdout, &doc, fitCaution); err != nil {
+		errs = append(errs, err)
+	}
+	return errors.Join(errs...)
+}
+
+// fitError says that a data file is unusable, listing its problems one a
+// line as file:line:col: message.
+func fitError(what string, err error) error {
+	var list datafile.ErrorList
+	if errors.As(err, &list) {
+		n := 0
+		var lines []string
+		for _, e := range list {
+			lines = append(lines, e.Error())
+			if !e.Warning {
+				n++
+			}
+		}
+		return fmt.Errorf("%s: %d problem(s):\n%s", what, n, strings.Join(lines, "\n"))
+	}
+	return fmt.Errorf("%s: %w", what, err)
+}

@@ -1,0 +1,412 @@
+package whatif
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"sort"
+	"strconv"
+
+	"zapnet/devices/spec"
+	"zapnet/mna/study"
+	"zapnet/netlist"
+)
+
+// SpreadOptions tune a statistical spread. A nil *SpreadOptions means every
+// default; a zero field means that field's default.
+type SpreadOptions struct {
+	// Study chooses the levels and polarities each drawn circuit is struck
+	// with (nil: the deck's), the window, the engine settings and the
+	// workers (zero: every core). Its Variants and Record are ignored.
+	Study study.Options
+	// Runs is the number of circuits drawn. Zero: 1000.
+	Runs int
+	// Seed seeds the draws; every seed, zero included, is a valid one.
+	Seed uint64
+	// Tolerances replace the deck's tolerance lines. Nil: the deck's.
+	Tolerances []netlist.Tolerance
+	// Shard selects the drawn circuits (by index) this process solves.
+	// Zero: all.
+	Shard study.Shard
+	// Progress, when set, is told after each finished circuit.
+	Progress Progress
+}
+
+// DefaultRuns is the number of circuits drawn when SpreadOptions.Runs is 0.
+const DefaultRuns = 1000
+
+// SpreadResult is the distribution of a spread. Its JSON is the "spread"
+// object of OUTPUT.md with additions; Samples keep every circuit's
+// measurements so that MergeSpreads recomputes the percentiles of joined
+// shards exactly.
+type SpreadResult struct {
+	// Runs is the number of circuits of the whole study (all shards).
+	Runs int    `json:"runs"`
+	Seed uint64 `json:"seed"`
+	// Variant is the design the draws are around: the command line's
+	// settings over the deck ({} for the deck as written). The caller sets
+	// it.
+	Variant netlist.Variant `json:"variant"`
+	// Solved counts the circuits in Samples whose every strike was solved;
+	// the statistics are over those. Passed counts those that passed at
+	// every level and polarity.
+	Solved       int     `json:"solved"`
+	Passed       int     `json:"passed"`
+	PassFraction float64 `json:"pass_fraction"`
+	// CI95 is the Wilson score interval of the pass fraction (Wilson95).
+	CI95 [2]float64 `json:"ci95"`
+	// Percentiles are per measurement, of each circuit's worst case over
+	// its levels and polarities: the highest residual peak, the lowest
+	// residual low, the largest clamp energy and current, the smallest
+	// worst margin (percent of the limit).
+	Percentiles map[string]Percentiles `json:"percentiles"`
+	// Conditions are the same statistics per level and polarity.
+	Conditions []Condition    `json:"conditions"`
+	Tolerances []ToleranceUse `json:"tolerances"`
+	Waveform   string         `json:"waveform"`
+	LevelUnit  spec.Unit      `json:"level_unit"`
+	// Measures name the columns of Sample.Values.
+	Measures []string `json:"measures"`
+	Samples  []Sample `json:"samples"`
+	Notes    []string `json:"notes,omitempty"`
+	// Shard is set on the output of one shard: its statistics are of its
+	// own circuits only, until merged.
+	Shard *study.ShardInfo `json:"shard,omitempty"`
+	// Interrupted says the context was cancelled: Samples hold the
+	// circuits that finished.
+	Interrupted bool `json:"interrupted,omitempty"`
+}
+
+// Condition is one level and polarity of a spread.
+type Condition struct {
+	Level        float64                `json:"level"`
+	Polarity     string                 `json:"polarity"`
+	Passed       int                    `json:"passed"`
+	PassFraction float64                `json:"pass_fraction"`
+	CI95         [2]float64             `json:"ci95"`
+	Percentiles  map[string]Percentiles `json:"percentiles"`
+}
+
+// ToleranceUse is one tolerance as the spread applied it.
+type ToleranceUse struct {
+	Param   string    `json:"param"` // "D1.vbr"
+	Nominal float64   `json:"nominal"`
+	Unit    spec.Unit `json:"unit"` // of Nominal
+	Percent float64   `json:"percent"`
+	Dist    string    `json:"dist"`
+}
+
+// Sample is one drawn circuit: per condition (in Conditions order) its
+// verdict and its measurements (in Measures order).
+type Sample struct {
+	Index    int         `json:"index"`
+	Verdicts []string    `json:"verdicts"`
+	Values   [][]float64 `json:"values"`
+	// Error is why a strike of this circuit could not be solved; the
+	// circuit is then left out of the statistics.
+	Error string `json:"error,omitempty"`
+}
+
+// measure is one column of a sample: how to read it from a run and how the
+// worst case over conditions combines.
+type measure struct {
+	name   string
+	read   func(r *study.Run) float64
+	higher bool // the worst case is the highest value (else the lowest)
+}
+
+// Spreads draws opt.Runs circuits from the tolerances around c, strikes
+// each at every level and polarity of the study and summarises the
+// results.
+//
+// Circuit k draws its values from its own generator, PCG seeded by a hash of
+// (Seed, k), one draw per tolerance in deck order; so circuit k is the same
+// whatever the number of workers, the shard that solves it or the number of
+// circuits before it. A uniform tolerance of x % gives the nominal value
+// times 1 + x/100·u, u uniform on [−1, 1). A normal one gives 1 + x/100·z/3,
+// z standard normal truncated to |z| ≤ 3 by drawing again: x % is three
+// standard deviations (the deck language's convention), and a part outside
+// its stated tolerance is one a supplier screens out, so none is drawn
+// (truncation also keeps a positive parameter positive).
+func Spreads(ctx context.Context, c *netlist.Circuit, opt *SpreadOptions) (*SpreadResult, error) {
+	if opt == nil {
+		opt = &SpreadOptions{}
+	}
+	if c.Strike() == nil {
+		return nil, errors.New("the deck has no strike: add a strike line")
+	}
+	n := opt.Runs
+	if n == 0 {
+		n = DefaultRuns
+	}
+	if n < 0 {
+		return nil, fmt.Errorf("spread: %d runs: give a positive number", n)
+	}
+	tols := opt.Tolerances
+	if tols == nil {
+		tols = c.Tolerances
+	}
+	if len(tols) == 0 {
+		return nil, errors.New("the deck has no tolerance line: nothing to spread (add for example tolerance C1.value=10%)")
+	}
+	res := &SpreadResult{Runs: n, Seed: opt.Seed, Variant: netlist.Variant{}, Shard: opt.Shard.Info(n)}
+	for _, t := range tols {
+		e := c.Element(t.Element)
+		if e == nil || !e.Values.Has(t.Param) {
+			return nil, fmt.Errorf("tolerance %s.%s: the circuit has no such number", t.Element, t.Param)
+		}
+		if t.Dist != "uniform" && t.Dist != "normal" {
+			return nil, fmt.Errorf("tolerance %s.%s: distribution %q: use uniform or normal", t.Element, t.Param, t.Dist)
+		}
+		res.Tolerances = append(res.Tolerances, ToleranceUse{Param: t.Element + "." + t.Param,
+			Nominal: e.Values.Num(t.Param), Unit: e.Unit(t.Param), Percent: t.Percent, Dist: t.Dist})
+	}
+	if len(c.Vary) > 0 {
+		res.Notes = append(res.Notes, "the deck's vary lines are left out: a spread draws around one design (choose it with --set)")
+	}
+
+	jobs, err := study.Jobs(c, &study.Options{Levels: opt.Study.Levels, Polarities: opt.Study.Polarities,
+		Variants: []netlist.Variant{nil}})
+	if err != nil {
+		return nil, err
+	}
+	res.Waveform = c.Strike().Waveform.Name
+	res.LevelUnit = c.Strike().Waveform.Unit
+	for _, j := range jobs {
+		res.Conditions = append(res.Conditions, Condition{Level: j.Level, Polarity: j.Polarity})
+	}
+	ms := measuresOf(c)
+	for _, m := range ms {
+		res.Measures = append(res.Measures, m.name)
+	}
+
+	mine := opt.Shard.Items(n)
+	samples := make([]Sample, len(mine))
+	sopt := opt.Study
+	sopt.Record = false
+	finished := study.ForEach(ctx, workerCount(opt.Study.Workers), len(mine), opt.Progress, func(_ int, i int) {
+		k := mine[i]
+		s := Sample{Index: k}
+		defer func() { samples[i] = s }()
+		settings := Draw(c, tols, opt.Seed, k)
+		dc, err := c.With(settings...)
+		if err == nil {
+			var b *study.Bench
+			if b, err = study.NewBench(dc, nil); err == nil {
+				for _, j := range jobs {
+					r, err := b.Solve(j.Level, j.Polarity, &sopt)
+					if err != nil {
+						s.Error = fmt.Sprintf("%s %s: %v", spec.FormatSI(j.Level, res.LevelUnit), j.Polarity, err)
+						return
+					}
+					s.Verdicts = append(s.Verdicts, string(r.Verdict))
+					row := make([]float64, len(ms))
+					for mi, m := range ms {
+						row[mi] = jsonSafe(m.read(r))
+					}
+					s.Values = append(s.Values, row)
+				}
+				return
+			}
+		}
+		s.Error = err.Error()
+	})
+	for i := range mine {
+		if finished[i] {
+			res.Samples = append(res.Samples, samples[i])
+		} else {
+			res.Interrupted = true
+		}
+	}
+	res.summarise()
+	return res, nil
+}
+
+// Draw returns the settings of drawn circuit k: one value per tolerance,
+// from the nominal value of c (see Spreads for the distributions).
+func Draw(c *netlist.Circuit, tols []netlist.Tolerance, seed uint64, k int) []netlist.Setting {
+	a, b := drawSeeds(seed, k)
+	rng := rand.New(rand.NewPCG(a, b))
+	out := make([]netlist.Setting, 0, len(tols))
+	for _, t := range tols {
+		nominal := c.Element(t.Element).Values.Num(t.Param)
+		var f float64
+		switch t.Dist {
+		case "normal":
+			z := rng.NormFloat64()
+			for math.Abs(z) > 3 {
+				z = rng.NormFloat64()
+			}
+			f = 1 + t.Percent/100*z/3
+		default:
+			f = 1 + t.Percent/100*(2*rng.Float64()-1)
+		}
+		v := nominal * f
+		out = append(out, netlist.Setting{Element: t.Element, Param: t.Param, Num: v,
+			Text: strconv.FormatFloat(v, 'g', -1, 64)})
+	}
+	return out
+}
+
+// drawSeeds derives the two PCG seeds of circuit k from the study's seed
+// with SplitMix64's finaliser (Steele, Lea and Flood, "Fast splittable
+// pseudorandom number generators", OOPSLA 2014), so that neighbouring
+// indices and seeds give unrelated streams.
+func drawSeeds(seed uint64, k int) (uint64, uint64) {
+	a := splitmix(seed ^ splitmix(uint64(k)+0x632be59bd9b4e019))
+	return a, splitmix(a ^ 0x9e3779b97f4a7c15)
+}
+
+func splitmix(x uint64) uint64 {
+	x += 0x9e3779b97f4a7c15
+	x = (x ^ (x >> 30)) * 0xbf58476d1ce4e5b9
+	x = (x ^ (x >> 27)) * 0x94d049bb133111eb
+	return x ^ (x >> 31)
+}
+
+// measuresOf lists what a spread records for c: each protected pin's
+// residual peak and low, each clamp's energy and peak current, and the worst
+// margin when the circuit has limits.
+func measuresOf(c *netlist.Circuit) []measure {
+	var ms []measure
+	for _, e := range c.Elements {
+		name := e.Name
+		find := func(r *study.Run) *study.ElementResult {
+			for j := range r.Elements {
+				if r.Elements[j].Name == name {
+					return &r.Elements[j]
+				}
+			}
+			return &study.ElementResult{}
+		}
+		residual := func(r *study.Run) *study.Residual {
+			if p := find(r).Residual; p != nil {
+				return p
+			}
+			return &study.Residual{}
+		}
+		switch e.Kind.Role {
+		case spec.ProtectedPin:
+			ms = append(ms,
+				measure{name + ".residual.peak", func(r *study.Run) float64 { return residual(r).Peak }, true},
+				measure{name + ".residual.min", func(r *study.Run) float64 { return residual(r).Min }, false})
+		case spec.Protector:
+			ms = append(ms,
+				measure{name + ".energy", func(r *study.Run) float64 { return find(r).Energy }, true},
+				measure{name + ".peak_current", func(r *study.Run) float64 { return find(r).PeakCurrent }, true})
+		}
+	}
+	if hasLimits(c) {
+		ms = append(ms, measure{"worst_margin", func(r *study.Run) float64 {
+			if r.Worst == nil {
+				return math.NaN()
+			}
+			return r.Worst.Percent
+		}, false})
+	}
+	return ms
+}
+
+// hasLimits reports whether c rates anything (study.Run.Limits would be
+// non-empty).
+func hasLimits(c *netlist.Circuit) bool {
+	for _, w := range c.Watches {
+		if w.HasMax || w.HasMin {
+			return true
+		}
+	}
+	for _, e := range c.Elements {
+		if e.IsStrike() {
+			continue
+		}
+		for _, r := range e.Kind.Ratings() {
+			if e.Values.Has(r.Key) {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// jsonSafe maps values JSON cannot hold: ±Inf (a margin to a zero limit)
+// to the largest float of its sign, as the run JSON does; NaN to 0.
+func jsonSafe(v float64) float64 {
+	switch {
+	case math.IsNaN(v):
+		return 0
+	case math.IsInf(v, 0):
+		return math.Copysign(math.MaxFloat64, v)
+	}
+	return v
+}
+
+// summarise recomputes every statistic from Samples (sorted by index first).
+func (r *SpreadResult) summarise() {
+	sort.Slice(r.Samples, func(a, b int) bool { return r.Samples[a].Index < r.Samples[b].Index })
+	worstHigher := make([]bool, len(r.Measures))
+	for i, m := range r.Measures {
+		worstHigher[i] = !(m == "worst_margin" || hasSuffix(m, ".residual.min"))
+	}
+	r.Solved, r.Passed = 0, 0
+	cols := make([][]float64, len(r.Measures))
+	condCols := make([][][]float64, len(r.Conditions))
+	condPass := make([]int, len(r.Conditions))
+	for ci := range condCols {
+		condCols[ci] = make([][]float64, len(r.Measures))
+	}
+	for _, s := range r.Samples {
+		if s.Error != "" || len(s.Values) != len(r.Conditions) {
+			continue
+		}
+		r.Solved++
+		pass := true
+		for ci, v := range s.Verdicts {
+			if v == string(study.Pass) {
+				condPass[ci]++
+			} else {
+				pass = false
+			}
+		}
+		if pass {
+			r.Passed++
+		}
+		for mi := range r.Measures {
+			w := s.Values[0][mi]
+			for ci, row := range s.Values {
+				x := row[mi]
+				condCols[ci][mi] = append(condCols[ci][mi], x)
+				if (worstHigher[mi] && x > w) || (!worstHigher[mi] && x < w) {
+					w = x
+				}
+			}
+			cols[mi] = append(cols[mi], w)
+		}
+	}
+	r.PassFraction = fraction(r.Passed, r.Solved)
+	r.CI95[0], r.CI95[1] = Wilson95(r.Passed, r.Solved)
+	r.Percentiles = map[string]Percentiles{}
+	for mi, m := range r.Measures {
+		r.Percentiles[m] = Summarise(cols[mi])
+	}
+	for ci := range r.Conditions {
+		cd := &r.Conditions[ci]
+		cd.Passed = condPass[ci]
+		cd.PassFraction = fraction(cd.Passed, r.Solved)
+		cd.CI95[0], cd.CI95[1] = Wilson95(cd.Passed, r.Solved)
+		cd.Percentiles = map[string]Percentiles{}
+		for mi, m := range r.Measures {
+			cd.Percentiles[m] = Summarise(condCols[ci][mi])
+		}
+	}
+}
+
+func fraction(k, n int) float64 {
+	if n == 0 {
+		return 0
+	}
+	return float64(k) / float64(n)
+}
+
+func hasSuffix(s, suf string) bool { return len(s) >= len(suf) && s[len(s)-len(suf):] == suf }

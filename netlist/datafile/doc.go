@@ -1,0 +1,13 @@
+// Package datafile reads the measured and published data a user brings to
+// zapnet's fits and table models: TLP curves and impedance curves as CSV,
+// Touchstone network data (.s1p, .s2p, version 1 and 2), IBIS buffer models
+// (.ibs: clamp tables, C_comp, package parasitics) and zapnet's own small
+// datasheet-points format. Every reader takes a name (shown in messages) and
+// the file's bytes, reads the whole file and reports every problem it found
+// as file:line:col: message, sorted by position; it returns no data when any
+// problem is an error. Warnings (legal but doubtful data, such as a TLP
+// curve whose voltage falls as its current rises) come back beside the data.
+//
+// The package depends on the standard library only, so that device models
+// and the deck reader can both use it.
+package datafile

@@ -1,0 +1,523 @@
+package datafile
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+	"path/filepath"
+	"strconv"
+	"strings"
+)
+
+// Touchstone is the network data of a Touchstone file (the open format of
+// the IBIS Open Forum, versions 1.x and 2.x), converted to complex numbers
+// in SI units: S-parameters as they are, Z-parameters in ohms and
+// Y-parameters in siemens (version 1 stores both normalised to the
+// reference resistance; they are de-normalised here).
+type Touchstone struct {
+	Version int       // 1 or 2
+	Ports   int       // number of ports
+	Param   byte      // 'S', 'Y' or 'Z'
+	Format  string    // "RI", "MA" or "DB", as the file gave its pairs
+	R       float64   // the option line's reference resistance, Ω
+	Ref     []float64 // each port's reference resistance, Ω
+	Freq    []float64 // Hz, rising
+	// Data holds, for each frequency, the Ports×Ports matrix row-major:
+	// N[i][j] at i*Ports+j (zero-based ports).
+	Data [][]complex128
+	Pos  []Pos // where each frequency's record starts
+}
+
+// At returns N[i][j] (ports counted from 1) at frequency index k.
+func (t *Touchstone) At(k, i, j int) complex128 { return t.Data[k][(i-1)*t.Ports+(j-1)] }
+
+// tsToken is a number of the network data with its position.
+type tsToken struct {
+	text string
+	pos  Pos
+	eol  bool // the last number of its line
+}
+
+// ReadTouchstone reads a Touchstone file. name is shown in messages and,
+// for a version 1 file, its extension (.s1p, .s2p, .sNp) gives the number
+// of ports; without one, a first data line of 3 numbers means one port and
+// one of 9 numbers two.
+//
+// Version 1: comments from '!', an option line
+// `# <Hz|kHz|MHz|GHz> <S|Y|Z|H|G> <MA|DB|RI> R <n>` (any order, every part
+// optional; defaults GHz S MA R 50; only the first counts), then one record
+// per frequency: the frequency and the network data as pairs, a two-port's
+// in the order N11 N21 N12 N22, larger matrices row by row; a two-port file
+// may end with noise data, which starts where the frequency falls back and
+// is skipped.
+//
+// Version 2 adds the keywords [Version], [Number of Ports], [Two-Port Data
+// Order] (12_21: N11 N12 N21 N22; 21_12: N11 N21 N12 N22), [Number of
+// Frequencies], [Reference], [Matrix Format] (Full, Lower, Upper),
+// [Network Data], [Noise Data] and [End]; its Y- and Z-parameters are not
+// normalised. Mixed-mode data and H- and G-parameters are refused.
+func ReadTouchstone(name string, src []byte) (*Touchstone, error) {
+	var errs ErrorList
+	t := &Touchstone{Version: 1, Param: 'S', Format: "MA", R: 50}
+	unit := 1e9
+	seenOption, inData, inInfo, ended, noise := false, false, false, false, false
+	nFreq, nNoise := -1, -1
+	order := ""      // two-port data order, v2
+	matrix := "full" // v2 matrix format
+	var refs []float64
+	var refPos Pos
+	inRef := false
+	var toks []tsToken
+	first := true
+	for _, ln := range lines(src, '!') {
+		text := strings.TrimSpace(ln.text)
+		if text == "" {
+			continue
+		}
+		ws := words(ln.text)
+		at := func(f field) Pos { return Pos{name, ln.no, f.col} }
+		if ended {
+			errs.add(at(ws[0]), ErrSyntax, "text after [End]")
+			break
+		}
+		if inInfo {
+			if kw, _ := tsKeyword(ln.text); kw == "end information" {
+				inInfo = false
+			}
+			continue
+		}
+		if strings.HasPrefix(text, "[") {
+			inRef = false
+			kw, rest := tsKeyword(ln.text)
+			restWords := words(rest.text)
+			for k := range restWords {
+				restWords[k].col += rest.col - 1
+			}
+			if kw == "" {
+				errs.add(at(ws[0]), ErrSyntax, "a keyword's bracket is not closed")
+				continue
+			}
+			if first && kw != "version" {
+				// A version 1 file has no keywords.
+				errs.add(at(ws[0]), ErrSyntax, "keyword [%s] in a version 1 file (a version 2 file starts with [Version] 2.0)", kw)
+				first = false
+				continue
+			}
+			first = false
+			arg := func() (field, bool) {
+				if len(restWords) == 0 {
+					errs.add(at(ws[0]), ErrMissing, "[%s] needs a value", kw)
+					return field{}, false
+				}
+				return restWords[0], true
+			}
+			count := func() int {
+				f, ok := arg()
+				if !ok {
+					return -1
+				}
+				n, err := strconv.Atoi(f.text)
+				if err != nil || n < 1 {
+					errs.add(at(f), ErrNumber, "[%s] wants a whole number above 0, got %q", kw, f.text)
+					return -1
+				}
+				return n
+			}
+			switch kw {
+			case "version":
+				if f, ok := arg(); ok {
+					v, err := strconv.ParseFloat(f.text, 64)
+					if err != nil || v < 2 || v >= 3 {
+						errs.add(at(f), ErrUnsupported, "[Version] %s: zapnet reads versions 1.x and 2.x", f.text)
+					}
+				}
+				t.Version = 2
+			case "number of ports":
+				t.Ports = count()
+			case "two-port data order":
+				if f, ok := arg(); ok {
+					order = f.text
+					if order != "12_21" && order != "21_12" {
+						errs.add(at(f), ErrSyntax, "[Two-Port Data Order] is 12_21 or 21_12, not %q", f.text)
+					}
+				}
+			case "number of frequencies":
+				nFreq = count()
+			case "number of noise frequencies":
+				nNoise = count()
+			case "reference":
+				refPos = at(ws[0])
+				inRef = true
+				for _, f := range restWords {
+					refs = append(refs, tsReal(f, Pos{name, ln.no, f.col}, &errs))
+				}
+			case "matrix format":
+				if f, ok := arg(); ok {
+					matrix = strings.ToLower(f.text)
+					if matrix != "full" && matrix != "lower" && matrix != "upper" {
+						errs.add(at(f), ErrSyntax, "[Matrix Format] is Full, Lower or Upper, not %q", f.text)
+					}
+				}
+			case "mixed-mode order":
+				errs.add(at(ws[0]), ErrUnsupported, "mixed-mode data is not supported: give single-ended S-parameters")
+			case "begin information":
+				inInfo = true
+			case "network data":
+				if !seenOption {
+					errs.add(at(ws[0]), ErrMissing, "[Network Data] before the option line (# ...)")
+				}
+				inData = true
+			case "noise data":
+				inData, noise = false, true
+			case "end":
+				ended = true
+			default:
+				errs.add(at(ws[0]), ErrSyntax, "unknown keyword [%s]", kw)
+			}
+			continue
+		}
+		if strings.HasPrefix(text, "#") {
+			first = false
+			if seenOption {
+				continue // only the first option line counts
+			}
+			seenOption = true
+			unit = t.option(name, ln, &errs)
+			continue
+		}
+		first = false
+		if inRef {
+			for _, f := range ws {
+				refs = append(refs, tsReal(f, at(f), &errs))
+			}
+			continue
+		}
+		if noise {
+			continue
+		}
+		if t.Version == 2 && !inData {
+			errs.add(at(ws[0]), ErrSyntax, "data before [Network Data]")
+			continue
+		}
+		if !seenOption {
+			errs.add(at(ws[0]), ErrMissing, "data before the option line: the first line that is not a comment is # <unit> <parameter> <format> R <n>")
+			seenOption = true
+		}
+		for k, f := range ws {
+			toks = append(toks, tsToken{f.text, at(f), k == len(ws)-1})
+		}
+	}
+	if t.Version == 2 {
+		switch {
+		case t.Ports < 1:
+			errs.add(Pos{File: name}, ErrMissing, "a version 2 file needs [Number of Ports]")
+		case t.Ports == 2 && order == "":
+			errs.add(Pos{File: name}, ErrMissing, "a version 2 two-port file needs [Two-Port Data Order]")
+		}
+		if !ended && len(errs) == 0 {
+			errs.add(Pos{File: name}, ErrMissing, "a version 2 file ends with [End]")
+		}
+	} else {
+		order = "21_12"
+		t.Ports = tsPortsFromName(name)
+		if t.Ports == 0 && len(toks) > 0 {
+			n := 0
+			for _, tk := range toks {
+				n++
+				if tk.eol {
+					break
+				}
+			}
+			switch n {
+			case 3:
+				t.Ports = 1
+			case 9:
+				t.Ports = 2
+			default:
+				errs.add(toks[0].pos, ErrMissing, "cannot tell the number of ports: name the file .s1p, .s2p, ... (the first data line has %d numbers)", n)
+			}
+		}
+	}
+	if t.Ports < 1 {
+		errs.sort()
+		return nil, errs
+	}
+	_ = nNoise
+	t.Ref = make([]float64, t.Ports)
+	for k := range t.Ref {
+		t.Ref[k] = t.R
+	}
+	if refs != nil {
+		if len(refs) != t.Ports {
+			errs.add(refPos, ErrSyntax, "[Reference] gives %d resistances for %d ports", len(refs), t.Ports)
+		} else {
+			copy(t.Ref, refs)
+		}
+	}
+	t.records(name, toks, unit, order, matrix, &errs)
+	if nFreq > 0 && len(t.Freq) != nFreq && len(errs) == 0 {
+		errs.add(Pos{File: name}, ErrSyntax, "[Number of Frequencies] says %d, the data has %d", nFreq, len(t.Freq))
+	}
+	if len(t.Freq) == 0 && len(errs) == 0 {
+		errs.add(Pos{File: name}, ErrMissing, "no network data")
+	}
+	errs.sort()
+	if err := errs.Err(); err != nil {
+		return nil, err
+	}
+	return t, nil
+}
+
+// tsKeyword returns the lower-case keyword of a "[Keyword] rest" line and
+// the rest with its column.
+func tsKeyword(s string) (string, field) {
+	i := strings.IndexByte(s, '[')
+	j := strings.IndexByte(s, ']')
+	if i < 0 || j < i {
+		return "", field{}
+	}
+	kw := strings.ToLower(strings.Join(strings.Fields(s[i+1:j]), " "))
+	return kw, field{s[j+1:], len([]rune(s[:j+1])) + 1}
+}
+
+// tsReal reads a positive resistance.
+func tsReal(f field, pos Pos, errs *ErrorList) float64 {
+	v, msg := plain(f.text)
+	if msg != "" {
+		errs.add(pos, ErrNumber, "%s", msg)
+		return 50
+	}
+	if !(v > 0) {
+		errs.add(pos, ErrRange, "a reference resistance must be > 0, got %g", v)
+		return 50
+	}
+	return v
+}
+
+// option reads the option line and returns the frequency unit's factor.
+func (t *Touchstone) option(name string, ln line, errs *ErrorList) float64 {
+	unit := 1e9
+	hash := strings.Index(ln.text, "#")
+	ws := words(ln.text[hash+1:])
+	off := len([]rune(ln.text[:hash+1])) // rune column offset of the text after '#'
+
+	for k := 0; k < len(ws); k++ {
+		f := ws[k]
+		pos := Pos{name, ln.no, f.col + off}
+		switch w := strings.ToUpper(f.text); w {
+		case "HZ":
+			unit = 1
+		case "KHZ":
+			unit = 1e3
+		case "MHZ":
+			unit = 1e6
+		case "GHZ":
+			unit = 1e9
+		case "S", "Y", "Z":
+			t.Param = w[0]
+		case "H", "G":
+			errs.add(pos, ErrUnsupported, "%s-parameters are not supported: give S, Y or Z", w)
+		case "MA", "DB", "RI":
+			t.Format = w
+		case "R":
+			if k+1 >= len(ws) {
+				errs.add(pos, ErrMissing, "R needs the reference resistance after it")
+				continue
+			}
+			k++
+			t.R = tsReal(ws[k], Pos{name, ln.no, ws[k].col + off}, errs)
+		default:
+			errs.add(pos, ErrSyntax, "unknown option %q: the option line is # <Hz|kHz|MHz|GHz> <S|Y|Z> <MA|DB|RI> R <n>", f.text)
+		}
+	}
+	return unit
+}
+
+// tsPortsFromName reads N from a .sNp extension, 0 when there is none.
+func tsPortsFromName(name string) int {
+	ext := strings.ToLower(filepath.Ext(name))
+	if len(ext) < 4 || ext[1] != 's' || ext[len(ext)-1] != 'p' {
+		return 0
+	}
+	n, err := strconv.Atoi(ext[2 : len(ext)-1])
+	if err != nil || n < 1 {
+		return 0
+	}
+	return n
+}
+
+// records groups the data numbers into frequency records.
+func (t *Touchstone) records(name string, toks []tsToken, unit float64, order, matrix string, errs *ErrorList) {
+	n := t.Ports
+	entries := n * n
+	if matrix != "full" {
+		entries = n * (n + 1) / 2
+	}
+	size := 1 + 2*entries
+	for k := 0; k < len(toks); {
+		start := toks[k]
+		if f, msg := plain(start.text); msg == "" && t.Version == 1 && n == 2 {
+			if nf := len(t.Freq); nf > 0 && f*unit <= t.Freq[nf-1] {
+				return // version 1 noise data follows
+			}
+		}
+		if k+size > len(toks) {
+			errs.add(start.pos, ErrSyntax, "the record of frequency %s has %d numbers, a %d-port record needs %d (1 frequency + %d pairs)", start.text, len(toks)-k, n, size, entries)
+			return
+		}
+		rec := toks[k : k+size]
+		k += size
+		if !rec[size-1].eol {
+			errs.add(toks[k].pos, ErrSyntax, "a record ends inside a line: a %d-port record has %d numbers (1 frequency + %d pairs)", n, size, entries)
+			return
+		}
+		vals := make([]float64, size)
+		bad := false
+		for i, tk := range rec {
+			v, msg := plain(tk.text)
+			if msg != "" {
+				errs.add(tk.pos, ErrNumber, "%s", msg)
+				bad = true
+			}
+			vals[i] = v
+		}
+		if bad {
+			continue
+		}
+		f := vals[0] * unit
+		if nf := len(t.Freq); nf > 0 && f <= t.Freq[nf-1] {
+			errs.add(start.pos, ErrOrder, "frequency %s does not rise above the record before", start.text)
+			continue
+		}
+		if f < 0 {
+			errs.add(start.pos, ErrRange, "frequency %s: must be >= 0", start.text)
+			continue
+		}
+		m := make([]complex128, n*n)
+		for e := range entries {
+			a, b := vals[1+2*e], vals[2+2*e]
+			var z complex128
+			switch t.Format {
+			case "RI":
+				z = complex(a, b)
+			case "MA":
+				z = cmplx.Rect(a, b*math.Pi/180)
+			case "DB":
+				z = cmplx.Rect(math.Pow(10, a/20), b*math.Pi/180)
+			}
+			i, j := tsIndex(e, n, order, matrix)
+			m[i*n+j] = z
+			if matrix != "full" {
+				m[j*n+i] = z
+			}
+		}
+		t.normalise(m)
+		t.Freq = append(t.Freq, f)
+		t.Data = append(t.Data, m)
+		t.Pos = append(t.Pos, start.pos)
+	}
+}
+
+// tsIndex is the (row, column) of the e-th pair of a record.
+func tsIndex(e, n int, order, matrix string) (int, int) {
+	if n == 2 && matrix == "full" && order == "21_12" {
+		return e % 2, e / 2 // N11 N21 N12 N22: column by column
+	}
+	switch matrix {
+	case "lower": // rows of the lower triangle: (0,0), (1,0) (1,1), ...
+		for i := 0; i < n; i++ {
+			if e <= i {
+				return i, e
+			}
+			e -= i + 1
+		}
+	case "upper": // (0,0) (0,1) ... (0,n−1), (1,1) ...
+		for i := 0; i < n; i++ {
+			if e < n-i {
+				return i, i + e
+			}
+			e -= n - i
+		}
+	}
+	return e / n, e % n
+}
+
+// normalise undoes version 1's normalisation of Y and Z to the reference.
+func (t *Touchstone) normalise(m []complex128) {
+	if t.Version != 1 {
+		return
+	}
+	switch t.Param {
+	case 'Z':
+		for k := range m {
+			m[k] *= complex(t.R, 0)
+		}
+	case 'Y':
+		for k := range m {
+			m[k] /= complex(t.R, 0)
+		}
+	}
+}
+
+// Impedance returns the impedance of the part the file describes at each
+// frequency, and says how it was read:
+//
+//	one-port S:  Z = Z0·(1 + S11)/(1 − S11)
+//	one-port Z:  Z = Z11;  one-port Y: Z = 1/Y11
+//	two-port S:  the part in series between the ports (series-through),
+//	             Z = 2·Z0·(1 − S21)/S21
+//	two-port Y:  the part in series, Z = −1/Y21
+//
+// A two-port Z file cannot hold a part in series (its Z-matrix does not
+// exist) and is refused, as are files with more than two ports and two-port
+// S files whose ports have different references.
+func (t *Touchstone) Impedance() ([]complex128, string, error) {
+	z := make([]complex128, len(t.Freq))
+	bad := func(format string, args ...any) ([]complex128, string, error) {
+		return nil, "", &Error{Pos: Pos{File: posFile(t)}, Msg: fmt.Sprintf(format, args...), Err: ErrUnsupported}
+	}
+	switch {
+	case t.Ports == 1 && t.Param == 'S':
+		z0 := complex(t.Ref[0], 0)
+		for k := range z {
+			s := t.At(k, 1, 1)
+			z[k] = z0 * (1 + s) / (1 - s)
+		}
+		return z, "one-port S11: Z = Z0·(1 + S11)/(1 − S11)", nil
+	case t.Ports == 1 && t.Param == 'Z':
+		for k := range z {
+			z[k] = t.At(k, 1, 1)
+		}
+		return z, "one-port Z11", nil
+	case t.Ports == 1 && t.Param == 'Y':
+		for k := range z {
+			z[k] = 1 / t.At(k, 1, 1)
+		}
+		return z, "one-port Y11: Z = 1/Y11", nil
+	case t.Ports == 2 && t.Param == 'S':
+		if t.Ref[0] != t.Ref[1] {
+			return bad("the ports' references differ (%g Ω, %g Ω): the series-through formula needs one", t.Ref[0], t.Ref[1])
+		}
+		z0 := complex(t.Ref[0], 0)
+		for k := range z {
+			s21 := t.At(k, 2, 1)
+			z[k] = 2 * z0 * (1 - s21) / s21
+		}
+		return z, "two-port S21, part in series: Z = 2·Z0·(1 − S21)/S21", nil
+	case t.Ports == 2 && t.Param == 'Y':
+		for k := range z {
+			z[k] = -1 / t.At(k, 2, 1)
+		}
+		return z, "two-port Y21, part in series: Z = −1/Y21", nil
+	case t.Ports == 2 && t.Param == 'Z':
+		return bad("a two-port Z file cannot describe a part in series between the ports; give S- or Y-parameters")
+	}
+	return bad("a %d-port file: zapnet reads the impedance of one- and two-port files only", t.Ports)
+}
+
+func posFile(t *Touchstone) string {
+	if len(t.Pos) > 0 {
+		return t.Pos[0].File
+	}
+	return ""
+}
