@@ -4,6 +4,8 @@ import (
 	"math"
 	"strings"
 	"unicode/utf8"
+
+	"zapnet/devices/spec"
 )
 
 // column describes a column a CSV reader looks for in the header.
@@ -61,7 +63,7 @@ func readCSV(name string, src []byte, want []column, errs *ErrorList) *csvTable 
 		t.readRow(name, ln, sep, want, errs)
 	}
 	if t.header == 0 {
-		errs.add(Pos{File: name}, ErrMissing, "no header line: the first line names the columns, for example %s", example(want))
+		errs.Add(Pos{File: name}, ErrMissing, "no header line: the first line names the columns, for example %s", example(want))
 	}
 	return t
 }
@@ -83,7 +85,7 @@ func example(want []column) string {
 
 func (t *csvTable) readHeader(name string, ln line, sep rune, want []column, errs *ErrorList) {
 	for fi, f := range splitSep(ln.text, sep) {
-		pos := Pos{name, ln.no, f.col}
+		pos := Pos{File: name, Line: ln.no, Col: f.col}
 		label, unit := f.text, ""
 		if k := strings.IndexAny(label, "[("); k >= 0 {
 			closer := "]"
@@ -92,7 +94,7 @@ func (t *csvTable) readHeader(name string, ln line, sep rune, want []column, err
 			}
 			end := strings.LastIndex(label, closer)
 			if end < k {
-				errs.add(pos, ErrSyntax, "column %q: the unit's bracket is not closed", f.text)
+				errs.Add(pos, ErrSyntax, "column %q: the unit's bracket is not closed", f.text)
 				continue
 			}
 			unit = strings.TrimSpace(label[k+1 : end])
@@ -111,7 +113,7 @@ func (t *csvTable) readHeader(name string, ln line, sep rune, want []column, err
 			continue
 		}
 		if t.idx[found] >= 0 {
-			errs.add(pos, ErrSyntax, "column %q given twice", label)
+			errs.Add(pos, ErrSyntax, "column %q given twice", label)
 			continue
 		}
 		t.idx[found] = fi
@@ -121,43 +123,39 @@ func (t *csvTable) readHeader(name string, ln line, sep rune, want []column, err
 		}
 		if c.angle {
 			if !strings.EqualFold(unit, "deg") && unit != "°" && !strings.EqualFold(unit, "degrees") {
-				errs.add(pos, ErrNumber, "column %q: angles are in degrees, [deg], not [%s]", label, unit)
+				errs.Add(pos, ErrNumber, "column %q: angles are in degrees, [deg], not [%s]", label, unit)
 			}
 			continue
 		}
 		s, msg := unitScale(unit, c.unit)
 		if msg != "" {
-			errs.add(pos, ErrNumber, "column %q: %s", label, msg)
+			errs.Add(pos, ErrNumber, "column %q: %s", label, msg)
 			continue
 		}
 		t.scale[found] = s
 	}
 	for ci, c := range want {
 		if c.required && t.idx[ci] < 0 {
-			errs.add(Pos{name, ln.no, 1}, ErrMissing, "no column %q in the header (want %s)", c.names[0], example(want))
+			errs.Add(Pos{File: name, Line: ln.no, Col: 1}, ErrMissing, "no column %q in the header (want %s)", c.names[0], example(want))
 		}
 	}
 }
 
-// unitScale reads a bracketed unit such as V, mA, MHz or ohm and returns its
-// factor to the SI unit want.
+// unitScale reads a bracketed unit such as V, mA, MHz or ohm
+// (spec.ParseUnit) and returns its factor to the SI unit want.
 func unitScale(unit, want string) (float64, string) {
-	if u, ok := units[unit]; ok {
-		if u != want {
-			return 0, "wants " + unitNames[want] + " (" + want + "), not " + unitNames[u]
+	exp, u, ok := spec.ParseUnit(unit)
+	switch {
+	case !ok:
+		msg := "unknown unit " + unit
+		if hint := spec.SuffixHint(unit); hint != "" {
+			msg += " (did you mean " + hint + "?)"
 		}
-		return 1, ""
+		return 0, msg
+	case u != spec.Unit(want):
+		return 0, wantsUnit(want, u)
 	}
-	_, w := utf8.DecodeRuneInString(unit)
-	p, ok := prefixes[unit[:w]]
-	u, uok := units[unit[w:]]
-	if !ok || !uok {
-		return 0, "unknown unit " + unit
-	}
-	if u != want {
-		return 0, "wants " + unitNames[want] + " (" + want + "), not " + unitNames[u]
-	}
-	return math.Pow10(p), ""
+	return math.Pow10(exp), ""
 }
 
 func (t *csvTable) readRow(name string, ln line, sep rune, want []column, errs *ErrorList) {
@@ -171,7 +169,7 @@ func (t *csvTable) readRow(name string, ln line, sep rune, want []column, errs *
 			continue
 		}
 		if fi >= len(fs) {
-			errs.add(Pos{name, ln.no, utf8.RuneCountInString(ln.text) + 1}, ErrSyntax,
+			errs.Add(Pos{File: name, Line: ln.no, Col: utf8.RuneCountInString(ln.text) + 1}, ErrSyntax,
 				"the row ends before column %q (field %d of the header)", c.names[0], fi+1)
 			ok = false
 			continue
@@ -181,9 +179,9 @@ func (t *csvTable) readRow(name string, ln line, sep rune, want []column, errs *
 		if f.text == "" && c.blank {
 			continue
 		}
-		v, msg := plain(f.text)
+		v, msg := spec.ParsePlain(f.text)
 		if msg != "" {
-			errs.add(Pos{name, ln.no, f.col}, ErrNumber, "column %q: %s", c.names[0], msg)
+			errs.Add(Pos{File: name, Line: ln.no, Col: f.col}, ErrNumber, "column %q: %s", c.names[0], msg)
 			ok = false
 			continue
 		}
