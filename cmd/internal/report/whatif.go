@@ -185,7 +185,7 @@ func SpreadTable(w io.Writer, r *whatif.SpreadResult, title, deck string) error 
 	fmt.Fprintln(ew)
 	section(ew, "Worst case over the levels and polarities, per circuit", percentileHead(), percentileRows(r.Measures, r.Percentiles))
 	if r.PercentileError > 0 {
-		fmt.Fprintf(ew, "Above %d circuits the percentiles are read from a sketch: each within %s %% of its exact value (max and the counts are exact).\n",
+		fmt.Fprintf(ew, "Above %d circuits the percentiles are read from a sketch: each within %s %% of its exact value (max and the counts are exact).\n\n",
 			r.ExactUpTo, strconv.FormatFloat(100*r.PercentileError, 'g', -1, 64))
 	}
 	if len(r.Conditions) > 1 {
