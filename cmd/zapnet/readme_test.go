@@ -8,6 +8,7 @@ import (
 
 	"zapnet/devices"
 	"zapnet/devices/spec"
+	"zapnet/waveforms"
 )
 
 // kindsTable renders the table of element kinds README shows, from the
@@ -136,5 +137,43 @@ func TestREADMEKindsTable(t *testing.T) {
 			return
 		}
 		t.Errorf("README's kinds table differs from the catalogue (go test ./cmd/zapnet -update rewrites it):\n%s", want)
+	}
+}
+
+// README's table of stimuli names every waveform of the catalogue, in its
+// order, with the unit its levels are in, and no other.
+func TestREADMEStimuliTable(t *testing.T) {
+	b, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var names, units []string
+	in := false
+	for _, l := range strings.Split(string(b), "\n") {
+		switch {
+		case strings.HasPrefix(l, "| `waveform=` |"):
+			in = true
+		case in && strings.HasPrefix(l, "| `"):
+			cells := strings.Split(l, " | ")
+			names = append(names, strings.Trim(cells[0], "| `"))
+			units = append(units, strings.Fields(cells[2])[0])
+		case in && !strings.HasPrefix(l, "|"):
+			in = false
+		}
+	}
+	var want, wantUnits []string
+	for _, w := range waveforms.Catalogue() {
+		want = append(want, w.Name)
+		u := string(w.Unit)
+		if u == "" {
+			u = "scale"
+		}
+		wantUnits = append(wantUnits, u)
+	}
+	if strings.Join(names, " ") != strings.Join(want, " ") {
+		t.Errorf("README lists the waveforms\n%q\nthe catalogue has\n%q", names, want)
+	}
+	if strings.Join(units, " ") != strings.Join(wantUnits, " ") {
+		t.Errorf("README gives the level units\n%q\nthe catalogue\n%q", units, wantUnits)
 	}
 }
