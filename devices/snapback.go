@@ -189,7 +189,7 @@ func NewSnapbackLaw(s SnapbackSpec) (*SnapbackLaw, error) {
 		ub = next
 	}
 	if !(ub > 0) {
-		return nil, fmt.Errorf("the trigger voltage vt1 (%g V) is too low for ron·it1/2 (%g V): the blocking junction would break down below 0 V", s.Vt1, s.Ron*s.It1/2)
+		return nil, fmt.Errorf("the trigger voltage vt1 %s is too low for ron·it1/2 = %s: the blocking junction would break down below 0 V", spec.FormatSI(s.Vt1, "V"), spec.FormatSI(s.Ron*s.It1/2, "V"))
 	}
 	l.ub = ub
 	l.eps = math.Exp(-ub / l.a)

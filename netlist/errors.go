@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"sort"
 	"strings"
+	"unicode"
+	"unicode/utf8"
 )
 
 // The kinds of deck problems. Every *Error of a deck (but a warning) wraps
@@ -40,9 +42,25 @@ type Error struct {
 	Msg     string
 	Warning bool  // legal but doubtful: reported, never fatal
 	Err     error // the kind of problem (ErrSyntax, ...); nil for a warning
+	// More counts the problems left out after the first MaxProblems of a
+	// list; an Error with More > 0 stands for them and has no Msg. It is
+	// a warning only when every one left out is.
+	More int
 }
 
+// MaxProblems is how many problems a list keeps: past it a deck of a
+// million repeated mistakes is reported in a page, and in bounded memory,
+// with the count of the rest.
+const MaxProblems = 100
+
 func (e *Error) Error() string {
+	if e.More > 0 {
+		what := "problems"
+		if e.Warning {
+			what = "warnings"
+		}
+		return fmt.Sprintf("... and %d more %s (the first %d are shown)", e.More, what, MaxProblems)
+	}
 	at := ""
 	if e.Pos.IsValid() || e.Pos.File != "" {
 		at = e.Pos.String() + ": "
@@ -62,17 +80,101 @@ type ErrorList []*Error
 
 // Add appends a problem of kind (ErrSyntax, ...) at pos.
 func (l *ErrorList) Add(pos Pos, kind error, format string, args ...any) {
-	*l = append(*l, &Error{Pos: pos, Msg: fmt.Sprintf(format, args...), Err: kind})
+	if !l.full(kind) {
+		*l = append(*l, &Error{Pos: pos, Msg: Printable(fmt.Sprintf(format, args...)), Err: kind})
+	}
 }
 
 // Warn appends a warning at pos.
 func (l *ErrorList) Warn(pos Pos, format string, args ...any) {
-	*l = append(*l, &Error{Pos: pos, Msg: fmt.Sprintf(format, args...), Warning: true})
+	if !l.full(nil) {
+		*l = append(*l, &Error{Pos: pos, Msg: Printable(fmt.Sprintf(format, args...)), Warning: true})
+	}
+}
+
+// full reports whether the list holds MaxProblems already, and then
+// counts the problem of kind (nil: a warning) among those left out.
+func (l *ErrorList) full(kind error) bool {
+	var more *Error
+	for _, e := range *l {
+		if e.More > 0 {
+			more = e
+		}
+	}
+	if more == nil {
+		if len(*l) < MaxProblems {
+			return false
+		}
+		more = &Error{Warning: true}
+		*l = append(*l, more)
+	}
+	more.More++
+	if kind != nil && more.Warning {
+		more.Warning, more.Err = false, kind
+	}
+	return true
+}
+
+// Problems counts the problems of the list that are not warnings, those
+// left out included.
+func (l ErrorList) Problems() int {
+	n := 0
+	for _, e := range l {
+		switch {
+		case e.More > 0 && !e.Warning:
+			n += e.More
+		case e.More == 0 && !e.Warning:
+			n++
+		}
+	}
+	return n
+}
+
+// Printable returns s with every character a terminal would not show as
+// itself (control characters such as the escape that starts a terminal
+// command, bytes that are not UTF-8, invisible formatting characters)
+// written as a Go escape: \x1b, \xff, \u200b. New lines and tabs stay.
+func Printable(s string) string {
+	clean := true
+	for _, r := range s {
+		if !shown(r) {
+			clean = false
+			break
+		}
+	}
+	if clean {
+		return s
+	}
+	var b strings.Builder
+	for i := 0; i < len(s); {
+		r, w := utf8.DecodeRuneInString(s[i:])
+		switch {
+		case r == utf8.RuneError && w == 1:
+			fmt.Fprintf(&b, `\x%02x`, s[i])
+		case shown(r):
+			b.WriteRune(r)
+		case r < 0x100:
+			fmt.Fprintf(&b, `\x%02x`, r)
+		default:
+			fmt.Fprintf(&b, `\u%04x`, r)
+		}
+		i += w
+	}
+	return b.String()
+}
+
+// shown says whether a terminal shows r as itself.
+func shown(r rune) bool {
+	return r == '\n' || r == '\t' || r == ' ' || r != utf8.RuneError && unicode.IsPrint(r)
 }
 
 func (l ErrorList) Len() int      { return len(l) }
 func (l ErrorList) Swap(i, j int) { l[i], l[j] = l[j], l[i] }
 func (l ErrorList) Less(i, j int) bool {
+	// What was left out comes after what is shown.
+	if (l[i].More > 0) != (l[j].More > 0) {
+		return l[j].More > 0
+	}
 	a, b := l[i].Pos, l[j].Pos
 	if a.File != b.File {
 		return a.File < b.File

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"maps"
 	"slices"
+	"strconv"
 	"strings"
 
 	"zapnet/devices/spec"
@@ -315,6 +316,10 @@ func (p *parser) checkVary(c *Circuit) {
 			c.Vary = append(c.Vary, v)
 		}
 	}
+	if err := CheckProduct(c.Vary); err != nil {
+		p.errs.Add(c.Vary[0].Pos, ErrValue, "%v", err)
+		c.Vary = nil
+	}
 }
 
 func (p *parser) checkTolerances(c *Circuit) {
@@ -394,8 +399,30 @@ func (c *Circuit) Plan() Plan {
 	return pl
 }
 
+// MaxVariants bounds the variants of one study: at a few strikes each it
+// is already hours of solving, and the product of a few long vary lines
+// grows past any memory (four lines of 60 values make 13 million).
+const MaxVariants = 10000
+
+// CheckProduct says whether the cartesian product of lines stays within
+// MaxVariants; the error names the product of the list lengths.
+func CheckProduct(lines []Vary) error {
+	n := 1.0
+	lens := make([]string, len(lines))
+	for i, v := range lines {
+		n *= float64(len(v.Values))
+		lens[i] = strconv.Itoa(len(v.Values))
+	}
+	if n <= MaxVariants {
+		return nil
+	}
+	return fmt.Errorf("the vary lines make %s = %s variants; a study runs at most %d: vary fewer values or fewer parameters at once, or draw circuits from tolerances with spread",
+		strings.Join(lens, " × "), strconv.FormatFloat(n, 'f', -1, 64), MaxVariants)
+}
+
 // Product is the cartesian product of vary lines, the first line varying
-// slowest; no lines give one empty variant.
+// slowest; no lines give one empty variant. The caller has kept the
+// product within MaxVariants (CheckProduct).
 func Product(lines []Vary) []Variant {
 	out := []Variant{{}}
 	for _, v := range lines {

@@ -26,6 +26,11 @@ type statement struct {
 	toks []token
 }
 
+// maxWords bounds the words of one statement: no element, part or sweep
+// needs more than a few dozen, and a runaway line is then read in bounded
+// memory.
+const maxWords = 1000
+
 // scan splits src into statements. It never fails: problems are added to
 // errs and the scan goes on, so that every problem of a deck is reported.
 //
@@ -33,6 +38,9 @@ type statement struct {
 //	line      = [ token { space token } ] [ "\" ] [ "#" comment ] newline .
 //	token     = word | quoted | word "=" ( word | quoted ) .
 func scan(file string, src []byte, errs *ErrorList) []statement {
+	// A byte-order mark, which some editors write at the start of a UTF-8
+	// file, is not part of the text.
+	src = bytes.TrimPrefix(src, []byte("\uFEFF"))
 	var out []statement
 	var cur []token
 	var contPos Pos
@@ -53,7 +61,7 @@ func scan(file string, src []byte, errs *ErrorList) []statement {
 		if n := len(line); n > 0 && line[n-1] == '\r' {
 			line = line[:n-1]
 		}
-		toks, cont, cpos := scanLine(file, lineNo, line, errs)
+		toks, cont, cpos := scanLine(file, lineNo, line, maxWords-len(cur), errs)
 		cur = append(cur, toks...)
 		continuing = cont
 		contPos = cpos
@@ -70,10 +78,13 @@ func scan(file string, src []byte, errs *ErrorList) []statement {
 	return out
 }
 
-// scanLine reads the tokens of one physical line and reports whether the
-// line continues on the next one.
-func scanLine(file string, lineNo int, line []byte, errs *ErrorList) ([]token, bool, Pos) {
+// scanLine reads the tokens of one physical line, at most room of them
+// (the words past it are reported once and skipped), and reports whether
+// the line continues on the next one.
+func scanLine(file string, lineNo int, line []byte, room int, errs *ErrorList) ([]token, bool, Pos) {
 	var toks []token
+	var skipped *token // the last word past room
+	hidden(file, lineNo, line, errs)
 	col := 1
 	i := 0
 	badUTF8 := false
@@ -125,7 +136,21 @@ func scanLine(file string, lineNo int, line []byte, errs *ErrorList) ([]token, b
 		if inQuote {
 			errs.Add(quotePos, ErrSyntax, "string not closed: a quote \" is missing before the end of the line")
 		}
-		toks = append(toks, makeToken(string(line[start:i]), Pos{file, lineNo, startCol}, errs))
+		pos := Pos{file, lineNo, startCol}
+		if len(toks) >= room {
+			if skipped == nil && room >= 0 {
+				errs.Add(pos, ErrSyntax, "a statement holds at most %d words; the rest of this one is not read", maxWords)
+			}
+			skipped = &token{raw: string(line[start:i]), pos: pos}
+			continue
+		}
+		toks = append(toks, makeToken(string(line[start:i]), pos, errs))
+	}
+	if skipped != nil {
+		if strings.HasSuffix(skipped.raw, `\`) {
+			return toks, true, skipped.pos
+		}
+		return toks, false, Pos{}
 	}
 	// A trailing backslash continues the statement, whether it stands alone
 	// or is glued to the last word.
@@ -144,6 +169,25 @@ func scanLine(file string, lineNo int, line []byte, errs *ErrorList) ([]token, b
 		}
 	}
 	return toks, false, Pos{}
+}
+
+// hidden reports the first character of a line that a terminal or an
+// editor would not show as itself: a control character (an escape, a
+// stray carriage return) or an invisible one (a zero-width space, a
+// no-break space). Such a character would make a name differ from the one
+// the reader sees, or act on the terminal when echoed. Tabs, form feeds
+// and vertical tabs are white space.
+func hidden(file string, lineNo int, line []byte, errs *ErrorList) {
+	col := 1
+	for i := 0; i < len(line); {
+		r, w := utf8.DecodeRune(line[i:])
+		if !(r == utf8.RuneError && w == 1) && r != '\f' && r != '\v' && !shown(r) {
+			errs.Add(Pos{file, lineNo, col}, ErrSyntax, "character %s is not text a deck may hold (a control or invisible character)", Printable(string(r)))
+			return
+		}
+		i += w
+		col++
+	}
 }
 
 // makeToken classifies a raw word.

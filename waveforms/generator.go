@@ -107,13 +107,13 @@ const AirNote = "Air discharge is not repeatable, in the lab either: the spark's
 // above; v must lie above the law's minimum (about 330 V).
 func PaschenGap(v float64) (float64, error) {
 	if !(v > paschenMin) || math.IsInf(v, 0) {
-		return 0, fmt.Errorf("no spark gap breaks down at %g V in air (Paschen's law: above about %.0f V)", v, paschenMin)
+		return 0, fmt.Errorf("no spark gap breaks down at %s in air (Paschen's law: above about %s)", spec.FormatSI(v, "V"), spec.FormatSI(paschenMin, "V"))
 	}
 	// Bisection on the rising branch of the law, in metres: the minimum
 	// lies near 7.5 µm, and no discharge level needs more than 10 cm.
 	lo, hi := paschenDmin, 0.1
 	if PaschenVoltage(hi) < v {
-		return 0, fmt.Errorf("a discharge of %g V needs a gap beyond 10 cm: outside Paschen's law for small gaps", v)
+		return 0, fmt.Errorf("a discharge of %s needs a gap beyond 10 cm: outside Paschen's law for small gaps", spec.FormatSI(v, "V"))
 	}
 	for range 200 {
 		m := (lo + hi) / 2

@@ -52,7 +52,7 @@ const (
 func newTLP(level float64, v *spec.Values) (*Stimulus, error) {
 	width, rise := v.Num("width"), v.Num("rise")
 	if rise >= width {
-		return nil, fmt.Errorf("tlp: rise (%g s) must be shorter than width (%g s)", rise, width)
+		return nil, fmt.Errorf("tlp: rise %s must be shorter than width %s", spec.FormatSI(rise, "s"), spec.FormatSI(width, "s"))
 	}
 	voc := level * tlpR
 	f := func(t float64) float64 {
@@ -106,7 +106,7 @@ func newEFT(level float64, v *spec.Values) (*Stimulus, error) {
 func eftTrain(level float64, count int, rate float64) (*Stimulus, error) {
 	period := 1 / rate
 	if count > 1 && period < 2*eftTail {
-		return nil, fmt.Errorf("eft: rate %g Hz puts pulses %g s apart; they need at least %g s (rate up to %g Hz)", rate, period, 2*eftTail, 1/(2*eftTail))
+		return nil, fmt.Errorf("eft: rate %s puts pulses %s apart; they need at least %s (rate up to %s)", spec.FormatSI(rate, "Hz"), spec.FormatSI(period, "s"), spec.FormatSI(2*eftTail, "s"), spec.FormatSI(1/(2*eftTail), "Hz"))
 	}
 	amp := eftA * level
 	pulse := func(u float64) float64 { return amp * (math.Exp(-u/eftTau2) - math.Exp(-u/eftTau1)) }

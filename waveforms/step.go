@@ -69,7 +69,7 @@ func Step(level, rise, r, stop float64) (*Stimulus, error) {
 	case !(r > 0) || math.IsInf(r, 0):
 		return nil, fmt.Errorf("step: source resistance must be positive and finite, have %g Ω", r)
 	case !(stop > rise) || math.IsInf(stop, 0):
-		return nil, fmt.Errorf("step: span (%g s) must be longer than the rise (%g s)", stop, rise)
+		return nil, fmt.Errorf("step: span %s must be longer than the rise %s", spec.FormatSI(stop, "s"), spec.FormatSI(rise, "s"))
 	case math.IsNaN(level) || math.IsInf(level, 0):
 		return nil, fmt.Errorf("step: level must be finite, have %g V", level)
 	}

@@ -43,13 +43,10 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		if !errors.As(err, &list) {
 			return err
 		}
-		n := 0
 		for _, e := range list {
 			fmt.Fprintln(stderr, e.Error())
-			if !e.Warning {
-				n++
-			}
 		}
+		n := list.Problems()
 		if n == 1 {
 			return fmt.Errorf("%s: 1 problem", deck)
 		}
@@ -160,6 +157,10 @@ func listTolerances(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintln(w)
 }
 
+// shownVariants is how many variants check lists: enough to see how the
+// vary lines combine.
+const shownVariants = 20
+
 // listStudy counts the runs of the study and lists its levels, polarities and variants.
 func listStudy(w io.Writer, c *netlist.Circuit) {
 	pl := c.Plan()
@@ -178,6 +179,10 @@ func listStudy(w io.Writer, c *netlist.Circuit) {
 		head := "            "
 		if i == 0 {
 			head = "  variants  "
+		}
+		if i == shownVariants && len(pl.Variants) > shownVariants+1 {
+			fmt.Fprintf(w, "%s... and %d more\n", head, len(pl.Variants)-i)
+			break
 		}
 		text := "the deck as written"
 		if len(v) > 0 {

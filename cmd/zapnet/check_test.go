@@ -109,3 +109,33 @@ func TestCheckUsage(t *testing.T) {
 		t.Errorf("--help: exit %d\n%s", code, errs)
 	}
 }
+
+// Each deck of testdata/bad that a campaign of bad input found is refused
+// by check and by run alike, with the same message and exit status 2, and
+// no message echoes a control character; a byte-order mark is accepted.
+func TestBadDecksRefusedAlike(t *testing.T) {
+	for _, c := range []struct{ deck, want string }{
+		{"escape-bytes.zap", `escape-bytes.zap:3:26: character \x1b is not text`},
+		{"tlp-rise-width.zap", "tlp-rise-width.zap:3:8: strike zap: tlp: rise 2 ns must be shorter than width 1 ns"},
+		{"supply-too-large.zap", "supply-too-large.zap:5:17: the value of a supply must be at most 1e30 in magnitude (got 1e308)"},
+		{"vary-product.zap", "vary-product.zap:8:6: the vary lines make 60 × 60 × 60 × 60 = 12960000 variants"},
+	} {
+		deck := filepath.Join("..", "..", "testdata", "bad", c.deck)
+		_, checkErr, checkCode := runCheckMain(t, deck)
+		_, runErr, runCode := runMain(t, deck)
+		if checkCode != exitUnusable || runCode != exitUnusable {
+			t.Errorf("%s: check exits %d, run %d, want 2 and 2", c.deck, checkCode, runCode)
+		}
+		for _, out := range []string{checkErr, runErr} {
+			if !strings.Contains(out, c.want) {
+				t.Errorf("%s: %q lacks %q", c.deck, out, c.want)
+			}
+			if strings.ContainsRune(out, '\x1b') {
+				t.Errorf("%s: a message echoes the escape character", c.deck)
+			}
+		}
+	}
+	if _, errs, code := runCheckMain(t, filepath.Join("..", "..", "testdata", "bad", "byte-order-mark.zap")); code != exitPass {
+		t.Errorf("a deck with a byte-order mark: exit %d\n%s", code, errs)
+	}
+}

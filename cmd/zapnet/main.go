@@ -12,6 +12,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"zapnet/netlist"
 
 	"github.com/spf13/pflag"
 )
@@ -96,7 +97,9 @@ func exitCode(err error, stderr io.Writer) int {
 	case errors.Is(err, errVerdictFail):
 		return exitFail
 	}
-	fmt.Fprintf(stderr, "zapnet: %v\n", err)
+	// A path or a word from the user may hold an escape character: it is
+	// shown, never obeyed by the terminal.
+	fmt.Fprintf(stderr, "zapnet: %s\n", netlist.Printable(err.Error()))
 	return exitUnusable
 }
 

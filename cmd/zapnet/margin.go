@@ -99,7 +99,9 @@ func marginStudy(ctx context.Context, opt marginOptions, stdout, stderr io.Write
 		if err != nil {
 			return err
 		}
-		mopt.Study.Variants = whatif.Variants(c, sets)
+		if mopt.Study.Variants, err = whatif.Variants(c, sets); err != nil {
+			return err
+		}
 	}
 	res, err := withProgress(stderr, "margin", opt.deck, func(p whatif.Progress) (*whatif.MarginResult, error) {
 		mopt.Progress = p

@@ -18,8 +18,9 @@ type runOptions struct {
 	json       string   // file, "-" for stdout, "" for none
 	csv        string   // file, folder or pattern, "" for none
 	workers    int      // 0: every core
-	// zeroWall keeps wall times out of the JSON (golden tests).
-	zeroWall bool
+	// timings keeps each run's wall-clock time in the JSON; without it
+	// identical runs write identical files.
+	timings  bool
 	sweep    sweepSpec      // --set and --shard (sweep.go)
 	pictures pictureOptions // --plot and --html (plotflags.go)
 }
@@ -44,6 +45,7 @@ failed solve.`,
 	jsonPath := fs.String("json", "", "write the results as JSON to `FILE` (- for stdout, the tables then go to stderr)")
 	csvPath := fs.String("csv", "", "write each run's waveforms as CSV: a `FILE` for one run; a folder (ending in /) or a pattern with {run} for several")
 	workers := fs.Int("workers", 0, "runs solved at once (default: every core)")
+	timings := fs.Bool("timings", false, "add each run's wall-clock solve time (stats.wall_s) to the JSON; without it identical runs write identical files")
 	sweep := addSweepFlags(fs)
 	pictures := addPictureFlags(fs)
 	if err := fs.Parse(args); err != nil {
@@ -53,7 +55,7 @@ failed solve.`,
 	if err != nil {
 		return err
 	}
-	opt := runOptions{deck: deck, json: *jsonPath, csv: *csvPath, workers: *workers,
+	opt := runOptions{deck: deck, json: *jsonPath, csv: *csvPath, workers: *workers, timings: *timings,
 		pictures: pictures.options()}
 	// run stops at its first flag mistake, where the what-if commands
 	// collect them all (sweepFlags.finish).
@@ -97,7 +99,7 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 		return fmt.Errorf("%s: %w", opt.deck, solveErr)
 	}
 	runs := sw.runs
-	if opt.zeroWall {
+	if !opt.timings {
 		for i := range runs {
 			runs[i].Stats.Wall = 0
 		}

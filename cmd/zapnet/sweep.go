@@ -109,7 +109,9 @@ func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, check fu
 		if err != nil {
 			return nil, err
 		}
-		sopt.Variants = whatif.Variants(c, sets)
+		if sopt.Variants, err = whatif.Variants(c, sets); err != nil {
+			return nil, err
+		}
 	}
 	jobs, err := study.Jobs(c, sopt)
 	if err != nil {

@@ -13,6 +13,8 @@ package spec
 import (
 	"fmt"
 	"math"
+	"strconv"
+	"strings"
 )
 
 // Unit is the SI symbol of a quantity; Dimensionless is a plain number.
@@ -105,7 +107,8 @@ func (r Rule) Check(v float64) string {
 		}
 	}
 	if math.Abs(v) > Largest {
-		return fmt.Sprintf("must be at most %g in magnitude", Largest)
+		// Written as a deck would write it: 1e30.
+		return "must be at most " + strings.Replace(strconv.FormatFloat(Largest, 'g', -1, 64), "e+", "e", 1) + " in magnitude"
 	}
 	return ""
 }

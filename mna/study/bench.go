@@ -622,7 +622,7 @@ func (b *Bench) limits(r *Run) {
 			meas, at, v0 := b.measured(m, rt, r)
 			var l Limit
 			if isWindow(rt.Rates.Measure) {
-				l = NewWindowLimit(m.e.Name, rt.Key, rt.Unit, v, meas, at, v0, rt.Rates.Upper, rt.Rates.Says)
+				l = NewWindowLimit(m.e.Name, rt.Key, rt.Unit, v, meas, at, quiet(v0, voltageFloor), rt.Rates.Upper, rt.Rates.Says)
 			} else {
 				l = NewLimit(m.e.Name, rt.Key, rt.Unit, v, meas, at, rt.Rates.Upper, rt.Rates.Says)
 			}
@@ -638,11 +638,11 @@ func (b *Bench) limits(r *Run) {
 		}
 		if wt.HasMax {
 			hi, thi := b.nodeTr[i].Max()
-			r.Limits = append(r.Limits, NewWindowLimit(wt.Node, "max", spec.Volt, wt.Max, quiet(hi, voltageFloor), thi, b.node0[i], true, "highest voltage"))
+			r.Limits = append(r.Limits, NewWindowLimit(wt.Node, "max", spec.Volt, wt.Max, quiet(hi, voltageFloor), thi, quiet(b.node0[i], voltageFloor), true, "highest voltage"))
 		}
 		if wt.HasMin {
 			lo, tlo := b.nodeTr[i].Min()
-			r.Limits = append(r.Limits, NewWindowLimit(wt.Node, "min", spec.Volt, wt.Min, quiet(lo, voltageFloor), tlo, b.node0[i], false, "lowest voltage"))
+			r.Limits = append(r.Limits, NewWindowLimit(wt.Node, "min", spec.Volt, wt.Min, quiet(lo, voltageFloor), tlo, quiet(b.node0[i], voltageFloor), false, "lowest voltage"))
 		}
 	}
 }

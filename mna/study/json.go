@@ -177,6 +177,10 @@ type limitJSON struct {
 	At       *float64  `json:"at,omitempty"` // s; absent for energies
 	Margin   float64   `json:"margin"`
 	Percent  float64   `json:"percent"`
+	// A window limit's percent is of its headroom from the operating
+	// point, where the quantity sat at at_rest; absent for the others.
+	Headroom *float64 `json:"headroom,omitempty"`
+	Rest     *float64 `json:"at_rest,omitempty"`
 }
 
 // MarshalJSON writes the limit with its name, "ELEMENT PARAM". JSON has no
@@ -190,6 +194,10 @@ func (l Limit) MarshalJSON() ([]byte, error) {
 	}
 	if math.IsInf(j.Percent, 0) {
 		j.Percent = math.Copysign(math.MaxFloat64, j.Percent)
+	}
+	if l.Window {
+		h, r := l.Headroom, l.Rest
+		j.Headroom, j.Rest = &h, &r
 	}
 	return json.Marshal(j)
 }
@@ -209,6 +217,9 @@ func (l *Limit) UnmarshalJSON(b []byte) error {
 		At: math.NaN(), Margin: j.Margin, Percent: j.Percent}
 	if j.At != nil {
 		l.At = *j.At
+	}
+	if j.Headroom != nil && j.Rest != nil {
+		l.Window, l.Headroom, l.Rest = true, *j.Headroom, *j.Rest
 	}
 	return nil
 }

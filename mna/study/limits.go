@@ -62,7 +62,7 @@ func NewWindowLimit(element, param string, unit spec.Unit, value, measured, at, 
 	default:
 		l.Percent = -100 // beyond the limit at rest already
 	}
-	l.Headroom = head
+	l.Headroom, l.Rest, l.Window = head, v0, true
 	return l
 }
 
@@ -98,11 +98,17 @@ func Judge(r *Run) {
 }
 
 // Failure says in a sentence how the limit was exceeded:
-// "U1: residual peak 7.9 V above vmax 5.5 V".
+// "U1: residual peak 7.9 V above vmax 5.5 V". A window limit the circuit
+// breaks at rest says so: no protection helps that, the operating point
+// or the rating is wrong.
 func (l Limit) Failure() string {
 	side := "below"
 	if l.Upper {
 		side = "above"
+	}
+	if l.Window && l.Headroom < 0 {
+		return fmt.Sprintf("%s: %s at rest, before any strike, already %s %s %s (the operating point breaks the rating)",
+			l.Element, spec.FormatSI(l.Rest, l.Unit), side, l.Param, spec.FormatSI(l.Value, l.Unit))
 	}
 	return fmt.Sprintf("%s: %s %s %s %s %s", l.Element, l.Says, spec.FormatSI(l.Measured, l.Unit), side, l.Param, spec.FormatSI(l.Value, l.Unit))
 }

@@ -113,13 +113,13 @@ func (r *Run) Job() Job {
 }
 
 // Stats are the engine's counts of a run. Wall is the only field that
-// differs between identical runs.
+// differs between identical runs; zero, it is left out of the JSON.
 type Stats struct {
 	Steps    int     `json:"steps"`
 	Rejected int     `json:"rejected"`
 	Newton   int     `json:"newton"`
 	DCNewton int     `json:"dc_newton"`
-	Wall     float64 `json:"wall_s"` // s
+	Wall     float64 `json:"wall_s,omitempty"` // s
 }
 
 // add sums the counts of one engine solution into s.
@@ -265,8 +265,15 @@ type Limit struct {
 	Measure spec.Measure
 	// Headroom is, for a window limit, the distance from the operating
 	// point to the limit that Percent is of (0 for the others, whose
-	// percentage is of |Value|).
+	// percentage is of |Value|); negative when the operating point is
+	// beyond the limit already.
 	Headroom float64
+	// Rest is, for a window limit, the measured quantity at the operating
+	// point (0 for the others).
+	Rest float64
+	// Window says the limit is one side of a voltage window, judged
+	// against its headroom from the operating point (NewWindowLimit).
+	Window bool
 }
 
 // LimitOn returns the limit on element that is judged against measure m,

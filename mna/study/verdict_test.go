@@ -1,11 +1,13 @@
 package study
 
 import (
+	"encoding/json"
 	"math"
 	"path/filepath"
 	"strings"
 	"testing"
 
+	"zapnet/devices/spec"
 	"zapnet/netlist"
 )
 
@@ -235,5 +237,34 @@ func TestValidityNotes(t *testing.T) {
 func TestQuiet(t *testing.T) {
 	if quiet(-5.7e-120, voltageFloor) != 0 || quiet(1e-6, voltageFloor) != 1e-6 || quiet(-2e-12, currentFloor) != -2e-12 {
 		t.Error("quiet")
+	}
+}
+
+// A window limit the circuit breaks at rest says so in the failure, with
+// the quantity at rest, and keeps its headroom and rest value through the
+// JSON [practice: a verdict names the cause a designer can act on].
+func TestWindowLimitBrokenAtRest(t *testing.T) {
+	l := NewWindowLimit("U1", "vmax", spec.Volt, 3.6, 22.2, 6e-8, 22.16, true, "residual peak")
+	if !l.Failed() || l.Percent != -100 {
+		t.Errorf("failed %v at %g %%", l.Failed(), l.Percent)
+	}
+	if got, want := l.Failure(), "U1: 22.16 V at rest, before any strike, already above vmax 3.6 V (the operating point breaks the rating)"; got != want {
+		t.Errorf("failure %q\nwant %q", got, want)
+	}
+	b, err := json.Marshal(l)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var back Limit
+	if err := json.Unmarshal(b, &back); err != nil {
+		t.Fatal(err)
+	}
+	if !back.Window || back.Rest != 22.16 || math.Abs(back.Headroom-(3.6-22.16)) > 1e-12 {
+		t.Errorf("read back %+v from %s", back, b)
+	}
+	// A rating that is not a window has neither field.
+	b, _ = json.Marshal(NewLimit("D1", "ipp", spec.Ampere, 10, 4, 1e-9, true, "peak current"))
+	if strings.Contains(string(b), "headroom") || strings.Contains(string(b), "at_rest") {
+		t.Errorf("%s", b)
 	}
 }

@@ -40,12 +40,7 @@ func VariantRanking(w io.Writer, ranks []whatif.VariantRank) error {
 	ew := &errWriter{w: w}
 	fmt.Fprintln(ew, "\n"+rankingTitle)
 	head, rows := rankingRows(ranks)
-	t := newTable(ew, head)
-	t.Header(toAny(head)...)
-	for _, r := range rows {
-		t.Append(toAny(r)...)
-	}
-	t.Render()
+	writeTable(ew, head, rows)
 	return ew.err
 }
 

@@ -71,8 +71,9 @@ func unplaced(err error) error {
 // deck's vary lines and the command-line sets (ParseSets), the first line
 // varying slowest, as a deck's own vary lines combine (netlist.Product). A
 // set on a target the deck already varies replaces that vary line in its
-// place; other sets follow the deck's lines.
-func Variants(c *netlist.Circuit, sets []netlist.Vary) []netlist.Variant {
+// place; other sets follow the deck's lines. The product is bounded by
+// netlist.MaxVariants.
+func Variants(c *netlist.Circuit, sets []netlist.Vary) ([]netlist.Variant, error) {
 	lines := append([]netlist.Vary(nil), c.Vary...)
 	for _, s := range sets {
 		replaced := false
@@ -86,7 +87,10 @@ func Variants(c *netlist.Circuit, sets []netlist.Vary) []netlist.Variant {
 			lines = append(lines, s)
 		}
 	}
-	return netlist.Product(lines)
+	if err := netlist.CheckProduct(lines); err != nil {
+		return nil, fmt.Errorf("--set: %w", err)
+	}
+	return netlist.Product(lines), nil
 }
 
 // Base is the one circuit a sensitivity or spread study starts from: the

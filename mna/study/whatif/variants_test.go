@@ -1,6 +1,7 @@
 package whatif
 
 import (
+	"fmt"
 	"strings"
 	"testing"
 
@@ -14,7 +15,10 @@ func TestVariantsFromSets(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	got := Variants(c, vs)
+	got, err := Variants(c, vs)
+	if err != nil {
+		t.Fatal(err)
+	}
 	// [calc] 2 × 3 variants, the first line varying slowest.
 	want := []string{
 		"R1.value=10 D2.ls=0.2n", "R1.value=10 D2.ls=0.5n", "R1.value=10 D2.ls=1n",
@@ -39,6 +43,22 @@ func TestVariantsFromSets(t *testing.T) {
 	}
 	if _, err := ParseSets(c, []string{"R1.value=1", "R1.value=2"}); err == nil {
 		t.Error("a target set twice must fail")
+	}
+	// Three lines of 30 values with the deck's 3 make 81 000 variants, past
+	// the bound: refused before anything is built, naming the product.
+	many := func(p string) string {
+		s := make([]string, 30)
+		for i := range s {
+			s[i] = fmt.Sprintf("%dp", i+1)
+		}
+		return p + "=" + strings.Join(s, ",")
+	}
+	vs, err = ParseSets(c, []string{many("D2.ls"), many("D2.cj"), many("D2.rdyn")})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := Variants(c, vs); err == nil || !strings.Contains(err.Error(), "3 × 30 × 30 × 30 = 81000 variants") {
+		t.Errorf("81 000 variants: %v", err)
 	}
 }
 
