@@ -29,22 +29,27 @@ type spreadOptions struct {
 	pictures   pictureOptions // --plot and --html: the histograms
 }
 
+// percentText writes a fraction as a percentage: 0.001 is "0.1 %".
+func percentText(f float64) string {
+	return strconv.FormatFloat(100*f, 'g', -1, 64) + " %"
+}
+
 func runSpread(args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("spread",
 		"spread DECK [--runs N] [--seed S] [--level LIST] [--polarity pos|neg|both] [--set E.P=v] [--shard i/n] [--json FILE [--samples]] [--exact N] [--plot DIR] [--html FILE] [--workers N]",
-		`  zapnet spread testdata/signal-connector.zap --runs 2000 --seed 7 --level 8k
+		fmt.Sprintf(`  zapnet spread testdata/signal-connector.zap --runs 2000 --seed 7 --level 8k
   zapnet spread deck.zap --runs 10000 --seed 1 --shard 3/10 --json part3.json
   zapnet spread testdata/signal-connector.zap --runs 500 --level 8k --plot figs --html spread.html
 
-Draws N circuits from the deck's tolerance lines (uniform: ±x %; normal: x %
+Draws N circuits from the deck's tolerance lines (uniform: ±x %%; normal: x %%
 is three standard deviations, truncated there), strikes each at every level
 and polarity, and reports the percentiles of each pin's residual peak, each
 clamp's energy and current and the worst margin, and the fraction of
-circuits that pass everywhere with its Wilson 95 % interval. Circuit k draws
+circuits that pass everywhere with its Wilson 95 %% interval. Circuit k draws
 from a generator seeded by (seed, k): the same seed gives the same result on
-any number of cores and shards. The percentiles are exact up to 5000
+any number of cores and shards. The percentiles are exact up to %d
 solved circuits (--exact); above, they are read from a sketch, each within
-0.1 % of its exact value, so that memory and JSON do not grow with --runs
+%s of its exact value, so that memory and JSON do not grow with --runs
 (counts, pass fractions, intervals, min, max and mean stay exact). A
 shard's JSON carries that summary, and zapnet merge joins the shards into
 exactly the unsharded result. --samples adds every circuit's verdicts and
@@ -52,9 +57,9 @@ values to the JSON ("samples"), a few hundred bytes a circuit and strike.
 --plot and --html draw a histogram of each pin's residual peak and each
 clamp's energy over the circuits, with p1, p50, p99 and the pin's vmax
 (the clamp's emax) marked; above the exact count its bars are groups of
-the sketch's buckets, each 0.2 % wide.
+the sketch's buckets, each %s wide.
 Exit status: 0 every drawn circuit passed, 1 at least one failed, 2 unusable
-input or a failed solve.`,
+input or a failed solve.`, whatif.ExactCircuits, percentText(whatif.SketchAccuracy), percentText(2*whatif.SketchAccuracy)),
 		stderr)
 	runs := fs.Int("runs", whatif.DefaultRuns, "circuits to draw")
 	seed := fs.String("seed", "1", "seed of the draws, a whole number ≥ 0")
@@ -63,7 +68,7 @@ input or a failed solve.`,
 	jsonPath := fs.String("json", "", "write the distribution as JSON to `FILE` (- for stdout, the tables then go to stderr)")
 	workers := fs.Int("workers", 0, "circuits solved at once (default: every core)")
 	samples := fs.Bool("samples", false, "also write every circuit's verdicts and values into the JSON (memory and file grow with --runs)")
-	exact := fs.Int("exact", whatif.ExactCircuits, "percentiles exact up to `N` solved circuits, from a sketch within 0.1 % above (memory grows with N: 8 bytes a measure, condition and circuit)")
+	exact := fs.Int("exact", whatif.ExactCircuits, "percentiles exact up to `N` solved circuits, from a sketch within "+percentText(whatif.SketchAccuracy)+" above (memory grows with N: 8 bytes a measure, condition and circuit)")
 	sweep := addSweepFlags(fs)
 	pictures := addPictureFlags(fs)
 	// The shared help of --plot and --html speaks of runs; a spread draws
