@@ -10,7 +10,7 @@ import (
 // Check is one published check point of a waveform compared with what the
 // stimulus delivers into the load.
 type Check struct {
-	Quantity string  // what is measured, e.g. "first peak", "i(30 ns)"
+	Quantity string  // what is measured, e.g. "first peak", "current at 30 ns"
 	Unit     string  // unit of Computed, Published, Lo and Hi: "A", "V", "s" or "%"
 	Computed float64 // measured on the stimulus into the load
 	// Published is the nominal published value; NaN when only a window is
@@ -58,24 +58,34 @@ func window(q, unit string, computed, lo, hi float64, tol, src, ref string) Chec
 // waveform without published points (pwl, an ISO 10605 network of other
 // values) gives no checks and no error.
 func Checks(s *Stimulus, load float64) ([]Check, error) {
+	if s != nil && s.Form == Generator {
+		return nil, fmt.Errorf("checks: %s is a generator circuit with no closed form: solve it into the load with the engine (SolvedChecks)", s.Name)
+	}
+	w, load, err := checked(s, load)
+	if w == nil || err != nil {
+		return nil, err
+	}
+	return w.checks(s, load, measured), nil
+}
+
+// checked returns the waveform of s when it has checks (nil when it has
+// none) and the load they are made into, s's own when load is zero.
+func checked(s *Stimulus, load float64) (*Waveform, float64, error) {
 	if s == nil {
-		return nil, fmt.Errorf("checks: no stimulus")
+		return nil, 0, fmt.Errorf("checks: no stimulus")
 	}
 	load = s.load(load)
 	if math.IsNaN(load) || load < 0 {
-		return nil, fmt.Errorf("checks: load must be >= 0 ohms or +Inf, got %g", load)
-	}
-	if s.Form == Generator {
-		return nil, fmt.Errorf("checks: %s is a generator circuit with no closed form: solve it into the load with the engine (SolvedChecks)", s.Name)
+		return nil, 0, fmt.Errorf("checks: load must be >= 0 ohms or +Inf, got %g", load)
 	}
 	w := Lookup(s.Name)
 	switch {
 	case w == nil:
-		return nil, fmt.Errorf("checks: unknown waveform %q", s.Name)
+		return nil, 0, fmt.Errorf("checks: unknown waveform %q", s.Name)
 	case w.checks == nil:
-		return nil, nil
+		return nil, load, nil
 	}
-	return w.checks(s, load, measured), nil
+	return w, load, nil
 }
 
 // checkTol is the sampling accuracy of check measurements: crossings and

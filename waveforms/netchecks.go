@@ -41,21 +41,10 @@ func CalibrationLoads(name string) []float64 {
 // tolerance "none published". A load with no published points gives no
 // checks and no error. The first error of the solver is returned.
 func SolvedChecks(s *Stimulus, load float64, solve Solver) ([]Check, error) {
-	if s == nil {
-		return nil, fmt.Errorf("checks: no stimulus")
+	w, load, err := checked(s, load)
+	if w == nil || err != nil {
+		return nil, err
 	}
-	load = s.load(load)
-	if math.IsNaN(load) || load < 0 {
-		return nil, fmt.Errorf("checks: load must be >= 0 ohms or +Inf, got %g", load)
-	}
-	w := Lookup(s.Name)
-	switch {
-	case w == nil:
-		return nil, fmt.Errorf("checks: unknown waveform %q", s.Name)
-	case w.checks == nil:
-		return nil, nil
-	}
-	var err error
 	cs := w.checks(s, load, solvedMeter(solve, &err))
 	if err != nil {
 		return nil, err

@@ -126,12 +126,7 @@ func ACTables(w io.Writer, res *signal.Result, opt *TableOptions) error {
 			}
 		}
 		fmt.Fprintf(ew, "Peaking above the gain at %s\n", si(res.Freq[0], "Hz"))
-		t := newTable(ew, head)
-		t.Header(toAny(head)...)
-		for _, r := range body {
-			t.Append(toAny(r)...)
-		}
-		t.Render()
+		writeTable(ew, head, body)
 		if len(notes) > 0 {
 			fmt.Fprintln(ew, "Damping (each alone; found by solving again):")
 			for _, n := range notes {

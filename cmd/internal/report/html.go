@@ -478,11 +478,7 @@ footer { margin-top: 2.5rem; }
 {{- if .Overlays}}
 <section id="overlays">
 <h2>{{.OverlaysTitle}}</h2>
-<div class="figures">
-{{- range .Overlays}}
-<figure id="{{.ID}}">{{.SVG}}<figcaption>{{.Caption}}</figcaption></figure>
-{{- end}}
-</div>
+{{template "figures" .Overlays}}
 </section>
 {{- end}}
 {{- range .Runs}}
@@ -509,11 +505,7 @@ footer { margin-top: 2.5rem; }
 <p class="note">Note: {{.}}</p>
 {{- end}}
 {{- if .Figures}}
-<div class="figures">
-{{- range .Figures}}
-<figure id="{{.ID}}">{{.SVG}}<figcaption>{{.Caption}}</figcaption></figure>
-{{- end}}
-</div>
+{{template "figures" .Figures}}
 {{- end}}
 </section>
 {{- end}}
@@ -522,11 +514,7 @@ footer { margin-top: 2.5rem; }
 <h2>The signal's side</h2>
 <pre id="signal-tables" class="listing">{{.Text}}</pre>
 {{- if .Figures}}
-<div class="figures">
-{{- range .Figures}}
-<figure id="{{.ID}}">{{.SVG}}<figcaption>{{.Caption}}</figcaption></figure>
-{{- end}}
-</div>
+{{template "figures" .Figures}}
 {{- end}}
 </section>
 {{- end}}
@@ -546,6 +534,13 @@ footer { margin-top: 2.5rem; }
 </footer>
 </body>
 </html>
+{{- define "figures"}}
+<div class="figures">
+{{- range .}}
+<figure id="{{.ID}}">{{.SVG}}<figcaption>{{.Caption}}</figcaption></figure>
+{{- end}}
+</div>
+{{- end}}
 {{- define "table"}}
 <table id="{{.ID}}">
 <thead><tr>{{range .Head}}<th{{if .Class}} class="{{.Class}}"{{end}}>{{.Text}}</th>{{end}}</tr></thead>

@@ -375,12 +375,7 @@ func CheckTable(w io.Writer, checks []waveforms.Check) error {
 		rows = append(rows, []string{c.Quantity, waveforms.FormatValue(c.Computed, c.Unit), pub, c.Tol, result, c.Source})
 	}
 	ew := &errWriter{w: w}
-	t := newTable(ew, head)
-	t.Header(toAny(head)...)
-	for _, r := range rows {
-		t.Append(toAny(r)...)
-	}
-	t.Render()
+	writeTable(ew, head, rows)
 	return ew.err
 }
 
@@ -414,12 +409,7 @@ func rating(l *study.Limit) string {
 // section prints a titled table.
 func section(w io.Writer, title string, head []string, rows [][]string) {
 	fmt.Fprintln(w, title)
-	t := newTable(w, head)
-	t.Header(toAny(head)...)
-	for _, r := range rows {
-		t.Append(toAny(r)...)
-	}
-	t.Render()
+	writeTable(w, head, rows)
 	fmt.Fprintln(w)
 }
 
@@ -433,6 +423,16 @@ var textColumns = map[string]bool{"quantity": true, "result": true, "source": tr
 
 // newTable is the house style: ASCII borders (safe in any terminal and log),
 // headers as written, words left and numbers right.
+// writeTable renders a table of the house style.
+func writeTable(w io.Writer, head []string, rows [][]string) {
+	t := newTable(w, head)
+	t.Header(toAny(head)...)
+	for _, r := range rows {
+		t.Append(toAny(r)...)
+	}
+	t.Render()
+}
+
 func newTable(w io.Writer, head []string) *tablewriter.Table {
 	align := make([]tw.Align, len(head))
 	for i, h := range head {
