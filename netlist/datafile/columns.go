@@ -142,8 +142,16 @@ func (t *csvTable) readHeader(name string, ln line, sep rune, want []column, err
 }
 
 // unitScale reads a bracketed unit such as V, mA, MHz or ohm
-// (spec.ParseUnit) and returns its factor to the SI unit want.
+// (spec.ParseUnit) and returns its factor to the SI unit want. A header is
+// often written by an instrument, not typed: "Ohm" and "Ohms" there are
+// the ohm too.
 func unitScale(unit, want string) (float64, string) {
+	for _, o := range []string{"Ohms", "ohms", "Ohm"} {
+		if p, ok := strings.CutSuffix(unit, o); ok {
+			unit = p + "ohm"
+			break
+		}
+	}
 	exp, u, ok := spec.ParseUnit(unit)
 	switch {
 	case !ok:
