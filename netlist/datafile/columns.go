@@ -36,6 +36,13 @@ type csvRow struct {
 // lines and lines starting with '#' are skipped. The separator is a comma,
 // or a semicolon or tab when the header has no comma.
 func readCSV(name string, src []byte, want []column, errs *ErrorList) *csvTable {
+	return readTable(name, src, want, false, errs)
+}
+
+// readTable reads a CSV as readCSV does; with positional, a first line of
+// numbers only is no header but the first row, whose fields are the wanted
+// columns in order, in their SI units.
+func readTable(name string, src []byte, want []column, positional bool, errs *ErrorList) *csvTable {
 	t := &csvTable{idx: make([]int, len(want)), scale: make([]float64, len(want))}
 	for k := range t.idx {
 		t.idx[k], t.scale[k] = -1, 1
@@ -56,9 +63,16 @@ func readCSV(name string, src []byte, want []column, errs *ErrorList) *csvTable 
 					sep = '\t'
 				}
 			}
-			t.header = ln.no
-			t.readHeader(name, ln, sep, want, errs)
-			continue
+			if positional && numbersOnly(ln.text, sep) {
+				for k := range want {
+					t.idx[k] = k
+				}
+				t.header = -1
+			} else {
+				t.header = ln.no
+				t.readHeader(name, ln, sep, want, errs)
+				continue
+			}
 		}
 		t.readRow(name, ln, sep, want, errs)
 	}
@@ -66,6 +80,16 @@ func readCSV(name string, src []byte, want []column, errs *ErrorList) *csvTable 
 		errs.Add(Pos{File: name}, ErrMissing, "no header line: the first line names the columns, for example %s", example(want))
 	}
 	return t
+}
+
+// numbersOnly says whether every field of a line is a plain number.
+func numbersOnly(text string, sep rune) bool {
+	for _, f := range splitSep(text, sep) {
+		if _, msg := spec.ParsePlain(f.text); msg != "" {
+			return false
+		}
+	}
+	return true
 }
 
 // example shows a header line with the required columns.
