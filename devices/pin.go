@@ -66,7 +66,7 @@ func init() {
 				// study and the edge check, not by a strike's run: the
 				// peaking of the transfer to the pin (dB), the capacitance
 				// the pin's node sees and the 10–90 % rise of an edge there.
-				spec.Optional("peaking", spec.Dimensionless, spec.Positive).As(spec.Rating),
+				spec.Optional("peaking", spec.Dimensionless, spec.Positive).Noted("in dB").As(spec.Rating),
 				spec.Optional("cmax", spec.Farad, spec.Positive).As(spec.Rating),
 				spec.Optional("rise", spec.Second, spec.Positive).As(spec.Rating),
 			},

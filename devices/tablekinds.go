@@ -3,7 +3,6 @@ package devices
 import (
 	"errors"
 	"fmt"
-	"os"
 
 	"zapnet/devices/spec"
 	"zapnet/netlist/datafile"
@@ -29,7 +28,7 @@ const ibisCaution = "%s: IBIS carries no failure data; set the pin's ifail from 
 
 // readTLPTable reads a TLP curve file as a table.
 func readTLPTable(path string) (*IVTable, error) {
-	src, err := os.ReadFile(path)
+	src, err := datafile.ReadFile(path)
 	if err != nil {
 		return nil, err
 	}
@@ -73,7 +72,7 @@ func newTablePin(name string, nodes [2]string, v *spec.Values) (Device, error) {
 		}
 		return NewTablePath(TableSpec{Name: name, Nodes: nodes, Low: tab, C: v.Num("cin")})
 	}
-	src, err := os.ReadFile(ibis)
+	src, err := datafile.ReadFile(ibis)
 	if err != nil {
 		return nil, fmt.Errorf("pin %s: %w", name, err)
 	}

@@ -16,29 +16,6 @@ import (
 	"zapnet/waveforms"
 )
 
-// Pos is a position in a deck. Line and Col count from 1; Col counts runes.
-type Pos struct {
-	File string
-	Line int
-	Col  int
-}
-
-// IsValid reports whether the position was set.
-func (p Pos) IsValid() bool { return p.Line > 0 }
-
-// String renders file:line:col, dropping the parts that are unknown.
-func (p Pos) String() string {
-	switch {
-	case !p.IsValid() && p.File == "":
-		return "-"
-	case !p.IsValid():
-		return p.File
-	case p.File == "":
-		return fmt.Sprintf("%d:%d", p.Line, p.Col)
-	}
-	return fmt.Sprintf("%s:%d:%d", p.File, p.Line, p.Col)
-}
-
 // Ground is the name of the reference node. A deck never declares it.
 const Ground = "gnd"
 

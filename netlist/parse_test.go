@@ -419,7 +419,7 @@ resistor R2    n4   gnd  50
 	if !reflect.DeepEqual(s.Levels, []float64{2000, 4000}) || s.Polarity != "both" || s.Waveform.Name != "iso10605" {
 		t.Errorf("strike %+v", s)
 	}
-	if e := c.Element("D1"); e.Pos != (Pos{"t.zap", 6, 1}) {
+	if e := c.Element("D1"); e.Pos != (Pos{File: "t.zap", Line: 6, Col: 1}) {
 		t.Errorf("D1 at %v", e.Pos)
 	}
 	// Without a vbr the pin has no internal clamp parameters.

@@ -2,8 +2,6 @@ package netlist
 
 import (
 	"fmt"
-	"io"
-	"os"
 	"path/filepath"
 	"strings"
 	"unicode"
@@ -11,6 +9,7 @@ import (
 
 	"zapnet/devices"
 	"zapnet/devices/spec"
+	"zapnet/netlist/textpos"
 )
 
 // maxDeckSize bounds a deck or an included file: a deck is a page of text,
@@ -120,36 +119,9 @@ func ParseFile(path string) (*Circuit, error) {
 	return Parse(path, src)
 }
 
-// readDeck reads a regular file of bounded size.
+// readDeck reads a deck or an included file: regular, of bounded size.
 func readDeck(path string) ([]byte, error) {
-	fi, err := os.Stat(path)
-	if err != nil {
-		return nil, unwrapPathErr(err)
-	}
-	if !fi.Mode().IsRegular() {
-		return nil, fmt.Errorf("%s is not a regular file", path)
-	}
-	if fi.Size() == 0 {
-		// Empty, or a kernel file whose size is unknown and whose read
-		// might block: either way there is nothing to read.
-		return nil, nil
-	}
-	if fi.Size() > maxDeckSize {
-		return nil, fmt.Errorf("%s is larger than %d MiB; a deck is text", path, maxDeckSize>>20)
-	}
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, unwrapPathErr(err)
-	}
-	defer f.Close()
-	return io.ReadAll(io.LimitReader(f, maxDeckSize+1))
-}
-
-func unwrapPathErr(err error) error {
-	if pe, ok := err.(*os.PathError); ok {
-		return fmt.Errorf("cannot read %s: %v", pe.Path, pe.Err)
-	}
-	return err
+	return textpos.ReadFile(path, maxDeckSize, "a deck")
 }
 
 // Parse reads and checks a deck whose text is src. filename is used in

@@ -4,6 +4,8 @@ import (
 	"bytes"
 	"strings"
 	"unicode/utf8"
+
+	"zapnet/netlist/textpos"
 )
 
 // token is one word of a statement: a bare word, a quoted string or a
@@ -105,7 +107,7 @@ func scanLine(file string, lineNo int, line []byte, room int, errs *ErrorList) (
 			r, w = utf8.DecodeRune(line[i:])
 			if r == utf8.RuneError && w == 1 && !badUTF8 {
 				badUTF8 = true
-				errs.Add(Pos{file, lineNo, col}, ErrSyntax, "invalid UTF-8 encoding")
+				errs.Add(Pos{File: file, Line: lineNo, Col: col}, ErrSyntax, "invalid UTF-8 encoding")
 			}
 			if inQuote {
 				if r == '\\' && i+1 < len(line) && (line[i+1] == '"' || line[i+1] == '\\') {
@@ -128,7 +130,7 @@ func scanLine(file string, lineNo int, line []byte, room int, errs *ErrorList) (
 			// makeToken, and does not swallow the rest of the line.
 			if r == '"' && (i == start || line[i-1] == '=') {
 				inQuote = true
-				quotePos = Pos{file, lineNo, col}
+				quotePos = Pos{File: file, Line: lineNo, Col: col}
 			}
 			i += w
 			col++
@@ -136,7 +138,7 @@ func scanLine(file string, lineNo int, line []byte, room int, errs *ErrorList) (
 		if inQuote {
 			errs.Add(quotePos, ErrSyntax, "string not closed: a quote \" is missing before the end of the line")
 		}
-		pos := Pos{file, lineNo, startCol}
+		pos := Pos{File: file, Line: lineNo, Col: startCol}
 		if len(toks) >= room {
 			if skipped == nil && room >= 0 {
 				errs.Add(pos, ErrSyntax, "a statement holds at most %d words; the rest of this one is not read", maxWords)
@@ -181,8 +183,8 @@ func hidden(file string, lineNo int, line []byte, errs *ErrorList) {
 	col := 1
 	for i := 0; i < len(line); {
 		r, w := utf8.DecodeRune(line[i:])
-		if !(r == utf8.RuneError && w == 1) && r != '\f' && r != '\v' && !shown(r) {
-			errs.Add(Pos{file, lineNo, col}, ErrSyntax, "character %s is not text a deck may hold (a control or invisible character)", Printable(string(r)))
+		if !(r == utf8.RuneError && w == 1) && r != '\f' && r != '\v' && !textpos.Shown(r) {
+			errs.Add(Pos{File: file, Line: lineNo, Col: col}, ErrSyntax, "character %s is not text a deck may hold (a control or invisible character)", Printable(string(r)))
 			return
 		}
 		i += w

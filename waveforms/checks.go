@@ -10,7 +10,7 @@ import (
 // Check is one published check point of a waveform compared with what the
 // stimulus delivers into the load.
 type Check struct {
-	Quantity string  // what is measured, e.g. "first peak", "i(30 ns)"
+	Quantity string  // what is measured, e.g. "first peak", "current at 30 ns"
 	Unit     string  // unit of Computed, Published, Lo and Hi: "A", "V", "s" or "%"
 	Computed float64 // measured on the stimulus into the load
 	// Published is the nominal published value; NaN when only a window is

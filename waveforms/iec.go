@@ -87,7 +87,7 @@ func checksIEC(s *Stimulus, m meter) []Check {
 	return []Check{
 		rel("first peak", "A", pv, 3.75*kv, 0.15, src, ref),
 		rel("rise 10-90 %", "s", t90-t10, 0.8e-9, 0.25, "[pub]", "IEC 61000-4-2 Ed. 2.0 waveform table, values and tolerances"),
-		rel("i(30 ns)", "A", sh.g(t10+30e-9), 2*kv, 0.30, src, ref),
-		rel("i(60 ns)", "A", sh.g(t10+60e-9), 1*kv, 0.30, src, ref),
+		rel("current at 30 ns", "A", sh.g(t10+30e-9), 2*kv, 0.30, src, ref),
+		rel("current at 60 ns", "A", sh.g(t10+60e-9), 1*kv, 0.30, src, ref),
 	}
 }

@@ -162,8 +162,8 @@ func checksISO(s *Stimulus, load float64, m meter) []Check {
 		kv := s.Level / 1000
 		ref := fmt.Sprintf("ISO 10605, %s / %s network", siFormat(p.c, "F"), siFormat(p.r, "Ω"))
 		return []Check{
-			rel(fmt.Sprintf("i(%s)", siFormat(p.t1, "s")), "A", sh.g(t10+p.t1), p.a1*kv, 0.30, "[mem]", ref),
-			rel(fmt.Sprintf("i(%s)", siFormat(p.t2, "s")), "A", sh.g(t10+p.t2), p.a2*kv, 0.30, "[mem]", ref),
+			rel("current at "+siFormat(p.t1, "s"), "A", sh.g(t10+p.t1), p.a1*kv, 0.30, "[mem]", ref),
+			rel("current at "+siFormat(p.t2, "s"), "A", sh.g(t10+p.t2), p.a2*kv, 0.30, "[mem]", ref),
 		}
 	}
 	return nil

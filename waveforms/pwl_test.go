@@ -40,17 +40,17 @@ func TestPWL(t *testing.T) {
 	nearAbs(t, "no header", s.F(1e-9), 0.75, 1e-12)
 }
 
-// Bad files: every bad line is named with its line number.
+// Bad files: every bad line is named with its line and column.
 func TestPWLErrors(t *testing.T) {
 	_, err := mk("pwl", 1, nil, map[string]string{"file": "testdata/bad.csv"})
 	if err == nil {
 		t.Fatal("bad file accepted")
 	}
 	for _, want := range []string{
-		"bad.csv:4: time 1e-09 is not after the previous time 2e-09",
-		"bad.csv:5: current \"x\" is not a finite number",
-		"bad.csv:6: want 2 fields",
-		"bad.csv:7: time -1 is negative",
+		"bad.csv:4:1: time 1 ns is not after the time before (2 ns): times must rise",
+		`bad.csv:5:6: column "current": "x" is not a number`,
+		`bad.csv:6:5: the row ends before column "current"`,
+		"bad.csv:7:1: time -1 s is negative",
 	} {
 		if !strings.Contains(err.Error(), want) {
 			t.Errorf("error lacks %q:\n%v", want, err)

@@ -141,15 +141,11 @@ func finishFit(doc fit.Document, o fitOutputs, stdout io.Writer) error {
 func fitError(what string, err error) error {
 	var list datafile.ErrorList
 	if errors.As(err, &list) {
-		n := 0
 		var lines []string
 		for _, e := range list {
 			lines = append(lines, e.Error())
-			if !e.Warning {
-				n++
-			}
 		}
-		return fmt.Errorf("%s: %d problem(s):\n%s", what, n, strings.Join(lines, "\n"))
+		return fmt.Errorf("%s: %d problem(s):\n%s", what, list.Problems(), strings.Join(lines, "\n"))
 	}
 	return fmt.Errorf("%s: %w", what, err)
 }

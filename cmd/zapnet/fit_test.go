@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -193,5 +194,28 @@ func TestFitNeverWritesOverItsInput(t *testing.T) {
 		if b, _ := os.ReadFile(tlp); string(b) != string(src) {
 			t.Fatalf("%v: the input was changed", args)
 		}
+	}
+}
+
+// A data file of a thousand bad rows is reported as a deck is: the first
+// hundred problems, a line counting the rest, and the true count in the
+// summary [calc: 1000 bad fields and no good row, 1001 problems].
+func TestFitProblemsBounded(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("v [V],i [A]\n")
+	for i := range 1000 {
+		fmt.Fprintf(&b, "%d,x\n", i)
+	}
+	p := filepath.Join(t.TempDir(), "many.csv")
+	if err := os.WriteFile(p, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, errOut, code := zapnet(t, "fit", "clamp", "--tlp", p)
+	if code != exitUnusable || !strings.Contains(errOut, ": 1001 problem(s):") ||
+		!strings.Contains(errOut, "\n... and 901 more problems (the first 100 are shown)") {
+		t.Errorf("exit %d, stderr:\n%s", code, errOut)
+	}
+	if n := strings.Count(errOut, "\n"); n > 110 {
+		t.Errorf("%d lines for a capped list", n)
 	}
 }

@@ -25,8 +25,10 @@ func runMerge(args []string, stdout, stderr io.Writer) error {
 Joins the JSON of the shards of one sweep (run, margin, sensitivity or
 spread, each run with --shard i/n) into exactly the JSON the unsharded
 command writes, and prints its tables. Every shard must be there once: a
-missing or interrupted slice is an error naming the missing items. A spread
-is recomputed from the circuits' samples, so its percentiles are exact.
+missing or interrupted slice is an error naming the missing items. A
+spread's shards carry a summary of their circuits (the values while few,
+sketches above) that adds up to the unsharded spread's statistics bit for
+bit.
 Exit status: as the unsharded command's (run, spread: 1 when something
 failed its verdict), 2 when the files do not belong together.`,
 		stderr)
@@ -158,7 +160,7 @@ func docKind(b []byte) (string, error) {
 		return "margin", nil
 	case m["parameters"] != nil:
 		return "sensitivity", nil
-	case m["samples"] != nil:
+	case m["pass_fraction"] != nil || m["samples"] != nil:
 		return "spread", nil
 	case bytes.HasPrefix(bytes.TrimSpace(m["runs"]), []byte("[")):
 		return "run", nil

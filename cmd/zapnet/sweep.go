@@ -336,7 +336,7 @@ func tableThenJSON(jsonPath string, stdout, stderr io.Writer, table func(io.Writ
 // items: of the shard's items, or of total for the whole sweep.
 func sweepInterrupted(done, total int, shard *study.ShardInfo) error {
 	if shard != nil {
-		total = len(shard.Items())
+		total = study.Shard{Index: shard.Index, Count: shard.Count}.Len(shard.Total)
 	}
 	return errInterrupted{done, total}
 }

@@ -71,8 +71,8 @@ func TestWaveformEveryName(t *testing.T) {
 	out, _, _ := runW(t, "iso10605", "--set", "c=330p", "--set", "r=2k", "--level", "8k")
 	// 330 pF / 2 kΩ at 8 kV: 4 A·e^(−400/660) at 400 ns [calc].
 	want := waveforms.FormatValue(4*math.Exp(-400.0/660), "A")
-	if !strings.Contains(out, "i(400 ns)") || !strings.Contains(out, want) {
-		t.Errorf("iso10605 330p/2k report lacks i(400 ns) = %s:\n%s", want, out)
+	if !strings.Contains(out, "current at 400 ns") || !strings.Contains(out, want) {
+		t.Errorf("iso10605 330p/2k report lacks the current at 400 ns = %s:\n%s", want, out)
 	}
 }
 

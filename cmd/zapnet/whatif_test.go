@@ -7,6 +7,7 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
+	"reflect"
 	"strings"
 	"testing"
 
@@ -82,6 +83,9 @@ func TestSensitivityShardsMerge(t *testing.T) {
 
 func TestSpreadShardsMerge(t *testing.T) {
 	shardsEqualWhole(t, 2, exitFail, "spread", spreadDeck, "--runs", "5", "--seed", "11")
+	// Above the exact count every shard and the whole are sketches; the
+	// merged JSON is still the whole's, with every circuit's samples too.
+	shardsEqualWhole(t, 3, exitFail, "spread", spreadDeck, "--runs", "8", "--seed", "11", "--exact", "2", "--samples")
 }
 
 func TestMarginCommand(t *testing.T) {
@@ -122,28 +126,63 @@ func TestSpreadCommand(t *testing.T) {
 	// (testdata/reference/summary.csv, from the independent solver: min
 	// v(n2) = −1.083 V against vmin −0.5 V [calc]); the tolerances cannot
 	// close that gap, so every drawn circuit fails and the exit status is 1.
-	out, e, code := zapnet(t, "spread", spreadDeck, "--runs", "4", "--json", "-")
-	if code != exitFail {
-		t.Fatalf("exit %d, want 1\n%s", code, e)
+	type document struct {
+		Runs            int                           `json:"runs"`
+		Seed            uint64                        `json:"seed"`
+		Solved          *int                          `json:"solved"`
+		Unsolved        *int                          `json:"unsolved"`
+		PassFraction    float64                       `json:"pass_fraction"`
+		CI95            [2]float64                    `json:"ci95"`
+		ExactUpTo       int                           `json:"exact_up_to"`
+		PercentileError *float64                      `json:"percentile_error"`
+		Percentiles     map[string]whatif.Percentiles `json:"percentiles"`
+		Samples         []json.RawMessage             `json:"samples"`
+		Summary         json.RawMessage               `json:"summary"`
 	}
-	var doc struct {
-		Runs         int                           `json:"runs"`
-		Seed         uint64                        `json:"seed"`
-		PassFraction float64                       `json:"pass_fraction"`
-		CI95         [2]float64                    `json:"ci95"`
-		Percentiles  map[string]whatif.Percentiles `json:"percentiles"`
-		Samples      []json.RawMessage             `json:"samples"`
+	read := func(args ...string) (document, string) {
+		t.Helper()
+		out, e, code := zapnet(t, append([]string{"spread", spreadDeck, "--runs", "4", "--json", "-"}, args...)...)
+		if code != exitFail {
+			t.Fatalf("%v: exit %d, want 1\n%s", args, code, e)
+		}
+		var doc document
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		return doc, e
 	}
-	if err := json.Unmarshal([]byte(out), &doc); err != nil {
-		t.Fatal(err)
+	doc, tables := read()
+	if doc.Runs != 4 || doc.Seed != 1 || doc.PassFraction != 0 || doc.CI95[0] != 0 || !(doc.CI95[1] > 0.4) {
+		t.Errorf("document runs %d seed %d pass %g ci %v", doc.Runs, doc.Seed, doc.PassFraction, doc.CI95)
 	}
-	if doc.Runs != 4 || doc.Seed != 1 || len(doc.Samples) != 4 || doc.PassFraction != 0 || doc.CI95[0] != 0 || !(doc.CI95[1] > 0.4) {
-		t.Errorf("document runs %d seed %d samples %d pass %g ci %v", doc.Runs, doc.Seed, len(doc.Samples), doc.PassFraction, doc.CI95)
+	// Statistics only: no samples, no summary (that is a shard's), the
+	// counts and the exactness stated.
+	if doc.Samples != nil || doc.Summary != nil || doc.Solved == nil || *doc.Solved != 4 || doc.Unsolved == nil || *doc.Unsolved != 0 ||
+		doc.ExactUpTo != whatif.ExactCircuits || doc.PercentileError == nil || *doc.PercentileError != 0 {
+		t.Errorf("document: %d samples, summary %s, solved %v unsolved %v, exact up to %d, percentile error %v",
+			len(doc.Samples), doc.Summary, doc.Solved, doc.Unsolved, doc.ExactUpTo, doc.PercentileError)
 	}
 	for _, m := range []string{"U1.residual.peak", "D1.energy", "worst_margin"} {
 		if doc.Percentiles[m].N != 4 {
 			t.Errorf("percentiles of %s: %+v", m, doc.Percentiles[m])
 		}
+	}
+	if strings.Contains(tables, "sketch") {
+		t.Errorf("4 circuits are exact, the table speaks of a sketch:\n%s", tables)
+	}
+	with, _ := read("--samples")
+	if len(with.Samples) != 4 || !reflect.DeepEqual(with.Percentiles, doc.Percentiles) {
+		t.Errorf("--samples: %d samples, percentiles %v (without: %v)", len(with.Samples), with.Percentiles, doc.Percentiles)
+	}
+	sk, tables := read("--exact", "3")
+	if sk.PercentileError == nil || *sk.PercentileError != whatif.SketchAccuracy || sk.ExactUpTo != 3 {
+		t.Errorf("--exact 3 over 4 circuits: percentile error %v, exact up to %d", sk.PercentileError, sk.ExactUpTo)
+	}
+	if !strings.Contains(tables, "Above 3 circuits the percentiles are read from a sketch: each within 0.1 % of its exact value") {
+		t.Errorf("--exact 3 over 4 circuits: the table does not say the percentiles are a sketch's:\n%s", tables)
+	}
+	if _, e, code := zapnet(t, "spread", spreadDeck, "--runs", "4", "--samples"); code != exitUnusable || !strings.Contains(e, "--json") {
+		t.Errorf("--samples without --json: exit %d\n%s", code, e)
 	}
 }
 
@@ -162,15 +201,16 @@ func TestInterruptedWritesWhatFinished(t *testing.T) {
 		t.Fatalf("error %v, want an interruption of 50 circuits", err)
 	}
 	var doc struct {
-		Interrupted bool              `json:"interrupted"`
-		Samples     []json.RawMessage `json:"samples"`
+		Interrupted bool `json:"interrupted"`
+		Solved      int  `json:"solved"`
+		Unsolved    int  `json:"unsolved"`
 	}
 	b, rerr := os.ReadFile(path)
 	if rerr != nil {
 		t.Fatal(rerr)
 	}
-	if err := json.Unmarshal(b, &doc); err != nil || !doc.Interrupted || len(doc.Samples) != ie.done {
-		t.Errorf("written JSON: interrupted %v, %d samples, %d reported done (%v)", doc.Interrupted, len(doc.Samples), ie.done, err)
+	if err := json.Unmarshal(b, &doc); err != nil || !doc.Interrupted || doc.Solved+doc.Unsolved != ie.done {
+		t.Errorf("written JSON: interrupted %v, %d solved and %d not, %d reported done (%v)", doc.Interrupted, doc.Solved, doc.Unsolved, ie.done, err)
 	}
 }
 
@@ -198,6 +238,7 @@ func TestSweepFlagErrors(t *testing.T) {
 		{"margin", demoDeck, "--max", "abc"},
 		{"sensitivity", demoDeck, "--set", "C1.value=1n,2n"},
 		{"spread", spreadDeck, "--runs", "0"},
+		{"spread", spreadDeck, "--exact", "0"},
 	} {
 		if _, _, code := zapnet(t, args...); code != exitUnusable {
 			t.Errorf("%v: exit %d, want 2", args, code)

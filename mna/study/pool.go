@@ -15,11 +15,22 @@ import (
 // returns which items finished. The solves of a study and of the what-if
 // sweeps share this one pool.
 func ForEach(ctx context.Context, workers, n int, progress func(done, total int), work func(w, i int)) []bool {
+	finished := make([]bool, n)
+	Each(ctx, workers, n, progress, func(w, i int) {
+		work(w, i)
+		finished[i] = true // each item is one worker's: no lock needed
+	})
+	return finished
+}
+
+// Each is ForEach for sweeps too long to keep a mark per item (a spread
+// of millions of circuits): it returns only how many items finished. When
+// ctx is done, those are the items that started.
+func Each(ctx context.Context, workers, n int, progress func(done, total int), work func(w, i int)) int {
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
 	workers = max(1, min(workers, n))
-	finished := make([]bool, n)
 	next := make(chan int)
 	var mu sync.Mutex
 	count := 0
@@ -31,7 +42,6 @@ func ForEach(ctx context.Context, workers, n int, progress func(done, total int)
 			for i := range next {
 				work(w, i)
 				mu.Lock()
-				finished[i] = true
 				count++
 				if progress != nil {
 					progress(count, n)
@@ -53,7 +63,7 @@ feed:
 	}
 	close(next)
 	wg.Wait()
-	return finished
+	return count
 }
 
 // Benches keeps, for each worker of a pool, the variant it compiled last:

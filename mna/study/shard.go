@@ -40,6 +40,26 @@ func (s Shard) Whole() bool { return s.Count <= 1 }
 // Has reports whether item k belongs to the shard.
 func (s Shard) Has(k int) bool { return s.Whole() || k%s.Count == s.Index-1 }
 
+// Len is the number of items of 0..n−1 in the shard.
+func (s Shard) Len(n int) int {
+	switch {
+	case s.Whole():
+		return n
+	case s.Index > n:
+		return 0
+	}
+	return (n-s.Index)/s.Count + 1
+}
+
+// Item is the shard's i-th item (from 0), for 0 ≤ i < Len: a sweep too long
+// to list its items (Items) walks them one by one.
+func (s Shard) Item(i int) int {
+	if s.Whole() {
+		return i
+	}
+	return s.Index - 1 + i*s.Count
+}
+
 // Items lists the items of 0..n−1 in the shard, in order.
 func (s Shard) Items(n int) []int {
 	var out []int
@@ -111,17 +131,24 @@ func short(s []string) string {
 }
 
 // Joined checks what every merge checks of the joined shards: that
-// they are of one split of total items (sameShards), that none is missing
-// (named as "shard 2/3 is missing"), and that indices name each item once
-// (Complete).
+// they are of one split of total items, none missing (AllShards), and
+// that indices name each item once (Complete).
 func Joined(infos []*ShardInfo, indices []int, total int, what string) error {
-	if err := sameShards(infos, total); err != nil {
-		return err
-	}
-	if err := missingShards(infos); err != nil {
+	if err := AllShards(infos, total); err != nil {
 		return err
 	}
 	return Complete(indices, total, what)
+}
+
+// AllShards checks that infos are of one split of total items (sameShards)
+// with every shard there once, a missing one named as "shard 2/3 is
+// missing". A merge that holds no item indices (a spread's statistics)
+// checks the count of items of each shard itself (Shard.Len).
+func AllShards(infos []*ShardInfo, total int) error {
+	if err := sameShards(infos, total); err != nil {
+		return err
+	}
+	return missingShards(infos)
 }
 
 // missingShards names the shards of the split that infos are of that are

@@ -37,6 +37,24 @@ func TestShardsPartition(t *testing.T) {
 			}
 		}
 	}
+	// Len and Item walk the same items as Items, for counts the shard
+	// does not reach too.
+	for n := 0; n <= 9; n++ {
+		for count := 1; count <= 5; count++ {
+			for i := 1; i <= count; i++ {
+				s := Shard{i, count}
+				items := s.Items(n)
+				if s.Len(n) != len(items) {
+					t.Fatalf("shard %d/%d of %d: Len %d, Items %v", i, count, n, s.Len(n), items)
+				}
+				for j, k := range items {
+					if s.Item(j) != k {
+						t.Fatalf("shard %d/%d: Item(%d) = %d, want %d", i, count, j, s.Item(j), k)
+					}
+				}
+			}
+		}
+	}
 	if err := Complete([]int{0, 2, 1}, 3, "runs"); err != nil {
 		t.Error(err)
 	}
@@ -54,5 +72,14 @@ func TestMissingShardNamed(t *testing.T) {
 	err := Joined(infos, []int{0, 3, 6, 2, 5, 8}, 9, "runs")
 	if err == nil || !strings.Contains(err.Error(), "shard 2/3 is missing") {
 		t.Errorf("got %v, want shard 2/3 named", err)
+	}
+	if err := AllShards(infos, 9); err == nil || !strings.Contains(err.Error(), "shard 2/3 is missing") {
+		t.Errorf("AllShards: got %v, want shard 2/3 named", err)
+	}
+	if err := AllShards(append(infos, infos[0]), 9); err == nil || !strings.Contains(err.Error(), "given twice") {
+		t.Errorf("AllShards of a shard given twice: %v", err)
+	}
+	if err := AllShards(append(infos, &ShardInfo{Index: 2, Count: 3, Total: 9}), 9); err != nil {
+		t.Errorf("AllShards of every shard: %v", err)
 	}
 }

@@ -197,7 +197,7 @@ func TestLargerDecouplingLowersResidual(t *testing.T) {
 // The energy ledger balances on every demo deck, at every level, polarity
 // and variant: the strike's energy equals the sum of the others' to within
 // 0.1 % [pub: NUMERICS.md and MODELS.md, energy is conserved by the circuit
-// equations; the 0.1 % is issue 3's bound], and on the demo the clamp takes
+// equations; 0.1 % is the house's bound on the ledger, common practice], and on the demo the clamp takes
 // most of it.
 func TestLedgerBalances(t *testing.T) {
 	decks, err := filepath.Glob(filepath.Join("..", "..", "testdata", "*.zap"))

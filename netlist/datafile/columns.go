@@ -4,6 +4,8 @@ import (
 	"math"
 	"strings"
 	"unicode/utf8"
+
+	"zapnet/devices/spec"
 )
 
 // column describes a column a CSV reader looks for in the header.
@@ -34,6 +36,13 @@ type csvRow struct {
 // lines and lines starting with '#' are skipped. The separator is a comma,
 // or a semicolon or tab when the header has no comma.
 func readCSV(name string, src []byte, want []column, errs *ErrorList) *csvTable {
+	return readTable(name, src, want, false, errs)
+}
+
+// readTable reads a CSV as readCSV does; with positional, a first line of
+// numbers only is no header but the first row, whose fields are the wanted
+// columns in order, in their SI units.
+func readTable(name string, src []byte, want []column, positional bool, errs *ErrorList) *csvTable {
 	t := &csvTable{idx: make([]int, len(want)), scale: make([]float64, len(want))}
 	for k := range t.idx {
 		t.idx[k], t.scale[k] = -1, 1
@@ -54,16 +63,33 @@ func readCSV(name string, src []byte, want []column, errs *ErrorList) *csvTable 
 					sep = '\t'
 				}
 			}
-			t.header = ln.no
-			t.readHeader(name, ln, sep, want, errs)
-			continue
+			if positional && numbersOnly(ln.text, sep) {
+				for k := range want {
+					t.idx[k] = k
+				}
+				t.header = -1
+			} else {
+				t.header = ln.no
+				t.readHeader(name, ln, sep, want, errs)
+				continue
+			}
 		}
 		t.readRow(name, ln, sep, want, errs)
 	}
 	if t.header == 0 {
-		errs.add(Pos{File: name}, ErrMissing, "no header line: the first line names the columns, for example %s", example(want))
+		errs.Add(Pos{File: name}, ErrMissing, "no header line: the first line names the columns, for example %s", example(want))
 	}
 	return t
+}
+
+// numbersOnly says whether every field of a line is a plain number.
+func numbersOnly(text string, sep rune) bool {
+	for _, f := range splitSep(text, sep) {
+		if _, msg := spec.ParsePlain(f.text); msg != "" {
+			return false
+		}
+	}
+	return true
 }
 
 // example shows a header line with the required columns.
@@ -83,7 +109,7 @@ func example(want []column) string {
 
 func (t *csvTable) readHeader(name string, ln line, sep rune, want []column, errs *ErrorList) {
 	for fi, f := range splitSep(ln.text, sep) {
-		pos := Pos{name, ln.no, f.col}
+		pos := Pos{File: name, Line: ln.no, Col: f.col}
 		label, unit := f.text, ""
 		if k := strings.IndexAny(label, "[("); k >= 0 {
 			closer := "]"
@@ -92,7 +118,7 @@ func (t *csvTable) readHeader(name string, ln line, sep rune, want []column, err
 			}
 			end := strings.LastIndex(label, closer)
 			if end < k {
-				errs.add(pos, ErrSyntax, "column %q: the unit's bracket is not closed", f.text)
+				errs.Add(pos, ErrSyntax, "column %q: the unit's bracket is not closed", f.text)
 				continue
 			}
 			unit = strings.TrimSpace(label[k+1 : end])
@@ -111,7 +137,7 @@ func (t *csvTable) readHeader(name string, ln line, sep rune, want []column, err
 			continue
 		}
 		if t.idx[found] >= 0 {
-			errs.add(pos, ErrSyntax, "column %q given twice", label)
+			errs.Add(pos, ErrSyntax, "column %q given twice", label)
 			continue
 		}
 		t.idx[found] = fi
@@ -121,43 +147,47 @@ func (t *csvTable) readHeader(name string, ln line, sep rune, want []column, err
 		}
 		if c.angle {
 			if !strings.EqualFold(unit, "deg") && unit != "°" && !strings.EqualFold(unit, "degrees") {
-				errs.add(pos, ErrNumber, "column %q: angles are in degrees, [deg], not [%s]", label, unit)
+				errs.Add(pos, ErrNumber, "column %q: angles are in degrees, [deg], not [%s]", label, unit)
 			}
 			continue
 		}
 		s, msg := unitScale(unit, c.unit)
 		if msg != "" {
-			errs.add(pos, ErrNumber, "column %q: %s", label, msg)
+			errs.Add(pos, ErrNumber, "column %q: %s", label, msg)
 			continue
 		}
 		t.scale[found] = s
 	}
 	for ci, c := range want {
 		if c.required && t.idx[ci] < 0 {
-			errs.add(Pos{name, ln.no, 1}, ErrMissing, "no column %q in the header (want %s)", c.names[0], example(want))
+			errs.Add(Pos{File: name, Line: ln.no, Col: 1}, ErrMissing, "no column %q in the header (want %s)", c.names[0], example(want))
 		}
 	}
 }
 
-// unitScale reads a bracketed unit such as V, mA, MHz or ohm and returns its
-// factor to the SI unit want.
+// unitScale reads a bracketed unit such as V, mA, MHz or ohm
+// (spec.ParseUnit) and returns its factor to the SI unit want. A header is
+// often written by an instrument, not typed: "Ohm" and "Ohms" there are
+// the ohm too.
 func unitScale(unit, want string) (float64, string) {
-	if u, ok := units[unit]; ok {
-		if u != want {
-			return 0, "wants " + unitNames[want] + " (" + want + "), not " + unitNames[u]
+	for _, o := range []string{"Ohms", "ohms", "Ohm"} {
+		if p, ok := strings.CutSuffix(unit, o); ok {
+			unit = p + "ohm"
+			break
 		}
-		return 1, ""
 	}
-	_, w := utf8.DecodeRuneInString(unit)
-	p, ok := prefixes[unit[:w]]
-	u, uok := units[unit[w:]]
-	if !ok || !uok {
-		return 0, "unknown unit " + unit
+	exp, u, ok := spec.ParseUnit(unit)
+	switch {
+	case !ok:
+		msg := "unknown unit " + unit
+		if hint := spec.SuffixHint(unit); hint != "" {
+			msg += " (did you mean " + hint + "?)"
+		}
+		return 0, msg
+	case u != spec.Unit(want):
+		return 0, wantsUnit(want, u)
 	}
-	if u != want {
-		return 0, "wants " + unitNames[want] + " (" + want + "), not " + unitNames[u]
-	}
-	return math.Pow10(p), ""
+	return math.Pow10(exp), ""
 }
 
 func (t *csvTable) readRow(name string, ln line, sep rune, want []column, errs *ErrorList) {
@@ -171,7 +201,7 @@ func (t *csvTable) readRow(name string, ln line, sep rune, want []column, errs *
 			continue
 		}
 		if fi >= len(fs) {
-			errs.add(Pos{name, ln.no, utf8.RuneCountInString(ln.text) + 1}, ErrSyntax,
+			errs.Add(Pos{File: name, Line: ln.no, Col: utf8.RuneCountInString(ln.text) + 1}, ErrSyntax,
 				"the row ends before column %q (field %d of the header)", c.names[0], fi+1)
 			ok = false
 			continue
@@ -181,9 +211,9 @@ func (t *csvTable) readRow(name string, ln line, sep rune, want []column, errs *
 		if f.text == "" && c.blank {
 			continue
 		}
-		v, msg := plain(f.text)
+		v, msg := spec.ParsePlain(f.text)
 		if msg != "" {
-			errs.add(Pos{name, ln.no, f.col}, ErrNumber, "column %q: %s", c.names[0], msg)
+			errs.Add(Pos{File: name, Line: ln.no, Col: f.col}, ErrNumber, "column %q: %s", c.names[0], msg)
 			ok = false
 			continue
 		}

@@ -89,6 +89,21 @@ func TestReadImpedance(t *testing.T) {
 	if !a.Complex || !b.Complex {
 		t.Error("phase or r and x make the curve complex")
 	}
+	// An instrument's header spells the ohm as it likes [practice].
+	for _, h := range []string{"Ohm", "Ohms", "kOhm"} {
+		z, err := ReadImpedance("h.csv", []byte("f [MHz],z ["+h+"],phase [deg]\n1,2,80\n"))
+		if err != nil {
+			t.Errorf("[%s]: %v", h, err)
+			continue
+		}
+		want := 2.0
+		if h == "kOhm" {
+			want = 2000
+		}
+		if got := cmplx.Abs(z.Curves[0].Points[0].Z); math.Abs(got-want) > 1e-9*want {
+			t.Errorf("[%s]: |Z| %g, want %g", h, got, want)
+		}
+	}
 	// Bias curves.
 	c, err := ReadImpedance("c.csv", []byte("f,z,idc [mA]\n1e6,5,500\n1e8,300,500\n1e6,6,0\n1e8,600,0\n"))
 	if err != nil {

@@ -4,6 +4,8 @@ import (
 	"math"
 	"path/filepath"
 	"strings"
+
+	"zapnet/devices/spec"
 )
 
 // Datasheet is what a datasheet-points file says about a protection part:
@@ -116,17 +118,17 @@ func ReadDatasheet(name string, src []byte) (*Datasheet, error) {
 		}
 		// Columns shift where '@' got spaces; map them back.
 		fixCols(ln.text, ws)
-		at := func(f field) Pos { return Pos{name, ln.no, f.col} }
+		at := func(f field) Pos { return Pos{File: name, Line: ln.no, Col: f.col} }
 		key := strings.ToLower(ws[0].text)
 		if prev, ok := seen[key]; ok && !(dsKeys[key].repeats) {
-			errs.add(at(ws[0]), ErrSyntax, "%s given twice (first at line %d)", key, prev.Line)
+			errs.Add(at(ws[0]), ErrSyntax, "%s given twice (first at line %d)", key, prev.Line)
 			continue
 		}
 		seen[key] = at(ws[0])
 		switch key {
 		case "name", "model", "polarity":
 			if len(ws) != 2 {
-				errs.add(at(ws[0]), ErrSyntax, "%s takes one word", key)
+				errs.Add(at(ws[0]), ErrSyntax, "%s takes one word", key)
 				continue
 			}
 			w := ws[1].text
@@ -135,12 +137,12 @@ func ReadDatasheet(name string, src []byte) (*Datasheet, error) {
 				d.Name, d.NamePos = w, at(ws[1])
 			case "model":
 				if w != "clamp" && w != "snapback" {
-					errs.add(at(ws[1]), ErrSyntax, "model is clamp or snapback, not %q", w)
+					errs.Add(at(ws[1]), ErrSyntax, "model is clamp or snapback, not %q", w)
 				}
 				d.Model = w
 			case "polarity":
 				if w != "uni" && w != "bi" {
-					errs.add(at(ws[1]), ErrSyntax, "polarity is uni or bi, not %q", w)
+					errs.Add(at(ws[1]), ErrSyntax, "polarity is uni or bi, not %q", w)
 				}
 				d.Polarity = w
 			}
@@ -148,74 +150,74 @@ func ReadDatasheet(name string, src []byte) (*Datasheet, error) {
 		}
 		k, ok := dsKeys[key]
 		if !ok {
-			errs.add(at(ws[0]), ErrSyntax, "unknown key %q (keys: name model polarity vrwm ir vbr vc c ipp ls vt1 vh ron it2)", ws[0].text)
+			errs.Add(at(ws[0]), ErrSyntax, "unknown key %q (keys: name model polarity vrwm ir vbr vc c ipp ls vt1 vh ron it2)", ws[0].text)
 			continue
 		}
 		if len(ws) < 2 {
-			errs.add(at(ws[0]), ErrMissing, "%s needs a value in %s", key, unitNames[k.unit])
+			errs.Add(at(ws[0]), ErrMissing, "%s needs a value in %s", key, spec.Unit(k.unit).Word())
 			continue
 		}
 		s := Spec{Key: key, At: nan(), Pos: at(ws[0])}
 		v, msg := quantity(ws[1].text, k.unit)
 		if msg != "" {
-			errs.add(at(ws[1]), ErrNumber, "%s", msg)
+			errs.Add(at(ws[1]), ErrNumber, "%s", msg)
 			continue
 		}
 		s.Value = v
 		rest := ws[2:]
 		if len(rest) > 0 && rest[0].text == "@" {
 			if k.atUnit == "" {
-				errs.add(at(rest[0]), ErrSyntax, "%s takes no condition", key)
+				errs.Add(at(rest[0]), ErrSyntax, "%s takes no condition", key)
 				continue
 			}
 			if len(rest) < 2 {
-				errs.add(at(rest[0]), ErrMissing, "'@' needs a condition in %s after it", unitNames[k.atUnit])
+				errs.Add(at(rest[0]), ErrMissing, "'@' needs a condition in %s after it", spec.Unit(k.atUnit).Word())
 				continue
 			}
 			c, msg := quantity(rest[1].text, k.atUnit)
 			if msg != "" {
-				errs.add(at(rest[1]), ErrNumber, "%s", msg)
+				errs.Add(at(rest[1]), ErrNumber, "%s", msg)
 				continue
 			}
 			s.At = c
 			rest = rest[2:]
 		} else if k.atNeed {
-			errs.add(at(ws[0]), ErrMissing, "%s needs its condition: %s VALUE @ %s", key, key, unitNames[k.atUnit])
+			errs.Add(at(ws[0]), ErrMissing, "%s needs its condition: %s VALUE @ %s", key, key, spec.Unit(k.atUnit).Word())
 			continue
 		}
 		if len(rest) > 0 {
 			p := strings.ToLower(rest[0].text)
 			switch {
 			case k.pulse == 0:
-				errs.add(at(rest[0]), ErrSyntax, "unexpected %q: %s takes no pulse", rest[0].text, key)
+				errs.Add(at(rest[0]), ErrSyntax, "unexpected %q: %s takes no pulse", rest[0].text, key)
 				continue
 			case p != "8/20" && p != "10/1000" && p != "tlp":
-				errs.add(at(rest[0]), ErrSyntax, "unknown pulse %q (8/20, 10/1000 or tlp)", rest[0].text)
+				errs.Add(at(rest[0]), ErrSyntax, "unknown pulse %q (8/20, 10/1000 or tlp)", rest[0].text)
 				continue
 			}
 			s.Pulse = p
 			rest = rest[1:]
 		} else if k.pulse == 2 {
-			errs.add(at(ws[0]), ErrMissing, "%s needs the pulse it was measured with: 8/20, 10/1000 or tlp", key)
+			errs.Add(at(ws[0]), ErrMissing, "%s needs the pulse it was measured with: 8/20, 10/1000 or tlp", key)
 			continue
 		}
 		if len(rest) > 0 {
-			errs.add(at(rest[0]), ErrSyntax, "unexpected %q after the statement", rest[0].text)
+			errs.Add(at(rest[0]), ErrSyntax, "unexpected %q after the statement", rest[0].text)
 			continue
 		}
 		if key == "ipp" && s.Pulse == "" {
 			s.Pulse = "8/20"
 		}
 		if msg := dsRange(s); msg != "" {
-			errs.add(at(ws[1]), ErrRange, "%s", msg)
+			errs.Add(at(ws[1]), ErrRange, "%s", msg)
 			continue
 		}
 		d.Points = append(d.Points, s)
 	}
 	if len(d.Points) == 0 && len(errs) == 0 {
-		errs.add(Pos{File: name}, ErrMissing, "no datasheet points")
+		errs.Add(Pos{File: name}, ErrMissing, "no datasheet points")
 	}
-	errs.sort()
+	errs.RemoveMultiples()
 	if err := errs.Err(); err != nil {
 		return nil, err
 	}

@@ -1,9 +1,11 @@
 package datafile
 
 import (
-	"fmt"
 	"math"
 	"strings"
+
+	"zapnet/devices/spec"
+	"zapnet/netlist/textpos"
 )
 
 // IBIS holds what zapnet reads of an IBIS file (I/O Buffer Information
@@ -101,15 +103,15 @@ func ReadIBIS(name string, src []byte) (*IBIS, error) {
 			continue
 		}
 		ws := words(s)
-		at := func(f field) Pos { return Pos{name, no, f.col} }
+		at := func(f field) Pos { return Pos{File: name, Line: no, Col: f.col} }
 		if ended {
-			errs.add(at(ws[0]), ErrSyntax, "text after [End]")
+			errs.Add(at(ws[0]), ErrSyntax, "text after [End]")
 			break
 		}
 		if strings.HasPrefix(strings.TrimSpace(s), "[") {
 			kw, rest := ibisKeyword(s)
 			if kw == "" {
-				errs.add(at(ws[0]), ErrSyntax, "a keyword's bracket is not closed")
+				errs.Add(at(ws[0]), ErrSyntax, "a keyword's bracket is not closed")
 				continue
 			}
 			args := words(rest.text)
@@ -134,19 +136,19 @@ func ReadIBIS(name string, src []byte) (*IBIS, error) {
 				pinHasRLC = len(args) >= 5
 			case "model":
 				if len(args) == 0 {
-					errs.add(at(ws[0]), ErrMissing, "[Model] needs a name")
+					errs.Add(at(ws[0]), ErrMissing, "[Model] needs a name")
 					model = nil
 					continue
 				}
 				model = &IBISModel{Name: args[0].text, Pos: at(args[0]),
 					CComp: nanCorners(), VoltageRange: nanCorners(), PowerRef: nanCorners(), GNDRef: nanCorners()}
 				if prev := ib.Model(model.Name); prev != nil {
-					errs.add(at(args[0]), ErrSyntax, "model %s defined twice (first at line %d)", model.Name, prev.Pos.Line)
+					errs.Add(at(args[0]), ErrSyntax, "model %s defined twice (first at line %d)", model.Name, prev.Pos.Line)
 				}
 				ib.Models = append(ib.Models, model)
 			case "voltage range", "power clamp reference", "gnd clamp reference":
 				if model == nil {
-					errs.add(at(ws[0]), ErrSyntax, "[%s] outside a [Model]", kw)
+					errs.Add(at(ws[0]), ErrSyntax, "[%s] outside a [Model]", kw)
 					continue
 				}
 				c := ibisCorners(args, at, at(ws[0]), &errs)
@@ -160,7 +162,7 @@ func ReadIBIS(name string, src []byte) (*IBIS, error) {
 				}
 			case "gnd clamp", "power clamp":
 				if model == nil {
-					errs.add(at(ws[0]), ErrSyntax, "[%s] outside a [Model]", kw)
+					errs.Add(at(ws[0]), ErrSyntax, "[%s] outside a [Model]", kw)
 				}
 			case "end":
 				ended = true
@@ -172,13 +174,13 @@ func ReadIBIS(name string, src []byte) (*IBIS, error) {
 			key := strings.ToLower(ws[0].text)
 			k := map[string]int{"r_pkg": 0, "l_pkg": 1, "c_pkg": 2}[key]
 			if _, ok := map[string]bool{"r_pkg": true, "l_pkg": true, "c_pkg": true}[key]; !ok {
-				errs.add(at(ws[0]), ErrSyntax, "unknown [Package] entry %q (R_pkg, L_pkg, C_pkg)", ws[0].text)
+				errs.Add(at(ws[0]), ErrSyntax, "unknown [Package] entry %q (R_pkg, L_pkg, C_pkg)", ws[0].text)
 				continue
 			}
 			ib.Package[k] = ibisCorners(ws[1:], at, at(ws[0]), &errs)
 		case "pin":
 			if len(ws) < 3 {
-				errs.add(at(ws[0]), ErrSyntax, "a [Pin] row is: pin_name signal_name model_name [R_pin L_pin C_pin]")
+				errs.Add(at(ws[0]), ErrSyntax, "a [Pin] row is: pin_name signal_name model_name [R_pin L_pin C_pin]")
 				continue
 			}
 			p := IBISPin{Name: ws[0].text, Signal: ws[1].text, Model: ws[2].text, R: math.NaN(), L: math.NaN(), C: math.NaN(), Pos: at(ws[0])}
@@ -188,7 +190,7 @@ func ReadIBIS(name string, src []byte) (*IBIS, error) {
 				for k := range 3 {
 					v, msg := ibisNumber(ws[3+k].text)
 					if msg != "" {
-						errs.add(at(ws[3+k]), ErrNumber, "%s", msg)
+						errs.Add(at(ws[3+k]), ErrNumber, "%s", msg)
 						bad = true
 					}
 					vals[k] = v
@@ -218,7 +220,7 @@ func ReadIBIS(name string, src []byte) (*IBIS, error) {
 				continue
 			}
 			if len(ws) < 2 {
-				errs.add(at(ws[0]), ErrSyntax, "a clamp table row is: voltage I(typ) [I(min) I(max)]")
+				errs.Add(at(ws[0]), ErrSyntax, "a clamp table row is: voltage I(typ) [I(min) I(max)]")
 				continue
 			}
 			v, msg := ibisNumber(ws[0].text)
@@ -226,17 +228,17 @@ func ReadIBIS(name string, src []byte) (*IBIS, error) {
 				if msg == "" {
 					msg = "a table voltage cannot be NA"
 				}
-				errs.add(at(ws[0]), ErrNumber, "%s", msg)
+				errs.Add(at(ws[0]), ErrNumber, "%s", msg)
 				continue
 			}
 			if len(ws) != 2 && len(ws) != 4 {
-				errs.add(at(ws[0]), ErrSyntax, "a clamp table row has a voltage and 1 or 3 currents (typ min max), not %d", len(ws)-1)
+				errs.Add(at(ws[0]), ErrSyntax, "a clamp table row has a voltage and 1 or 3 currents (typ min max), not %d", len(ws)-1)
 				continue
 			}
 			row := IVRow{V: v, I: nanCorners(), Pos: at(ws[0])}
 			row.I = ibisCorners(ws[1:], at, at(ws[0]), &errs)
 			if math.IsNaN(row.I[Typ]) {
-				errs.add(at(ws[1]), ErrNumber, "the typ current cannot be NA")
+				errs.Add(at(ws[1]), ErrNumber, "the typ current cannot be NA")
 				continue
 			}
 			tab := &model.GNDClamp
@@ -244,7 +246,7 @@ func ReadIBIS(name string, src []byte) (*IBIS, error) {
 				tab = &model.PowerClamp
 			}
 			if n := len(*tab); n > 0 && v == (*tab)[n-1].V {
-				errs.add(at(ws[0]), ErrOrder, "voltage %g V repeats the row before", v)
+				errs.Add(at(ws[0]), ErrOrder, "voltage %g V repeats the row before", v)
 				continue
 			}
 			*tab = append(*tab, row)
@@ -255,7 +257,7 @@ func ReadIBIS(name string, src []byte) (*IBIS, error) {
 			sortRows(*tab, &errs)
 		}
 	}
-	errs.sort()
+	errs.RemoveMultiples()
 	if err := errs.Err(); err != nil {
 		return nil, err
 	}
@@ -271,7 +273,7 @@ func sortRows(t []IVRow, errs *ErrorList) {
 	up := t[1].V > t[0].V
 	for k := 1; k < len(t); k++ {
 		if (t[k].V > t[k-1].V) != up {
-			errs.add(t[k].Pos, ErrOrder, "voltage %g V breaks the table's order (rising or falling throughout)", t[k].V)
+			errs.Add(t[k].Pos, ErrOrder, "voltage %g V breaks the table's order (rising or falling throughout)", t[k].V)
 			return
 		}
 	}
@@ -338,7 +340,7 @@ func (ib *IBIS) PinModel(name string, corner int) (*PinModel, error) {
 		if pin = ib.Pin(name); pin != nil {
 			m = ib.Model(pin.Model)
 			if m == nil {
-				return nil, &Error{Pos: pin.Pos, Msg: fmt.Sprintf("pin %s uses model %s, which the file does not define", pin.Name, pin.Model), Err: ErrMissing}
+				return nil, textpos.New(pin.Pos, ErrMissing, "pin %s uses model %s, which the file does not define", pin.Name, pin.Model)
 			}
 		}
 	}
@@ -347,10 +349,10 @@ func (ib *IBIS) PinModel(name string, corner int) (*PinModel, error) {
 		for _, mm := range ib.Models {
 			names = append(names, mm.Name)
 		}
-		return nil, &Error{Msg: fmt.Sprintf("no model or pin %q (models: %s)", name, strings.Join(names, ", ")), Err: ErrMissing}
+		return nil, textpos.New(Pos{}, ErrMissing, "no model or pin %q (models: %s)", name, strings.Join(names, ", "))
 	}
 	if len(m.GNDClamp) == 0 && len(m.PowerClamp) == 0 {
-		return nil, &Error{Pos: m.Pos, Msg: fmt.Sprintf("model %s has neither a [GND Clamp] nor a [POWER Clamp] table", m.Name), Err: ErrMissing}
+		return nil, textpos.New(m.Pos, ErrMissing, "model %s has neither a [GND Clamp] nor a [POWER Clamp] table", m.Name)
 	}
 	pm := &PinModel{Model: m.Name, Corner: corner}
 	zero := func(v float64) float64 {
@@ -373,7 +375,7 @@ func (ib *IBIS) PinModel(name string, corner int) (*PinModel, error) {
 	}
 	pm.GNDRef = zero(m.GNDRef.At(corner))
 	if len(m.PowerClamp) > 0 && math.IsNaN(pm.PowerRef) {
-		return nil, &Error{Pos: m.Pos, Msg: fmt.Sprintf("model %s has a [POWER Clamp] table but no [Voltage Range] or [POWER Clamp Reference]", m.Name), Err: ErrMissing}
+		return nil, textpos.New(m.Pos, ErrMissing, "model %s has a [POWER Clamp] table but no [Voltage Range] or [POWER Clamp Reference]", m.Name)
 	}
 	for _, r := range m.GNDClamp {
 		pm.GNDV = append(pm.GNDV, r.V)
@@ -412,17 +414,17 @@ func ibisKeyword(s string) (string, field) {
 func ibisCorners(ws []field, at func(field) Pos, key Pos, errs *ErrorList) Corners {
 	c := nanCorners()
 	if len(ws) == 0 {
-		errs.add(key, ErrMissing, "a value needs its typ column")
+		errs.Add(key, ErrMissing, "a value needs its typ column")
 		return c
 	}
 	for k, f := range ws {
 		if k > 2 {
-			errs.add(at(f), ErrSyntax, "unexpected %q: a value has typ, min and max columns", f.text)
+			errs.Add(at(f), ErrSyntax, "unexpected %q: a value has typ, min and max columns", f.text)
 			break
 		}
 		v, msg := ibisNumber(f.text)
 		if msg != "" {
-			errs.add(at(f), ErrNumber, "%s", msg)
+			errs.Add(at(f), ErrNumber, "%s", msg)
 			continue
 		}
 		c[k] = v
@@ -430,36 +432,23 @@ func ibisCorners(ws []field, at func(field) Pos, key Pos, errs *ErrorList) Corne
 	return c
 }
 
-// ibisScale are IBIS's scaling letters, as powers of ten.
-var ibisScale = map[byte]int{
-	'T': 12, 'G': 9, 'M': 6, 'k': 3,
-	'm': -3, 'u': -6, 'n': -9, 'p': -12, 'f': -15,
-}
-
-// ibisNumber reads an IBIS number: NaN for NA.
+// ibisNumber reads an IBIS number: NaN for NA. IBIS scales a number by the
+// letter right after it, one of T G M k m u n p f: the ASCII SI prefixes,
+// so spec.Prefixes read one byte at a time (µ is two and not taken). What
+// follows, a unit such as the F of 2.6pF, is ignored.
 func ibisNumber(s string) (float64, string) {
 	if strings.EqualFold(s, "NA") {
 		return math.NaN(), ""
 	}
-	n := mantissa(s)
-	if n == 0 {
-		return 0, fmt.Sprintf("%q is not a number", s)
-	}
-	v, msg := plain(s[:n])
+	d, msg := spec.ScanDecimal(s)
 	if msg != "" {
 		return 0, msg
 	}
-	if n < len(s) {
-		if e, ok := ibisScale[s[n]]; ok {
-			if strings.ContainsAny(s[:n], "eE") {
-				return v * math.Pow10(e), ""
-			}
-			// Mantissa and exponent parsed together: 2.6p is the float
-			// nearest 2.6e-12.
-			return plainExp(s[:n], e), ""
-		}
+	shift := 0
+	if d.Rest != "" {
+		shift = spec.Prefixes[d.Rest[:1]] // 0 for a letter that is no prefix
 	}
-	return v, ""
+	return d.Value(shift)
 }
 
 func nanCorners() Corners { return Corners{math.NaN(), math.NaN(), math.NaN()} }

@@ -45,28 +45,28 @@ func ReadImpedance(name string, src []byte) (*Impedance, error) {
 	var errs ErrorList
 	tab := readCSV(name, src, zColumns, &errs)
 	hasZ, hasPh, hasR, hasX := tab.idx[1] >= 0, tab.idx[2] >= 0, tab.idx[3] >= 0, tab.idx[4] >= 0
-	hp := Pos{name, tab.header, 1}
+	hp := Pos{File: name, Line: tab.header, Col: 1}
 	switch {
 	case tab.header == 0:
 	case hasZ && (hasR || hasX):
-		errs.add(hp, ErrSyntax, "give either z (with phase) or r and x, not both")
+		errs.Add(hp, ErrSyntax, "give either z (with phase) or r and x, not both")
 	case hasZ:
 	case hasR && hasX:
 	case hasR || hasX:
-		errs.add(hp, ErrMissing, "r and x come together: the impedance is r + jx")
+		errs.Add(hp, ErrMissing, "r and x come together: the impedance is r + jx")
 	default:
-		errs.add(hp, ErrMissing, "no impedance columns: give z [ohm] (and phase [deg]), or r [ohm] and x [ohm]")
+		errs.Add(hp, ErrMissing, "no impedance columns: give z [ohm] (and phase [deg]), or r [ohm] and x [ohm]")
 	}
 	if hasPh && !hasZ {
-		errs.add(hp, ErrSyntax, "a phase column needs a z column")
+		errs.Add(hp, ErrSyntax, "a phase column needs a z column")
 	}
 	im := &Impedance{Complex: hasPh || (hasR && hasX), Ignored: tab.ignored}
 	byBias := map[float64]int{}
 	for _, r := range tab.rows {
-		pos := Pos{name, r.line, r.col[0]}
+		pos := Pos{File: name, Line: r.line, Col: r.col[0]}
 		f := r.val[0]
 		if !(f > 0) {
-			errs.add(pos, ErrRange, "frequency %g Hz: must be > 0", f)
+			errs.Add(pos, ErrRange, "frequency %g Hz: must be > 0", f)
 			continue
 		}
 		var z complex128
@@ -74,7 +74,7 @@ func ReadImpedance(name string, src []byte) (*Impedance, error) {
 		case hasZ:
 			mag := r.val[1]
 			if !(mag > 0) {
-				errs.add(Pos{name, r.line, r.col[1]}, ErrRange, "|Z| = %g Ω: a magnitude must be > 0", mag)
+				errs.Add(Pos{File: name, Line: r.line, Col: r.col[1]}, ErrRange, "|Z| = %g Ω: a magnitude must be > 0", mag)
 				continue
 			}
 			ph := 0.0
@@ -99,15 +99,15 @@ func ReadImpedance(name string, src []byte) (*Impedance, error) {
 		}
 		c := &im.Curves[k]
 		if n := len(c.Points); n > 0 && f <= c.Points[n-1].F {
-			errs.add(pos, ErrOrder, "frequency %g Hz does not rise above the row before (%g Hz, line %d)", f, c.Points[n-1].F, c.Points[n-1].Pos.Line)
+			errs.Add(pos, ErrOrder, "frequency %g Hz does not rise above the row before (%g Hz, line %d)", f, c.Points[n-1].F, c.Points[n-1].Pos.Line)
 			continue
 		}
 		c.Points = append(c.Points, ZPoint{F: f, Z: z, Pos: pos})
 	}
 	if len(im.Curves) == 0 && tab.header > 0 && len(errs) == 0 {
-		errs.add(hp, ErrMissing, "no data rows after the header")
+		errs.Add(hp, ErrMissing, "no data rows after the header")
 	}
-	errs.sort()
+	errs.RemoveMultiples()
 	if err := errs.Err(); err != nil {
 		return nil, err
 	}

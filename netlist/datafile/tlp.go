@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"sort"
+
+	"zapnet/netlist/textpos"
 )
 
 // TLPPoint is one pulse of a transmission-line-pulse measurement.
@@ -71,7 +73,7 @@ func ReadTLP(name string, src []byte) (*TLP, error) {
 	tab := readCSV(name, src, tlpColumns, &errs)
 	t := &TLP{HasLeak: tab.idx[2] >= 0, Ignored: tab.ignored, file: name}
 	for _, r := range tab.rows {
-		p := TLPPoint{V: r.val[0], I: r.val[1], Leak: r.val[2], Pos: Pos{name, r.line, r.col[0]}}
+		p := TLPPoint{V: r.val[0], I: r.val[1], Leak: r.val[2], Pos: Pos{File: name, Line: r.line, Col: r.col[0]}}
 		if t.HasLeak && !math.IsNaN(p.Leak) && p.Leak < 0 {
 			// A leakage reading is a magnitude at a small bias; its sign
 			// follows the bias, not the pulse.
@@ -80,7 +82,7 @@ func ReadTLP(name string, src []byte) (*TLP, error) {
 		t.Points = append(t.Points, p)
 	}
 	if len(t.Points) == 0 && tab.header > 0 {
-		errs.add(Pos{name, tab.header, 1}, ErrMissing, "no data rows after the header")
+		errs.Add(Pos{File: name, Line: tab.header, Col: 1}, ErrMissing, "no data rows after the header")
 	}
 	for _, s := range []float64{1, -1} {
 		var prev *TLPPoint
@@ -92,15 +94,15 @@ func ReadTLP(name string, src []byte) (*TLP, error) {
 			if prev != nil {
 				switch {
 				case math.Abs(p.I) < math.Abs(prev.I):
-					errs.warn(p.Pos, ErrOrder, "the current falls from %.4g A to %.4g A: TLP rows should follow rising pulse levels", prev.I, p.I)
+					errs.WarnKind(p.Pos, ErrOrder, "the current falls from %.4g A to %.4g A: TLP rows should follow rising pulse levels", prev.I, p.I)
 				case math.Abs(p.V) < math.Abs(prev.V):
-					errs.warn(p.Pos, ErrOrder, "the voltage falls from %.4g V to %.4g V as the current rises: snapback, or a noisy row", prev.V, p.V)
+					errs.WarnKind(p.Pos, ErrOrder, "the voltage falls from %.4g V to %.4g V as the current rises: snapback, or a noisy row", prev.V, p.V)
 				}
 			}
 			prev = p
 		}
 	}
-	errs.sort()
+	errs.RemoveMultiples()
 	if err := errs.Err(); err != nil {
 		return nil, err
 	}
@@ -214,14 +216,14 @@ func (t *TLP) Table(extra ...[2]float64) (v, i []float64, err error) {
 			if b.what != "" {
 				pos = a.pos
 			}
-			errs.add(pos, ErrOrder, "%.4g V at %.4g A is not above %.4g V at %.4g A (%s): a table path needs a voltage that rises with the current; a curve that snaps back wants a snapback clamp", b.v, b.i, a.v, a.i, name(a))
+			errs.Add(pos, ErrOrder, "%.4g V at %.4g A is not above %.4g V at %.4g A (%s): a table path needs a voltage that rises with the current; a curve that snaps back wants a snapback clamp", b.v, b.i, a.v, a.i, name(a))
 		}
 	}
 	if err := errs.Err(); err != nil {
 		return nil, nil, err
 	}
 	if len(rows) < 3 {
-		return nil, nil, &Error{Pos: Pos{File: t.file}, Err: ErrMissing, Msg: fmt.Sprintf("a table path needs at least two TLP rows besides the origin, got %d", len(rows)-1)}
+		return nil, nil, textpos.New(Pos{File: t.file}, ErrMissing, "a table path needs at least two TLP rows besides the origin, got %d", len(rows)-1)
 	}
 	for _, r := range rows {
 		v, i = append(v, r.v), append(i, r.i)

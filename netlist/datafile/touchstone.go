@@ -1,12 +1,14 @@
 package datafile
 
 import (
-	"fmt"
 	"math"
 	"math/cmplx"
 	"path/filepath"
 	"strconv"
 	"strings"
+
+	"zapnet/devices/spec"
+	"zapnet/netlist/textpos"
 )
 
 // Touchstone is the network data of a Touchstone file (the open format of
@@ -75,9 +77,9 @@ func ReadTouchstone(name string, src []byte) (*Touchstone, error) {
 			continue
 		}
 		ws := words(ln.text)
-		at := func(f field) Pos { return Pos{name, ln.no, f.col} }
+		at := func(f field) Pos { return Pos{File: name, Line: ln.no, Col: f.col} }
 		if ended {
-			errs.add(at(ws[0]), ErrSyntax, "text after [End]")
+			errs.Add(at(ws[0]), ErrSyntax, "text after [End]")
 			break
 		}
 		if inInfo {
@@ -94,19 +96,19 @@ func ReadTouchstone(name string, src []byte) (*Touchstone, error) {
 				restWords[k].col += rest.col - 1
 			}
 			if kw == "" {
-				errs.add(at(ws[0]), ErrSyntax, "a keyword's bracket is not closed")
+				errs.Add(at(ws[0]), ErrSyntax, "a keyword's bracket is not closed")
 				continue
 			}
 			if first && kw != "version" {
 				// A version 1 file has no keywords.
-				errs.add(at(ws[0]), ErrSyntax, "keyword [%s] in a version 1 file (a version 2 file starts with [Version] 2.0)", kw)
+				errs.Add(at(ws[0]), ErrSyntax, "keyword [%s] in a version 1 file (a version 2 file starts with [Version] 2.0)", kw)
 				first = false
 				continue
 			}
 			first = false
 			arg := func() (field, bool) {
 				if len(restWords) == 0 {
-					errs.add(at(ws[0]), ErrMissing, "[%s] needs a value", kw)
+					errs.Add(at(ws[0]), ErrMissing, "[%s] needs a value", kw)
 					return field{}, false
 				}
 				return restWords[0], true
@@ -118,7 +120,7 @@ func ReadTouchstone(name string, src []byte) (*Touchstone, error) {
 				}
 				n, err := strconv.Atoi(f.text)
 				if err != nil || n < 1 {
-					errs.add(at(f), ErrNumber, "[%s] wants a whole number above 0, got %q", kw, f.text)
+					errs.Add(at(f), ErrNumber, "[%s] wants a whole number above 0, got %q", kw, f.text)
 					return -1
 				}
 				return n
@@ -128,7 +130,7 @@ func ReadTouchstone(name string, src []byte) (*Touchstone, error) {
 				if f, ok := arg(); ok {
 					v, err := strconv.ParseFloat(f.text, 64)
 					if err != nil || v < 2 || v >= 3 {
-						errs.add(at(f), ErrUnsupported, "[Version] %s: zapnet reads versions 1.x and 2.x", f.text)
+						errs.Add(at(f), ErrUnsupported, "[Version] %s: zapnet reads versions 1.x and 2.x", f.text)
 					}
 				}
 				t.Version = 2
@@ -138,7 +140,7 @@ func ReadTouchstone(name string, src []byte) (*Touchstone, error) {
 				if f, ok := arg(); ok {
 					order = f.text
 					if order != "12_21" && order != "21_12" {
-						errs.add(at(f), ErrSyntax, "[Two-Port Data Order] is 12_21 or 21_12, not %q", f.text)
+						errs.Add(at(f), ErrSyntax, "[Two-Port Data Order] is 12_21 or 21_12, not %q", f.text)
 					}
 				}
 			case "number of frequencies":
@@ -149,22 +151,22 @@ func ReadTouchstone(name string, src []byte) (*Touchstone, error) {
 				refPos = at(ws[0])
 				inRef = true
 				for _, f := range restWords {
-					refs = append(refs, tsReal(f, Pos{name, ln.no, f.col}, &errs))
+					refs = append(refs, tsReal(f, Pos{File: name, Line: ln.no, Col: f.col}, &errs))
 				}
 			case "matrix format":
 				if f, ok := arg(); ok {
 					matrix = strings.ToLower(f.text)
 					if matrix != "full" && matrix != "lower" && matrix != "upper" {
-						errs.add(at(f), ErrSyntax, "[Matrix Format] is Full, Lower or Upper, not %q", f.text)
+						errs.Add(at(f), ErrSyntax, "[Matrix Format] is Full, Lower or Upper, not %q", f.text)
 					}
 				}
 			case "mixed-mode order":
-				errs.add(at(ws[0]), ErrUnsupported, "mixed-mode data is not supported: give single-ended S-parameters")
+				errs.Add(at(ws[0]), ErrUnsupported, "mixed-mode data is not supported: give single-ended S-parameters")
 			case "begin information":
 				inInfo = true
 			case "network data":
 				if !seenOption {
-					errs.add(at(ws[0]), ErrMissing, "[Network Data] before the option line (# ...)")
+					errs.Add(at(ws[0]), ErrMissing, "[Network Data] before the option line (# ...)")
 				}
 				inData = true
 			case "noise data":
@@ -172,7 +174,7 @@ func ReadTouchstone(name string, src []byte) (*Touchstone, error) {
 			case "end":
 				ended = true
 			default:
-				errs.add(at(ws[0]), ErrSyntax, "unknown keyword [%s]", kw)
+				errs.Add(at(ws[0]), ErrSyntax, "unknown keyword [%s]", kw)
 			}
 			continue
 		}
@@ -196,11 +198,11 @@ func ReadTouchstone(name string, src []byte) (*Touchstone, error) {
 			continue
 		}
 		if t.Version == 2 && !inData {
-			errs.add(at(ws[0]), ErrSyntax, "data before [Network Data]")
+			errs.Add(at(ws[0]), ErrSyntax, "data before [Network Data]")
 			continue
 		}
 		if !seenOption {
-			errs.add(at(ws[0]), ErrMissing, "data before the option line: the first line that is not a comment is # <unit> <parameter> <format> R <n>")
+			errs.Add(at(ws[0]), ErrMissing, "data before the option line: the first line that is not a comment is # <unit> <parameter> <format> R <n>")
 			seenOption = true
 		}
 		for k, f := range ws {
@@ -210,12 +212,12 @@ func ReadTouchstone(name string, src []byte) (*Touchstone, error) {
 	if t.Version == 2 {
 		switch {
 		case t.Ports < 1:
-			errs.add(Pos{File: name}, ErrMissing, "a version 2 file needs [Number of Ports]")
+			errs.Add(Pos{File: name}, ErrMissing, "a version 2 file needs [Number of Ports]")
 		case t.Ports == 2 && order == "":
-			errs.add(Pos{File: name}, ErrMissing, "a version 2 two-port file needs [Two-Port Data Order]")
+			errs.Add(Pos{File: name}, ErrMissing, "a version 2 two-port file needs [Two-Port Data Order]")
 		}
 		if !ended && len(errs) == 0 {
-			errs.add(Pos{File: name}, ErrMissing, "a version 2 file ends with [End]")
+			errs.Add(Pos{File: name}, ErrMissing, "a version 2 file ends with [End]")
 		}
 	} else {
 		order = "21_12"
@@ -234,12 +236,12 @@ func ReadTouchstone(name string, src []byte) (*Touchstone, error) {
 			case 9:
 				t.Ports = 2
 			default:
-				errs.add(toks[0].pos, ErrMissing, "cannot tell the number of ports: name the file .s1p, .s2p, ... (the first data line has %d numbers)", n)
+				errs.Add(toks[0].pos, ErrMissing, "cannot tell the number of ports: name the file .s1p, .s2p, ... (the first data line has %d numbers)", n)
 			}
 		}
 	}
 	if t.Ports < 1 {
-		errs.sort()
+		errs.RemoveMultiples()
 		return nil, errs
 	}
 	_ = nNoise
@@ -249,19 +251,19 @@ func ReadTouchstone(name string, src []byte) (*Touchstone, error) {
 	}
 	if refs != nil {
 		if len(refs) != t.Ports {
-			errs.add(refPos, ErrSyntax, "[Reference] gives %d resistances for %d ports", len(refs), t.Ports)
+			errs.Add(refPos, ErrSyntax, "[Reference] gives %d resistances for %d ports", len(refs), t.Ports)
 		} else {
 			copy(t.Ref, refs)
 		}
 	}
 	t.records(name, toks, unit, order, matrix, &errs)
 	if nFreq > 0 && len(t.Freq) != nFreq && len(errs) == 0 {
-		errs.add(Pos{File: name}, ErrSyntax, "[Number of Frequencies] says %d, the data has %d", nFreq, len(t.Freq))
+		errs.Add(Pos{File: name}, ErrSyntax, "[Number of Frequencies] says %d, the data has %d", nFreq, len(t.Freq))
 	}
 	if len(t.Freq) == 0 && len(errs) == 0 {
-		errs.add(Pos{File: name}, ErrMissing, "no network data")
+		errs.Add(Pos{File: name}, ErrMissing, "no network data")
 	}
-	errs.sort()
+	errs.RemoveMultiples()
 	if err := errs.Err(); err != nil {
 		return nil, err
 	}
@@ -282,13 +284,13 @@ func tsKeyword(s string) (string, field) {
 
 // tsReal reads a positive resistance.
 func tsReal(f field, pos Pos, errs *ErrorList) float64 {
-	v, msg := plain(f.text)
+	v, msg := spec.ParsePlain(f.text)
 	if msg != "" {
-		errs.add(pos, ErrNumber, "%s", msg)
+		errs.Add(pos, ErrNumber, "%s", msg)
 		return 50
 	}
 	if !(v > 0) {
-		errs.add(pos, ErrRange, "a reference resistance must be > 0, got %g", v)
+		errs.Add(pos, ErrRange, "a reference resistance must be > 0, got %g", v)
 		return 50
 	}
 	return v
@@ -303,7 +305,7 @@ func (t *Touchstone) option(name string, ln line, errs *ErrorList) float64 {
 
 	for k := 0; k < len(ws); k++ {
 		f := ws[k]
-		pos := Pos{name, ln.no, f.col + off}
+		pos := Pos{File: name, Line: ln.no, Col: f.col + off}
 		switch w := strings.ToUpper(f.text); w {
 		case "HZ":
 			unit = 1
@@ -316,18 +318,18 @@ func (t *Touchstone) option(name string, ln line, errs *ErrorList) float64 {
 		case "S", "Y", "Z":
 			t.Param = w[0]
 		case "H", "G":
-			errs.add(pos, ErrUnsupported, "%s-parameters are not supported: give S, Y or Z", w)
+			errs.Add(pos, ErrUnsupported, "%s-parameters are not supported: give S, Y or Z", w)
 		case "MA", "DB", "RI":
 			t.Format = w
 		case "R":
 			if k+1 >= len(ws) {
-				errs.add(pos, ErrMissing, "R needs the reference resistance after it")
+				errs.Add(pos, ErrMissing, "R needs the reference resistance after it")
 				continue
 			}
 			k++
-			t.R = tsReal(ws[k], Pos{name, ln.no, ws[k].col + off}, errs)
+			t.R = tsReal(ws[k], Pos{File: name, Line: ln.no, Col: ws[k].col + off}, errs)
 		default:
-			errs.add(pos, ErrSyntax, "unknown option %q: the option line is # <Hz|kHz|MHz|GHz> <S|Y|Z> <MA|DB|RI> R <n>", f.text)
+			errs.Add(pos, ErrSyntax, "unknown option %q: the option line is # <Hz|kHz|MHz|GHz> <S|Y|Z> <MA|DB|RI> R <n>", f.text)
 		}
 	}
 	return unit
@@ -356,27 +358,27 @@ func (t *Touchstone) records(name string, toks []tsToken, unit float64, order, m
 	size := 1 + 2*entries
 	for k := 0; k < len(toks); {
 		start := toks[k]
-		if f, msg := plain(start.text); msg == "" && t.Version == 1 && n == 2 {
+		if f, msg := spec.ParsePlain(start.text); msg == "" && t.Version == 1 && n == 2 {
 			if nf := len(t.Freq); nf > 0 && f*unit <= t.Freq[nf-1] {
 				return // version 1 noise data follows
 			}
 		}
 		if k+size > len(toks) {
-			errs.add(start.pos, ErrSyntax, "the record of frequency %s has %d numbers, a %d-port record needs %d (1 frequency + %d pairs)", start.text, len(toks)-k, n, size, entries)
+			errs.Add(start.pos, ErrSyntax, "the record of frequency %s has %d numbers, a %d-port record needs %d (1 frequency + %d pairs)", start.text, len(toks)-k, n, size, entries)
 			return
 		}
 		rec := toks[k : k+size]
 		k += size
 		if !rec[size-1].eol {
-			errs.add(toks[k].pos, ErrSyntax, "a record ends inside a line: a %d-port record has %d numbers (1 frequency + %d pairs)", n, size, entries)
+			errs.Add(toks[k].pos, ErrSyntax, "a record ends inside a line: a %d-port record has %d numbers (1 frequency + %d pairs)", n, size, entries)
 			return
 		}
 		vals := make([]float64, size)
 		bad := false
 		for i, tk := range rec {
-			v, msg := plain(tk.text)
+			v, msg := spec.ParsePlain(tk.text)
 			if msg != "" {
-				errs.add(tk.pos, ErrNumber, "%s", msg)
+				errs.Add(tk.pos, ErrNumber, "%s", msg)
 				bad = true
 			}
 			vals[i] = v
@@ -386,11 +388,11 @@ func (t *Touchstone) records(name string, toks []tsToken, unit float64, order, m
 		}
 		f := vals[0] * unit
 		if nf := len(t.Freq); nf > 0 && f <= t.Freq[nf-1] {
-			errs.add(start.pos, ErrOrder, "frequency %s does not rise above the record before", start.text)
+			errs.Add(start.pos, ErrOrder, "frequency %s does not rise above the record before", start.text)
 			continue
 		}
 		if f < 0 {
-			errs.add(start.pos, ErrRange, "frequency %s: must be >= 0", start.text)
+			errs.Add(start.pos, ErrRange, "frequency %s: must be >= 0", start.text)
 			continue
 		}
 		m := make([]complex128, n*n)
@@ -474,7 +476,7 @@ func (t *Touchstone) normalise(m []complex128) {
 func (t *Touchstone) Impedance() ([]complex128, string, error) {
 	z := make([]complex128, len(t.Freq))
 	bad := func(format string, args ...any) ([]complex128, string, error) {
-		return nil, "", &Error{Pos: Pos{File: posFile(t)}, Msg: fmt.Sprintf(format, args...), Err: ErrUnsupported}
+		return nil, "", textpos.New(Pos{File: posFile(t)}, ErrUnsupported, format, args...)
 	}
 	switch {
 	case t.Ports == 1 && t.Param == 'S':

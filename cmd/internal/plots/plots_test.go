@@ -84,9 +84,9 @@ func TestRunFiguresSeries(t *testing.T) {
 	}
 	want := map[string][]string{
 		"strike":      {"zap"},
-		"nodes":       {"v(n1)", "v(n2)"},
-		"clamps":      {"i(D1)", "D1 ipp 20 A"},
-		"residual-U1": {"v(n2)", "vmax 5.5 V", "vmin -1.5 V"},
+		"nodes":       {"n1", "n2"},
+		"clamps":      {"D1", "D1 ipp 20 A"},
+		"residual-U1": {"n2", "vmax 5.5 V", "vmin -1.5 V"},
 		"ledger":      {"strike (delivered)", "Lpad (inductor)", "D1 (clamp)", "FB1 (bead)", "C1 (capacitor)", "U1 (pin)", "balance"},
 	}
 	var got []string

@@ -65,7 +65,7 @@ func RunFigures(c *netlist.Circuit, r *study.Run, opt *Options) ([]Figure, error
 			continue
 		}
 		if v := nodeWave(w, n.Name); v != nil {
-			nodes = append(nodes, curve{"v(" + n.Name + ")", w.Time, v})
+			nodes = append(nodes, curve{n.Name, w.Time, v})
 		}
 	}
 	for _, l := range r.Limits {
@@ -91,7 +91,7 @@ func RunFigures(c *netlist.Circuit, r *study.Run, opt *Options) ([]Figure, error
 		if i == nil {
 			continue
 		}
-		clamps = append(clamps, curve{"i(" + e.Name + ")", w.Time, i})
+		clamps = append(clamps, curve{e.Name, w.Time, i})
 		if l := r.LimitOn(e.Name, spec.PeakCurrent); l != nil {
 			// The rating bounds |i|: draw it on the side the current
 			// went.
@@ -133,9 +133,9 @@ func residualFigure(o *Options, c *netlist.Circuit, runs []study.Run, label func
 		if res == nil {
 			continue
 		}
-		n := "v(" + pin.Node + ")"
+		n := pin.Node
 		if ref != "gnd" {
-			n += " − v(" + ref + ")"
+			n += " − " + ref
 		}
 		if label != nil {
 			n = label(&runs[i])

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"image/color"
 	"math"
+	"strconv"
 	"strings"
 
 	"gonum.org/v1/plot"
@@ -26,6 +27,10 @@ import (
 // heading says how many circuits, the seed, the fraction within the rating
 // drawn, with its 95 % interval, and the fraction that passed every limit:
 // a pin's peak can be well inside vmax while its circuits fail at vmin.
+// The counts are the spread's summary (SpreadResult.Worst), not samples:
+// above the spread's exact count each bar is a group of whole sketch
+// buckets, its edges on theirs, so its count is still exact; the fraction
+// within the rating is then a range when a bucket straddles the rating.
 // c is the design the circuits were drawn around (for its ratings); title
 // is the deck's title.
 func SpreadHistograms(title string, c *netlist.Circuit, res *whatif.SpreadResult, opt *Options) ([]Figure, error) {
@@ -44,7 +49,7 @@ func SpreadHistograms(title string, c *netlist.Circuit, res *whatif.SpreadResult
 		over = ", worst over each circuit's strikes"
 	}
 	var figs []Figure
-	for mi, m := range res.Measures {
+	for _, m := range res.Measures {
 		var elem, quantity, name string
 		var unit spec.Unit
 		var rating spec.Measure
@@ -58,7 +63,10 @@ func SpreadHistograms(title string, c *netlist.Circuit, res *whatif.SpreadResult
 		default:
 			continue
 		}
-		values := worstValues(res, mi)
+		t := res.Worst(m)
+		if t == nil || t.N() == 0 {
+			return nil, fmt.Errorf("plots: spread: no distribution of %s to draw (a spread read back from its JSON holds statistics only)", m)
+		}
 		var lim *limitLine
 		// Short enough to fit beside the legend on one line.
 		stats := count + ", no rating of this; " + every
@@ -66,12 +74,12 @@ func SpreadHistograms(title string, c *netlist.Circuit, res *whatif.SpreadResult
 			if e := c.Element(elem); e != nil {
 				if p, v, ok := e.Rating(rating); ok {
 					lim = &limitLine{p.Key + " " + spec.FormatSI(v, unit), v}
-					stats = count + "; " + within(p.Key, values, v) + "; " + every
+					stats = count + "; " + within(p.Key, t, v) + "; " + every
 				}
 			}
 		}
 		what := strings.ToUpper(quantity[:1]) + quantity[1:] + " of " + elem + over
-		f, err := histogram(&o, name, what, stats, quantity, unit, values, res.Percentiles[m], lim)
+		f, err := histogram(&o, name, what, stats, quantity, unit, t, res.Percentiles[m], lim)
 		if err != nil {
 			return nil, err
 		}
@@ -83,46 +91,35 @@ func SpreadHistograms(title string, c *netlist.Circuit, res *whatif.SpreadResult
 	return figs, nil
 }
 
-// within says what fraction of values lie at or under the rating v named
-// key, with its 95 % interval.
-func within(key string, values []float64, v float64) string {
-	k := 0
-	for _, x := range values {
-		if x <= v {
-			k++
-		}
+// within says what fraction of the tally's values lie at or under the
+// rating v named key, with its 95 % interval: from the lower count's lower
+// bound to the higher count's upper bound when the tally's sketch leaves a
+// range of counts.
+func within(key string, t *whatif.Tally, v float64) string {
+	k, kHi := t.CountAtMost(v)
+	n := t.N()
+	lo, _ := whatif.Wilson95(k, n)
+	_, hi := whatif.Wilson95(kHi, n)
+	frac := percent(100 * float64(k) / float64(n))
+	if kHi > k {
+		frac = strings.TrimSuffix(frac, " %") + "–" + percent(100*float64(kHi)/float64(n))
 	}
-	lo, hi := whatif.Wilson95(k, len(values))
-	return fmt.Sprintf("within %s: %s (95 %%: %s–%s)", key, percent(100*float64(k)/float64(len(values))),
-		strings.TrimSuffix(percent(100*lo), " %"), percent(100*hi))
+	return fmt.Sprintf("within %s: %s (95 %%: %s–%s)", key, frac, strings.TrimSuffix(percent(100*lo), " %"), percent(100*hi))
 }
 
-// worstValues is measure mi of every solved circuit, the worst over its
-// conditions: the highest, as for every measure drawn here.
-func worstValues(res *whatif.SpreadResult, mi int) []float64 {
-	var out []float64
-	for _, s := range res.Samples {
-		if s.Error != "" || len(s.Values) != len(res.Conditions) || len(s.Values) == 0 {
-			continue
-		}
-		w := s.Values[0][mi]
-		for _, row := range s.Values[1:] {
-			w = math.Max(w, row[mi])
-		}
-		out = append(out, w)
-	}
-	return out
-}
-
-// histogram draws values as a histogram with the percentile lines and the
-// rating lim (nil: none).
-func histogram(o *Options, name, what, stats, quantity string, unit spec.Unit, values []float64, pc whatif.Percentiles, lim *limitLine) (Figure, error) {
-	if len(values) == 0 {
+// histogram draws the tally's values as a histogram with the percentile
+// lines and the rating lim (nil: none).
+func histogram(o *Options, name, what, stats, quantity string, unit spec.Unit, t *whatif.Tally, pc whatif.Percentiles, lim *limitLine) (Figure, error) {
+	n := t.N()
+	if n == 0 {
 		return Figure{}, fmt.Errorf("plots: %s: nothing to draw", name)
 	}
-	lo, hi := values[0], values[0]
-	for _, v := range values {
-		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	values, sk := t.Values(), t.Sketch()
+	var lo, hi float64
+	if sk != nil {
+		lo, hi = sk.Min(), sk.Max()
+	} else {
+		lo, hi = values[0], values[n-1]
 	}
 	// A rating within a few spans of the data is drawn to scale; one far
 	// off would squeeze the histogram into a sliver, so it is only named.
@@ -139,20 +136,10 @@ func histogram(o *Options, name, what, stats, quantity string, unit spec.Unit, v
 	}
 	xs, xp := engineering(xMax)
 
-	// About the square root of the count of bins, 5 to 40: enough to show
-	// the shape, few enough that each bin holds several circuits.
-	nb := int(math.Ceil(math.Sqrt(float64(len(values)))))
-	nb = max(5, min(nb, 40))
-	w := (hi - lo) / float64(nb)
-	bins := make([]plotter.HistogramBin, nb)
-	for i := range bins {
-		bins[i] = plotter.HistogramBin{Min: (lo + float64(i)*w) * xs, Max: (lo + float64(i+1)*w) * xs}
-	}
+	bins, w := spreadBins(t, lo, hi, xs)
 	top := 0.0
-	for _, v := range values {
-		i := min(int((v-lo)/w), nb-1)
-		bins[i].Weight++
-		top = math.Max(top, bins[i].Weight)
+	for _, b := range bins {
+		top = math.Max(top, b.Weight)
 	}
 	h := &plotter.Histogram{Bins: bins, Width: w * xs, FillColor: palette[5],
 		LineStyle: draw.LineStyle{Color: color.White, Width: vg.Points(0.5)}}
@@ -164,7 +151,11 @@ func histogram(o *Options, name, what, stats, quantity string, unit spec.Unit, v
 	p.Add(h)
 	p.Y.Min, p.Y.Max = 0, top*1.08
 	fig := Figure{Name: name, Caption: what + "; " + stats}
-	entries := []legendEntry{{fmt.Sprintf("circuits (%d)", len(values)), h}}
+	if sk != nil {
+		a := strconv.FormatFloat(100*sk.Alpha(), 'g', -1, 64)
+		fig.Caption += "; each bar a group of the sketch's buckets, p1, p50 and p99 within " + a + " %"
+	}
+	entries := []legendEntry{{fmt.Sprintf("circuits (%d)", n), h}}
 	fig.Series = append(fig.Series, entries[0].name)
 
 	marks := []struct {
@@ -215,6 +206,45 @@ func histogram(o *Options, name, what, stats, quantity string, unit spec.Unit, v
 	}
 	fig.SVG = svg
 	return fig, nil
+}
+
+// spreadBins are the histogram's bars over [lo, hi], scaled by xs, and the
+// width of a bin before scaling. About the square root of the count of
+// bins, 5 to 40: enough to show the shape, few enough that each bin holds
+// several circuits. Exact values fall into equal bins; a sketch's buckets
+// each join the bin their middle falls in, and the bar spans its buckets,
+// so that a bar never splits a bucket's count.
+func spreadBins(t *whatif.Tally, lo, hi, xs float64) ([]plotter.HistogramBin, float64) {
+	nb := int(math.Ceil(math.Sqrt(float64(t.N()))))
+	nb = max(5, min(nb, 40))
+	w := (hi - lo) / float64(nb)
+	bins := make([]plotter.HistogramBin, nb)
+	for i := range bins {
+		bins[i] = plotter.HistogramBin{Min: (lo + float64(i)*w) * xs, Max: (lo + float64(i+1)*w) * xs}
+	}
+	bin := func(v float64) int { return max(0, min(int((v-lo)/w), nb-1)) }
+	sk := t.Sketch()
+	if sk == nil {
+		for _, v := range t.Values() {
+			bins[bin(v)].Weight++
+		}
+		return bins, w
+	}
+	edges := make([][2]float64, nb)
+	for _, b := range sk.Buckets() {
+		i := bin((b.Lo + b.Hi) / 2)
+		if bins[i].Weight == 0 {
+			edges[i] = [2]float64{b.Lo, b.Hi}
+		}
+		bins[i].Weight += float64(b.Count)
+		edges[i][1] = b.Hi
+	}
+	for i, e := range edges {
+		if bins[i].Weight > 0 && e[1] > e[0] {
+			bins[i].Min, bins[i].Max = e[0]*xs, e[1]*xs
+		}
+	}
+	return bins, w
 }
 
 // countTicks are niceTicks for a count: no label between whole numbers.

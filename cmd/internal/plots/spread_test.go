@@ -1,7 +1,10 @@
 package plots
 
 import (
+	"math/rand/v2"
+	"regexp"
 	"slices"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -19,26 +22,24 @@ pin       U1    n1   gnd  cin=5p vmax=45V
 `
 
 // spreadOf builds a spread of the given per-circuit values, two conditions
-// each, as whatif.Spreads would (measures in its order).
-func spreadOf(peaks, energies [][2]float64) *whatif.SpreadResult {
-	res := &whatif.SpreadResult{Seed: 9, Runs: len(peaks),
+// each, as whatif.Spreads would (measures in its order), its percentiles
+// exact up to exact circuits (0: whatif's default).
+func spreadOf(peaks, energies [][2]float64, exact int) *whatif.SpreadResult {
+	res := &whatif.SpreadResult{Seed: 9, Runs: len(peaks), ExactUpTo: exact,
 		Conditions: []whatif.Condition{{Level: 4e3, Polarity: "pos"}, {Level: 4e3, Polarity: "neg"}},
 		Measures:   []string{"U1.residual.peak", "U1.residual.min", "D1.energy", "D1.peak_current", "worst_margin"}}
-	var wp, we []float64
 	for k := range peaks {
 		s := whatif.Sample{Index: k, Verdicts: []string{"PASS", "PASS"}}
 		for ci := 0; ci < 2; ci++ {
 			s.Values = append(s.Values, []float64{peaks[k][ci], -1, energies[k][ci], 10, 5})
 		}
 		res.Samples = append(res.Samples, s)
-		wp = append(wp, max(peaks[k][0], peaks[k][1]))
-		we = append(we, max(energies[k][0], energies[k][1]))
 	}
+	whatif.SummariseSamples(res)
 	// Half the circuits failed a limit drawn in none of the histograms
 	// (the pin's vmin, say).
-	res.Solved, res.Passed, res.PassFraction = len(peaks), len(peaks)/2, 0.5
+	res.Passed, res.PassFraction = len(peaks)/2, 0.5
 	res.CI95[0], res.CI95[1] = whatif.Wilson95(len(peaks)/2, len(peaks))
-	res.Percentiles = map[string]whatif.Percentiles{"U1.residual.peak": whatif.Summarise(wp), "D1.energy": whatif.Summarise(we)}
 	return res
 }
 
@@ -53,10 +54,10 @@ func TestSpreadHistograms(t *testing.T) {
 	}
 	peaks := [][2]float64{{40, 41}, {42, 39}, {43.5, 38}, {41, 41.2}, {40.5, 44}, {39, 42.5}}
 	energies := [][2]float64{{2e-6, 3e-6}, {4e-6, 1e-6}, {3.5e-6, 3e-6}, {2.5e-6, 5e-6}, {3e-6, 2e-6}, {1e-6, 4.5e-6}}
-	res := spreadOf(peaks, energies)
+	res := spreadOf(peaks, energies, 0)
 
 	// The worst of {40, 41}, {42, 39}, ... is the larger of each pair.
-	if got, want := worstValues(res, 0), []float64{41, 42, 43.5, 41.2, 44, 42.5}; !slices.Equal(got, want) {
+	if got, want := res.Worst("U1.residual.peak").Values(), []float64{41, 41.2, 42, 42.5, 43.5, 44}; !slices.Equal(got, want) {
 		t.Errorf("worst peaks %v, want %v", got, want)
 	}
 
@@ -114,11 +115,90 @@ func TestSpreadHistograms(t *testing.T) {
 	}
 
 	// Every circuit alike: the bins still get a width.
-	same := spreadOf([][2]float64{{40, 40}, {40, 40}}, [][2]float64{{1e-6, 1e-6}, {1e-6, 1e-6}})
+	same := spreadOf([][2]float64{{40, 40}, {40, 40}}, [][2]float64{{1e-6, 1e-6}, {1e-6, 1e-6}}, 0)
 	if _, err := SpreadHistograms("", c, same, nil); err != nil {
 		t.Errorf("identical circuits: %v", err)
 	}
 	if _, err := SpreadHistograms("", c, &whatif.SpreadResult{}, nil); err == nil {
 		t.Error("a spread without solved circuits drew figures")
+	}
+}
+
+// Above the spread's exact count the histogram is drawn from the sketch:
+// every bar spans whole buckets, so its height is the exact count of the
+// circuits between its edges [calc: counting the values themselves], the
+// bars add up to every circuit, and a rating inside a bucket gives the
+// fraction within it as a range that holds the exact fraction.
+func TestSpreadHistogramsFromSketch(t *testing.T) {
+	c, err := netlist.Parse("h.zap", []byte(spreadTestDeck))
+	if err != nil {
+		t.Fatal(err)
+	}
+	rng := rand.New(rand.NewPCG(3, 4))
+	var peaks, energies [][2]float64
+	for range 400 {
+		peaks = append(peaks, [2]float64{40 + 2*rng.NormFloat64(), 40 + 2*rng.NormFloat64()})
+		energies = append(energies, [2]float64{3e-6 * (1 + 0.1*rng.NormFloat64()), 3e-6 * (1 + 0.1*rng.NormFloat64())})
+	}
+	res := spreadOf(peaks, energies, 50)
+	worst := make([]float64, len(peaks))
+	for k, p := range peaks {
+		worst[k] = max(p[0], p[1])
+	}
+	slices.Sort(worst)
+	tally := res.Worst("U1.residual.peak")
+	if tally.Exact() || res.PercentileError == 0 {
+		t.Fatal("400 circuits over an exact count of 50 must be a sketch")
+	}
+	bins, _ := spreadBins(tally, worst[0], worst[len(worst)-1], 1)
+	total := 0.0
+	for i, b := range bins {
+		total += b.Weight
+		if i > 0 && b.Weight > 0 && bins[i-1].Weight > 0 && b.Min < bins[i-1].Max {
+			t.Errorf("bars %d and %d overlap: [%g, %g] and [%g, %g]", i-1, i, bins[i-1].Min, bins[i-1].Max, b.Min, b.Max)
+		}
+		if b.Weight == 0 {
+			continue
+		}
+		n := 0
+		for _, v := range worst {
+			if v >= b.Min*(1-1e-12) && v <= b.Max*(1+1e-12) {
+				n++
+			}
+		}
+		if float64(n) != b.Weight {
+			t.Errorf("bar %d [%g, %g] is %g high; %d circuits lie in it", i, b.Min, b.Max, b.Weight, n)
+		}
+	}
+	if total != 400 {
+		t.Errorf("the bars hold %g circuits, want 400", total)
+	}
+
+	// vmax at the median: the bucket around it leaves a range.
+	median := worst[200]
+	if err := c.Element("U1").Values.Set("vmax", median); err != nil {
+		t.Fatal(err)
+	}
+	figs, err := SpreadHistograms("", c, res, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Contains(figs[0].Series, "circuits (400)") || !strings.Contains(figs[0].Caption, "sketch's buckets") {
+		t.Errorf("sketch histogram: series %q, caption %q", figs[0].Series, figs[0].Caption)
+	}
+	k := 0
+	for _, v := range worst {
+		if v <= median {
+			k++
+		}
+	}
+	m := regexp.MustCompile(`within vmax: ([0-9.]+)–([0-9.]+) %`).FindStringSubmatch(figs[0].Caption)
+	if m == nil {
+		t.Fatalf("the fraction within vmax is not a range: %q", figs[0].Caption)
+	}
+	lo, _ := strconv.ParseFloat(m[1], 64)
+	hi, _ := strconv.ParseFloat(m[2], 64)
+	if exact := 100 * float64(k) / 400; exact < lo-0.05 || exact > hi+0.05 {
+		t.Errorf("within vmax %g–%g %%, the exact fraction %g %% outside", lo, hi, exact)
 	}
 }

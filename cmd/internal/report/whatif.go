@@ -174,11 +174,15 @@ func SpreadTable(w io.Writer, r *whatif.SpreadResult, title, deck string) error 
 
 	fmt.Fprintf(ew, "Passed at every level and polarity: %d of %d solved (%s), 95 %% interval %s to %s (Wilson)\n",
 		r.Passed, r.Solved, fractionText(r.PassFraction), fractionText(r.CI95[0]), fractionText(r.CI95[1]))
-	if n := len(r.Samples) - r.Solved; n > 0 {
-		fmt.Fprintf(ew, "%d circuits could not be solved and are left out.\n", n)
+	if r.Unsolved > 0 {
+		fmt.Fprintf(ew, "%d circuits could not be solved and are left out.\n", r.Unsolved)
 	}
 	fmt.Fprintln(ew)
 	section(ew, "Worst case over the levels and polarities, per circuit", percentileHead(), percentileRows(r.Measures, r.Percentiles))
+	if r.PercentileError > 0 {
+		fmt.Fprintf(ew, "Above %d circuits the percentiles are read from a sketch: each within %s %% of its exact value (max and the counts are exact).\n\n",
+			r.ExactUpTo, strconv.FormatFloat(100*r.PercentileError, 'g', -1, 64))
+	}
 	if len(r.Conditions) > 1 {
 		var rows [][]string
 		for _, c := range r.Conditions {
@@ -194,7 +198,7 @@ func SpreadTable(w io.Writer, r *whatif.SpreadResult, title, deck string) error 
 		fmt.Fprintf(ew, "Shard %d/%d: these statistics are of this shard's circuits only; merge the shards for the study's.\n", r.Shard.Index, r.Shard.Count)
 	}
 	if r.Interrupted {
-		fmt.Fprintf(ew, "Interrupted: %d of %d circuits finished; the statistics are of those.\n", len(r.Samples), r.Runs)
+		fmt.Fprintf(ew, "Interrupted: %d of %d circuits finished; the statistics are of those.\n", r.Solved+r.Unsolved, r.Runs)
 	}
 	fmt.Fprintln(ew, Caution)
 	return ew.err

@@ -19,6 +19,8 @@
 //     margin (percentiles) and the pass fraction with its Wilson 95 %
 //     interval. Every circuit's draw depends only on the seed and its index,
 //     so the result does not depend on the number of workers or shards.
+//     The percentiles are exact up to ExactCircuits and read from a
+//     mergeable Sketch above, so memory does not grow with the circuits.
 //   - Shard selects one slice of any of these sweeps (`--shard i/n`) and the
 //     Merge functions join the slices into exactly the unsharded result.
 //

@@ -8,6 +8,8 @@ import (
 	"math/rand/v2"
 	"sort"
 	"strconv"
+	"strings"
+	"sync"
 
 	"zapnet/devices/spec"
 	"zapnet/mna/study"
@@ -32,15 +34,26 @@ type SpreadOptions struct {
 	Shard study.Shard
 	// Progress, when set, is told after each finished circuit.
 	Progress Progress
+	// Samples keeps every drawn circuit's verdicts and measurements in
+	// SpreadResult.Samples; memory and JSON then grow with Runs. Without
+	// it the result holds the statistics only, in memory that does not
+	// grow with Runs.
+	Samples bool
+	// ExactUpTo is the count of solved circuits up to which the
+	// percentiles are exact; above it they come from a Sketch. Zero:
+	// ExactCircuits.
+	ExactUpTo int
 }
 
 // DefaultRuns is the number of circuits drawn when SpreadOptions.Runs is 0.
 const DefaultRuns = 1000
 
 // SpreadResult is the distribution of a spread. Its JSON is the "spread"
-// object of OUTPUT.md with additions; Samples keep every circuit's
-// measurements so that MergeSpreads recomputes the percentiles of joined
-// shards exactly.
+// object of OUTPUT.md with additions. The statistics are kept in a summary
+// whose size does not grow with the count of circuits (SpreadSummary):
+// exact percentiles up to ExactUpTo solved circuits, a Sketch above. A
+// shard's result writes that summary so that MergeSpreads joins shards into
+// the unsharded result bit for bit.
 type SpreadResult struct {
 	// Runs is the number of circuits of the whole study (all shards).
 	Runs int    `json:"runs"`
@@ -49,15 +62,27 @@ type SpreadResult struct {
 	// settings over the deck ({} for the deck as written). The caller sets
 	// it.
 	Variant netlist.Variant `json:"variant"`
-	// Solved counts the circuits in Samples whose every strike was solved;
-	// the statistics are over those. Passed counts those that passed at
-	// every level and polarity.
+	// Solved counts the circuits whose every strike was solved; the
+	// statistics are over those. Unsolved counts the others (their first
+	// few are UnsolvedCircuits). Passed counts the solved circuits that
+	// passed at every level and polarity.
 	Solved       int     `json:"solved"`
+	Unsolved     int     `json:"unsolved"`
 	Passed       int     `json:"passed"`
 	PassFraction float64 `json:"pass_fraction"`
 	// CI95 is the Wilson score interval of the pass fraction (Wilson95).
 	CI95 [2]float64 `json:"ci95"`
-	// Percentiles are per measurement, of each circuit's worst case over
+	// ExactUpTo is the count of solved circuits up to which the
+	// percentiles are exact (SpreadOptions.ExactUpTo).
+	ExactUpTo int `json:"exact_up_to"`
+	// PercentileError is 0 when every percentile is exact (Solved ≤
+	// ExactUpTo). Above, it is the bound α on the relative error of p1 …
+	// p99 read from the sketch (SketchAccuracy): each is within α·|p| of
+	// the exact percentile, or within α times the larger magnitude of the
+	// two circuits' values it lies between when those have opposite signs.
+	// n, min, max and mean stay exact, as do every count and interval.
+	PercentileError float64 `json:"percentile_error"`
+	// Percentiles are per measure, of each circuit's worst case over
 	// its levels and polarities: the highest residual peak, the lowest
 	// residual low, the largest clamp energy and current, the smallest
 	// worst margin (percent of the limit).
@@ -67,16 +92,62 @@ type SpreadResult struct {
 	Tolerances []ToleranceUse `json:"tolerances"`
 	Waveform   string         `json:"waveform"`
 	LevelUnit  spec.Unit      `json:"level_unit"`
-	// Measures name the columns of Sample.Values.
+	// Measures name the columns of Sample.Values and the order of the
+	// summary's tallies.
 	Measures []string `json:"measures"`
-	Samples  []Sample `json:"samples"`
-	Notes    []string `json:"notes,omitempty"`
+	// Samples are every circuit's record, in index order, only when
+	// SpreadOptions.Samples asked for them.
+	Samples []Sample `json:"samples,omitempty"`
+	// UnsolvedCircuits are the unsolved circuits of lowest index, at most
+	// MaxUnsolvedListed, with why each could not be solved.
+	UnsolvedCircuits []CircuitError `json:"unsolved_circuits,omitempty"`
+	Notes            []string       `json:"notes,omitempty"`
 	// Shard is set on the output of one shard: its statistics are of its
 	// own circuits only, until merged.
 	Shard *study.ShardInfo `json:"shard,omitempty"`
-	// Interrupted says the context was cancelled: Samples hold the
-	// circuits that finished.
+	// Summary is the summary of a shard's circuits, what MergeSpreads
+	// joins; nil on the whole study's result (see Worst).
+	Summary *SpreadSummary `json:"summary,omitempty"`
+	// Interrupted says the context was cancelled: the statistics are of
+	// the Solved + Unsolved circuits that finished.
 	Interrupted bool `json:"interrupted,omitempty"`
+
+	summary *SpreadSummary // always, while in memory
+}
+
+// MaxUnsolvedListed is the number of unsolved circuits a spread names.
+const MaxUnsolvedListed = 10
+
+// CircuitError is a drawn circuit that could not be solved.
+type CircuitError struct {
+	Index int    `json:"index"`
+	Error string `json:"error"`
+}
+
+// SpreadSummary is what a spread keeps of its circuits' measurements: per
+// measure (in Measures order) the Tally of each circuit's worst case, and
+// per condition (in Conditions order) the Tally of each measure. Its size
+// is bounded by ExactUpTo values per tally, then by the sketches' span.
+type SpreadSummary struct {
+	Worst      []*Tally   `json:"worst"`
+	Conditions [][]*Tally `json:"conditions"`
+}
+
+// Worst is the distribution of each solved circuit's worst case of measure
+// m (the values Percentiles[m] summarises); nil for a measure the spread
+// does not have or a result read back from the whole study's JSON, which
+// carries statistics only.
+func (r *SpreadResult) Worst(m string) *Tally {
+	s := r.summary
+	if s == nil {
+		s = r.Summary
+	}
+	for i, x := range r.Measures {
+		if x == m && s != nil && i < len(s.Worst) {
+			return s.Worst[i]
+		}
+	}
+	return nil
 }
 
 // Condition is one level and polarity of a spread.
@@ -151,7 +222,14 @@ func Spreads(ctx context.Context, c *netlist.Circuit, opt *SpreadOptions) (*Spre
 	if len(tols) == 0 {
 		return nil, errors.New("the deck has no tolerance line: nothing to spread (add for example tolerance C1.value=10%)")
 	}
-	res := &SpreadResult{Runs: n, Seed: opt.Seed, Variant: netlist.Variant{}, Shard: opt.Shard.Info(n)}
+	res := &SpreadResult{Runs: n, Seed: opt.Seed, Variant: netlist.Variant{}, Shard: opt.Shard.Info(n),
+		ExactUpTo: opt.ExactUpTo}
+	if res.ExactUpTo == 0 {
+		res.ExactUpTo = ExactCircuits
+	}
+	if res.ExactUpTo < 0 {
+		return nil, fmt.Errorf("spread: exact percentiles up to %d circuits: give a positive count", res.ExactUpTo)
+	}
 	for _, t := range tols {
 		e := c.Element(t.Element)
 		if e == nil || !e.Values.Has(t.Param) {
@@ -182,46 +260,55 @@ func Spreads(ctx context.Context, c *netlist.Circuit, opt *SpreadOptions) (*Spre
 		res.Measures = append(res.Measures, m.name)
 	}
 
-	mine := opt.Shard.Items(n)
-	samples := make([]Sample, len(mine))
+	res.begin()
+	mine := opt.Shard.Len(n)
 	sopt := opt.Study
 	sopt.Record = false
-	finished := study.ForEach(ctx, workerCount(opt.Study.Workers), len(mine), opt.Progress, func(_ int, i int) {
-		k := mine[i]
-		s := Sample{Index: k}
-		defer func() { samples[i] = s }()
-		settings := Draw(c, tols, opt.Seed, k)
-		dc, err := c.With(settings...)
-		if err == nil {
-			var b *study.Bench
-			if b, err = study.NewBench(dc, nil); err == nil {
-				for _, j := range jobs {
-					r, err := b.Solve(j.Level, j.Polarity, &sopt)
-					if err != nil {
-						s.Error = fmt.Sprintf("%s %s: %v", spec.FormatSI(j.Level, res.LevelUnit), j.Polarity, err)
-						return
-					}
-					s.Verdicts = append(s.Verdicts, string(r.Verdict))
-					row := make([]float64, len(ms))
-					for mi, m := range ms {
-						row[mi] = jsonSafe(m.read(r))
-					}
-					s.Values = append(s.Values, row)
-				}
-				return
-			}
+	var mu sync.Mutex
+	finished := study.Each(ctx, workerCount(opt.Study.Workers), mine, opt.Progress, func(_ int, i int) {
+		s := solveDrawn(c, tols, jobs, ms, opt.Seed, opt.Shard.Item(i), &sopt, res.LevelUnit)
+		mu.Lock()
+		defer mu.Unlock()
+		res.add(s)
+		if opt.Samples {
+			res.Samples = append(res.Samples, s)
 		}
-		s.Error = err.Error()
 	})
-	for i := range mine {
-		if finished[i] {
-			res.Samples = append(res.Samples, samples[i])
-		} else {
-			res.Interrupted = true
-		}
+	res.Interrupted = finished < mine
+	res.finish()
+	if res.Shard != nil {
+		res.Summary = res.summary
 	}
-	res.summarise()
 	return res, nil
+}
+
+// solveDrawn draws circuit k and strikes it at every condition.
+func solveDrawn(c *netlist.Circuit, tols []netlist.Tolerance, jobs []study.Job, ms []measure, seed uint64, k int, sopt *study.Options, unit spec.Unit) Sample {
+	s := Sample{Index: k}
+	dc, err := c.With(Draw(c, tols, seed, k)...)
+	if err != nil {
+		s.Error = err.Error()
+		return s
+	}
+	b, err := study.NewBench(dc, nil)
+	if err != nil {
+		s.Error = err.Error()
+		return s
+	}
+	for _, j := range jobs {
+		r, err := b.Solve(j.Level, j.Polarity, sopt)
+		if err != nil {
+			s.Error = fmt.Sprintf("%s %s: %v", spec.FormatSI(j.Level, unit), j.Polarity, err)
+			return s
+		}
+		s.Verdicts = append(s.Verdicts, string(r.Verdict))
+		row := make([]float64, len(ms))
+		for mi, m := range ms {
+			row[mi] = jsonSafe(m.read(r))
+		}
+		s.Values = append(s.Values, row)
+	}
+	return s
 }
 
 // Draw returns the settings of drawn circuit k: one value per tolerance,
@@ -342,64 +429,127 @@ func jsonSafe(v float64) float64 {
 	return v
 }
 
-// summarise recomputes every statistic from Samples (sorted by index first).
-func (r *SpreadResult) summarise() {
+// begin sets the counts to zero and starts an empty summary, for circuits
+// to be added.
+func (r *SpreadResult) begin() {
+	r.Solved, r.Unsolved, r.Passed = 0, 0, 0
+	r.UnsolvedCircuits = nil
+	s := &SpreadSummary{Worst: r.tallies(), Conditions: make([][]*Tally, len(r.Conditions))}
+	for ci := range r.Conditions {
+		r.Conditions[ci].Passed = 0
+		s.Conditions[ci] = r.tallies()
+	}
+	r.summary = s
+}
+
+func (r *SpreadResult) tallies() []*Tally {
+	ts := make([]*Tally, len(r.Measures))
+	for i := range ts {
+		ts[i] = newTally(r.ExactUpTo)
+	}
+	return ts
+}
+
+// add counts circuit s into the statistics.
+func (r *SpreadResult) add(s Sample) {
+	if s.Error != "" || !r.fits(s) {
+		r.Unsolved++
+		why := s.Error
+		if why == "" {
+			why = "its values do not match the spread's conditions and measures"
+		}
+		r.noteUnsolved(CircuitError{s.Index, why})
+		return
+	}
+	r.Solved++
+	pass := true
+	for ci, v := range s.Verdicts {
+		if v == string(study.Pass) {
+			r.Conditions[ci].Passed++
+		} else {
+			pass = false
+		}
+	}
+	if pass {
+		r.Passed++
+	}
+	for mi, m := range r.Measures {
+		higher := !(m == "worst_margin" || strings.HasSuffix(m, ".residual.min"))
+		w := s.Values[0][mi]
+		for ci, row := range s.Values {
+			x := row[mi]
+			r.summary.Conditions[ci][mi].add(x)
+			if (higher && x > w) || (!higher && x < w) {
+				w = x
+			}
+		}
+		r.summary.Worst[mi].add(w)
+	}
+}
+
+// fits reports whether s has a verdict and a row of measures for every
+// condition.
+func (r *SpreadResult) fits(s Sample) bool {
+	if len(s.Verdicts) != len(r.Conditions) || len(s.Values) != len(r.Conditions) {
+		return false
+	}
+	for _, row := range s.Values {
+		if len(row) != len(r.Measures) {
+			return false
+		}
+	}
+	return true
+}
+
+// noteUnsolved keeps e among the unsolved circuits of lowest index.
+func (r *SpreadResult) noteUnsolved(e CircuitError) {
+	r.UnsolvedCircuits = append(r.UnsolvedCircuits, e)
+	sort.Slice(r.UnsolvedCircuits, func(a, b int) bool { return r.UnsolvedCircuits[a].Index < r.UnsolvedCircuits[b].Index })
+	if len(r.UnsolvedCircuits) > MaxUnsolvedListed {
+		r.UnsolvedCircuits = r.UnsolvedCircuits[:MaxUnsolvedListed]
+	}
+}
+
+// finish derives the fractions, intervals and percentiles from the counts
+// and the summary, and puts the samples in index order.
+func (r *SpreadResult) finish() {
 	sort.Slice(r.Samples, func(a, b int) bool { return r.Samples[a].Index < r.Samples[b].Index })
-	worstHigher := make([]bool, len(r.Measures))
-	for i, m := range r.Measures {
-		worstHigher[i] = !(m == "worst_margin" || hasSuffix(m, ".residual.min"))
-	}
-	r.Solved, r.Passed = 0, 0
-	cols := make([][]float64, len(r.Measures))
-	condCols := make([][][]float64, len(r.Conditions))
-	condPass := make([]int, len(r.Conditions))
-	for ci := range condCols {
-		condCols[ci] = make([][]float64, len(r.Measures))
-	}
-	for _, s := range r.Samples {
-		if s.Error != "" || len(s.Values) != len(r.Conditions) {
-			continue
-		}
-		r.Solved++
-		pass := true
-		for ci, v := range s.Verdicts {
-			if v == string(study.Pass) {
-				condPass[ci]++
-			} else {
-				pass = false
-			}
-		}
-		if pass {
-			r.Passed++
-		}
-		for mi := range r.Measures {
-			w := s.Values[0][mi]
-			for ci, row := range s.Values {
-				x := row[mi]
-				condCols[ci][mi] = append(condCols[ci][mi], x)
-				if (worstHigher[mi] && x > w) || (!worstHigher[mi] && x < w) {
-					w = x
-				}
-			}
-			cols[mi] = append(cols[mi], w)
-		}
-	}
 	r.PassFraction = fraction(r.Passed, r.Solved)
 	r.CI95[0], r.CI95[1] = Wilson95(r.Passed, r.Solved)
+	exact := true
 	r.Percentiles = map[string]Percentiles{}
 	for mi, m := range r.Measures {
-		r.Percentiles[m] = Summarise(cols[mi])
+		t := r.summary.Worst[mi]
+		r.Percentiles[m] = t.Percentiles()
+		exact = exact && t.Exact()
 	}
 	for ci := range r.Conditions {
 		cd := &r.Conditions[ci]
-		cd.Passed = condPass[ci]
 		cd.PassFraction = fraction(cd.Passed, r.Solved)
 		cd.CI95[0], cd.CI95[1] = Wilson95(cd.Passed, r.Solved)
 		cd.Percentiles = map[string]Percentiles{}
 		for mi, m := range r.Measures {
-			cd.Percentiles[m] = Summarise(condCols[ci][mi])
+			cd.Percentiles[m] = r.summary.Conditions[ci][mi].Percentiles()
 		}
 	}
+	r.PercentileError = 0
+	if !exact {
+		r.PercentileError = SketchAccuracy
+	}
+}
+
+// SummariseSamples recomputes every count and statistic of r from its
+// Samples: those of a spread run with SpreadOptions.Samples, or JSON
+// written before spreads kept a summary.
+func SummariseSamples(r *SpreadResult) {
+	if r.ExactUpTo == 0 {
+		r.ExactUpTo = ExactCircuits
+	}
+	r.begin()
+	for _, s := range r.Samples {
+		r.add(s)
+	}
+	r.finish()
 }
 
 func fraction(k, n int) float64 {
@@ -408,5 +558,3 @@ func fraction(k, n int) float64 {
 	}
 	return float64(k) / float64(n)
 }
-
-func hasSuffix(s, suf string) bool { return len(s) >= len(suf) && s[len(s)-len(suf):] == suf }

@@ -27,7 +27,7 @@ func spreadJSON(t *testing.T, r *SpreadResult) string {
 func TestSpreadReproducible(t *testing.T) {
 	c := parse(t, "testdata/net-a-spread.zap")
 	run := func(seed uint64, workers int, sh study.Shard) *SpreadResult {
-		opt := &SpreadOptions{Runs: 6, Seed: seed, Shard: sh}
+		opt := &SpreadOptions{Runs: 6, Seed: seed, Shard: sh, Samples: true}
 		opt.Study.Workers = workers
 		r, err := Spreads(context.Background(), c, opt)
 		if err != nil {
@@ -137,7 +137,7 @@ func TestSpreadNeedsTolerances(t *testing.T) {
 // interval with Wilson95 of the counts.
 func TestSpreadPassFraction(t *testing.T) {
 	c := parse(t, "testdata/clamp-at-pin.zap")
-	opt := &SpreadOptions{Runs: 40, Seed: 9,
+	opt := &SpreadOptions{Runs: 40, Seed: 9, Samples: true,
 		Tolerances: []netlist.Tolerance{{Element: "D1", Param: "ls", Percent: 20, Dist: "uniform"}}}
 	r, err := Spreads(context.Background(), c, opt)
 	if err != nil {

@@ -82,6 +82,11 @@ type Percentiles struct {
 // order they arrived in.
 func Summarise(data []float64) Percentiles {
 	sort.Float64s(data)
+	return summariseSorted(data)
+}
+
+// summariseSorted is Summarise of data already in ascending order.
+func summariseSorted(data []float64) Percentiles {
 	p := Percentiles{N: len(data)}
 	if len(data) == 0 {
 		return p
