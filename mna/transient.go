@@ -60,8 +60,6 @@ const (
 	slackMax   = 4.0
 )
 
-var ZZSlackMax = 30.0
-
 // newtonShare is Newton's relative tolerance as a share of the local error
 // per step: the iteration error must stay below the truncation error the
 // step control allows, or it would decide the answer [practice: a tenth].
@@ -82,7 +80,19 @@ const edgeSpan = 0.02
 // step is backward Euler without an error estimate (there is no history), so
 // it must be small enough that its first-order error is negligible; the
 // error control then grows the step at most 2× a step.
-var firstFraction = 1e-4
+const firstFraction = 1e-4
+
+// floorShare is the smallest step the error control asks for, as a share
+// of the stimulus's time scale (Stimulus.Scale: 60 fs for the 200 ns of an
+// ESD strike); the first step after a breakpoint is no shorter either,
+// unless the interval it starts is. Nothing in a protection network moves
+// on a shorter scale, and steps much shorter make the circuit's matrix
+// numerically singular wherever capacitors tie nodes to each other but
+// only inductors tie them to the rest (a line's clamp, filter and pin
+// returning through a connector's ground pins): at a femtosecond step the
+// capacitors' Alpha·C outweighs the inductors' 1/(Alpha·L) by the whole
+// precision of a float64, and the iterates of those nodes are noise.
+const floorShare = 3e-7
 
 // The step-size controller. After an accepted step with error ratio r (error
 // over tolerance) the next step is
@@ -183,6 +193,10 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 		minStep = 1e-16
 	}
 	fixed := cfg.FixedStep
+	stimScale := 0.0
+	if s.stim != nil {
+		stimScale = s.stim.Scale()
+	}
 	// first is the first step after t = 0 and after each breakpoint.
 	first := func(interval float64) float64 {
 		h := min(maxStep, interval) * firstFraction
@@ -194,7 +208,7 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 			// first step must be.
 			h = min(h, s.stim.Scale()/50*firstFraction)
 		}
-		return max(h, minStep)
+		return max(h, minStep, min(floorShare*stimScale, 0.01*interval))
 	}
 
 	ne := len(s.devs)
@@ -251,15 +265,16 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 		h = min(h, fixed)
 	}
 	// hFloor is the step below which the error control no longer rejects:
-	// a hundredth of the first step, which is taken with no estimate at all
-	// (and, unless MinStep is set, no less than twice the minimum step).
+	// a hundredth of the first step, which is taken with no estimate at all,
+	// and no less than floorShare of the stimulus's scale (and, unless
+	// MinStep is set, no less than twice the minimum step).
 	// Where a node without capacitance is held by a junction that switches
 	// off (a clamp fed through an inductor, its current running out), or
 	// where a spark's resistance collapses, a value moves on a time scale
 	// that shrinks as it goes: a corner in all but name. The estimate of a
 	// step across it is a fixed share of the move however short the step,
 	// and without a floor the run would stop there.
-	hFloor := first(stop) / 100
+	hFloor := max(first(stop)/100, floorShare*stimScale)
 	if cfg.MinStep <= 0 {
 		hFloor = max(hFloor, 2*minStep)
 	}
