@@ -41,8 +41,12 @@ import (
 // extreme in a circuit with a long memory, which is why the slack stays
 // small; and it fades as the square of Accuracy below the default, so that
 // a run at Accuracy/10 has none and its difference from the first run shows
-// whatever the slack cost. Measured on the reference networks: the slack
-// saves a third of network A's steps.
+// whatever the slack cost. Measured on the reference networks: a slack of
+// up to 8 saves 46 % of network A's steps (35 % over all five) and moves
+// no compared quantity by more than a twentieth of its budget; up to 32
+// would save another 15 %, but then the sine-driven RC of
+// TestAdaptiveMeetsAccuracy, a circuit whose memory carries a mid-range
+// error to its later extremes, leaves its lowest value 0.204 % off.
 //
 // During a stimulus edge (see edgeSpan) the bound is edgeShare of itself,
 // without slack: what the circuit does just after an edge (the undershoot
@@ -57,7 +61,7 @@ const (
 	sideFloor  = 0.05
 	edgeShare  = 0.02
 	slackK     = 1000.0
-	slackMax   = 4.0
+	slackMax   = 8.0
 )
 
 // newtonShare is Newton's relative tolerance as a share of the local error
