@@ -45,11 +45,14 @@ type Settings struct {
 	// FirstStep bounds the first step after t = 0 and after every
 	// breakpoint, s. That step is taken with backward Euler and accepted
 	// without an error estimate (there is no history yet), so it must
-	// resolve the stimulus's rise. Zero: a thousandth of the interval it
-	// starts (itself at most the step bound), and no more than the step the
-	// stimulus's own span would give (a thousandth of Stimulus.Stop/50), so
-	// that a window stretched for a slow circuit does not coarsen the first
-	// nanosecond.
+	// resolve the stimulus's rise. Zero: a ten-thousandth of the interval
+	// it starts (itself at most the step bound), no more than the step the
+	// stimulus's own time scale would give (a ten-thousandth of
+	// Stimulus.Scale()/50), so that a window stretched for a slow circuit
+	// does not coarsen the first nanosecond, and no less than 3e-7 of that
+	// scale (60 fs for an ESD strike; unless the interval itself is
+	// shorter), which is also the shortest step the error control asks
+	// for: shorter steps make some circuits' matrices numerically singular.
 	FirstStep float64
 	// MinStep is the step below which the solver gives up with a
 	// *SolveError, s. Zero: 1e-16 s.
