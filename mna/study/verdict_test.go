@@ -187,7 +187,9 @@ func TestStandOffAndResistorRatings(t *testing.T) {
 	for _, v := range vdd {
 		pmax = max(pmax, v*v/50)
 	}
-	if l := limitNamed(t, r, "Rload pmax"); math.Abs(l.Measured/pmax-1) > 1e-9 {
+	// The study refines the peak between points: at or a little above the
+	// points' largest.
+	if l := limitNamed(t, r, "Rload pmax"); l.Measured < pmax*(1-1e-12) || l.Measured > pmax*(1+1e-4) {
 		t.Errorf("pmax measured %.6g W, v²/R %.6g W", l.Measured, pmax)
 	}
 	if l := limitNamed(t, r, "Rload emax"); l.At == l.At {
