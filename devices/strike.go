@@ -69,7 +69,7 @@ func init() { Register(StrikeKind) }
 // generator circuit it makes room for is the one its waveform builds with
 // the strike's values v (of the waveform's table).
 func newStrike(name string, nodes [2]string, v *spec.Values) (Device, error) {
-	return &Strike{name: name, nodes: nodes, gen: newGenNet(waveforms.GeneratorShape(v))}, nil
+	return NewStrikeFor(name, nodes, waveforms.GeneratorShape(v)), nil
 }
 
 // Name implements Device.

@@ -18,20 +18,6 @@ import (
 // accepted points.
 type Solver func(s *Stimulus, load, span float64) (t, i, v []float64, err error)
 
-// CalibrationLoads lists the loads, in ohms, into which a waveform's
-// published check points are stated, the prescribed one first
-// (Waveform.Load, then Waveform.Loads): the 2 Ω target of IEC 61000-4-2, an
-// open circuit and a short for the combination wave (its voltage and its
-// current), 50 Ω and 1 kΩ for IEC 61000-4-4's fast transient, a short for
-// the human-body and ISO 10605 networks. Nil for an unknown waveform.
-func CalibrationLoads(name string) []float64 {
-	w := Lookup(name)
-	if w == nil {
-		return nil
-	}
-	return append([]float64{w.Load}, w.Loads...)
-}
-
 // SolvedChecks compares the stimulus s, solved by solve into load (ohms;
 // DefaultLoad or any negative value: the prescribed load), with the
 // published check points of its standard: the waveform's own checks,

@@ -35,7 +35,7 @@ type Waveform struct {
 
 	// Loads are further loads, ohms, into which published check points
 	// are stated (the combination wave's short circuit, the fast
-	// transient's 1 kΩ); see CalibrationLoads.
+	// transient's 1 kΩ), after Load.
 	Loads []float64
 
 	build func(level float64, v *spec.Values) (*Stimulus, error)

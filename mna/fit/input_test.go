@@ -32,11 +32,19 @@ func TestFailureCurrentAndPinTable(t *testing.T) {
 	}
 	// The first tenfold jump of the leakage over the median before it
 	// [practice: a tenfold leakage shift as the TLP failure criterion].
-	it2, k, ok := FailureCurrent(tl.Positive())
+	var pos, neg []datafile.TLPPoint
+	for _, p := range tl.Points {
+		if p.I > 0 {
+			pos = append(pos, p)
+		} else {
+			neg = append(neg, p)
+		}
+	}
+	it2, k, ok := FailureCurrent(pos)
 	if !ok || it2 != 2.1 || k != 6 {
 		t.Errorf("It2 %g at row %d (%v), want 2.1 A at row 6", it2, k, ok)
 	}
-	if _, _, ok := FailureCurrent(tl.Negative()); ok {
+	if _, _, ok := FailureCurrent(neg); ok {
 		t.Error("the negative rows never failed")
 	}
 	pt, err := PinTable(tl, 0)

@@ -27,26 +27,6 @@ type Word struct {
 	Quote      bool
 }
 
-// Get returns a numeric parameter and whether the part has it.
-func (p Part) Get(key string) (float64, bool) {
-	for _, n := range p.Num {
-		if n.Key == key {
-			return n.Value, true
-		}
-	}
-	return 0, false
-}
-
-// Word returns a word parameter ("" when absent).
-func (p Part) Word(key string) string {
-	for _, w := range p.Words {
-		if w.Key == key {
-			return w.Value
-		}
-	}
-	return ""
-}
-
 // Line is the part line: "part NAME KIND key=value ...".
 func (p Part) Line() string { return "part " + p.Name + " " + p.Kind + p.params() }
 

@@ -20,8 +20,10 @@ func TestReadTLP(t *testing.T) {
 	if p := tl.Points[2]; p.I != 1 || !math.IsNaN(p.Leak) || p.Pos.Line != 5 {
 		t.Errorf("row 3: %+v (i [mA] scales by 1e-3; blank leak is NaN)", p)
 	}
-	if len(tl.Positive()) != 4 || len(tl.Negative()) != 2 {
-		t.Errorf("polarities: %d positive, %d negative", len(tl.Positive()), len(tl.Negative()))
+	_, pos := tl.side(1)
+	_, neg := tl.side(-1)
+	if len(pos) != 4 || len(neg) != 2 {
+		t.Errorf("polarities: %d positive, %d negative", len(pos), len(neg))
 	}
 	if tl.Points[5].Leak != 1.1e-9 {
 		t.Errorf("a leakage reading is a magnitude: %g", tl.Points[5].Leak)

@@ -25,21 +25,16 @@ type TLP struct {
 	file    string
 }
 
-// Positive returns the rows of the positive polarity (current > 0, or
-// voltage > 0 at zero current), in file order.
-func (t *TLP) Positive() []TLPPoint { return t.side(1) }
-
-// Negative returns the rows of the negative polarity, in file order.
-func (t *TLP) Negative() []TLPPoint { return t.side(-1) }
-
-func (t *TLP) side(s float64) []TLPPoint {
-	var out []TLPPoint
-	for _, p := range t.Points {
+// side returns the rows of one polarity, s = 1 positive (current > 0, or
+// voltage ≥ 0 at zero current) or −1 negative, in file order, with their
+// indices in Points.
+func (t *TLP) side(s float64) (idx []int, rows []TLPPoint) {
+	for k, p := range t.Points {
 		if tlpSign(p) == s {
-			out = append(out, p)
+			idx, rows = append(idx, k), append(rows, p)
 		}
 	}
-	return out
+	return idx, rows
 }
 
 func tlpSign(p TLPPoint) float64 {
@@ -156,13 +151,7 @@ func median(x []float64) float64 {
 func (t *TLP) Intact() []bool {
 	ok := make([]bool, len(t.Points))
 	for _, s := range []float64{1, -1} {
-		var idx []int
-		var rows []TLPPoint
-		for k, p := range t.Points {
-			if tlpSign(p) == s {
-				idx, rows = append(idx, k), append(rows, p)
-			}
-		}
+		idx, rows := t.side(s)
 		end := len(rows)
 		if k, failed := FirstFailure(rows); failed {
 			end = k

@@ -2,7 +2,6 @@ package whatif
 
 import (
 	"math"
-	"sort"
 )
 
 // Quantile returns the p-quantile (0 ≤ p ≤ 1) of sorted, ascending data by
@@ -77,15 +76,9 @@ type Percentiles struct {
 	Mean float64 `json:"mean"`
 }
 
-// Summarise computes the percentiles of data (sorted in place). The mean is
-// summed in ascending order, so the same values give the same bits whatever
-// order they arrived in.
-func Summarise(data []float64) Percentiles {
-	sort.Float64s(data)
-	return summariseSorted(data)
-}
-
-// summariseSorted is Summarise of data already in ascending order.
+// summariseSorted computes the percentiles of data already in ascending
+// order. The mean is summed in ascending order, so the same values give the
+// same bits whatever order they arrived in.
 func summariseSorted(data []float64) Percentiles {
 	p := Percentiles{N: len(data)}
 	if len(data) == 0 {

@@ -2,6 +2,7 @@ package whatif
 
 import (
 	"math"
+	"sort"
 	"testing"
 )
 
@@ -64,4 +65,10 @@ func TestSummarise(t *testing.T) {
 	if p.N != 101 || p.Min != 0 || p.Max != 100 || p.P1 != 1 || p.P5 != 5 || p.P50 != 50 || p.P95 != 95 || p.P99 != 99 || p.Mean != 50 {
 		t.Errorf("Summarise(0..100) = %+v", p)
 	}
+}
+
+// Summarise computes the percentiles of data, sorting it in place.
+func Summarise(data []float64) Percentiles {
+	sort.Float64s(data)
+	return summariseSorted(data)
 }
