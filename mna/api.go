@@ -5,6 +5,8 @@
 package mna
 
 import (
+	"context"
+	"errors"
 	"fmt"
 	"time"
 )
@@ -16,6 +18,12 @@ import (
 // tolerances follow from Accuracy, and exist for verification and for
 // experts who want one mechanism at a time.
 type Settings struct {
+	// Context, when set, stops the solution once it is done: checked every
+	// few steps (well under a millisecond of work apart), so that an
+	// interrupted study stops within a fraction of a second. The error is
+	// then ErrInterrupted wrapping the context's, and the Status
+	// Interrupted.
+	Context context.Context
 	// Stop is the simulated span, s. Zero: the stimulus's default span
 	// (waveforms.Stimulus.Stop); an error when there is no stimulus.
 	Stop float64
@@ -138,7 +146,12 @@ const (
 	Failed Status = iota
 	// Completed: the solution reached the stop time.
 	Completed
+	// Interrupted: Settings.Context was done before the stop time.
+	Interrupted
 )
+
+// ErrInterrupted is the error of a solution stopped by its context.
+var ErrInterrupted = errors.New("interrupted")
 
 // Stats count the work of a solution.
 type Stats struct {

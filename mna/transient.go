@@ -2,9 +2,11 @@ package mna
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"time"
 
+	"zapnet/devices/spec"
 	"zapnet/waveforms"
 )
 
@@ -286,7 +288,13 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 	logPrev := 0.0  // log of the error ratio of the last accepted step (PI memory)
 	const a2 = (1 - gamma) * (1 - gamma) / (gamma * (2 - gamma))
 	const a1 = 1 / (gamma * (2 - gamma))
-	for now < stop {
+	for loop := 0; now < stop; loop++ {
+		if cfg.Context != nil && loop%checkEvery == 0 {
+			if err := cfg.Context.Err(); err != nil {
+				res.fail(start).Status = Interrupted
+				return res, fmt.Errorf("mna: %w at %s: %w", ErrInterrupted, spec.FormatSI(now, "s"), err)
+			}
+		}
 		target, isBP := nextTarget()
 		hs := min(h, maxStep)
 		rem := target - now
@@ -433,6 +441,10 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 	res.Status = Completed
 	return res, nil
 }
+
+// checkEvery is how many passes of the step loop go between two looks at
+// the context: a pass costs microseconds, a look tens of nanoseconds.
+const checkEvery = 16
 
 // fail marks a run that stopped on an error, keeping its statistics.
 func (r *Result) fail(start time.Time) *Result {

@@ -48,9 +48,7 @@ func Execute(ctx context.Context, c *netlist.Circuit, jobs []Job, opt *Options, 
 // starts another job; ok[k] says whether jobs[k] ran. done, when not nil,
 // is called after each finished run, never two calls at once.
 func solvePool(ctx context.Context, c *netlist.Circuit, jobs []Job, opt *Options, done func(finished int)) (runs []Run, ok []bool) {
-	if opt == nil {
-		opt = &Options{}
-	}
+	opt = opt.WithContext(ctx)
 	workers := opt.Workers
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
@@ -61,6 +59,7 @@ func solvePool(ctx context.Context, c *netlist.Circuit, jobs []Job, opt *Options
 	if done != nil {
 		progress = func(finished, _ int) { done(finished) }
 	}
+	cut := make([]bool, len(jobs)) // runs the context stopped midway
 	ok = ForEach(ctx, workers, len(jobs), progress, func(w, k int) {
 		j := jobs[k]
 		runs[k] = func() (run Run) {
@@ -77,6 +76,9 @@ func solvePool(ctx context.Context, c *netlist.Circuit, jobs []Job, opt *Options
 				return failedRun(c, j, err)
 			}
 			r, err := b.Solve(j.Level, j.Polarity, opt)
+			if Interrupted(err) {
+				cut[k] = true
+			}
 			if err != nil {
 				return failedRun(c, j, err)
 			}
@@ -84,5 +86,8 @@ func solvePool(ctx context.Context, c *netlist.Circuit, jobs []Job, opt *Options
 			return *r
 		}()
 	})
+	for k := range ok {
+		ok[k] = ok[k] && !cut[k]
+	}
 	return runs, ok
 }

@@ -1,6 +1,8 @@
 package study
 
 import (
+	"context"
+	"errors"
 	"zapnet/devices"
 	"zapnet/devices/spec"
 	"zapnet/mna"
@@ -45,6 +47,28 @@ type Options struct {
 	// Record and Observe are set by the study and ignored here.
 	Settings *mna.Settings
 }
+
+// WithContext returns a copy of o whose solves stop once ctx is done (the
+// engine looks at it every few steps, mna.Settings.Context): a solve cut
+// short returns an error wrapping mna.ErrInterrupted, which Interrupted
+// recognises.
+func (o *Options) WithContext(ctx context.Context) *Options {
+	var x Options
+	if o != nil {
+		x = *o
+	}
+	var set mna.Settings
+	if x.Settings != nil {
+		set = *x.Settings
+	}
+	set.Context = ctx
+	x.Settings = &set
+	return &x
+}
+
+// Interrupted reports whether err is a solve cut short by its context: its
+// run did not finish, and is no result.
+func Interrupted(err error) bool { return errors.Is(err, mna.ErrInterrupted) }
 
 // Job is one run to solve: a variant, a level and a polarity.
 type Job struct {

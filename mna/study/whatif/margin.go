@@ -197,7 +197,7 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 		out[i] = Margin{Index: sr.index, Variant: variants[sr.variant], Polarity: sr.polarity, LevelUnit: unit}
 	}
 	workers := workerCount(opt.Study.Workers)
-	sopt := opt.Study
+	sopt := *opt.Study.WithContext(ctx)
 	sopt.Record = false
 	grid := scanGrid(steps, scan)
 	total := (len(grid) + bisections(steps, scan)) * len(mine)
@@ -320,6 +320,9 @@ func finishSearch(ctx context.Context, m *Margin, grid []int, scan []scanned, st
 		}
 	}
 	for i, sc := range scan {
+		if study.Interrupted(sc.err) {
+			return false
+		}
 		if sc.err != nil {
 			fail(grid[i], sc.err)
 			return true
@@ -361,6 +364,9 @@ func finishSearch(ctx context.Context, m *Margin, grid []int, scan []scanned, st
 		mid := lo + (hi-lo)/2
 		m.Solves++
 		o, err := solveAt(level(mid))
+		if study.Interrupted(err) {
+			return false
+		}
 		if err != nil {
 			fail(mid, err)
 			return true

@@ -141,7 +141,7 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 			res.Skipped = append(res.Skipped, s)
 		}
 	}
-	sopt := opt.Study
+	sopt := *opt.Study.WithContext(ctx)
 	sopt.Record = false
 	limit := limitName(opt.Limit)
 	// marginOf is the margin that ranks: the run's worst, or the named
@@ -216,7 +216,7 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 		halves[i] = half{m, w, err}
 	})
 	for k, p := range mine {
-		if !finished[2*k] || !finished[2*k+1] {
+		if !finished[2*k] || !finished[2*k+1] || study.Interrupted(halves[2*k].err) || study.Interrupted(halves[2*k+1].err) {
 			res.Interrupted = true
 			continue
 		}

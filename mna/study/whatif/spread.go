@@ -262,19 +262,25 @@ func Spreads(ctx context.Context, c *netlist.Circuit, opt *SpreadOptions) (*Spre
 
 	res.begin()
 	mine := opt.Shard.Len(n)
-	sopt := opt.Study
+	sopt := *opt.Study.WithContext(ctx)
 	sopt.Record = false
 	var mu sync.Mutex
+	cut := 0 // circuits the context stopped midway: no result
 	finished := study.Each(ctx, workerCount(opt.Study.Workers), mine, opt.Progress, func(_ int, i int) {
-		s := solveDrawn(c, tols, jobs, ms, opt.Seed, opt.Shard.Item(i), &sopt, res.LevelUnit)
+		s, err := solveDrawn(c, tols, jobs, ms, opt.Seed, opt.Shard.Item(i), &sopt, res.LevelUnit)
 		mu.Lock()
+		if study.Interrupted(err) {
+			cut++
+			mu.Unlock()
+			return
+		}
 		defer mu.Unlock()
 		res.add(s)
 		if opt.Samples {
 			res.Samples = append(res.Samples, s)
 		}
 	})
-	res.Interrupted = finished < mine
+	res.Interrupted = finished-cut < mine
 	res.finish()
 	if res.Shard != nil {
 		res.Summary = res.summary
@@ -282,24 +288,29 @@ func Spreads(ctx context.Context, c *netlist.Circuit, opt *SpreadOptions) (*Spre
 	return res, nil
 }
 
-// solveDrawn draws circuit k and strikes it at every condition.
-func solveDrawn(c *netlist.Circuit, tols []netlist.Tolerance, jobs []study.Job, ms []measure, seed uint64, k int, sopt *study.Options, unit spec.Unit) Sample {
+// solveDrawn draws circuit k and strikes it at every condition. The error
+// is that of a solve the context stopped (study.Interrupted); any other
+// failure is the sample's Error.
+func solveDrawn(c *netlist.Circuit, tols []netlist.Tolerance, jobs []study.Job, ms []measure, seed uint64, k int, sopt *study.Options, unit spec.Unit) (Sample, error) {
 	s := Sample{Index: k}
 	dc, err := c.With(Draw(c, tols, seed, k)...)
 	if err != nil {
 		s.Error = err.Error()
-		return s
+		return s, nil
 	}
 	b, err := study.NewBench(dc, nil)
 	if err != nil {
 		s.Error = err.Error()
-		return s
+		return s, nil
 	}
 	for _, j := range jobs {
 		r, err := b.Solve(j.Level, j.Polarity, sopt)
+		if study.Interrupted(err) {
+			return s, err
+		}
 		if err != nil {
 			s.Error = fmt.Sprintf("%s %s: %v", spec.FormatSI(j.Level, unit), j.Polarity, err)
-			return s
+			return s, nil
 		}
 		s.Verdicts = append(s.Verdicts, string(r.Verdict))
 		row := make([]float64, len(ms))
@@ -308,7 +319,7 @@ func solveDrawn(c *netlist.Circuit, tols []netlist.Tolerance, jobs []study.Job, 
 		}
 		s.Values = append(s.Values, row)
 	}
-	return s
+	return s, nil
 }
 
 // Draw returns the settings of drawn circuit k: one value per tolerance,
