@@ -319,14 +319,32 @@ const impossible = 1e9
 // (a Newton step) or older ones (a chord step, a back-substitution only);
 // a chord step that does not at least halve the previous update is not
 // trusted, and the matrix is factored afresh.
+//
+// In the transient an iterate reached by one update is also taken without
+// computing the next one when the contraction measured on recent solves
+// says that update would be far below tolerance: an iteration contracting
+// at rate θ leaves θ/(1−θ) of its last update, and a protection network
+// between its junctions' knees is so nearly linear that one update leaves a
+// millionth of itself. The rate is the one last measured, relaxed towards 1
+// at every solve that does not measure it (s.eta), so that a verifying
+// update is still computed every few solves [pub: Hairer & Wanner, Solving
+// ODEs II, IV.8, the stopping criterion of the simplified Newton iteration
+// with η from the previous step]. The residual is still tested at the
+// point taken, and a limited junction step still forbids it.
 func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 	s.setTolerances(t)
 	have := reuse && s.luOK // factors in hand
 	fresh := false          // ... formed at the previous iterate
 	prev := math.Inf(1)     // size of the last update, in tolerances
+	if !s.ctx.DC {
+		s.eta = math.Pow(max(s.eta, etaFloor), etaRelax)
+	}
 	for it := 1; it <= t.maxIter; it++ {
 		s.assemble(g)
 		resOK := s.residualOK(t)
+		if have && it > 1 && !s.ctx.DC && resOK && !s.ctx.Limited && s.eta*prev <= etaAccept {
+			return it, converged
+		}
 		if have {
 			s.negF()
 			s.lu.solve(s.dx)
@@ -339,6 +357,13 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 			// smaller); a chord update converging at rate ρ leaves
 			// ρ/(1−ρ) of itself, and with no rate known yet only a tenth
 			// of the tolerance is trusted.
+			if it > 1 && prev > 0 {
+				if th := r / prev; th < 1 {
+					s.eta = th / (1 - th)
+				} else {
+					s.eta = 1
+				}
+			}
 			err := r
 			if !fresh {
 				if rho := r / prev; rho < 1 {
@@ -393,6 +418,16 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 	}
 	return t.maxIter, notConverged
 }
+
+// The single-update acceptance (see newton): an iterate is taken when
+// eta·(its update, in tolerances) is at most etaAccept; eta relaxes as
+// eta^etaRelax at every solve, from at least etaFloor [pub: Hairer & Wanner,
+// Solving ODEs II, IV.8: η = max(η_old, uround)^0.8].
+const (
+	etaAccept = 0.5
+	etaRelax  = 0.8
+	etaFloor  = 0x1p-52
+)
 
 // negF sets dx to −F, the right-hand side of the Newton step.
 func (s *System) negF() {

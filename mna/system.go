@@ -45,6 +45,7 @@ type System struct {
 	jacSrc, jacDiag []int32
 	lu              *sparseLU
 	luOK            bool      // lu holds the factors of a recent matrix
+	eta             float64   // Newton's contraction factor θ/(1−θ), last measured and relaxed since (see newton)
 	scale           []float64 // largest single contribution on each row, for the residual test
 	noise           []float64 // size of the cancelling state terms on each row, for the same
 	// Devices stamp in one of two ways. A small circuit (n ≤ denseMax)
