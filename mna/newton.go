@@ -97,6 +97,7 @@ func (s *System) assemble(g float64) {
 	clear(s.scale)
 	c := &s.ctx
 	c.Limited = false
+	c.NSlopes = 0
 	if s.dense != nil {
 		s.stampDense()
 	} else {
@@ -147,13 +148,27 @@ func (s *System) stampDense() {
 	c := &s.ctx
 	clear(s.dense)
 	f, scale, snap := s.f, s.scale, s.snap
+	dense := s.dense
 	for di := range s.devs {
 		d := &s.devs[di]
 		for _, k := range d.prior {
 			snap[k] = f[d.touched[k]]
 		}
+		js := s.jsnap
+		for _, e := range d.tjPrior {
+			js[e] = dense[d.tjPos[e]]
+		}
 		c.StateBase = d.stateLo
 		d.dev.Eval(c)
+		tj := s.termJ[d.tjBase : d.tjBase+len(d.tjPos)]
+		for e, p := range d.tjPos {
+			if p >= 0 {
+				tj[e] = dense[p]
+			}
+		}
+		for _, e := range d.tjPrior {
+			tj[e] -= js[e]
+		}
 		for k, r := range d.touched {
 			v := f[r]
 			if d.shared[k] {
@@ -209,6 +224,12 @@ func (s *System) stampLocal() {
 		pos := d.jpos[:len(jl)]
 		for e, v := range jl {
 			jac[pos[e]] += v
+		}
+		tj := s.termJ[d.tjBase : d.tjBase+len(d.termSnap)*m]
+		for t, k := range d.termSnap {
+			if k >= 0 {
+				copy(tj[t*m:(t+1)*m], jl[k*m:(k+1)*m])
+			}
 		}
 	}
 }
@@ -313,38 +334,42 @@ const impossible = 1e9
 // An iterate is converged when the update the present factors give from it
 // is within tolerance on every unknown, the residual is within tolerance on
 // every row and no device limited its junction step. The test is made at the
-// start of an iteration, on the freshly evaluated point, so the states and
-// terminal currents left by the evaluation belong to the accepted point.
+// start of an iteration, on the freshly evaluated point; the update is then
+// applied, and the states and terminal currents that evaluation left are
+// moved along it by their derivatives there (see take).
 // The update comes from the factors in hand: those of the previous iterate
 // (a Newton step) or older ones (a chord step, a back-substitution only);
 // a chord step that does not at least halve the previous update is not
 // trusted, and the matrix is factored afresh.
 //
-// In the transient an iterate reached by one update is also taken without
-// computing the next one when the contraction measured on recent solves
-// says that update would be far below tolerance: an iteration contracting
-// at rate θ leaves θ/(1−θ) of its last update, and a protection network
-// between its junctions' knees is so nearly linear that one update leaves a
-// millionth of itself. The rate is the one last measured, relaxed towards 1
-// at every solve that does not measure it (s.eta), so that a verifying
-// update is still computed every few solves [pub: Hairer & Wanner, Solving
-// ODEs II, IV.8, the stopping criterion of the simplified Newton iteration
-// with η from the previous step]. The residual is still tested at the
-// point taken, and a limited junction step still forbids it.
+// In the transient the iterate one update beyond an evaluated point is
+// also taken, without evaluating it, when the contraction measured on
+// recent solves says the next update would be far below tolerance: an
+// iteration contracting at rate θ leaves θ/(1−θ) of its last update, and
+// a protection network between its junctions' knees is so nearly linear
+// that one update leaves a millionth of itself. The rate is the ratio of
+// the second update to the first, last measured, relaxed towards 1 at
+// every solve that does not measure it
+// (s.eta), so that an iterate is still evaluated and a verifying update
+// computed every few solves [pub: Hairer & Wanner, Solving ODEs II, IV.8,
+// the stopping criterion of the simplified Newton iteration with η from
+// the previous step]. A limited junction step forbids it. Most stages then
+// cost one evaluation and one solve.
 func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 	s.setTolerances(t)
 	have := reuse && s.luOK // factors in hand
 	fresh := false          // ... formed at the previous iterate
 	prev := math.Inf(1)     // size of the last update, in tolerances
-	if !s.ctx.DC {
+	dc := s.ctx.DC
+	if !dc {
 		s.eta = min(1, etaRelax*max(s.eta, etaFloor))
+	}
+	// once says the update just computed may be taken unevaluated.
+	once := func(r float64) bool {
+		return !dc && !s.ctx.Limited && s.eta*r <= etaAccept && s.ctx.NSlopes <= len(s.ctx.Slopes)
 	}
 	for it := 1; it <= t.maxIter; it++ {
 		s.assemble(g)
-		resOK := s.residualOK(t)
-		if have && it > 1 && !s.ctx.DC && resOK && !s.ctx.Limited && s.eta*prev <= etaAccept {
-			return it, converged
-		}
 		if have {
 			s.negF()
 			s.lu.solve(s.dx)
@@ -353,17 +378,20 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 				s.resRow, s.resValue = bad, s.f[bad]
 				return it, notConverged
 			}
-			// A Newton update bounds the error left (the next one is far
-			// smaller); a chord update converging at rate ρ leaves
-			// ρ/(1−ρ) of itself, and with no rate known yet only a tenth
-			// of the tolerance is trusted.
-			if it > 1 && prev > 0 {
+			// The rate that matters is the first one, of the update from
+			// the predicted point: Newton's later updates shrink
+			// quadratically, and their ratio says nothing of the first.
+			if it == 2 && prev > 0 {
 				if th := r / prev; th < 1 {
 					s.eta = th / (1 - th)
 				} else {
 					s.eta = 1
 				}
 			}
+			// A Newton update bounds the error left (the next one is far
+			// smaller); a chord update converging at rate ρ leaves
+			// ρ/(1−ρ) of itself, and with no rate known yet only a tenth
+			// of the tolerance is trusted.
 			err := r
 			if !fresh {
 				if rho := r / prev; rho < 1 {
@@ -375,15 +403,10 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 					err = 10 * r
 				}
 			}
-			if err <= 1 && resOK && !s.ctx.Limited {
-				s.update(t, true)
-				for i, v := range s.x {
-					if !(math.Abs(v) < impossible) {
-						s.resRow, s.resValue = i, s.f[i]
-						return it, runaway
-					}
-				}
-				return it, converged
+			// The residual is tested only where it can decide: most
+			// iterates are judged by their update alone.
+			if (err <= 1 && !s.ctx.Limited && s.residualOK(t)) || once(r) {
+				return it, s.take()
 			}
 			if r <= 0.5*prev {
 				s.update(t, true)
@@ -409,14 +432,64 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 		s.luOK, have, fresh = true, true, true
 		s.negF()
 		s.lu.solve(s.dx)
-		r, bad := s.update(t, true)
+		r, bad := s.update(t, false)
 		if bad >= 0 {
 			s.resRow, s.resValue = bad, s.f[bad]
 			return it, notConverged
 		}
+		if once(r) {
+			return it, s.take()
+		}
+		s.update(t, true)
 		prev = r
 	}
+	s.residualOK(t) // names the worst row of the last evaluation
 	return t.maxIter, notConverged
+}
+
+// take applies the update dx and ends the solve there. The states and
+// terminal currents were evaluated before the update: in the transient
+// they are moved along it by the derivatives that evaluation gave (the
+// device's own rows of the Jacobian for a terminal current, its
+// ChargeDeriv slopes for a state), so that what the step reports and
+// integrates belongs to the point taken; the update being converged, what
+// that linearisation leaves out is of its square.
+func (s *System) take() newtonStatus {
+	dx := s.dx
+	for i, d := range dx {
+		s.x[i] += d
+	}
+	for i, v := range s.x {
+		if !(math.Abs(v) < impossible) {
+			s.resRow, s.resValue = i, s.f[i]
+			return runaway
+		}
+	}
+	c := &s.ctx
+	if c.DC || c.NSlopes > len(c.Slopes) {
+		return converged
+	}
+	for _, sl := range c.Slopes[:c.NSlopes] {
+		d := sl.D * dx[sl.Col]
+		s.q[sl.State] += d
+		s.qdot[sl.State] += c.Alpha * d
+	}
+	for di := range s.devs {
+		d := &s.devs[di]
+		m := len(d.touched)
+		tj := s.termJ[d.tjBase : d.tjBase+len(d.termSnap)*m]
+		for t, k := range d.termSnap {
+			if k < 0 {
+				continue
+			}
+			v := 0.0
+			for l, u := range d.touched {
+				v += tj[t*m+l] * dx[u]
+			}
+			s.termCur[d.curBase+t] += v
+		}
+	}
+	return converged
 }
 
 // The single-update acceptance (see newton): an iterate is taken when
@@ -427,7 +500,7 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 // fixed factor does the same work here without a power, which cost 5 % of
 // a strike.
 const (
-	etaAccept = 0.5
+	etaAccept = 0.05
 	etaRelax  = 10.0
 	etaFloor  = 1e-12
 )

@@ -91,7 +91,12 @@ type System struct {
 	ht          [3]float64
 	hHead, hLen int
 
-	termCur        []float64 // current into every device terminal (flattened), A
+	termCur []float64 // current into every device terminal (flattened), A
+	// termJ holds, for every terminal, the derivatives of its current with
+	// respect to the device's unknowns (its row of the device's own
+	// Jacobian, in the order of touched) at the last evaluation; jsnap is
+	// the scratch that tells them apart from earlier devices' stamps.
+	termJ, jsnap   []float64
 	termV, termI   []float64 // every terminal's voltage and current at the last accepted point
 	stepEnergy     []float64 // each element's ledger entry over the last step, J
 	curTr          []waveforms.Tracker
@@ -108,17 +113,23 @@ type System struct {
 
 // device is one compiled element with the engine's bookkeeping.
 type device struct {
-	dev       devices.Device
-	nodes     devices.Nodes
-	term      []int   // terminal rows (Ground allowed)
-	touched   []int   // distinct rows the device may stamp
-	jpos      []int32 // position in the Jacobian's entries of each (touched, touched) pair
-	prior     []int   // indices in touched of the rows an earlier device stamps too
-	shared    []bool  // for each row in touched, whether it is in prior
-	termSnap  []int   // for each terminal, its index in touched, or -1
-	stateLo   int
-	stateHi   int
-	curBase   int
+	dev      devices.Device
+	nodes    devices.Nodes
+	term     []int   // terminal rows (Ground allowed)
+	touched  []int   // distinct rows the device may stamp
+	jpos     []int32 // position in the Jacobian's entries of each (touched, touched) pair
+	prior    []int   // indices in touched of the rows an earlier device stamps too
+	shared   []bool  // for each row in touched, whether it is in prior
+	termSnap []int   // for each terminal, its index in touched, or -1
+	stateLo  int
+	stateHi  int
+	curBase  int
+	tjBase   int // start of the device's rows in termJ
+	// Dense stamping: the place in the dense Jacobian of each entry of the
+	// device's rows in termJ (-1 for a terminal without a row of its own),
+	// and the entries among them that an earlier device stamps too.
+	tjPos     []int32
+	tjPrior   []int32
 	probeBase int
 	nProbe    int
 	prober    devices.Prober
@@ -313,6 +324,28 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		}
 		s.jacBuf = s.dense
 		s.snap = make([]float64, maxTouched)
+		both := make([]bool, n*n) // entries stamped by the devices so far
+		for di := range s.devs {
+			d := &s.devs[di]
+			m := len(d.touched)
+			for t, k := range d.termSnap {
+				for l, c := range d.touched {
+					p := int32(-1)
+					if k >= 0 {
+						p = int32(d.touched[k]*n + c)
+						if both[p] {
+							d.tjPrior = append(d.tjPrior, int32(t*m+l))
+						}
+					}
+					d.tjPos = append(d.tjPos, p)
+				}
+			}
+			for _, r := range d.touched {
+				for _, c := range d.touched {
+					both[r*n+c] = true
+				}
+			}
+		}
 	} else {
 		s.jac = make([]float64, s.pat.nnz())
 		for e := range s.jacSrc {
@@ -357,6 +390,18 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.pairScale = make([]float64, len(s.pairs))
 	s.xMin = make([]float64, n)
 	s.termCur = make([]float64, nTerm)
+	nTJ, nSlopes := 0, 0
+	for di := range s.devs {
+		d := &s.devs[di]
+		m := len(d.touched)
+		d.tjBase = nTJ
+		nTJ += len(d.term) * m
+		// Each state's derivatives by each of the device's unknowns, with
+		// room for a device that gives some in parts.
+		nSlopes += 2 * (d.stateHi - d.stateLo) * m
+	}
+	s.termJ = make([]float64, nTJ)
+	s.jsnap = make([]float64, maxTouched*maxTouched)
 	s.termV = make([]float64, nTerm)
 	s.termI = make([]float64, nTerm)
 	s.stepEnergy = make([]float64, len(s.devs))
@@ -372,7 +417,7 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	}
 	s.ctx = devices.Context{
 		X: s.x, F: s.f, J: s.dense, N: n, Local: s.local,
-		Q: s.q, Rows: s.rows, SourceScale: 1,
+		Q: s.q, Rows: s.rows, SourceScale: 1, Slopes: make([]devices.Slope, nSlopes),
 	}
 	return s, nil
 }
