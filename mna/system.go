@@ -15,14 +15,15 @@ import (
 // and every buffer a solution needs. It is reused across runs (the runs of a
 // sweep) and is not safe for concurrent use: give each goroutine its own.
 type System struct {
-	nodeNames   []string // circuit nodes, in result order
-	nodeIdx     []int    // unknown of each circuit node
-	unknowns    []string // display name of every unknown
-	isNode      []bool   // KCL row (true) or branch row (false)
-	nodeRows    []int    // the KCL rows, which carry the shunt conductance
-	owner       []int    // device owning an internal unknown, -1 for circuit nodes
-	circuitNode []int    // circuit node of each unknown, -1 for internal ones
-	nodeDevs    [][]int  // devices touching each circuit node, for hints
+	nodeNames   []string  // circuit nodes, in result order
+	nodeIdx     []int     // unknown of each circuit node
+	unknowns    []string  // display name of every unknown
+	isNode      []bool    // KCL row (true) or branch row (false)
+	nodeMask    []float64 // 1 for a KCL row, 0 for a branch row
+	nodeRows    []int     // the KCL rows, which carry the shunt conductance
+	owner       []int     // device owning an internal unknown, -1 for circuit nodes
+	circuitNode []int     // circuit node of each unknown, -1 for internal ones
+	nodeDevs    [][]int   // devices touching each circuit node, for hints
 	devs        []device
 	elements    []string
 	probes      []devices.Probe
@@ -44,10 +45,10 @@ type System struct {
 	jacBuf          []float64
 	jacSrc, jacDiag []int32
 	lu              *sparseLU
-	luOK            bool      // lu holds the factors of a recent matrix
-	eta             float64   // Newton's contraction factor θ/(1−θ), last measured and relaxed since (see newton)
-	scale           []float64 // largest single contribution on each row, for the residual test
-	noise           []float64 // size of the cancelling state terms on each row, for the same
+	luOK            bool       // lu holds the factors of a recent matrix
+	eta             [2]float64 // Newton's contraction factors θ/(1−θ), last measured and relaxed since (see newton)
+	scale           []float64  // largest single contribution on each row, for the residual test
+	noise           []float64  // size of the cancelling state terms on each row, for the same
 	// Devices stamp in one of two ways. A small circuit (n ≤ denseMax)
 	// stamps into a dense n×n Jacobian, dense, from which the pattern's
 	// entries are gathered: the fastest way for tens of unknowns. A large
@@ -261,9 +262,11 @@ func Compile(c *netlist.Circuit) (*System, error) {
 			stamped[r] = true
 		}
 	}
+	s.nodeMask = make([]float64, s.n)
 	for i, node := range s.isNode {
 		if node {
 			s.nodeRows = append(s.nodeRows, i)
+			s.nodeMask[i] = 1
 		}
 	}
 	for di := range s.devs {

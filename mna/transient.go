@@ -234,7 +234,7 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 	c := &s.ctx
 	c.DC = false
 	s.factorisations = 0
-	s.eta = 1
+	s.eta = [2]float64{1, 1}
 
 	copy(s.xAcc, s.x)
 	for i, v := range s.x {
