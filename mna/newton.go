@@ -362,7 +362,11 @@ const impossible = 1e9
 // where the junctions were, and a junction that was off cannot reach
 // conduction unseen. Most stages then cost one evaluation and one solve.
 func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
-	s.setTolerances(t)
+	if !reuse {
+		// The second stage keeps the first's: a step moves the scales
+		// little.
+		s.setTolerances(t)
+	}
 	have := reuse && s.luOK // factors in hand
 	fresh := false          // ... formed at the previous iterate
 	prev := math.Inf(1)     // size of the last update, in tolerances
@@ -544,7 +548,7 @@ func (s *System) negF() {
 // setTolerances sets Newton's tolerance on every unknown, newton·scale +
 // abs, the scale being the error control's (see localShare) at the point
 // Newton starts from (|x| at the operating point, at least scaleFloor).
-// One evaluation per solve: the scale moves little over its iterations.
+// One evaluation per step: the scale moves little over its two stages.
 func (s *System) setTolerances(t *tol) {
 	n := len(s.xtol)
 	x, sc, hi, lo := s.x[:n], s.xScale[:n], s.xMax[:n], s.xMin[:n]
