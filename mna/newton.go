@@ -164,11 +164,9 @@ func (s *System) stampDense() {
 		}
 		c.StateBase = d.stateLo
 		d.dev.Eval(c)
-		tj := s.termJ[d.tjBase : d.tjBase+len(d.tjPos)]
-		for e, p := range d.tjPos {
-			if p >= 0 {
-				tj[e] = dense[p]
-			}
+		tj := s.termJ[d.tjLo:d.tjHi]
+		for e, p := range d.tjPos[:len(tj)] {
+			tj[e] = dense[p]
 		}
 		for _, e := range d.tjPrior {
 			tj[e] -= js[e]
@@ -229,10 +227,10 @@ func (s *System) stampLocal() {
 		for e, v := range jl {
 			jac[pos[e]] += v
 		}
-		tj := s.termJ[d.tjBase : d.tjBase+len(d.termSnap)*m]
-		for t, k := range d.termSnap {
+		tj := s.termJ[d.tjLo:d.tjHi]
+		for _, k := range d.termSnap {
 			if k >= 0 {
-				copy(tj[t*m:(t+1)*m], jl[k*m:(k+1)*m])
+				tj = tj[copy(tj, jl[k*m:(k+1)*m]):]
 			}
 		}
 	}
@@ -494,20 +492,9 @@ func (s *System) take() newtonStatus {
 		s.q[sl.State] += d
 		s.qdot[sl.State] += c.Alpha * d
 	}
-	for di := range s.devs {
-		d := &s.devs[di]
-		m := len(d.touched)
-		tj := s.termJ[d.tjBase : d.tjBase+len(d.termSnap)*m]
-		for t, k := range d.termSnap {
-			if k < 0 {
-				continue
-			}
-			v := 0.0
-			for l, u := range d.touched {
-				v += tj[t*m+l] * dx[u]
-			}
-			s.termCur[d.curBase+t] += v
-		}
+	cur, col := s.tjCur[:len(s.termJ)], s.tjCol[:len(s.termJ)]
+	for e, v := range s.termJ {
+		s.termCur[cur[e]] += v * dx[col[e]]
 	}
 	return converged
 }

@@ -93,11 +93,14 @@ type System struct {
 	hHead, hLen int
 
 	termCur []float64 // current into every device terminal (flattened), A
-	// termJ holds, for every terminal, the derivatives of its current with
-	// respect to the device's unknowns (its row of the device's own
-	// Jacobian, in the order of touched) at the last evaluation; jsnap is
-	// the scratch that tells them apart from earlier devices' stamps.
+	// termJ holds the derivatives of the terminal currents with respect to
+	// their device's unknowns (the terminal's row of the device's own
+	// Jacobian) at the last evaluation: entry e is d termCur[tjCur[e]] /
+	// d x[tjCol[e]], a device's entries running from its tjLo to its tjHi,
+	// terminal by terminal in the order of touched. jsnap is the scratch
+	// that tells them apart from earlier devices' stamps.
 	termJ, jsnap   []float64
+	tjCur, tjCol   []int32
 	termV, termI   []float64 // every terminal's voltage and current at the last accepted point
 	stepEnergy     []float64 // each element's ledger entry over the last step, J
 	curTr          []waveforms.Tracker
@@ -125,10 +128,11 @@ type device struct {
 	stateLo  int
 	stateHi  int
 	curBase  int
-	tjBase   int // start of the device's rows in termJ
-	// Dense stamping: the place in the dense Jacobian of each entry of the
-	// device's rows in termJ (-1 for a terminal without a row of its own),
-	// and the entries among them that an earlier device stamps too.
+	tjLo     int // the device's entries of termJ
+	tjHi     int
+	// Dense stamping: the place in the dense Jacobian of each of the
+	// device's entries of termJ, and those (counted from tjLo) that an
+	// earlier device stamps too.
 	tjPos     []int32
 	tjPrior   []int32
 	probeBase int
@@ -317,6 +321,24 @@ func Compile(c *netlist.Circuit) (*System, error) {
 			}
 		}
 	}
+	var tjRow []int32 // the row of each entry of termJ
+	for di := range s.devs {
+		d := &s.devs[di]
+		d.tjLo = len(s.tjCur)
+		for t, k := range d.termSnap {
+			if k < 0 {
+				continue
+			}
+			for _, c := range d.touched {
+				s.tjCur = append(s.tjCur, int32(d.curBase+t))
+				s.tjCol = append(s.tjCol, int32(c))
+				tjRow = append(tjRow, int32(d.touched[k]))
+			}
+		}
+		d.tjHi = len(s.tjCur)
+	}
+	s.termJ = make([]float64, len(s.tjCur))
+	s.jsnap = make([]float64, maxTouched*maxTouched)
 	s.jacSrc = make([]int32, s.pat.nnz())
 	if n <= denseMax {
 		s.dense = make([]float64, n*n)
@@ -330,18 +352,12 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		both := make([]bool, n*n) // entries stamped by the devices so far
 		for di := range s.devs {
 			d := &s.devs[di]
-			m := len(d.touched)
-			for t, k := range d.termSnap {
-				for l, c := range d.touched {
-					p := int32(-1)
-					if k >= 0 {
-						p = int32(d.touched[k]*n + c)
-						if both[p] {
-							d.tjPrior = append(d.tjPrior, int32(t*m+l))
-						}
-					}
-					d.tjPos = append(d.tjPos, p)
+			for e := d.tjLo; e < d.tjHi; e++ {
+				p := tjRow[e]*int32(n) + s.tjCol[e]
+				if both[p] {
+					d.tjPrior = append(d.tjPrior, int32(e-d.tjLo))
 				}
+				d.tjPos = append(d.tjPos, p)
 			}
 			for _, r := range d.touched {
 				for _, c := range d.touched {
@@ -393,18 +409,13 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.pairScale = make([]float64, len(s.pairs))
 	s.xMin = make([]float64, n)
 	s.termCur = make([]float64, nTerm)
-	nTJ, nSlopes := 0, 0
+	nSlopes := 0
 	for di := range s.devs {
 		d := &s.devs[di]
-		m := len(d.touched)
-		d.tjBase = nTJ
-		nTJ += len(d.term) * m
 		// Each state's derivatives by each of the device's unknowns, with
 		// room for a device that gives some in parts.
-		nSlopes += 2 * (d.stateHi - d.stateLo) * m
+		nSlopes += 2 * (d.stateHi - d.stateLo) * len(d.touched)
 	}
-	s.termJ = make([]float64, nTJ)
-	s.jsnap = make([]float64, maxTouched*maxTouched)
 	s.termV = make([]float64, nTerm)
 	s.termI = make([]float64, nTerm)
 	s.stepEnergy = make([]float64, len(s.devs))

@@ -7,7 +7,8 @@ import (
 
 // An iterate taken one update beyond the point Newton evaluated carries the
 // states and terminal currents an evaluation there would give: to rounding
-// for a linear circuit (the ladder), and to the square of the update where
+// for a linear circuit (the ladder, small enough for the dense Jacobian and
+// large enough to be stamped device by device), and to the square of the update where
 // a junction conducts (the reference network 2 ns into a strike, its clamp
 // at tens of amperes) [calc: first-order Taylor expansion, the remainder
 // of second order in the update].
@@ -20,9 +21,13 @@ func TestTakeMovesStatesAlong(t *testing.T) {
 		limit float64 // allowed mismatch, relative to the change or the value
 	}{
 		{"ladder", ladder(t, 5), 3e-9, 1e-3, 1e-9},
+		{"ladder, stamped device by device", ladder(t, 40), 3e-9, 1e-3, 1e-9},
 		{"reference", referenceNetwork(t), 2e-9, 1e-6, 1e-4},
 	} {
 		s := c.s
+		if want := c.name != "ladder, stamped device by device"; (s.dense != nil) != want {
+			t.Fatalf("%s: dense stamping %v, want %v", c.name, s.dense != nil, want)
+		}
 		if _, err := s.Transient(&Settings{Stop: c.stop}); err != nil {
 			t.Fatal(err)
 		}
