@@ -125,17 +125,25 @@ func listWatches(w io.Writer, c *netlist.Circuit) {
 func listWindow(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintln(w, "Window")
 	win := c.Window
-	field := func(name string, v float64, unit spec.Unit, zero string) {
-		if v == 0 {
-			fmt.Fprintf(w, "  %-8s %s\n", name, zero)
-		} else {
-			fmt.Fprintf(w, "  %-8s %s\n", name, spec.FormatSI(v, unit))
+	field := func(name, v, zero string) {
+		if v == "" {
+			v = zero
 		}
+		fmt.Fprintf(w, "  %-8s %s\n", name, v)
 	}
-	field("stop", win.Stop, "s", "from the waveform and the circuit")
-	field("maxstep", win.MaxStep, "s", "solver default")
-	field("reltol", win.RelTol, "", "solver default")
-	field("abstol", win.AbsTol, "V", "solver default")
+	si := func(v float64) string {
+		if v == 0 {
+			return ""
+		}
+		return spec.FormatSI(v, spec.Second)
+	}
+	accuracy := spec.FormatFraction(spec.DefaultAccuracy) + " (the default) on every reported number"
+	if win.Accuracy > 0 {
+		accuracy = spec.FormatFraction(win.Accuracy) + " on every reported number"
+	}
+	field("stop", si(win.Stop), "from the waveform and the circuit")
+	field("accuracy", accuracy, "")
+	field("resolve", si(win.Resolve), "as fine as the accuracy needs")
 	fmt.Fprintln(w)
 }
 

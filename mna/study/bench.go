@@ -437,14 +437,11 @@ func (b *Bench) window(opt *Options) netlist.Window {
 	if opt.Window.Stop > 0 {
 		w.Stop = opt.Window.Stop
 	}
-	if opt.Window.MaxStep > 0 {
-		w.MaxStep = opt.Window.MaxStep
+	if opt.Window.Resolve > 0 {
+		w.Resolve = opt.Window.Resolve
 	}
-	if opt.Window.RelTol > 0 {
-		w.RelTol = opt.Window.RelTol
-	}
-	if opt.Window.AbsTol > 0 {
-		w.AbsTol = opt.Window.AbsTol
+	if opt.Window.Accuracy > 0 {
+		w.Accuracy = opt.Window.Accuracy
 	}
 	return w
 }
@@ -469,7 +466,7 @@ func (b *Bench) solveWindow(r *Run, st *waveforms.Stimulus, sign float64, opt *O
 		if opt.Settings != nil {
 			set = *opt.Settings
 		}
-		set.Stop, set.MaxStep, set.RelTol, set.AbsTol = stop, w.MaxStep, w.RelTol, w.AbsTol
+		set.Stop, set.Resolve, set.Accuracy = stop, w.Resolve, w.Accuracy
 		set.Record = opt.Record
 		set.Observe = b.observe
 		b.reset()

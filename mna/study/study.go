@@ -39,11 +39,11 @@ type Options struct {
 	Record bool
 	// Window overrides the deck's window statement field by field: a zero
 	// field keeps the deck's value (and, when that is zero too, the
-	// default: the span of DefaultStop, the engine's accuracy, MaxStep and
-	// AbsTol). Pos is ignored.
+	// default: the span of DefaultStop, the engine's accuracy, no step
+	// bound). Pos is ignored.
 	Window netlist.Window
 	// Settings tunes the engine beyond the window (MinStep, Gmin, MaxIter,
-	// ChargeTol). Nil: engine defaults. Stop, MaxStep, RelTol, AbsTol,
+	// ChargeTol, Context). Nil: engine defaults. Stop, Accuracy, Resolve,
 	// Record and Observe are set by the study and ignored here.
 	Settings *mna.Settings
 }
