@@ -126,6 +126,9 @@ type Run struct {
 	Notes []string `json:"notes"`
 	// Stats are the engine's counts, summed over re-runs of the window.
 	Stats Stats `json:"stats"`
+	// Verify is the run's error bar when asked for (Verify): its headline
+	// numbers against a solution at a tenth of its accuracy; nil otherwise.
+	Verify *Verification `json:"verify,omitempty"`
 
 	// Waves are the sampled waveforms when Options.Record is set, else nil.
 	Waves *Waves `json:"-"`
