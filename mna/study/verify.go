@@ -62,6 +62,24 @@ func Accuracy(c *netlist.Circuit, opt *Options) float64 {
 	return mna.DefaultAccuracy
 }
 
+// Tighter returns a copy of opt that solves at a tenth of the accuracy
+// the runs of c ask for, without recording waveforms; an expert's RelTol
+// and ChargeTol in opt.Settings are dropped, so that the accuracy alone
+// decides.
+func Tighter(c *netlist.Circuit, opt *Options) *Options {
+	var t Options
+	if opt != nil {
+		t = *opt
+	}
+	t.Window.Accuracy, t.Record = Accuracy(c, opt)/10, false
+	if t.Settings != nil {
+		s := *t.Settings
+		s.RelTol, s.ChargeTol = 0, 0
+		t.Settings = &s
+	}
+	return &t
+}
+
 // Verify solves each solved run of runs again at a tenth of its accuracy
 // (an expert's RelTol and ChargeTol in opt.Settings are dropped for it, so
 // that the accuracy alone decides) and sets the run's Verify. Runs that
@@ -70,16 +88,7 @@ func Accuracy(c *netlist.Circuit, opt *Options) float64 {
 // then says why in its Verify.
 func Verify(ctx context.Context, c *netlist.Circuit, runs []Run, opt *Options) error {
 	acc := Accuracy(c, opt)
-	tight := Options{}
-	if opt != nil {
-		tight = *opt
-	}
-	tight.Window.Accuracy, tight.Record = acc/10, false
-	if tight.Settings != nil {
-		s := *tight.Settings
-		s.RelTol, s.ChargeTol = 0, 0
-		tight.Settings = &s
-	}
+	tight := Tighter(c, opt)
 	var jobs []Job
 	at := map[int]int{} // job index → place in runs
 	for i := range runs {
@@ -88,7 +97,7 @@ func Verify(ctx context.Context, c *netlist.Circuit, runs []Run, opt *Options) e
 			at[runs[i].Index] = i
 		}
 	}
-	checked, err := Execute(ctx, c, jobs, &tight, nil)
+	checked, err := Execute(ctx, c, jobs, tight, nil)
 	for k := range checked {
 		t := &checked[k]
 		r := &runs[at[t.Index]]
