@@ -59,6 +59,13 @@ type (
 	Acceptor interface{ Accept(t float64, x []float64) }
 	// StepLimiter bounds the time step (a line's delay).
 	StepLimiter interface{ MaxStep() float64 }
+	// RiseTaker is told, before each run, the shortest rise of the run's
+	// stimulus (waveforms.Stimulus.Rise; 0 when unknown or off), so that it
+	// can treat what is far faster as lumped.
+	RiseTaker interface{ SetRise(rise float64) }
+	// RunNoter has a remark for the report of the run it was last set up
+	// for ("" for none): how it was solved, when that is not plain.
+	RunNoter interface{ RunNote() string }
 	// Prober reports named internal quantities at a solution point (for
 	// example the current through a pin's internal clamp paths, in A).
 	Prober interface {

@@ -458,6 +458,15 @@ func (s *System) setStimulus(st *waveforms.Stimulus, sign float64) error {
 	if s.striker != nil {
 		s.striker.SetStimulus(st, sign)
 	}
+	rise := 0.0
+	if st != nil {
+		rise = st.Rise
+	}
+	for _, d := range s.devs {
+		if r, ok := d.dev.(devices.RiseTaker); ok {
+			r.SetRise(rise)
+		}
+	}
 	return nil
 }
 

@@ -758,6 +758,13 @@ func (b *Bench) validity(r *Run, st *waveforms.Stimulus) []string {
 				m.e.Name, spec.FormatSI(math.Abs(i0), "A"), spec.FormatSI(math.Abs(m.v0), "V")))
 		}
 	}
+	for _, e := range b.Circuit.Elements {
+		if n, ok := b.sys.Device(e.Name).(devices.RunNoter); ok {
+			if s := n.RunNote(); s != "" {
+				notes = append(notes, s)
+			}
+		}
+	}
 	return notes
 }
 
