@@ -84,6 +84,9 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	if s := longStudy(c); s != "" {
+		fmt.Fprintln(stderr, "warning: "+s)
+	}
 	levels, err := deckLevels("--level", opt.levels, c)
 	if err != nil {
 		return err
