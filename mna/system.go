@@ -232,6 +232,9 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		}
 	}
 	s.n = len(s.unknowns)
+	if err := devices.TooManyUnknowns(s.n); err != nil {
+		return nil, fmt.Errorf("mna: %w", err)
+	}
 	// A row that no earlier device stamps holds zero when a device's Eval
 	// starts, so only the others need a snapshot to tell its contribution
 	// (dense stamping).

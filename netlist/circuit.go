@@ -158,6 +158,10 @@ type Circuit struct {
 	Tolerances []Tolerance
 	Parts      map[string]*Part
 	Warnings   ErrorList // legal but doubtful things: shown, never fatal
+	// Unknowns is how many unknowns the engine will solve for: every node
+	// but gnd, and each device's internal nodes and branch currents;
+	// bounded by devices.MaxUnknowns.
+	Unknowns int
 	// Included lists the absolute paths of every file the deck read,
 	// itself first.
 	Included []string
