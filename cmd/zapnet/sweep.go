@@ -85,7 +85,7 @@ func interruptible(stderr io.Writer) (context.Context, func()) {
 type errInterrupted struct{ done, total int }
 
 func (e errInterrupted) Error() string {
-	return fmt.Sprintf("interrupted: %d of %d finished and were reported; the rest did not run", e.done, e.total)
+	return fmt.Sprintf("interrupted: %d of %d finished and were reported; the rest were stopped or did not start", e.done, e.total)
 }
 
 // runSweep is what `zapnet run` solves with the sweep flags: the variants of
