@@ -129,19 +129,7 @@ func NewBench(c *netlist.Circuit, v netlist.Variant) (*Bench, error) {
 	// through the samples around each), which the engine's accuracy
 	// assumes: a peak of a ringing sampled a few tens of times a period
 	// reads low by a few tenths of a percent on the samples alone.
-	for i := range b.nodeTr {
-		b.nodeTr[i].Refine = true
-	}
-	for i := range b.elemTr {
-		b.elemTr[i].Refine = true
-	}
-	for k := range b.meters {
-		m := &b.meters[k]
-		m.v.Refine, m.w.Refine = true, true
-		for j := range m.probes {
-			m.probes[j].tr.Refine = true
-		}
-	}
+	b.eachTracker(func(tr *waveforms.Tracker) { tr.Refine = true })
 	b.observe = b.sample
 	return b, nil
 }
@@ -265,19 +253,23 @@ func (b *Bench) sample(p *mna.Point) {
 // corner tells every tracker that the last point is a corner of the
 // stimulus (t = 0 or a breakpoint), where the waveforms may change slope:
 // no interpolation of an extreme reaches across it.
-func (b *Bench) corner() {
+func (b *Bench) corner() { b.eachTracker((*waveforms.Tracker).Corner) }
+
+// eachTracker calls f on every tracker of the bench: the nodes', the
+// elements', and each meter's voltage, power and probes.
+func (b *Bench) eachTracker(f func(*waveforms.Tracker)) {
 	for i := range b.nodeTr {
-		b.nodeTr[i].Corner()
+		f(&b.nodeTr[i])
 	}
 	for i := range b.elemTr {
-		b.elemTr[i].Corner()
+		f(&b.elemTr[i])
 	}
 	for k := range b.meters {
 		m := &b.meters[k]
-		m.v.Corner()
-		m.w.Corner()
+		f(&m.v)
+		f(&m.w)
 		for j := range m.probes {
-			m.probes[j].tr.Corner()
+			f(&m.probes[j].tr)
 		}
 	}
 }
@@ -353,20 +345,7 @@ func (m *beyondMeter) note() string {
 
 func (b *Bench) reset() {
 	b.first = true
-	for i := range b.nodeTr {
-		b.nodeTr[i].Reset()
-	}
-	for i := range b.elemTr {
-		b.elemTr[i].Reset()
-	}
-	for k := range b.meters {
-		m := &b.meters[k]
-		m.v.Reset()
-		m.w.Reset()
-		for j := range m.probes {
-			m.probes[j].tr.Reset()
-		}
-	}
+	b.eachTracker((*waveforms.Tracker).Reset)
 	for k := range b.beyond {
 		b.beyond[k].reset()
 	}
