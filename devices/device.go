@@ -11,12 +11,33 @@
 package devices
 
 import (
+	"fmt"
 	"zapnet/devices/spec"
 	"zapnet/waveforms"
 )
 
 // Ground is the index of the reference node; stamps on it are dropped.
 const Ground = -1
+
+// MaxUnknowns bounds the unknowns of a circuit (nodes, devices' internal
+// nodes and branch currents). The engine needs about 8 kB of memory an
+// unknown for a network of simple parts (a chain of a hundred thousand
+// resistors peaks at 840 MB), so this is about 2 GB: past it a laptop
+// would swap or kill the run [practice].
+const MaxUnknowns = 250_000
+
+// TooManyUnknowns is the error of a circuit of n unknowns past
+// MaxUnknowns, nil otherwise.
+func TooManyUnknowns(n int) error {
+	if n <= MaxUnknowns {
+		return nil
+	}
+	return fmt.Errorf("the circuit has %d unknowns; zapnet solves at most %d (about 8 kB of memory each): split the network, or replace repeated sections by their lumped equivalent", n, MaxUnknowns)
+}
+
+// Unknowns counts the unknowns the engine gives a layout beyond its
+// terminals: its internal nodes and branch currents.
+func (l Layout) Unknowns() int { return len(l.Internal) + len(l.Branches) }
 
 // Layout is what a device asks of the engine before binding.
 type Layout struct {
@@ -59,6 +80,13 @@ type (
 	Acceptor interface{ Accept(t float64, x []float64) }
 	// StepLimiter bounds the time step (a line's delay).
 	StepLimiter interface{ MaxStep() float64 }
+	// RiseTaker is told, before each run, the shortest rise of the run's
+	// stimulus (waveforms.Stimulus.Rise; 0 when unknown or off), so that it
+	// can treat what is far faster as lumped.
+	RiseTaker interface{ SetRise(rise float64) }
+	// RunNoter has a remark for the report of the run it was last set up
+	// for ("" for none): how it was solved, when that is not plain.
+	RunNoter interface{ RunNote() string }
 	// Prober reports named internal quantities at a solution point (for
 	// example the current through a pin's internal clamp paths, in A).
 	Prober interface {

@@ -9,6 +9,7 @@ import (
 	"errors"
 	"fmt"
 	"time"
+	"zapnet/devices/spec"
 )
 
 // Settings tune a solution. A nil *Settings means every default; a zero
@@ -95,8 +96,9 @@ type Settings struct {
 	Observe func(p *Point)
 }
 
-// DefaultAccuracy is the Accuracy of a zero Settings: 0.2 %.
-const DefaultAccuracy = 0.002
+// DefaultAccuracy is the Accuracy of a zero Settings: 0.2 %, the deck's
+// default (spec.DefaultAccuracy).
+const DefaultAccuracy = spec.DefaultAccuracy
 
 // Point is one accepted solution point.
 type Point struct {

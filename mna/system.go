@@ -249,6 +249,9 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		}
 	}
 	s.n = len(s.unknowns)
+	if err := devices.TooManyUnknowns(s.n); err != nil {
+		return nil, fmt.Errorf("mna: %w", err)
+	}
 	// A row that no earlier device stamps holds zero when a device's Eval
 	// starts, so only the others need a snapshot to tell its contribution
 	// (dense stamping).
@@ -517,6 +520,15 @@ func (s *System) setStimulus(st *waveforms.Stimulus, sign float64) error {
 	s.stim = st
 	if s.striker != nil {
 		s.striker.SetStimulus(st, sign)
+	}
+	rise := 0.0
+	if st != nil {
+		rise = st.Rise
+	}
+	for _, d := range s.devs {
+		if r, ok := d.dev.(devices.RiseTaker); ok {
+			r.SetRise(rise)
+		}
 	}
 	return nil
 }

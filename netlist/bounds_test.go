@@ -3,6 +3,7 @@ package netlist
 import (
 	"errors"
 	"fmt"
+	"math"
 	"strings"
 	"testing"
 )
@@ -112,4 +113,38 @@ func uniq(n int) []string {
 		s[i] = fmt.Sprintf("%dk", i+1)
 	}
 	return s
+}
+
+// The window takes accuracy= as a fraction or a percentage and resolve= as
+// a time; the older keys still read, each with a warning naming its new
+// name [practice: one release of grace for a renamed key].
+func TestWindowKeys(t *testing.T) {
+	c, err := Parse("w.zap", []byte(boundsDeck+"window stop=2u accuracy=0.05% resolve=10p\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w := c.Window; w.Stop != 2e-6 || math.Abs(w.Accuracy-5e-4) > 1e-18 || w.Resolve != 10e-12 {
+		t.Errorf("window %+v", w)
+	}
+	c, err = Parse("w.zap", []byte(boundsDeck+"window maxstep=10p reltol=1e-3 abstol=1u\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w := c.Window; w.Resolve != 10e-12 || w.Accuracy != 1e-3 {
+		t.Errorf("old keys read as %+v", w)
+	}
+	var said []string
+	for _, w := range c.Warnings {
+		said = append(said, w.Error())
+	}
+	for _, want := range []string{"w.zap:4:8: warning: maxstep is now called resolve", "w.zap:4:20: warning: reltol is now accuracy", "w.zap:4:32: warning: abstol is no longer needed"} {
+		if !strings.Contains(strings.Join(said, "\n"), want) {
+			t.Errorf("warnings %q lack %q", said, want)
+		}
+	}
+	for _, bad := range []string{"accuracy=20%", "accuracy=1e-9", "accuracy=1mV", "resolve=1V"} {
+		if _, err := Parse("w.zap", []byte(boundsDeck+"window "+bad+"\n")); err == nil {
+			t.Errorf("window %s accepted", bad)
+		}
+	}
 }

@@ -268,10 +268,28 @@ func (p *parser) checkModels(c *Circuit) {
 	if p.errs.Err() != nil {
 		return
 	}
+	// The unknowns as the engine will number them: every node but gnd,
+	// and each device's internal nodes and branches.
+	n := 0
+	nodes := map[string]bool{}
 	for _, e := range c.Elements {
-		if _, err := e.Kind.New(e.Name, e.Nodes, &e.Values); err != nil {
+		d, err := e.Kind.New(e.Name, e.Nodes, &e.Values)
+		if err != nil {
 			p.errs.Add(c.own[e.Name].name, ErrValue, "%v", err)
+			continue
 		}
+		lay := d.Layout()
+		n += lay.Unknowns()
+		for _, t := range lay.Terminals {
+			if t != Ground && !nodes[t] {
+				nodes[t] = true
+				n++
+			}
+		}
+	}
+	c.Unknowns = n
+	if err := devices.TooManyUnknowns(n); err != nil {
+		p.errs.Add(Pos{File: p.top, Line: 1, Col: 1}, ErrCircuit, "%v", err)
 	}
 }
 

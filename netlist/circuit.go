@@ -72,10 +72,13 @@ type Watch struct {
 // Window is the simulated span and its accuracy. A zero field means "choose
 // the default" (the span from the waveform and the circuit).
 type Window struct {
-	Stop    float64 // s
-	MaxStep float64 // s
-	RelTol  float64
-	AbsTol  float64 // V
+	Stop float64 // s
+	// Accuracy is the relative accuracy wanted on every reported number,
+	// a fraction (0.002 is 0.2 %); 0: the engine's default.
+	Accuracy float64
+	// Resolve is the finest time detail the run must show, s: no step is
+	// longer; 0: none.
+	Resolve float64
 	Pos     Pos
 }
 
@@ -155,6 +158,10 @@ type Circuit struct {
 	Tolerances []Tolerance
 	Parts      map[string]*Part
 	Warnings   ErrorList // legal but doubtful things: shown, never fatal
+	// Unknowns is how many unknowns the engine will solve for: every node
+	// but gnd, and each device's internal nodes and branch currents;
+	// bounded by devices.MaxUnknowns.
+	Unknowns int
 	// Included lists the absolute paths of every file the deck read,
 	// itself first.
 	Included []string

@@ -39,7 +39,7 @@ func FuzzParse(f *testing.F) {
 				t.Fatalf("error %T %v with circuit %v", err, err, c)
 			}
 			for _, e := range l {
-				if e.More > 0 {
+				if e.Summary() {
 					continue // stands for the problems past MaxProblems
 				}
 				if e.Msg == "" || !e.Pos.IsValid() && e.Pos.File == "" {

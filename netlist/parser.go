@@ -539,13 +539,16 @@ func (p *parser) parseTolerance(st statement) {
 	p.tols = append(p.tols, line)
 }
 
-// window = "window" { ("stop" | "maxstep" | "reltol" | "abstol") "=" value } .
+// window = "window" { ("stop" | "accuracy" | "resolve") "=" value } .
+//
+// The older keys maxstep (now resolve), reltol (now accuracy) and abstol
+// (no longer needed) are read with a warning.
 func (p *parser) parseWindow(st statement) {
 	t := st.toks[0]
 	pos, kv := p.params(st.toks[1:])
 	p.extra(pos, "window")
 	if len(kv) == 0 {
-		p.errs.Add(t.pos, ErrMissing, "window needs at least one of stop=, maxstep=, reltol=, abstol=")
+		p.errs.Add(t.pos, ErrMissing, "window needs at least one of stop=, accuracy=, resolve=")
 		return
 	}
 	p.windows = append(p.windows, rawParamsAt{params: kv, pos: t.pos})

@@ -90,36 +90,74 @@ func (p *parser) checkWindow(c *Circuit) {
 		}
 		w := Window{Pos: rw.pos}
 		for _, kv := range rw.params {
-			var dst *float64
-			unit, r := spec.Second, spec.Positive
-			switch kv.key {
-			case "stop":
-				dst = &w.Stop
+			key := kv.key
+			switch key {
 			case "maxstep":
-				dst = &w.MaxStep
+				p.errs.Warn(kv.keyPos, "maxstep is now called resolve: the finest time detail the run must show")
+				key = "resolve"
 			case "reltol":
-				dst, unit = &w.RelTol, spec.Dimensionless
+				p.errs.Warn(kv.keyPos, "reltol is now accuracy: the relative accuracy wanted on every reported number (default %s); read as accuracy=%s", spec.FormatFraction(spec.DefaultAccuracy), kv.val)
+				key = "accuracy"
 			case "abstol":
-				dst, unit = &w.AbsTol, spec.Volt
+				p.errs.Warn(kv.keyPos, "abstol is no longer needed and is ignored: accuracy= sets how close every reported number is")
+				continue
+			}
+			switch key {
+			case "stop":
+				w.Stop = p.windowValue(kv, spec.Second)
+			case "resolve":
+				w.Resolve = p.windowValue(kv, spec.Second)
+			case "accuracy":
+				w.Accuracy = p.accuracyValue(kv)
 			default:
-				p.errs.Add(kv.keyPos, ErrUnknown, "unknown parameter %s for a window%s", kv.key, didYouMean(kv.key, []string{"stop", "maxstep", "reltol", "abstol"}))
-				continue
+				p.errs.Add(kv.keyPos, ErrUnknown, "unknown parameter %s for a window%s", kv.key, didYouMean(kv.key, windowKeys))
 			}
-			v, msg := numValue(kv.key+" of a window", unit, r, kv.val)
-			if msg == "" && kv.key == "reltol" && v >= 1 {
-				msg = fmt.Sprintf("reltol is a fraction below 1 (got %s)", kv.val)
-			}
-			if msg != "" {
-				p.errs.Add(kv.valPos, ErrValue, "%s", msg)
-				continue
-			}
-			*dst = v
 		}
-		if w.Stop > 0 && w.MaxStep > w.Stop {
-			p.errs.Add(rw.pos, ErrValue, "window: maxstep %s is longer than stop %s", spec.FormatSI(w.MaxStep, "s"), spec.FormatSI(w.Stop, "s"))
+		if w.Stop > 0 && w.Resolve > w.Stop {
+			p.errs.Add(rw.pos, ErrValue, "window: resolve %s is longer than stop %s", spec.FormatSI(w.Resolve, "s"), spec.FormatSI(w.Stop, "s"))
 		}
 		c.Window = w
 	}
+}
+
+// windowKeys are the keys of a window statement.
+var windowKeys = []string{"stop", "accuracy", "resolve"}
+
+// Bounds of accuracy=: looser than a tenth is no estimate; tighter than
+// 1e-6 asks more of double precision and the models than they hold.
+const (
+	loosestAccuracy  = 0.1
+	tightestAccuracy = 1e-6
+)
+
+// windowValue reads a positive time of a window.
+func (p *parser) windowValue(kv rawParam, unit spec.Unit) float64 {
+	v, msg := numValue(kv.key+" of a window", unit, spec.Positive, kv.val)
+	if msg != "" {
+		p.errs.Add(kv.valPos, ErrValue, "%s", msg)
+		return 0
+	}
+	return v
+}
+
+// accuracyValue reads accuracy=, a fraction or a percentage (0.001, 0.1%).
+func (p *parser) accuracyValue(kv rawParam) float64 {
+	n, msg := parseNumber(kv.val, true)
+	switch {
+	case msg != "":
+	case n.unit != "":
+		msg = fmt.Sprintf("accuracy is a fraction or a percentage (0.001 or 0.1%%), not in %s", n.unit.Word())
+	case n.percent:
+		n.val /= 100
+	}
+	if msg == "" && !(n.val >= tightestAccuracy && n.val <= loosestAccuracy) {
+		msg = fmt.Sprintf("accuracy %s is outside %s to %s", kv.val, spec.FormatFraction(tightestAccuracy), spec.FormatFraction(loosestAccuracy))
+	}
+	if msg != "" {
+		p.errs.Add(kv.valPos, ErrValue, "%s", msg)
+		return 0
+	}
+	return n.val
 }
 
 // problem is a deck error without a position yet.

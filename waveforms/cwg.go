@@ -13,7 +13,7 @@ func init() {
 	for _, p := range CouplingPaths {
 		paths = append(paths, p.Name)
 	}
-	Register(&Waveform{Name: "surge-cwg", Unit: spec.Volt, Level: 1000,
+	Register(&Waveform{Name: "surge-cwg", Unit: spec.Volt, Level: 1000, Rise: surge1250RiseMin,
 		Summary: "IEC 61000-4-5 combination wave generator (1.2/50 µs open, 8/20 µs short) with its coupling path",
 		Table:   spec.Table{Words: []spec.Word{{Key: "path", Choices: paths, Default: "direct", Fixed: true}}},
 		build:   newSurgeCWG,

@@ -79,7 +79,7 @@ func newEFTBurst(level float64, v *spec.Values) (*Stimulus, error) {
 		}
 		return &Stimulus{Name: "eft", Level: level, Unit: "V", Form: Generator, Gen: f,
 			Breakpoints: train.Breakpoints, Stop: float64(n) * b.Period, Pulse: eftTail, Burst: b,
-			Values: *v, Note: BurstNote}, nil
+			Values: *v, Note: BurstNote, Rise: eftRiseMin}, nil
 	}
 	return b.First(b.Pulses)
 }

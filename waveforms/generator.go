@@ -8,7 +8,7 @@ import (
 )
 
 func init() {
-	Register(&Waveform{Name: "iec61000-4-2-network", Unit: spec.Volt, Level: 4000, Discharge: true,
+	Register(&Waveform{Name: "iec61000-4-2-network", Unit: spec.Volt, Level: 4000, Discharge: true, Rise: iecRiseMin,
 		Summary: "IEC 61000-4-2 contact discharge from the generator network: 150 pF, 330 Ω and its fast parasitic branch",
 		build:   newIECNetwork,
 		Order:   11, Load: iecTarget,
@@ -17,7 +17,7 @@ func init() {
 }
 
 func init() {
-	Register(&Waveform{Name: "iec61000-4-2-air", Unit: spec.Volt, Level: 8000, Discharge: true,
+	Register(&Waveform{Name: "iec61000-4-2-air", Unit: spec.Volt, Level: 8000, Discharge: true, Rise: airRiseMin,
 		Summary: "IEC 61000-4-2 air discharge: the generator network through a spark (Rompe–Weizel) across the Paschen gap",
 		Table: spec.Table{Params: []spec.Param{
 			spec.Default("approach", spec.Dimensionless, spec.Positive, 1).

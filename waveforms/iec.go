@@ -7,7 +7,7 @@ import (
 )
 
 func init() {
-	Register(&Waveform{Name: "iec61000-4-2", Unit: spec.Volt, Level: 4000, Discharge: true,
+	Register(&Waveform{Name: "iec61000-4-2", Unit: spec.Volt, Level: 4000, Discharge: true, Rise: iecRiseMin,
 		Summary: "IEC 61000-4-2 contact discharge, ideal current of the informative annex",
 		build:   newIEC61000_4_2,
 		Order:   10, Load: iecTarget,

@@ -8,7 +8,7 @@ import (
 )
 
 func init() {
-	Register(&Waveform{Name: "hbm", Unit: spec.Volt, Level: 4000, Discharge: true,
+	Register(&Waveform{Name: "hbm", Unit: spec.Volt, Level: 4000, Discharge: true, Rise: hbmRiseMin,
 		Summary: "human-body model (JS-001): 100 pF through 1.5 kΩ and a series inductance",
 		Table:   spec.Table{Params: []spec.Param{spec.Optional("l", spec.Henry, spec.NonNegative)}},
 		build:   newHBM,
@@ -18,7 +18,7 @@ func init() {
 }
 
 func init() {
-	Register(&Waveform{Name: "iso10605", Unit: spec.Volt, Level: 4000, Discharge: true,
+	Register(&Waveform{Name: "iso10605", Unit: spec.Volt, Level: 4000, Discharge: true, Rise: iecRiseMin,
 		Summary: "ISO 10605 discharge network: 150 or 330 pF through 330 Ω or 2 kΩ",
 		Table: spec.Table{Params: []spec.Param{
 			spec.Default("c", spec.Farad, spec.Positive, isoC),

@@ -33,6 +33,13 @@ type Waveform struct {
 	// (+Inf: an open circuit); 0 is a short.
 	Load float64
 
+	// Rise is the shortest rise the stimulus can have, s: the low end of
+	// the standard's tolerance on its front. A solver treats what is far
+	// faster than it (a transmission line of a few picoseconds under an
+	// 8/20 µs surge) as lumped. Zero: the builder sets the stimulus's own
+	// (a TLP's rise= parameter) or it is unknown.
+	Rise float64
+
 	// Loads are further loads, ohms, into which published check points
 	// are stated (the combination wave's short circuit, the fast
 	// transient's 1 kΩ), after Load.
@@ -119,5 +126,8 @@ func (w *Waveform) New(level float64, v *spec.Values) (*Stimulus, error) {
 	s.Level = level
 	s.Unit = string(w.Unit)
 	s.Values = *v
+	if s.Rise == 0 {
+		s.Rise = w.Rise
+	}
 	return s, nil
 }

@@ -21,7 +21,7 @@ func init() {
 }
 
 func init() {
-	Register(&Waveform{Name: "eft", Unit: spec.Volt, Level: 1000,
+	Register(&Waveform{Name: "eft", Unit: spec.Volt, Level: 1000, Rise: eftRiseMin,
 		Summary: "IEC 61000-4-4 5/50 ns fast transient (or a burst) from a 50 Ω source",
 		Table: spec.Table{Params: []spec.Param{
 			spec.Default("count", spec.Dimensionless, spec.Count, 1),
@@ -73,6 +73,7 @@ func newTLP(level float64, v *spec.Values) (*Stimulus, error) {
 		F:           f,
 		R:           tlpR,
 		Breakpoints: []float64{0, rise, width, width + rise},
+		Rise:        rise,
 		Stop:        width + rise + width/2,
 	}, nil
 }

@@ -3,6 +3,7 @@ package waveforms
 import (
 	"errors"
 	"fmt"
+	"math"
 	"sort"
 	"zapnet/devices/spec"
 	"zapnet/netlist/datafile"
@@ -50,7 +51,12 @@ func newPWL(level float64, v *spec.Values) (*Stimulus, error) {
 	if ts[0] > 0 {
 		bp = append([]float64{0}, ts...)
 	}
-	return &Stimulus{Form: Current, F: f, Breakpoints: bp, Stop: ts[last]}, nil
+	// Any sample may be an edge: the shortest interval is the fastest.
+	rise := math.Inf(1)
+	for k := 1; k < len(bp); k++ {
+		rise = math.Min(rise, bp[k]-bp[k-1])
+	}
+	return &Stimulus{Form: Current, F: f, Breakpoints: bp, Stop: ts[last], Rise: rise}, nil
 }
 
 // ReadPWL reads the "time,current" CSV at path (datafile.ReadPWL) and

@@ -85,6 +85,7 @@ func Step(level, rise, r, stop float64) (*Stimulus, error) {
 	return &Stimulus{
 		Name: "step", Level: level, Unit: "V", Form: Thevenin, F: f, R: r,
 		Breakpoints: []float64{0, rise},
+		Rise:        rise,
 		Stop:        stop,
 	}, nil
 }

@@ -125,6 +125,9 @@ type Stimulus struct {
 	// Stop is the default simulated span in seconds for this stimulus alone;
 	// the study may extend it for slow circuits.
 	Stop float64
+	// Rise is the shortest rise of the stimulus, s (Waveform.Rise); 0 when
+	// unknown.
+	Rise float64
 	// Pulse is the span of one pulse of a train (an EFT burst, s), 0 for a
 	// single event; see Scale.
 	Pulse float64
@@ -146,3 +149,22 @@ func (s *Stimulus) Scale() float64 {
 	}
 	return s.Stop
 }
+
+// The shortest rises of the standard stimuli, s: the nominal 10–90 % rise
+// less the standard's tolerance on it. IEC 61000-4-2 (and the ISO 10605
+// contact networks built to the same generator) 0.8 ns ±25 % [pub: IEC
+// 61000-4-2 table 3]; an air discharge's spark can be faster than the
+// contact generator's relay, taken as a quarter of it [practice]; HBM 2 to
+// 10 ns [mem: JS-001]; the 8/20 µs current's front 8 µs ±20 % is
+// 1.25 × its 10–90 % rise, so 5.1 µs at least, and the 1.2/50 µs
+// voltage's front 1.2 µs ±30 % is 1.67 × its 30–90 % rise, so 0.5 µs at
+// least [pub: IEC 61000-4-5]; the EFT pulse's 5 ns ±30 % [pub: IEC
+// 61000-4-4].
+const (
+	iecRiseMin       = 0.6e-9
+	airRiseMin       = 0.15e-9
+	hbmRiseMin       = 2e-9
+	surge820RiseMin  = 0.8 * 8e-6 / 1.25
+	surge1250RiseMin = 0.7 * 1.2e-6 / 1.67
+	eftRiseMin       = 3.5e-9
+)

@@ -7,7 +7,7 @@ import (
 )
 
 func init() {
-	Register(&Waveform{Name: "surge-8-20", Unit: spec.Ampere, Level: 500,
+	Register(&Waveform{Name: "surge-8-20", Unit: spec.Ampere, Level: 500, Rise: surge820RiseMin,
 		Summary: "IEC 61000-4-5 8/20 µs short-circuit current, ideal current source",
 		build:   newSurge8_20,
 		Order:   40,
@@ -16,7 +16,7 @@ func init() {
 }
 
 func init() {
-	Register(&Waveform{Name: "surge-1.2-50", Unit: spec.Volt, Level: 1000,
+	Register(&Waveform{Name: "surge-1.2-50", Unit: spec.Volt, Level: 1000, Rise: surge1250RiseMin,
 		Summary: "IEC 61000-4-5 1.2/50 µs open-circuit voltage behind 2 Ω",
 		Table:   spec.Table{Params: []spec.Param{spec.Default("r", spec.Ohm, spec.Positive, surgeR)}},
 		build:   newSurge1_2_50,

@@ -4,10 +4,12 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"strconv"
 	"strings"
 	"text/tabwriter"
 
 	"zapnet/devices/spec"
+	"zapnet/mna/study"
 	"zapnet/netlist"
 )
 
@@ -55,6 +57,9 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 	if o.quiet {
 		for _, w := range c.Warnings {
 			fmt.Fprintln(stderr, w.Error())
+		}
+		if s := longStudy(c); s != "" {
+			fmt.Fprintln(stderr, "warning: "+s)
 		}
 		fmt.Fprintf(stdout, "%s: no problems; %s, %s\n", deck, count(len(c.Elements), "element"), count(c.Plan().Runs(), "run"))
 		return nil
@@ -125,17 +130,25 @@ func listWatches(w io.Writer, c *netlist.Circuit) {
 func listWindow(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintln(w, "Window")
 	win := c.Window
-	field := func(name string, v float64, unit spec.Unit, zero string) {
-		if v == 0 {
-			fmt.Fprintf(w, "  %-8s %s\n", name, zero)
-		} else {
-			fmt.Fprintf(w, "  %-8s %s\n", name, spec.FormatSI(v, unit))
+	field := func(name, v, zero string) {
+		if v == "" {
+			v = zero
 		}
+		fmt.Fprintf(w, "  %-8s %s\n", name, v)
 	}
-	field("stop", win.Stop, "s", "from the waveform and the circuit")
-	field("maxstep", win.MaxStep, "s", "solver default")
-	field("reltol", win.RelTol, "", "solver default")
-	field("abstol", win.AbsTol, "V", "solver default")
+	si := func(v float64) string {
+		if v == 0 {
+			return ""
+		}
+		return spec.FormatSI(v, spec.Second)
+	}
+	accuracy := spec.FormatFraction(spec.DefaultAccuracy) + " (the default) on every reported number"
+	if win.Accuracy > 0 {
+		accuracy = spec.FormatFraction(win.Accuracy) + " on every reported number"
+	}
+	field("stop", si(win.Stop), "from the waveform and the circuit")
+	field("accuracy", accuracy, "")
+	field("resolve", si(win.Resolve), "as fine as the accuracy needs")
 	fmt.Fprintln(w)
 }
 
@@ -157,6 +170,25 @@ func listTolerances(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintln(w)
 }
 
+// workText says what a study will cost: "about 3 000 steps a run" or
+// "at least 2 000 000 steps a run (T1's step bound of 10 ps over a 20 µs
+// window), 8 000 000 in all".
+func workText(w study.Work) string {
+	if w.Bound == "" {
+		return fmt.Sprintf("about %s steps a run, %s in all", stepCount(study.TypicalSteps), stepCount(w.Total()))
+	}
+	return fmt.Sprintf("at least %s steps a run (%s), %s in all", stepCount(w.Steps), w.Bound, stepCount(w.Total()))
+}
+
+// stepCount writes a count of steps with thin grouping: 2 000 000.
+func stepCount(n float64) string {
+	s := strconv.FormatFloat(n, 'f', 0, 64)
+	for i := len(s) - 3; i > 0; i -= 3 {
+		s = s[:i] + " " + s[i:]
+	}
+	return s
+}
+
 // shownVariants is how many variants check lists: enough to see how the
 // vary lines combine.
 const shownVariants = 20
@@ -173,6 +205,9 @@ func listStudy(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintf(w, "  %s: %s × %s × %s = %s\n", pl.Waveform.Name,
 		count(len(pl.Levels), "level"), count(len(pl.Polarities), "polarity"),
 		count(len(pl.Variants), "variant"), count(pl.Runs(), "run"))
+	if work, err := study.EstimateWork(c, nil); err == nil {
+		fmt.Fprintf(w, "  work        %s\n", workText(work))
+	}
 	fmt.Fprintf(w, "  levels      %s\n", strings.Join(levels, ", "))
 	fmt.Fprintf(w, "  polarities  %s\n", strings.Join(pl.Polarities, ", "))
 	for i, v := range pl.Variants {
@@ -200,12 +235,27 @@ func listStudy(w io.Writer, c *netlist.Circuit) {
 // listWarnings lists the warnings.
 func listWarnings(w io.Writer, c *netlist.Circuit) {
 	fmt.Fprintln(w, "Warnings")
-	if len(c.Warnings) == 0 {
+	long := longStudy(c)
+	if len(c.Warnings) == 0 && long == "" {
 		fmt.Fprintln(w, "  none")
 	}
 	for _, e := range c.Warnings {
 		fmt.Fprintf(w, "  %s: %s\n", e.Pos, e.Msg)
 	}
+	if long != "" {
+		fmt.Fprintf(w, "  %s\n", long)
+	}
+}
+
+// longStudy warns of a study whose work passes study.LongStudy steps, ""
+// otherwise.
+func longStudy(c *netlist.Circuit) string {
+	w, err := study.EstimateWork(c, nil)
+	if err != nil || w.Total() <= study.LongStudy {
+		return ""
+	}
+	return fmt.Sprintf("the study takes %s steps or more (%s; %d runs): expect a long run; a finer window resolve= or a long line under a fast stimulus costs steps, and a line far shorter than the stimulus's rise is lumped by itself",
+		stepCount(w.Total()), w.Bound, w.Runs)
 }
 
 // elementParams renders an element's parameters in the order of the

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -137,5 +138,28 @@ func TestBadDecksRefusedAlike(t *testing.T) {
 	}
 	if _, errs, code := runCheckMain(t, filepath.Join("..", "..", "testdata", "bad", "byte-order-mark.zap")); code != exitPass {
 		t.Errorf("a deck with a byte-order mark: exit %d\n%s", code, errs)
+	}
+}
+
+// check warns of a study that will take long: eight runs each bounded by
+// a 10 ps line's delay over 100 µs [calc: 8 × 10⁷ steps, past
+// study.LongStudy].
+func TestCheckWarnsOfALongStudy(t *testing.T) {
+	deck := filepath.Join(t.TempDir(), "long.zap")
+	src := `title "long"
+strike s in gnd waveform=iec61000-4-2 level=2k,4k,6k,8k polarity=both
+window stop=100u
+clamp D1 in gnd vbr=15 rdyn=0.2
+line T1 in out z0=50 delay=10p
+capacitor Cp out gnd 100p
+resistor Rl out gnd 1k
+`
+	if err := os.WriteFile(deck, []byte(src), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, errs, code := runCheckMain(t, "-q", deck)
+	want := "warning: the study takes 80 000 000 steps or more (T1's step bound of 10 ps over a 100 µs window; 8 runs)"
+	if code != exitPass || !strings.Contains(errs, want) {
+		t.Errorf("exit %d, stderr %q, want %q", code, errs, want)
 	}
 }

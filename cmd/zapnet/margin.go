@@ -22,13 +22,14 @@ type marginOptions struct {
 	resolution string   // --resolution as given; "": 100 V for discharges
 	json       string   // file, "-" for stdout, "" for none
 	workers    int
+	verify     bool // --verify: the bracket solved again at a tenth of the accuracy
 	sweep      sweepSpec
 	pictures   pictureOptions // --plot and --html: the margin against level
 }
 
 func runMargin(args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("margin",
-		"margin DECK [--max LEVEL] [--resolution LEVEL] [--polarity pos|neg|both] [--set E.P=v1,v2] [--shard i/n] [--json FILE] [--plot DIR] [--html FILE] [--workers N]",
+		"margin DECK [--max LEVEL] [--resolution LEVEL] [--polarity pos|neg|both] [--set E.P=v1,v2] [--shard i/n] [--json FILE] [--plot DIR] [--html FILE] [--verify] [--workers N]",
 		`  zapnet margin testdata/demo.zap
   zapnet margin testdata/demo.zap --max 30k --set C1.value=10n,100n,1u
   zapnet margin testdata/demo.zap --plot figs --html margin.html
@@ -41,6 +42,9 @@ says "monotonic NO" and names the levels.
 --plot and --html draw the worst margin at every level solved, one line
 per variant and polarity: above 0 % the level passes, below it fails, and
 the table's highest pass sits where a line crosses 0 %.
+--verify solves the highest pass and the first fail again at a tenth of
+the accuracy: where a verdict flips, the failure level is within the
+solver's error, and the table says so.
 Exit status: 0 when every search completed (failures are what it looks
 for), 2 for unusable input or a failed solve.`,
 		stderr)
@@ -49,6 +53,7 @@ for), 2 for unusable input or a failed solve.`,
 	polarity := fs.String("polarity", "", "polarity to search instead of the deck's: pos, neg or both")
 	jsonPath := fs.String("json", "", "write the margins as JSON to `FILE` (- for stdout, the table then goes to stderr)")
 	workers := fs.Int("workers", 0, "searches run at once (default: every core)")
+	verify := fs.Bool("verify", false, "solve the highest pass and the first fail again at a tenth of the accuracy and say whether their verdicts hold")
 	sweep := addSweepFlags(fs)
 	pictures := addPictureFlags(fs)
 	// The shared help of --plot and --html speaks of runs; a margin search
@@ -62,7 +67,7 @@ for), 2 for unusable input or a failed solve.`,
 	if err != nil {
 		return err
 	}
-	opt := marginOptions{deck: deck, json: *jsonPath, workers: *workers, pictures: pictures.options(),
+	opt := marginOptions{deck: deck, json: *jsonPath, workers: *workers, verify: *verify, pictures: pictures.options(),
 		max: *maxFlag, resolution: *resFlag}
 	var errs []error
 	if opt.polarities, err = parsePolarity(*polarity); err != nil {
@@ -85,7 +90,7 @@ func marginStudy(ctx context.Context, opt marginOptions, stdout, stderr io.Write
 	if err := studyOutputs(c, opt.json, opt.pictures); err != nil {
 		return err
 	}
-	mopt := &whatif.MarginOptions{Shard: opt.sweep.shard}
+	mopt := &whatif.MarginOptions{Shard: opt.sweep.shard, Verify: opt.verify}
 	if mopt.Max, err = deckLevel("--max", opt.max, c); err != nil {
 		return err
 	}

@@ -20,14 +20,17 @@ type runOptions struct {
 	workers    int      // 0: every core
 	// timings keeps each run's wall-clock time in the JSON; without it
 	// identical runs write identical files.
-	timings  bool
+	timings bool
+	// verify solves every run again at a tenth of its accuracy and
+	// reports the differences (study.Verify).
+	verify   bool
 	sweep    sweepSpec      // --set and --shard (sweep.go)
 	pictures pictureOptions // --plot and --html (plotflags.go)
 }
 
 func runRun(args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("run",
-		"run DECK [--level LIST] [--polarity pos|neg|both] [--set E.P=v1,v2] [--shard i/n] [--json FILE] [--csv FILE] [--plot DIR] [--html FILE] [--workers N]",
+		"run DECK [--level LIST] [--polarity pos|neg|both] [--set E.P=v1,v2] [--shard i/n] [--json FILE] [--csv FILE] [--plot DIR] [--html FILE] [--verify] [--workers N]",
 		`  zapnet run testdata/demo.zap
   zapnet run testdata/demo.zap --level 8k --polarity neg
   zapnet run testdata/demo.zap --json result.json --csv 'waves/{run}.csv'
@@ -45,6 +48,7 @@ failed solve.`,
 	jsonPath := fs.String("json", "", "write the results as JSON to `FILE` (- for stdout, the tables then go to stderr)")
 	csvPath := fs.String("csv", "", "write each run's waveforms as CSV: a `FILE` for one run; a folder (ending in /) or a pattern with {run} for several")
 	workers := fs.Int("workers", 0, "runs solved at once (default: every core)")
+	verify := fs.Bool("verify", false, "solve every run again at a tenth of its accuracy and report, per headline number, the difference: the run's error bar (about three times the work)")
 	timings := fs.Bool("timings", false, "add each run's wall-clock solve time (stats.wall_s) to the JSON; without it identical runs write identical files")
 	sweep := addSweepFlags(fs)
 	pictures := addPictureFlags(fs)
@@ -55,7 +59,7 @@ failed solve.`,
 	if err != nil {
 		return err
 	}
-	opt := runOptions{deck: deck, json: *jsonPath, csv: *csvPath, workers: *workers, timings: *timings,
+	opt := runOptions{deck: deck, json: *jsonPath, csv: *csvPath, workers: *workers, timings: *timings, verify: *verify,
 		pictures: pictures.options()}
 	// run stops at its first flag mistake, where the what-if commands
 	// collect them all (sweepFlags.finish).
@@ -80,6 +84,9 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	if s := longStudy(c); s != "" {
+		fmt.Fprintln(stderr, "warning: "+s)
+	}
 	levels, err := deckLevels("--level", opt.levels, c)
 	if err != nil {
 		return err
@@ -94,7 +101,7 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 		out.csv(opt.csv, opt.deck, jobs, c.Strike().Waveform.Unit)
 		return out.err()
 	}
-	sw, solveErr := sweepRuns(c, sopt, opt.sweep, check, stderr)
+	sw, solveErr := sweepRuns(c, sopt, opt.sweep, opt.verify, check, stderr)
 	if sw == nil {
 		return fmt.Errorf("%s: %w", opt.deck, solveErr)
 	}

@@ -9,6 +9,7 @@ import (
 
 	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/report"
+	"zapnet/devices/spec"
 	"zapnet/mna/study"
 	"zapnet/mna/study/whatif"
 	"zapnet/netlist"
@@ -27,11 +28,6 @@ type spreadOptions struct {
 	workers    int
 	sweep      sweepSpec
 	pictures   pictureOptions // --plot and --html: the histograms
-}
-
-// percentText writes a fraction as a percentage: 0.001 is "0.1 %".
-func percentText(f float64) string {
-	return strconv.FormatFloat(100*f, 'g', -1, 64) + " %"
 }
 
 func runSpread(args []string, stdout, stderr io.Writer) error {
@@ -59,7 +55,7 @@ clamp's energy over the circuits, with p1, p50, p99 and the pin's vmax
 (the clamp's emax) marked; above the exact count its bars are groups of
 the sketch's buckets, each %s wide.
 Exit status: 0 every drawn circuit passed, 1 at least one failed, 2 unusable
-input or a failed solve.`, whatif.ExactCircuits, percentText(whatif.SketchAccuracy), percentText(2*whatif.SketchAccuracy)),
+input or a failed solve.`, whatif.ExactCircuits, spec.FormatFraction(whatif.SketchAccuracy), spec.FormatFraction(2*whatif.SketchAccuracy)),
 		stderr)
 	runs := fs.Int("runs", whatif.DefaultRuns, "circuits to draw")
 	seed := fs.String("seed", "1", "seed of the draws, a whole number ≥ 0")
@@ -68,7 +64,7 @@ input or a failed solve.`, whatif.ExactCircuits, percentText(whatif.SketchAccura
 	jsonPath := fs.String("json", "", "write the distribution as JSON to `FILE` (- for stdout, the tables then go to stderr)")
 	workers := fs.Int("workers", 0, "circuits solved at once (default: every core)")
 	samples := fs.Bool("samples", false, "also write every circuit's verdicts and values into the JSON (memory and file grow with --runs)")
-	exact := fs.Int("exact", whatif.ExactCircuits, "percentiles exact up to `N` solved circuits, from a sketch within "+percentText(whatif.SketchAccuracy)+" above (memory grows with N: 8 bytes a measure, condition and circuit)")
+	exact := fs.Int("exact", whatif.ExactCircuits, "percentiles exact up to `N` solved circuits, from a sketch within "+spec.FormatFraction(whatif.SketchAccuracy)+" above (memory grows with N: 8 bytes a measure, condition and circuit)")
 	sweep := addSweepFlags(fs)
 	pictures := addPictureFlags(fs)
 	// The shared help of --plot and --html speaks of runs; a spread draws

@@ -85,7 +85,7 @@ func interruptible(stderr io.Writer) (context.Context, func()) {
 type errInterrupted struct{ done, total int }
 
 func (e errInterrupted) Error() string {
-	return fmt.Sprintf("interrupted: %d of %d finished and were reported; the rest did not run", e.done, e.total)
+	return fmt.Sprintf("interrupted: %d of %d finished and were reported; the rest were stopped or did not start", e.done, e.total)
 }
 
 // runSweep is what `zapnet run` solves with the sweep flags: the variants of
@@ -100,10 +100,11 @@ type runSweep struct {
 }
 
 // sweepRuns solves the runs of c that sopt and spec select, once check has
-// accepted them (the outputs they will write, say). The error joins the
-// failed solves and, when interrupted, an errInterrupted; runs is nil only
-// when nothing could start.
-func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, check func([]study.Job) error, stderr io.Writer) (*runSweep, error) {
+// accepted them (the outputs they will write, say), and with verify solves
+// them again at a tenth of their accuracy (study.Verify). The error joins
+// the failed solves and, when interrupted, an errInterrupted; runs is nil
+// only when nothing could start.
+func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, verify bool, check func([]study.Job) error, stderr io.Writer) (*runSweep, error) {
 	if len(spec.sets) > 0 {
 		sets, err := whatif.ParseSets(c, spec.sets)
 		if err != nil {
@@ -137,6 +138,20 @@ func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, check fu
 	}
 	runs, err := study.Execute(ctx, c, mine, sopt, done)
 	clear()
+	if verify && len(runs) == len(mine) {
+		vprogress, vclear := newProgress(stderr, "verify")
+		if vprogress != nil {
+			vprogress(0, 1)
+		}
+		// A failed check is said in each run's Verify; only an interrupt
+		// matters here.
+		verr := study.Verify(ctx, c, runs, sopt)
+		vclear()
+		if ctx.Err() != nil {
+			err = errors.Join(err, verr)
+			sw.interrupted = true
+		}
+	}
 	sw.runs = runs
 	if len(runs) < len(mine) {
 		sw.interrupted = true

@@ -68,3 +68,9 @@ func DeckNumber(v float64, unit Unit) string {
 	s = strings.ReplaceAll(s, " ", "")
 	return strings.ReplaceAll(s, "µ", "u")
 }
+
+// FormatFraction writes a fraction as a percentage with the digits it
+// needs: 0.002 is "0.2 %".
+func FormatFraction(f float64) string {
+	return strconv.FormatFloat(100*f, 'g', 6, 64) + " %"
+}

@@ -79,6 +79,11 @@ const (
 // engine would lose every digit.
 const Largest = 1e30
 
+// DefaultAccuracy is the relative accuracy wanted on every reported number
+// when a deck asks for none (the window's accuracy=): 0.2 %, the engine's
+// default (mna.DefaultAccuracy).
+const DefaultAccuracy = 0.002
+
 // MaxCount bounds a Count (pulses in a burst).
 const MaxCount = 1e6
 

@@ -24,8 +24,8 @@ func TestDefaultAccuracyOnTheFirstNanosecond(t *testing.T) {
 			t.Fatal(err)
 		}
 		ref, err := solve(c, nil, 2000, pol, &Options{
-			Window:   netlist.Window{MaxStep: 0.2e-9, RelTol: 1e-7},
-			Settings: &mna.Settings{ChargeTol: 1e-19},
+			Window:   netlist.Window{Resolve: 0.2e-9},
+			Settings: &mna.Settings{RelTol: 1e-7, ChargeTol: 1e-19},
 		})
 		if err != nil {
 			t.Fatal(err)

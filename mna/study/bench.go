@@ -129,19 +129,7 @@ func NewBench(c *netlist.Circuit, v netlist.Variant) (*Bench, error) {
 	// through the samples around each), which the engine's accuracy
 	// assumes: a peak of a ringing sampled a few tens of times a period
 	// reads low by a few tenths of a percent on the samples alone.
-	for i := range b.nodeTr {
-		b.nodeTr[i].Refine = true
-	}
-	for i := range b.elemTr {
-		b.elemTr[i].Refine = true
-	}
-	for k := range b.meters {
-		m := &b.meters[k]
-		m.v.Refine, m.w.Refine = true, true
-		for j := range m.probes {
-			m.probes[j].tr.Refine = true
-		}
-	}
+	b.eachTracker(func(tr *waveforms.Tracker) { tr.Refine = true })
 	b.observe = b.sample
 	return b, nil
 }
@@ -265,19 +253,23 @@ func (b *Bench) sample(p *mna.Point) {
 // corner tells every tracker that the last point is a corner of the
 // stimulus (t = 0 or a breakpoint), where the waveforms may change slope:
 // no interpolation of an extreme reaches across it.
-func (b *Bench) corner() {
+func (b *Bench) corner() { b.eachTracker((*waveforms.Tracker).Corner) }
+
+// eachTracker calls f on every tracker of the bench: the nodes', the
+// elements', and each meter's voltage, power and probes.
+func (b *Bench) eachTracker(f func(*waveforms.Tracker)) {
 	for i := range b.nodeTr {
-		b.nodeTr[i].Corner()
+		f(&b.nodeTr[i])
 	}
 	for i := range b.elemTr {
-		b.elemTr[i].Corner()
+		f(&b.elemTr[i])
 	}
 	for k := range b.meters {
 		m := &b.meters[k]
-		m.v.Corner()
-		m.w.Corner()
+		f(&m.v)
+		f(&m.w)
 		for j := range m.probes {
-			m.probes[j].tr.Corner()
+			f(&m.probes[j].tr)
 		}
 	}
 }
@@ -353,20 +345,7 @@ func (m *beyondMeter) note() string {
 
 func (b *Bench) reset() {
 	b.first = true
-	for i := range b.nodeTr {
-		b.nodeTr[i].Reset()
-	}
-	for i := range b.elemTr {
-		b.elemTr[i].Reset()
-	}
-	for k := range b.meters {
-		m := &b.meters[k]
-		m.v.Reset()
-		m.w.Reset()
-		for j := range m.probes {
-			m.probes[j].tr.Reset()
-		}
-	}
+	b.eachTracker((*waveforms.Tracker).Reset)
 	for k := range b.beyond {
 		b.beyond[k].reset()
 	}
@@ -437,14 +416,11 @@ func (b *Bench) window(opt *Options) netlist.Window {
 	if opt.Window.Stop > 0 {
 		w.Stop = opt.Window.Stop
 	}
-	if opt.Window.MaxStep > 0 {
-		w.MaxStep = opt.Window.MaxStep
+	if opt.Window.Resolve > 0 {
+		w.Resolve = opt.Window.Resolve
 	}
-	if opt.Window.RelTol > 0 {
-		w.RelTol = opt.Window.RelTol
-	}
-	if opt.Window.AbsTol > 0 {
-		w.AbsTol = opt.Window.AbsTol
+	if opt.Window.Accuracy > 0 {
+		w.Accuracy = opt.Window.Accuracy
 	}
 	return w
 }
@@ -469,7 +445,7 @@ func (b *Bench) solveWindow(r *Run, st *waveforms.Stimulus, sign float64, opt *O
 		if opt.Settings != nil {
 			set = *opt.Settings
 		}
-		set.Stop, set.MaxStep, set.RelTol, set.AbsTol = stop, w.MaxStep, w.RelTol, w.AbsTol
+		set.Stop, set.Resolve, set.Accuracy = stop, w.Resolve, w.Accuracy
 		set.Record = opt.Record
 		set.Observe = b.observe
 		b.reset()
@@ -759,6 +735,13 @@ func (b *Bench) validity(r *Run, st *waveforms.Stimulus) []string {
 		if i0 := b.i0[m.elem]; math.Abs(i0) > leakNote {
 			notes = append(notes, fmt.Sprintf("%s leaks %s at rest, with %s across it: it loads the line it protects (check its stand-off voltage)",
 				m.e.Name, spec.FormatSI(math.Abs(i0), "A"), spec.FormatSI(math.Abs(m.v0), "V")))
+		}
+	}
+	for _, e := range b.Circuit.Elements {
+		if n, ok := b.sys.Device(e.Name).(devices.RunNoter); ok {
+			if s := n.RunNote(); s != "" {
+				notes = append(notes, s)
+			}
 		}
 	}
 	return notes

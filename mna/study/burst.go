@@ -65,8 +65,8 @@ func (b *Bench) solveBurst(r *Run, st *waveforms.Stimulus, sign float64, opt *Op
 	if opt.Settings != nil {
 		set = *opt.Settings
 	}
-	set.MaxStep, set.RelTol, set.AbsTol = w.MaxStep, w.RelTol, w.AbsTol
-	if b.Circuit.Window.RelTol == 0 && opt.Window.RelTol == 0 && set.Accuracy == 0 {
+	set.Resolve, set.Accuracy = w.Resolve, w.Accuracy
+	if set.Accuracy == 0 {
 		set.Accuracy = BurstAccuracy
 	}
 	set.Record = opt.Record

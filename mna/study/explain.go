@@ -42,9 +42,9 @@ func defaultHint(se *mna.SolveError, w netlist.Window) string {
 	if se.Time < 0 {
 		return "check that every node has a DC path to gnd and that no supplies or inductors form a loop"
 	}
-	step := "a smaller maxstep"
-	if w.MaxStep > 0 {
-		step = "a smaller maxstep (window maxstep=" + spec.DeckNumber(w.MaxStep/10, "s") + ")"
+	step := "a finer time detail (window resolve=)"
+	if w.Resolve > 0 {
+		step = "a finer time detail (window resolve=" + spec.DeckNumber(w.Resolve/10, "s") + ")"
 	}
 	return "try " + step + ", or add the series resistance an ideal element lacks (a clamp's rdyn, a capacitor's esr)"
 }

@@ -39,11 +39,11 @@ type Options struct {
 	Record bool
 	// Window overrides the deck's window statement field by field: a zero
 	// field keeps the deck's value (and, when that is zero too, the
-	// default: the span of DefaultStop, the engine's accuracy, MaxStep and
-	// AbsTol). Pos is ignored.
+	// default: the span of DefaultStop, the engine's accuracy, no step
+	// bound). Pos is ignored.
 	Window netlist.Window
 	// Settings tunes the engine beyond the window (MinStep, Gmin, MaxIter,
-	// ChargeTol). Nil: engine defaults. Stop, MaxStep, RelTol, AbsTol,
+	// ChargeTol, Context). Nil: engine defaults. Stop, Accuracy, Resolve,
 	// Record and Observe are set by the study and ignored here.
 	Settings *mna.Settings
 }
@@ -126,6 +126,9 @@ type Run struct {
 	Notes []string `json:"notes"`
 	// Stats are the engine's counts, summed over re-runs of the window.
 	Stats Stats `json:"stats"`
+	// Verify is the run's error bar when asked for (Verify): its headline
+	// numbers against a solution at a tenth of its accuracy; nil otherwise.
+	Verify *Verification `json:"verify,omitempty"`
 
 	// Waves are the sampled waveforms when Options.Record is set, else nil.
 	Waves *Waves `json:"-"`

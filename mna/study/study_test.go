@@ -419,9 +419,9 @@ func TestLimitMargins(t *testing.T) {
 // what to try.
 func TestSolveErrorIsASentence(t *testing.T) {
 	se := &mna.SolveError{Time: 1.25e-9, Where: "node n1", Reason: "Newton did not converge", Residual: 3}
-	err := explain(se, &netlist.Circuit{}, netlist.Window{MaxStep: 1e-10})
+	err := explain(se, &netlist.Circuit{}, netlist.Window{Resolve: 1e-10})
 	msg := err.Error()
-	for _, want := range []string{"1.25 ns", "node n1", "Newton did not converge", "maxstep", "series resistance"} {
+	for _, want := range []string{"1.25 ns", "node n1", "Newton did not converge", "resolve=10ps", "series resistance"} {
 		if !strings.Contains(msg, want) {
 			t.Errorf("message %q lacks %q", msg, want)
 		}

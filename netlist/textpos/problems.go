@@ -15,11 +15,15 @@ type Error struct {
 	Msg     string
 	Warning bool  // legal but doubtful: reported, never fatal
 	Err     error // the kind of problem, a sentinel of its reader; nil for a warning of no kind
-	// More counts the problems left out after the first MaxProblems of a
-	// list; an Error with More > 0 stands for them and has no Msg. It is
-	// a warning only when every one left out is.
-	More int
+	// More and MoreWarnings count the problems and the warnings left out
+	// after the first MaxProblems of a list; an Error with either set
+	// stands for them (Summary) and has no Msg. It is a warning only when
+	// every one left out is.
+	More, MoreWarnings int
 }
+
+// Summary says whether e stands for the problems a list left out.
+func (e *Error) Summary() bool { return e.More > 0 || e.MoreWarnings > 0 }
 
 // MaxProblems is how many problems a list keeps: past it a file of a
 // million repeated mistakes (or a binary file read as text) is reported in
@@ -33,12 +37,15 @@ func New(pos Pos, kind error, format string, args ...any) *Error {
 }
 
 func (e *Error) Error() string {
-	if e.More > 0 {
-		what := "problems"
-		if e.Warning {
-			what = "warnings"
+	if e.Summary() {
+		var parts []string
+		if e.More > 0 {
+			parts = append(parts, fmt.Sprintf("%d more problems", e.More))
 		}
-		return fmt.Sprintf("... and %d more %s (the first %d are shown)", e.More, what, MaxProblems)
+		if e.MoreWarnings > 0 {
+			parts = append(parts, fmt.Sprintf("%d more warnings", e.MoreWarnings))
+		}
+		return fmt.Sprintf("... and %s (the first %d are shown)", strings.Join(parts, " and "), MaxProblems)
 	}
 	at := ""
 	if e.Pos.IsValid() || e.Pos.File != "" {
@@ -76,11 +83,13 @@ func (l *List) WarnKind(pos Pos, kind error, format string, args ...any) {
 }
 
 // push appends e while the list holds fewer than MaxProblems, and then
-// counts it in the entry that stands for those left out.
+// counts it in the entry that stands for those left out. A problem takes
+// the place of a warning kept before it, so that a file of many warnings
+// still shows why it was refused.
 func (l *List) push(e *Error) {
 	var more *Error
 	for i := len(*l) - 1; i >= 0; i-- {
-		if (*l)[i].More > 0 {
+		if (*l)[i].Summary() {
 			more = (*l)[i]
 			break
 		}
@@ -93,8 +102,21 @@ func (l *List) push(e *Error) {
 		more = &Error{Warning: true}
 		*l = append(*l, more)
 	}
+	if !e.Warning {
+		for i := len(*l) - 1; i >= 0; i-- {
+			if w := (*l)[i]; w != more && w.Warning {
+				(*l)[i] = e
+				e = w
+				break
+			}
+		}
+	}
+	if e.Warning {
+		more.MoreWarnings++
+		return
+	}
 	more.More++
-	if !e.Warning && more.Warning {
+	if more.Warning {
 		more.Warning, more.Err = false, e.Err
 	}
 }
@@ -105,9 +127,9 @@ func (l List) Problems() int {
 	n := 0
 	for _, e := range l {
 		switch {
-		case e.More > 0 && !e.Warning:
+		case e.Summary():
 			n += e.More
-		case e.More == 0 && !e.Warning:
+		case !e.Warning:
 			n++
 		}
 	}
@@ -167,8 +189,8 @@ func (l List) Len() int      { return len(l) }
 func (l List) Swap(i, j int) { l[i], l[j] = l[j], l[i] }
 func (l List) Less(i, j int) bool {
 	// What was left out comes after what is shown.
-	if (l[i].More > 0) != (l[j].More > 0) {
-		return l[j].More > 0
+	if l[i].Summary() != l[j].Summary() {
+		return l[j].Summary()
 	}
 	a, b := l[i].Pos, l[j].Pos
 	if a.File != b.File {

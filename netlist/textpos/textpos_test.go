@@ -77,12 +77,13 @@ func TestListCap(t *testing.T) {
 	if got := w[len(w)-1].Error(); got != "... and 50 more warnings (the first 100 are shown)" {
 		t.Errorf("last entry %q", got)
 	}
-	// One error among those left out makes the list fail, with its kind.
+	// An error past the cap takes a warning's place: the list fails, with
+	// its kind, and shows it.
 	w.Add(Pos{File: "w.csv", Line: 200, Col: 1}, errKind, "broken")
-	if w.Err() == nil || w.Problems() != 51 || !errors.Is(w[len(w)-1], errKind) {
+	if w.Err() == nil || w.Problems() != 1 || !errors.Is(w, errKind) || !strings.Contains(w.Error(), "w.csv:200:1: broken") {
 		t.Errorf("an error past the cap: Err %v, %d problems", w.Err(), w.Problems())
 	}
-	if got := w[len(w)-1].Error(); got != "... and 51 more problems (the first 100 are shown)" {
+	if got := w[len(w)-1].Error(); got != "... and 51 more warnings (the first 100 are shown)" {
 		t.Errorf("last entry %q", got)
 	}
 }
@@ -153,5 +154,29 @@ func TestSortRepeats(t *testing.T) {
 	}
 	if got := fmt.Sprint(List(nil).Err()); got != "<nil>" {
 		t.Errorf("empty list: %s", got)
+	}
+}
+
+// Problems found after a full list of warnings take the warnings' places:
+// a file refused for one problem among a thousand warnings shows it
+// [practice].
+func TestProblemsOutrankWarnings(t *testing.T) {
+	var l List
+	for i := 0; i < 1000; i++ {
+		l.Warn(Pos{File: "f", Line: i + 1, Col: 1}, "doubtful %d", i)
+	}
+	l.Add(Pos{File: "f", Line: 1001, Col: 1}, errKind, "the problem")
+	l.Sort()
+	if l.Problems() != 1 || l.Err() == nil {
+		t.Fatalf("%d problems", l.Problems())
+	}
+	if !strings.Contains(l.Error(), "f:1001:1: the problem") {
+		t.Error("the problem is not shown")
+	}
+	if last := l[len(l)-1].Error(); last != "... and 901 more warnings (the first 100 are shown)" {
+		t.Errorf("summary %q", last)
+	}
+	if len(l) != MaxProblems+1 {
+		t.Errorf("%d entries", len(l))
 	}
 }

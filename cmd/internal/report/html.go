@@ -7,6 +7,7 @@ import (
 	"html/template"
 	"io"
 	"regexp"
+	"slices"
 	"strings"
 
 	"zapnet/devices/spec"
@@ -111,6 +112,9 @@ func HTML(w io.Writer, runs []study.Run, opt *HTMLOptions) error {
 			}
 		}
 		hr.Failures, hr.Notes = r.Failures, r.Notes
+		if s := verifySentence(r.Verify); s != "" {
+			hr.Notes = append(slices.Clone(r.Notes), s)
+		}
 		if i < len(opt.RunFigures) {
 			if hr.Figures, err = htmlFigures(id+"-fig", opt.RunFigures[i], styles); err != nil {
 				return err
@@ -234,6 +238,10 @@ func htmlRunTables(id string, r *study.Run) []htmlTable {
 	add("ledger", "Energy ledger", ledgerHead, ledgerRows(r))
 	add("quiescent", quiescentTitle, quiescentHead, quiescentRows(r))
 	add("limits", "Limits", []string{"limit", "measured", "at", "rating", "margin", "margin %", "verdict"}, limitRows(r))
+	if v := r.Verify; v != nil && len(v.Quantities) > 0 {
+		add("verify", "Error bar: every headline number solved again at accuracy "+spec.FormatFraction(v.Tighter),
+			[]string{"number", "value", "tighter", "difference %", "within " + spec.FormatFraction(v.Accuracy)}, verifyRows(v))
+	}
 	return ts
 }
 

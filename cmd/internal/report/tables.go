@@ -202,6 +202,44 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 	for _, n := range r.Notes {
 		fmt.Fprintf(w, "Note: %s\n", n)
 	}
+	if s := verifySentence(r.Verify); s != "" {
+		fmt.Fprintln(w, s)
+	}
+}
+
+// verifyRows are a run's verified numbers: value, the tighter solution's,
+// the relative difference and whether it is within the accuracy asked.
+func verifyRows(v *study.Verification) [][]string {
+	var rows [][]string
+	for _, q := range v.Quantities {
+		within := "yes"
+		if !q.Within {
+			within = "NO"
+		}
+		rows = append(rows, []string{q.Name, si(q.Value, q.Unit), si(q.Tighter, q.Unit), fmt.Sprintf("%.2g", 100*q.Relative), within})
+	}
+	return rows
+}
+
+// verifySentence says in one line what a run's error bar found; "" when
+// the run was not verified.
+func verifySentence(v *study.Verification) string {
+	switch {
+	case v == nil:
+		return ""
+	case v.Error != "":
+		return fmt.Sprintf("Error bar: the check at accuracy %s failed: %s", spec.FormatFraction(v.Tighter), v.Error)
+	case v.Worst == nil:
+		return "Error bar: nothing to check"
+	}
+	worst := fmt.Sprintf("%s %.2g %% (%s against %s)", v.Worst.Name, 100*v.Worst.Relative,
+		si(v.Worst.Value, v.Worst.Unit), si(v.Worst.Tighter, v.Worst.Unit))
+	if v.Beyond == 0 {
+		return fmt.Sprintf("Error bar: every number within the %s asked of it, solved again at %s; the largest difference %s",
+			spec.FormatFraction(v.Accuracy), spec.FormatFraction(v.Tighter), worst)
+	}
+	return fmt.Sprintf("WARNING: %d of %d numbers differ by more than the %s asked when solved again at %s, the most %s: tighten the window's accuracy= (or bound the step with resolve=) and run again",
+		v.Beyond, len(v.Quantities), spec.FormatFraction(v.Accuracy), spec.FormatFraction(v.Tighter), worst)
 }
 
 // The rows of a run's tables that the text and the HTML report share, one
@@ -416,7 +454,7 @@ func section(w io.Writer, title string, head []string, rows [][]string) {
 // textColumns are the headers of columns that hold words, aligned left;
 // every other column holds numbers, aligned right.
 var textColumns = map[string]bool{"quantity": true, "result": true, "source": true,
-	"node": true, "role": true, "clamp": true, "pin": true,
+	"node": true, "role": true, "clamp": true, "pin": true, "number": true,
 	"capacitor": true, "where": true, "limit": true, "variant": true, "polarity": true,
 	"verdict": true, "worst margin": true, "level": true, "": true,
 	"parameter": true, "from": true, "what": true}

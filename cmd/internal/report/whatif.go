@@ -13,7 +13,7 @@ import (
 
 func init() {
 	// The what-if tables' word columns, aligned left like the others.
-	for _, h := range []string{"param", "limiting", "measure", "monotonic", "note", "worst at", "distribution", "condition"} {
+	for _, h := range []string{"param", "limiting", "at accuracy/10", "measure", "monotonic", "note", "worst at", "distribution", "condition"} {
 		textColumns[h] = true
 	}
 }
@@ -69,8 +69,14 @@ func MarginTable(w io.Writer, r *whatif.MarginResult, title, deck string) error 
 	heading(ew, title, deck, fmt.Sprintf("Margin search: %s up to %s in steps of %s", r.Waveform,
 		si(r.Max, r.LevelUnit), si(r.Resolution, r.LevelUnit)))
 	head := []string{"variant", "polarity", "highest pass", "first fail", "limiting", "monotonic", "solves"}
-	t := newTable(ew, head)
-	t.Header(toAny(head)...)
+	checked := false
+	for _, m := range r.Margins {
+		checked = checked || m.Check != nil
+	}
+	if checked {
+		head = append(head, "at accuracy/10")
+	}
+	var rows [][]string
 	var notes []string
 	for _, m := range r.Margins {
 		pass, fail, mono := "none", "none in range", "yes"
@@ -90,9 +96,17 @@ func MarginTable(w io.Writer, r *whatif.MarginResult, title, deck string) error 
 		} else if m.Note != "" {
 			notes = append(notes, fmt.Sprintf("%s %s: %s", m.Variant.String(), m.Polarity, m.Note))
 		}
-		t.Append(toAny([]string{m.Variant.String(), m.Polarity, pass, fail, limiting, mono, fmt.Sprint(m.Solves)})...)
+		row := []string{m.Variant.String(), m.Polarity, pass, fail, limiting, mono, fmt.Sprint(m.Solves)}
+		if checked {
+			check, note := marginCheckText(m.Check)
+			row = append(row, check)
+			if note != "" {
+				notes = append(notes, fmt.Sprintf("%s %s: %s", m.Variant.String(), m.Polarity, note))
+			}
+		}
+		rows = append(rows, row)
 	}
-	t.Render()
+	writeTable(ew, head, rows)
 	for _, n := range notes {
 		fmt.Fprintf(ew, "Note: %s\n", n)
 	}
@@ -102,6 +116,20 @@ func MarginTable(w io.Writer, r *whatif.MarginResult, title, deck string) error 
 	fmt.Fprintln(ew)
 	fmt.Fprintln(ew, Caution)
 	return ew.err
+}
+
+// marginCheckText is a margin's check column and, when a verdict flips or
+// the check failed, a note.
+func marginCheckText(c *whatif.MarginCheck) (col, note string) {
+	switch {
+	case c == nil:
+		return "-", ""
+	case c.Error != "":
+		return "not solved", "the check at a tenth of the accuracy failed: " + c.Error
+	case c.PassHolds && c.FailHolds:
+		return "holds", ""
+	}
+	return "FLIPS", "at a tenth of the accuracy the bracket's verdicts change: the failure level is within the solver's error; tighten the window's accuracy= and search again"
 }
 
 // SensitivityTable prints the parameters ranked by what ±step does to the

@@ -37,6 +37,10 @@ type MarginOptions struct {
 	// Shard selects the searches (one per variant and polarity, in plan
 	// order) this process runs. Zero: all.
 	Shard study.Shard
+	// Verify solves the two levels around each failure (the highest pass
+	// and the first fail) again at a tenth of the accuracy and says
+	// whether their verdicts hold (Margin.Check).
+	Verify bool
 	// Progress, when set, is told after each solve, against an estimate of
 	// the solves of the whole search (the scan and a full bisection of each
 	// search; a search that fails nowhere needs no bisection and finishes
@@ -74,11 +78,55 @@ type Margin struct {
 	Solves int `json:"solves"`
 	// Error is why the search stopped: a solve failure at one level.
 	Error string `json:"error,omitempty"`
+	// Check is, with MarginOptions.Verify, the bracket solved again at a
+	// tenth of the accuracy; nil otherwise.
+	Check *MarginCheck `json:"check,omitempty"`
 	// Curve is every level the search solved with its worst margin, in
 	// rising level: what "margin against level" draws. It stays out of
 	// the JSON so that the document keeps the contract's shape; a merge
 	// of shards does not need it.
 	Curve []CurvePoint `json:"-"`
+}
+
+// MarginCheck is a margin's bracket solved again at a tenfold tighter
+// accuracy: when a verdict flips, the failure level is within the
+// solver's error and the margin is one resolution step less certain.
+type MarginCheck struct {
+	Tighter float64 `json:"tighter"` // the accuracy of the check
+	// PassHolds and FailHolds: the highest pass still passes, the first
+	// fail still fails (true when there is no such level).
+	PassHolds bool `json:"pass_holds"`
+	FailHolds bool `json:"fail_holds"`
+	// Error says why a check solve failed.
+	Error string `json:"error,omitempty"`
+}
+
+// checkBracket solves m's highest pass and first fail at accuracy acc/10
+// with solve and says whether their verdicts hold.
+func checkBracket(m *Margin, acc float64, solve func(level float64) (outcome, error)) error {
+	ck := &MarginCheck{Tighter: acc / 10, PassHolds: true, FailHolds: true}
+	m.Check = ck
+	for _, lv := range []struct {
+		level *float64
+		pass  bool
+	}{{m.MaxPass, true}, {m.FirstFail, false}} {
+		if lv.level == nil {
+			continue
+		}
+		o, err := solve(*lv.level)
+		if err != nil {
+			ck.Error = fmt.Sprintf("%s: %v", spec.FormatSI(*lv.level, m.LevelUnit), err)
+			return err
+		}
+		if o.pass != lv.pass {
+			if lv.pass {
+				ck.PassHolds = false
+			} else {
+				ck.FailHolds = false
+			}
+		}
+	}
+	return nil
 }
 
 // CurvePoint is one solve of a search.
@@ -201,6 +249,9 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 	sopt.Record = false
 	grid := scanGrid(steps, scan)
 	total := (len(grid) + bisections(steps, scan)) * len(mine)
+	if opt.Verify {
+		total += 2 * len(mine)
+	}
 	var mu sync.Mutex
 	solved := 0
 	tick := func() {
@@ -222,20 +273,22 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 		}
 	}
 	benches := study.NewBenches(c, workers)
-	solver := func(w int, sr search) func(float64) (outcome, error) {
+	tight := study.Tighter(c, &sopt)
+	solverWith := func(w int, sr search, o *study.Options) func(float64) (outcome, error) {
 		return func(level float64) (outcome, error) {
 			defer tick()
 			b, err := benches.Get(w, sr.variant, variants[sr.variant])
 			if err != nil {
 				return outcome{}, err
 			}
-			r, err := b.Solve(level, sr.polarity, &sopt)
+			r, err := b.Solve(level, sr.polarity, o)
 			if err != nil {
 				return outcome{}, err
 			}
 			return outcome{pass: r.Verdict == study.Pass, worst: r.Worst}, nil
 		}
 	}
+	solver := func(w int, sr search) func(float64) (outcome, error) { return solverWith(w, sr, &sopt) }
 
 	// The scans of every search at once, so that one search alone still
 	// keeps every worker busy; then each search's bisection.
@@ -262,6 +315,10 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 			}
 		}
 		complete[i] = finishSearch(ctx, &out[i], grid, scans[i*len(grid):(i+1)*len(grid)], res.Resolution, solver(w, sr))
+		if complete[i] && opt.Verify && out[i].Error == "" {
+			err := checkBracket(&out[i], study.Accuracy(c, &sopt), solverWith(w, sr, tight))
+			complete[i] = !study.Interrupted(err)
+		}
 	})
 	if opt.Progress != nil && !ctxDone(ctx) {
 		opt.Progress(total, total)

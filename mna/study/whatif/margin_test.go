@@ -209,3 +209,36 @@ func search(ctx context.Context, m *Margin, steps, scan int, step float64, solve
 	}
 	return finishSearch(ctx, m, grid, res, step, solveAt)
 }
+
+// The check of a bracket solves its two levels again and says which verdict
+// flipped; a bracket with no failure in range checks its pass only
+// [practice: a verdict that flips with a tenfold tighter accuracy is
+// within the solver's error].
+func TestCheckBracket(t *testing.T) {
+	pass, fail := 5300.0, 5400.0
+	for _, c := range []struct {
+		passes             func(float64) bool
+		passHolds, failHol bool
+	}{
+		{func(l float64) bool { return l < 5350 }, true, true},
+		{func(l float64) bool { return l < 5450 }, true, false},
+		{func(l float64) bool { return l < 5250 }, false, true},
+	} {
+		m := &Margin{MaxPass: &pass, FirstFail: &fail, LevelUnit: "V"}
+		var solved []float64
+		err := checkBracket(m, 0.002, func(l float64) (outcome, error) {
+			solved = append(solved, l)
+			return outcome{pass: c.passes(l)}, nil
+		})
+		if err != nil || len(solved) != 2 || m.Check == nil || m.Check.Tighter != 0.0002 ||
+			m.Check.PassHolds != c.passHolds || m.Check.FailHolds != c.failHol {
+			t.Errorf("check %+v after solving %v (%v), want pass %v fail %v", m.Check, solved, err, c.passHolds, c.failHol)
+		}
+	}
+	top := 16000.0
+	m := &Margin{MaxPass: &top, LevelUnit: "V"}
+	n := 0
+	if err := checkBracket(m, 0.002, func(float64) (outcome, error) { n++; return outcome{pass: true}, nil }); err != nil || n != 1 || !m.Check.FailHolds {
+		t.Errorf("no failure in range: %d solves, %+v", n, m.Check)
+	}
+}

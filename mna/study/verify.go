@@ -1,0 +1,197 @@
+package study
+
+import (
+	"context"
+	"math"
+
+	"zapnet/devices/spec"
+	"zapnet/mna"
+	"zapnet/netlist"
+)
+
+// Verification is a run's error bar: each headline number of the run
+// beside the same number solved at a tenfold tighter accuracy. The engine's
+// error falls about tenfold with the accuracy, so the difference is the
+// run's own error to within about a tenth of itself.
+type Verification struct {
+	// Accuracy is the relative accuracy the run asked for; Tighter the
+	// one it was solved again at (Accuracy/10).
+	Accuracy float64 `json:"accuracy"`
+	Tighter  float64 `json:"tighter"`
+	// Quantities are every headline number: each node's extremes, each
+	// element's peak current, the energy each resistor, protector and pin
+	// takes, each pin's residual and internal-path current, each probe's
+	// peak, each limit's measured value.
+	Quantities []VerifiedQuantity `json:"quantities"`
+	// Worst is the quantity whose relative difference is largest; Beyond
+	// counts those whose difference exceeds Accuracy.
+	Worst  *VerifiedQuantity `json:"worst,omitempty"`
+	Beyond int               `json:"beyond"`
+	// Error says why the tighter solution failed; the quantities are then
+	// empty.
+	Error string `json:"error,omitempty"`
+}
+
+// VerifiedQuantity is one headline number and its check.
+type VerifiedQuantity struct {
+	Name    string    `json:"name"` // "n1 max", "D1 energy", "U1 residual peak"
+	Unit    spec.Unit `json:"unit"`
+	Value   float64   `json:"value"`
+	Tighter float64   `json:"tighter"`
+	// Difference is Value − Tighter; Relative is |Difference| over the
+	// quantity's scale: for a highest or lowest voltage the largest
+	// magnitude it reached on its side of zero (as the engine states its
+	// accuracy), for the others the larger magnitude of the two; at least
+	// the noise floor: a millivolt, a milliampere, and for an energy a
+	// hundred-thousandth of the energy delivered (the integrator leaves
+	// the net energy of a part that only stores it, an inductor carrying
+	// the strike, at a few millionths of the delivered).
+	Difference float64 `json:"difference"`
+	Relative   float64 `json:"relative"`
+	// Within says Relative is at most the accuracy asked for.
+	Within bool `json:"within"`
+}
+
+// Accuracy is the relative accuracy the runs of c ask of the engine under
+// opt: the options' window, else the deck's, else the default.
+func Accuracy(c *netlist.Circuit, opt *Options) float64 {
+	if opt != nil && opt.Window.Accuracy > 0 {
+		return opt.Window.Accuracy
+	}
+	if c.Window.Accuracy > 0 {
+		return c.Window.Accuracy
+	}
+	return mna.DefaultAccuracy
+}
+
+// Tighter returns a copy of opt that solves at a tenth of the accuracy
+// the runs of c ask for, without recording waveforms; an expert's RelTol
+// and ChargeTol in opt.Settings are dropped, so that the accuracy alone
+// decides.
+func Tighter(c *netlist.Circuit, opt *Options) *Options {
+	var t Options
+	if opt != nil {
+		t = *opt
+	}
+	t.Window.Accuracy, t.Record = Accuracy(c, opt)/10, false
+	if t.Settings != nil {
+		s := *t.Settings
+		s.RelTol, s.ChargeTol = 0, 0
+		t.Settings = &s
+	}
+	return &t
+}
+
+// Verify solves each solved run of runs again at a tenth of its accuracy
+// (an expert's RelTol and ChargeTol in opt.Settings are dropped for it, so
+// that the accuracy alone decides) and sets the run's Verify. Runs that
+// were not solved are left alone. The error joins the tighter solves that
+// failed and ctx's error when it stopped them; a run without its check
+// then says why in its Verify.
+func Verify(ctx context.Context, c *netlist.Circuit, runs []Run, opt *Options) error {
+	acc := Accuracy(c, opt)
+	tight := Tighter(c, opt)
+	var jobs []Job
+	at := map[int]int{} // job index → place in runs
+	for i := range runs {
+		if runs[i].Err == nil && runs[i].Error == "" {
+			jobs = append(jobs, runs[i].Job())
+			at[runs[i].Index] = i
+		}
+	}
+	checked, err := Execute(ctx, c, jobs, tight, nil)
+	for k := range checked {
+		t := &checked[k]
+		r := &runs[at[t.Index]]
+		if t.Err != nil {
+			r.Verify = &Verification{Accuracy: acc, Tighter: acc / 10, Error: t.Err.Error()}
+			continue
+		}
+		r.Verify = compare(r, t, acc)
+	}
+	return err
+}
+
+// compare builds the verification of run r against the tighter run t.
+func compare(r, t *Run, acc float64) *Verification {
+	v := &Verification{Accuracy: acc, Tighter: acc / 10}
+	energyFloor := 1e-5 * math.Abs(r.Ledger.Delivered)
+	scaleOf := map[float64]float64{} // an extreme's scale, by its value (for the limits that read it)
+	// addScaled compares a and b relative to scale, at least the unit's
+	// noise floor.
+	addScaled := func(name string, unit spec.Unit, a, b, scale float64) {
+		floor := map[spec.Unit]float64{spec.Volt: 1e-3, spec.Ampere: 1e-3, spec.Joule: energyFloor}[unit]
+		d := a - b
+		rel := math.Abs(d) / math.Max(scale, floor)
+		if math.IsNaN(rel) || math.IsInf(rel, 0) {
+			rel = 0
+		}
+		q := VerifiedQuantity{Name: name, Unit: unit, Value: a, Tighter: b, Difference: d, Relative: rel, Within: rel <= acc}
+		v.Quantities = append(v.Quantities, q)
+		if !q.Within {
+			v.Beyond++
+		}
+		if v.Worst == nil || q.Relative > v.Worst.Relative {
+			w := q
+			v.Worst = &w
+		}
+	}
+	add := func(name string, unit spec.Unit, a, b float64) {
+		s, ok := scaleOf[a]
+		if !ok {
+			s = math.Max(math.Abs(a), math.Abs(b))
+		}
+		addScaled(name, unit, a, b, s)
+	}
+	// extremes compares a highest and a lowest value as the engine states
+	// its accuracy: each relative to the largest magnitude the quantity
+	// reached on its side of zero (a rail's dip to 0.5 V from 5 V is held
+	// to a share of 5 V, not of 0.5 V).
+	extremes := func(name string, hi, lo, thi, tlo float64, hiName, loName string) {
+		side := func(x float64) float64 {
+			if x >= 0 {
+				return math.Max(math.Max(hi, thi), 0)
+			}
+			return -math.Min(math.Min(lo, tlo), 0)
+		}
+		scaleOf[hi], scaleOf[lo] = side(hi), side(lo)
+		addScaled(name+" "+hiName, spec.Volt, hi, thi, side(hi))
+		addScaled(name+" "+loName, spec.Volt, lo, tlo, side(lo))
+	}
+	for i, n := range r.Nodes {
+		if i >= len(t.Nodes) || t.Nodes[i].Name != n.Name {
+			continue
+		}
+		extremes(n.Name, n.Max, n.Min, t.Nodes[i].Max, t.Nodes[i].Min, "max", "min")
+	}
+	for i, e := range r.Elements {
+		if i >= len(t.Elements) || t.Elements[i].Name != e.Name {
+			continue
+		}
+		te := &t.Elements[i]
+		add(e.Name+" peak current", spec.Ampere, e.PeakCurrent, te.PeakCurrent)
+		// The energy a part dissipates is a headline number; what a part
+		// that stores or carries energy nets over the window is the small
+		// difference of what went in and came back, left out.
+		switch e.Role {
+		case spec.Passive, spec.Protector, spec.ProtectedPin:
+			add(e.Name+" energy", spec.Joule, e.Energy, te.Energy)
+		}
+		if e.Residual != nil && te.Residual != nil {
+			extremes(e.Name, e.Residual.Peak, e.Residual.Min, te.Residual.Peak, te.Residual.Min, "residual peak", "residual low")
+			add(e.Name+" internal-path current", spec.Ampere, e.Residual.IPath, te.Residual.IPath)
+		}
+		for _, p := range e.Probes {
+			if tp := te.Probe(p.Name); tp != nil {
+				add(e.Name+"."+p.Name+" peak", p.Unit, p.Peak, tp.Peak)
+			}
+		}
+	}
+	for i, l := range r.Limits {
+		if i >= len(t.Limits) || t.Limits[i].Name() != l.Name() {
+			continue
+		}
+		add(l.Name()+" measured", l.Unit, l.Measured, t.Limits[i].Measured)
+	}
+	return v
+}
