@@ -350,12 +350,11 @@ const impossible = 1e9
 // iteration contracting at rate θ leaves θ/(1−θ) of its last update, and
 // a protection network between its junctions' knees is so nearly linear
 // that one update leaves a millionth of itself. The rate is the ratio of
-// the second update to the first, last measured, relaxed towards 1 at
-// every solve that does not measure it
-// (s.eta), so that an iterate is still evaluated and a verifying update
-// computed every few solves [pub: Hairer & Wanner, Solving ODEs II, IV.8,
-// the stopping criterion of the simplified Newton iteration with η from
-// the previous step]. A limited junction step forbids it, and so does a
+// a solve's second update to its first, as last measured and relaxed
+// towards 1 at every solve since (s.eta), so that an iterate is still
+// evaluated and a verifying update computed every so many solves [pub:
+// Hairer & Wanner, Solving ODEs II, IV.8, the stopping criterion of the
+// simplified Newton iteration with η from the previous step]. A limited junction step forbids it, and so does a
 // node voltage that moves by more than onceVolts: the rate was measured
 // where the junctions were, and a junction that was off cannot reach
 // conduction unseen. Most stages then cost one evaluation and one solve.
@@ -399,7 +398,7 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 			// The rate that matters is the first one, of the update from
 			// the predicted point: Newton's later updates shrink
 			// quadratically, and their ratio says nothing of the first.
-			if it == 2 && prev > 0 {
+			if it == 2 && prev > 0 && !dc {
 				if th := r / prev; th < 1 {
 					*eta = th / (1 - th)
 				} else {
