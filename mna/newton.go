@@ -353,11 +353,13 @@ const impossible = 1e9
 // a solve's second update to its first, as last measured and relaxed
 // towards 1 at every solve since (s.eta), so that an iterate is still
 // evaluated and a verifying update computed every so many solves [pub:
-// Hairer & Wanner, Solving ODEs II, IV.8, the stopping criterion of the
-// simplified Newton iteration with η from the previous step]. A limited junction step forbids it, and so does a
-// node voltage that moves by more than onceVolts: the rate was measured
-// where the junctions were, and a junction that was off cannot reach
-// conduction unseen. Most stages then cost one evaluation and one solve.
+// Hairer & Wanner, Solving ODEs II, IV.8, and their RADAU5: the
+// simplified Newton iteration stops on the update itself once θ/(1−θ),
+// carried over from the previous step, times it is small]. A limited
+// junction step forbids it, and so does a node voltage that moves by more
+// than onceVolts: the rate was measured where the junctions were, and a
+// junction that was off cannot reach conduction unseen. Most stages then
+// cost one evaluation and one solve.
 func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 	if !reuse {
 		// The second stage keeps the first's: a step moves the scales
