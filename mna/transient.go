@@ -19,7 +19,7 @@ import (
 //
 // The scale b is the largest magnitude the unknown has reached on the side
 // of zero where it now is (at least its present magnitude, and at least
-// sideFloor of its largest magnitude on either side, and scaleFloor): the
+// SideFloor of its largest magnitude on either side, and scaleFloor): the
 // extremes of a report are relative to themselves, and a clamp node that
 // swings to +27 V and −7 V must get its −7 V right to 0.2 % of 7 V, not of
 // 27 V.
@@ -70,16 +70,25 @@ import (
 // and rebound when a pulse ends) depends on the phase of all its ringing at
 // the corner, and edges are short.
 //
-// localShare, sideFloor, edgeShare and the slack were calibrated on the
+// localShare, SideFloor, edgeShare and the slack were calibrated on the
 // reference networks of testdata/reference (mna/reference_test.go): with
 // them every compared quantity stays within Accuracy with a margin.
 const (
 	localShare = 0.1
-	sideFloor  = 0.05
 	edgeShare  = 0.02
 	slackK     = 1000.0
 	slackMax   = 16.0
 )
+
+// SideFloor is the smallest scale of a value's side of zero, as a share of
+// its largest magnitude on either side: the accuracy of a highest or
+// lowest value is stated relative to the largest magnitude on its side,
+// and at least SideFloor of the largest on both. A far-side excursion of a
+// hundredth of a node's swing (a pin that dips to −0.4 V after +99 V, the
+// difference of its clamp's 13 V and its inductance's −13.4 V) is held to
+// a share of a twentieth of the swing: holding it to a share of itself
+// would hold those 13 V to a share of 0.4 V.
+const SideFloor = 0.05
 
 // newtonShare is Newton's relative tolerance as a share of the local error
 // per step: the iteration error must stay below the truncation error the
@@ -649,13 +658,24 @@ func (s *System) errorRatio(h float64, t *tol) (r float64, have bool) {
 // scaleOf is the scale of an unknown whose value is x (xo before the step),
 // which has reached hi and lo so far and whose largest magnitude is sc: the
 // largest magnitude on the side of zero where x lies, at least |x|, |xo|
-// and sideFloor·sc (see localShare).
+// and SideFloor·sc (see localShare).
+//
+// A value nearer zero than the other side's scale is on its way to that
+// side as much as to its own, and an error made there is still in it when
+// it crosses: it is held to the smaller of the two scales. A connector pin
+// that peaks at +99 V and then falls through zero to −0.4 V (the near
+// cancellation of its clamp's 13 V and its pin inductance's −13.4 V) is
+// held, on the way down through the last volts, to the −0.4 V side's scale
+// (at least a twentieth of 99 V), not to the 99 V it left behind.
 func (s *System) scaleOf(x, xo, hi, lo, sc float64) float64 {
-	side := hi
+	side, other := hi, -lo
 	if x < 0 {
-		side = -lo
+		side, other = -lo, hi
 	}
-	return max(side, math.Abs(x), math.Abs(xo), sideFloor*sc, scaleFloor)
+	if other = max(other, SideFloor*sc); math.Abs(x) < other {
+		side = min(side, other)
+	}
+	return max(side, math.Abs(x), math.Abs(xo), SideFloor*sc, scaleFloor)
 }
 
 // truncationError is the error of a step that the error control keeps

@@ -40,8 +40,9 @@ type VerifiedQuantity struct {
 	Tighter float64   `json:"tighter"`
 	// Difference is Value − Tighter; Relative is |Difference| over the
 	// quantity's scale: for a highest or lowest voltage the largest
-	// magnitude it reached on its side of zero (as the engine states its
-	// accuracy), for the others the larger magnitude of the two; at least
+	// magnitude it reached on its side of zero, and at least
+	// mna.SideFloor of its largest on either side (as the engine states
+	// its accuracy), for the others the larger magnitude of the two; at least
 	// the noise floor: a millivolt, a milliampere, and for an energy a
 	// hundred-thousandth of the energy delivered (the integrator leaves
 	// the net energy of a part that only stores it, an inductor carrying
@@ -146,13 +147,17 @@ func compare(r, t *Run, acc float64) *Verification {
 	// extremes compares a highest and a lowest value as the engine states
 	// its accuracy: each relative to the largest magnitude the quantity
 	// reached on its side of zero (a rail's dip to 0.5 V from 5 V is held
-	// to a share of 5 V, not of 0.5 V).
+	// to a share of 5 V, not of 0.5 V), and at least mna.SideFloor of the
+	// largest on either side (a pin's dip to −0.4 V after +99 V is held to
+	// a share of 5 V).
 	extremes := func(name string, hi, lo, thi, tlo float64, hiName, loName string) {
+		up, down := math.Max(math.Max(hi, thi), 0), -math.Min(math.Min(lo, tlo), 0)
+		floor := mna.SideFloor * math.Max(up, down)
 		side := func(x float64) float64 {
 			if x >= 0 {
-				return math.Max(math.Max(hi, thi), 0)
+				return math.Max(up, floor)
 			}
-			return -math.Min(math.Min(lo, tlo), 0)
+			return math.Max(down, floor)
 		}
 		scaleOf[hi], scaleOf[lo] = side(hi), side(lo)
 		addScaled(name+" "+hiName, spec.Volt, hi, thi, side(hi))
