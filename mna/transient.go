@@ -245,7 +245,7 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 	}
 
 	ne := len(s.devs)
-	res := &Result{Energy: make([]float64, ne), PeakCurrent: make([]float64, ne), Stop: stop}
+	res := &Result{Energy: make([]float64, ne), Gross: make([]float64, ne), PeakCurrent: make([]float64, ne), Stop: stop}
 	if cfg.Record {
 		res.V = make([][]float64, len(s.nodeNames))
 		res.I = make([][]float64, ne)
@@ -714,7 +714,8 @@ func (s *System) truncationError(now float64) *SolveError {
 
 // accept books an accepted point: element currents and powers, the energy
 // ledger over the step h, peaks, probes, the devices' Acceptors, Observe and
-// Record. corner says the point is t = 0 or a breakpoint.
+// Record. corner says the point is t = 0 or a breakpoint; first that it is
+// the operating point, whose powers the gross ledger is counted from.
 //
 // The ledger takes each terminal's voltage and current averaged over the
 // step: Σ h·v̄·ī. For a linear capacitor or inductor integrated by the
@@ -745,9 +746,12 @@ func (s *System) accept(res *Result, cfg *Settings, x, termCur []float64, now, h
 			s.termV[k], s.termI[k] = v, i
 		}
 		s.stepEnergy[di] = 0
-		if !first {
+		if first {
+			s.power0[di] = p
+		} else {
 			s.stepEnergy[di] = 0.25 * h * e
 			res.Energy[di] += s.stepEnergy[di]
+			res.Gross[di] += math.Abs(s.stepEnergy[di] - s.power0[di]*h)
 		}
 		pt.W[di] = p
 		i := 0.0
