@@ -121,6 +121,13 @@ type Context struct {
 	Rows      []StateRows // per global state
 	StateBase int         // global index of the current device's state 0
 
+	// Slopes, when it has room, receives every derivative given with
+	// ChargeDeriv, in call order, and NSlopes counts them (past
+	// len(Slopes) too): the engine moves the charges along them when it
+	// takes an iterate one update beyond the point it evaluated.
+	Slopes  []Slope
+	NSlopes int
+
 	// Limited is set by a device whose junction limiting changed the
 	// iterate: the engine does not accept the iteration as converged.
 	Limited bool
@@ -206,11 +213,22 @@ func (c *Context) Inject(a, b int, i float64) {
 // derivatives with ChargeDeriv.
 func (c *Context) Charge(k int, q float64) { c.Q[c.StateBase+k] = q }
 
+// Slope is one derivative given with ChargeDeriv: dq/dx_Col = D for the
+// global state State.
+type Slope struct {
+	State, Col int32
+	D          float64
+}
+
 // ChargeDeriv adds dq_k/dx_col = dq, stamping Alpha·dq on the state's rows.
 func (c *Context) ChargeDeriv(k, col int, dq float64) {
 	if col < 0 || c.Alpha == 0 {
 		return
 	}
+	if n := c.NSlopes; n < len(c.Slopes) {
+		c.Slopes[n] = Slope{State: int32(c.StateBase + k), Col: int32(col), D: dq}
+	}
+	c.NSlopes++
 	r := c.Rows[c.StateBase+k]
 	v := c.Alpha * dq
 	c.AddJ(r.Plus, col, v)

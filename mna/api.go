@@ -159,7 +159,10 @@ var ErrInterrupted = errors.New("interrupted")
 type Stats struct {
 	Steps    int // accepted time steps
 	Rejected int // steps rejected by the error control or by Newton failure
-	Newton   int // Newton iterations over the transient
+	// Newton counts the Newton iterations of the transient, that is its
+	// evaluations of the circuit: an update taken without evaluating its
+	// point adds none.
+	Newton   int
 	DCNewton int // Newton iterations of the operating point
 	// Factorisations counts the LU factorisations of the transient: a
 	// Newton iteration that converges, or that takes a chord step with the

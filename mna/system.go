@@ -15,14 +15,15 @@ import (
 // and every buffer a solution needs. It is reused across runs (the runs of a
 // sweep) and is not safe for concurrent use: give each goroutine its own.
 type System struct {
-	nodeNames   []string // circuit nodes, in result order
-	nodeIdx     []int    // unknown of each circuit node
-	unknowns    []string // display name of every unknown
-	isNode      []bool   // KCL row (true) or branch row (false)
-	nodeRows    []int    // the KCL rows, which carry the shunt conductance
-	owner       []int    // device owning an internal unknown, -1 for circuit nodes
-	circuitNode []int    // circuit node of each unknown, -1 for internal ones
-	nodeDevs    [][]int  // devices touching each circuit node, for hints
+	nodeNames   []string  // circuit nodes, in result order
+	nodeIdx     []int     // unknown of each circuit node
+	unknowns    []string  // display name of every unknown
+	isNode      []bool    // KCL row (true) or branch row (false)
+	nodeMask    []float64 // 1 for a KCL row, 0 for a branch row
+	nodeRows    []int     // the KCL rows, which carry the shunt conductance
+	owner       []int     // device owning an internal unknown, -1 for circuit nodes
+	circuitNode []int     // circuit node of each unknown, -1 for internal ones
+	nodeDevs    [][]int   // devices touching each circuit node, for hints
 	devs        []device
 	elements    []string
 	probes      []devices.Probe
@@ -44,9 +45,10 @@ type System struct {
 	jacBuf          []float64
 	jacSrc, jacDiag []int32
 	lu              *sparseLU
-	luOK            bool      // lu holds the factors of a recent matrix
-	scale           []float64 // largest single contribution on each row, for the residual test
-	noise           []float64 // size of the cancelling state terms on each row, for the same
+	luOK            bool       // lu holds the factors of a recent matrix
+	eta             [2]float64 // Newton's contraction factors θ/(1−θ), last measured and relaxed since (see newton)
+	scale           []float64  // largest single contribution on each row, for the residual test
+	noise           []float64  // size of the cancelling state terms on each row, for the same
 	// Devices stamp in one of two ways. A small circuit (n ≤ denseMax)
 	// stamps into a dense n×n Jacobian, dense, from which the pattern's
 	// entries are gathered: the fastest way for tens of unknowns. A large
@@ -90,7 +92,15 @@ type System struct {
 	ht          [3]float64
 	hHead, hLen int
 
-	termCur        []float64 // current into every device terminal (flattened), A
+	termCur []float64 // current into every device terminal (flattened), A
+	// termJ holds the derivatives of the terminal currents with respect to
+	// their device's unknowns (the terminal's row of the device's own
+	// Jacobian) at the last evaluation: entry e is d termCur[tjCur[e]] /
+	// d x[tjCol[e]], a device's entries running from its tjLo to its tjHi,
+	// terminal by terminal in the order of touched. jsnap is the scratch
+	// that tells them apart from earlier devices' stamps.
+	termJ, jsnap   []float64
+	tjCur, tjCol   []int32
 	termV, termI   []float64 // every terminal's voltage and current at the last accepted point
 	stepEnergy     []float64 // each element's ledger entry over the last step, J
 	curTr          []waveforms.Tracker
@@ -107,17 +117,24 @@ type System struct {
 
 // device is one compiled element with the engine's bookkeeping.
 type device struct {
-	dev       devices.Device
-	nodes     devices.Nodes
-	term      []int   // terminal rows (Ground allowed)
-	touched   []int   // distinct rows the device may stamp
-	jpos      []int32 // position in the Jacobian's entries of each (touched, touched) pair
-	prior     []int   // indices in touched of the rows an earlier device stamps too
-	shared    []bool  // for each row in touched, whether it is in prior
-	termSnap  []int   // for each terminal, its index in touched, or -1
-	stateLo   int
-	stateHi   int
-	curBase   int
+	dev      devices.Device
+	nodes    devices.Nodes
+	term     []int   // terminal rows (Ground allowed)
+	touched  []int   // distinct rows the device may stamp
+	jpos     []int32 // position in the Jacobian's entries of each (touched, touched) pair
+	prior    []int   // indices in touched of the rows an earlier device stamps too
+	shared   []bool  // for each row in touched, whether it is in prior
+	termSnap []int   // for each terminal, its index in touched, or -1
+	stateLo  int
+	stateHi  int
+	curBase  int
+	tjLo     int // the device's entries of termJ
+	tjHi     int
+	// Dense stamping: the place in the dense Jacobian of each of the
+	// device's entries of termJ, and those (counted from tjLo) that an
+	// earlier device stamps too.
+	tjPos     []int32
+	tjPrior   []int32
 	probeBase int
 	nProbe    int
 	prober    devices.Prober
@@ -252,9 +269,11 @@ func Compile(c *netlist.Circuit) (*System, error) {
 			stamped[r] = true
 		}
 	}
+	s.nodeMask = make([]float64, s.n)
 	for i, node := range s.isNode {
 		if node {
 			s.nodeRows = append(s.nodeRows, i)
+			s.nodeMask[i] = 1
 		}
 	}
 	for di := range s.devs {
@@ -305,6 +324,24 @@ func Compile(c *netlist.Circuit) (*System, error) {
 			}
 		}
 	}
+	var tjRow []int32 // the row of each entry of termJ
+	for di := range s.devs {
+		d := &s.devs[di]
+		d.tjLo = len(s.tjCur)
+		for t, k := range d.termSnap {
+			if k < 0 {
+				continue
+			}
+			for _, c := range d.touched {
+				s.tjCur = append(s.tjCur, int32(d.curBase+t))
+				s.tjCol = append(s.tjCol, int32(c))
+				tjRow = append(tjRow, int32(d.touched[k]))
+			}
+		}
+		d.tjHi = len(s.tjCur)
+	}
+	s.termJ = make([]float64, len(s.tjCur))
+	s.jsnap = make([]float64, maxTouched*maxTouched)
 	s.jacSrc = make([]int32, s.pat.nnz())
 	if n <= denseMax {
 		s.dense = make([]float64, n*n)
@@ -315,6 +352,22 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		}
 		s.jacBuf = s.dense
 		s.snap = make([]float64, maxTouched)
+		both := make([]bool, n*n) // entries stamped by the devices so far
+		for di := range s.devs {
+			d := &s.devs[di]
+			for e := d.tjLo; e < d.tjHi; e++ {
+				p := tjRow[e]*int32(n) + s.tjCol[e]
+				if both[p] {
+					d.tjPrior = append(d.tjPrior, int32(e-d.tjLo))
+				}
+				d.tjPos = append(d.tjPos, p)
+			}
+			for _, r := range d.touched {
+				for _, c := range d.touched {
+					both[r*n+c] = true
+				}
+			}
+		}
 	} else {
 		s.jac = make([]float64, s.pat.nnz())
 		for e := range s.jacSrc {
@@ -359,6 +412,13 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.pairScale = make([]float64, len(s.pairs))
 	s.xMin = make([]float64, n)
 	s.termCur = make([]float64, nTerm)
+	nSlopes := 0
+	for di := range s.devs {
+		d := &s.devs[di]
+		// Each state's derivatives by each of the device's unknowns, with
+		// room for a device that gives some in parts.
+		nSlopes += 2 * (d.stateHi - d.stateLo) * len(d.touched)
+	}
 	s.termV = make([]float64, nTerm)
 	s.termI = make([]float64, nTerm)
 	s.stepEnergy = make([]float64, len(s.devs))
@@ -374,7 +434,7 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	}
 	s.ctx = devices.Context{
 		X: s.x, F: s.f, J: s.dense, N: n, Local: s.local,
-		Q: s.q, Rows: s.rows, SourceScale: 1,
+		Q: s.q, Rows: s.rows, SourceScale: 1, Slopes: make([]devices.Slope, nSlopes),
 	}
 	return s, nil
 }

@@ -39,8 +39,10 @@ type VerifiedQuantity struct {
 	Value   float64   `json:"value"`
 	Tighter float64   `json:"tighter"`
 	// Difference is Value − Tighter; Relative is |Difference| over the
-	// larger magnitude of the two, or over the quantity's noise floor when
-	// both sit below it: a millivolt, a milliampere, and for an energy a
+	// quantity's scale: for a highest or lowest voltage the largest
+	// magnitude it reached on its side of zero (as the engine states its
+	// accuracy), for the others the larger magnitude of the two; at least
+	// the noise floor: a millivolt, a milliampere, and for an energy a
 	// hundred-thousandth of the energy delivered (the integrator leaves
 	// the net energy of a part that only stores it, an inductor carrying
 	// the strike, at a few millionths of the delivered).
@@ -114,10 +116,13 @@ func Verify(ctx context.Context, c *netlist.Circuit, runs []Run, opt *Options) e
 func compare(r, t *Run, acc float64) *Verification {
 	v := &Verification{Accuracy: acc, Tighter: acc / 10}
 	energyFloor := 1e-5 * math.Abs(r.Ledger.Delivered)
-	add := func(name string, unit spec.Unit, a, b float64) {
+	scaleOf := map[float64]float64{} // an extreme's scale, by its value (for the limits that read it)
+	// addScaled compares a and b relative to scale, at least the unit's
+	// noise floor.
+	addScaled := func(name string, unit spec.Unit, a, b, scale float64) {
 		floor := map[spec.Unit]float64{spec.Volt: 1e-3, spec.Ampere: 1e-3, spec.Joule: energyFloor}[unit]
 		d := a - b
-		rel := math.Abs(d) / math.Max(math.Max(math.Abs(a), math.Abs(b)), floor)
+		rel := math.Abs(d) / math.Max(scale, floor)
 		if math.IsNaN(rel) || math.IsInf(rel, 0) {
 			rel = 0
 		}
@@ -131,12 +136,33 @@ func compare(r, t *Run, acc float64) *Verification {
 			v.Worst = &w
 		}
 	}
+	add := func(name string, unit spec.Unit, a, b float64) {
+		s, ok := scaleOf[a]
+		if !ok {
+			s = math.Max(math.Abs(a), math.Abs(b))
+		}
+		addScaled(name, unit, a, b, s)
+	}
+	// extremes compares a highest and a lowest value as the engine states
+	// its accuracy: each relative to the largest magnitude the quantity
+	// reached on its side of zero (a rail's dip to 0.5 V from 5 V is held
+	// to a share of 5 V, not of 0.5 V).
+	extremes := func(name string, hi, lo, thi, tlo float64, hiName, loName string) {
+		side := func(x float64) float64 {
+			if x >= 0 {
+				return math.Max(math.Max(hi, thi), 0)
+			}
+			return -math.Min(math.Min(lo, tlo), 0)
+		}
+		scaleOf[hi], scaleOf[lo] = side(hi), side(lo)
+		addScaled(name+" "+hiName, spec.Volt, hi, thi, side(hi))
+		addScaled(name+" "+loName, spec.Volt, lo, tlo, side(lo))
+	}
 	for i, n := range r.Nodes {
 		if i >= len(t.Nodes) || t.Nodes[i].Name != n.Name {
 			continue
 		}
-		add(n.Name+" max", spec.Volt, n.Max, t.Nodes[i].Max)
-		add(n.Name+" min", spec.Volt, n.Min, t.Nodes[i].Min)
+		extremes(n.Name, n.Max, n.Min, t.Nodes[i].Max, t.Nodes[i].Min, "max", "min")
 	}
 	for i, e := range r.Elements {
 		if i >= len(t.Elements) || t.Elements[i].Name != e.Name {
@@ -152,8 +178,7 @@ func compare(r, t *Run, acc float64) *Verification {
 			add(e.Name+" energy", spec.Joule, e.Energy, te.Energy)
 		}
 		if e.Residual != nil && te.Residual != nil {
-			add(e.Name+" residual peak", spec.Volt, e.Residual.Peak, te.Residual.Peak)
-			add(e.Name+" residual low", spec.Volt, e.Residual.Min, te.Residual.Min)
+			extremes(e.Name, e.Residual.Peak, e.Residual.Min, te.Residual.Peak, te.Residual.Min, "residual peak", "residual low")
 			add(e.Name+" internal-path current", spec.Ampere, e.Residual.IPath, te.Residual.IPath)
 		}
 		for _, p := range e.Probes {
