@@ -7,6 +7,8 @@ import (
 	"io"
 	"strings"
 
+	"github.com/spf13/pflag"
+
 	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/report"
 	"zapnet/devices/spec"
@@ -26,10 +28,7 @@ type acOptions struct {
 	pictures   pictureOptions
 }
 
-func runAC(args []string, stdout, stderr io.Writer) error {
-	fs := newFlags("ac",
-		"ac DECK [--from F] [--to F] [--points-per-decade N] [--interface NAME] [--step-level V] [--step-rise TIME] [--json FILE] [--csv FILE] [--touchstone FILE] [--plot DIR] [--html FILE]",
-		`  zapnet ac testdata/usb-fs-port.zap
+const acExample = `  zapnet ac testdata/usb-fs-port.zap
   zapnet ac testdata/rail-bead.zap --from 1k --to 100M
   zapnet ac testdata/usb-fs-port.zap --interface usb2-fs --touchstone line.s2p --html line.html
 
@@ -46,21 +45,13 @@ With ports: two ports make a two-port (return and insertion loss,
 engine, its 10–90 % rise measured at the other ports and at every node
 with rise=. --interface applies an interface's budgets (README).
 Exit status: 0 every limit kept, 1 a limit exceeded, 2 unusable input or
-a failed solve.`,
-		stderr)
-	from := fs.String("from", "10k", "lowest frequency of the sweep, e.g. 10k or 10kHz")
-	to := fs.String("to", "6G", "highest frequency of the sweep, e.g. 6G")
-	ppd := fs.Int("points-per-decade", signal.DefaultPerDecade, "frequencies a decade, on a grid aligned to the decades")
-	iface := fs.String("interface", "", "apply an interface's capacitance and rise-time budgets: "+strings.Join(signal.BudgetNames(), ", "))
-	stepLevel := fs.String("step-level", "1", "the edge check's step, its open-circuit amplitude in volts (junction capacitance depends on the swing)")
-	stepRise := fs.String("step-rise", "1p", "the edge check's step, its linear ramp from 0 to 100 %")
-	noDamping := fs.Bool("no-damping", false, "skip the search for damping values")
-	jsonPath := fs.String("json", "", "write the results as JSON to `FILE` (- for stdout, the tables then go to stderr)")
-	csvPath := fs.String("csv", "", "write the sweep as CSV to `FILE` (- for stdout): gain and phase of every node, impedances, S-parameters")
-	touch := fs.String("touchstone", "", "write the two-port's S-parameters as a Touchstone v1 file (.s2p) to `FILE`; needs two ports of one z0")
-	pictures := addPictureFlags(fs)
-	fs.Lookup("plot").Usage = "write SVG figures into folder `DIR` (created when missing): Bode gain and phase, impedances, S-parameters"
-	fs.Lookup("html").Usage = "write one self-contained HTML report to `FILE`: caution, the tables, the figures and the deck (opens offline)"
+a failed solve.`
+
+func runAC(args []string, stdout, stderr io.Writer) error {
+	fs := newFlags("ac",
+		"ac DECK [--from F] [--to F] [--points-per-decade N] [--interface NAME] [--step-level V] [--step-rise TIME] [--json FILE] [--csv FILE] [--touchstone FILE] [--plot DIR] [--html FILE]",
+		acExample, stderr)
+	flags := addACFlags(fs)
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
@@ -68,48 +59,85 @@ a failed solve.`,
 	if err != nil {
 		return err
 	}
-	opt := acOptions{deck: deck, json: *jsonPath, csv: *csvPath, touchstone: *touch, pictures: pictures.options()}
+	opt, err := flags.options(deck)
+	if err != nil {
+		return err
+	}
+	return acStudy(opt, stdout, stderr)
+}
+
+// acFlags hold the flag values of `zapnet ac` until parsing is done.
+type acFlags struct {
+	from, to, stepLevel, stepRise, iface *string
+	ppd                                  *int
+	noDamping                            *bool
+	json, csv, touchstone                *string
+	pictures                             *pictureFlags
+}
+
+func addACFlags(fs *pflag.FlagSet) *acFlags {
+	f := &acFlags{}
+	f.from = fs.String("from", "10k", "lowest frequency of the sweep, e.g. 10k or 10kHz")
+	f.to = fs.String("to", "6G", "highest frequency of the sweep, e.g. 6G")
+	f.ppd = fs.Int("points-per-decade", signal.DefaultPerDecade, "frequencies a decade, on a grid aligned to the decades")
+	f.iface = fs.String("interface", "", "apply an interface's capacitance and rise-time budgets: "+strings.Join(signal.BudgetNames(), ", "))
+	f.stepLevel = fs.String("step-level", "1", "the edge check's step, its open-circuit amplitude in volts (junction capacitance depends on the swing)")
+	f.stepRise = fs.String("step-rise", "1p", "the edge check's step, its linear ramp from 0 to 100 %")
+	f.noDamping = fs.Bool("no-damping", false, "skip the search for damping values")
+	f.json = fs.String("json", "", "write the results as JSON to `FILE` (- for stdout, the tables then go to stderr)")
+	f.csv = fs.String("csv", "", "write the sweep as CSV to `FILE` (- for stdout): gain and phase of every node, impedances, S-parameters")
+	f.touchstone = fs.String("touchstone", "", "write the two-port's S-parameters as a Touchstone v1 file (.s2p) to `FILE`; needs two ports of one z0")
+	f.pictures = addPictureFlags(fs)
+	fs.Lookup("plot").Usage = "write SVG figures into folder `DIR` (created when missing): Bode gain and phase, impedances, S-parameters"
+	fs.Lookup("html").Usage = "write one self-contained HTML report to `FILE`: caution, the tables, the figures and the deck (opens offline)"
+	return f
+}
+
+// options reads the values of the flags into the settings of the analysis
+// of deck, reporting every unusable one at once.
+func (f *acFlags) options(deck string) (acOptions, error) {
+	opt := acOptions{deck: deck, json: *f.json, csv: *f.csv, touchstone: *f.touchstone, pictures: f.pictures.options()}
 	a := &opt.analysis
-	a.PerDecade, a.NoDamping = *ppd, *noDamping
+	a.PerDecade, a.NoDamping = *f.ppd, *f.noDamping
 	var errs []error
-	for _, f := range []struct {
+	for _, v := range []struct {
 		name, text string
 		unit       spec.Unit
 		rule       spec.Rule
 		dst        *float64
 	}{
-		{"--from", *from, spec.Hertz, spec.Positive, &a.From},
-		{"--to", *to, spec.Hertz, spec.Positive, &a.To},
-		{"--step-level", *stepLevel, spec.Volt, spec.Any, &a.StepLevel},
-		{"--step-rise", *stepRise, spec.Second, spec.Positive, &a.StepRise},
+		{"--from", *f.from, spec.Hertz, spec.Positive, &a.From},
+		{"--to", *f.to, spec.Hertz, spec.Positive, &a.To},
+		{"--step-level", *f.stepLevel, spec.Volt, spec.Any, &a.StepLevel},
+		{"--step-rise", *f.stepRise, spec.Second, spec.Positive, &a.StepRise},
 	} {
-		v, err := netlist.ParseValue(f.name, f.text, f.unit, f.rule)
+		x, err := netlist.ParseValue(v.name, v.text, v.unit, v.rule)
 		if err != nil {
-			errs = append(errs, fmt.Errorf("%s: %w", f.name, err))
+			errs = append(errs, fmt.Errorf("%s: %w", v.name, err))
 			continue
 		}
-		*f.dst = v
+		*v.dst = x
 	}
-	if *ppd < 1 || *ppd > 1000 {
-		errs = append(errs, fmt.Errorf("--points-per-decade: want 1 to 1000, have %d", *ppd))
+	if *f.ppd < 1 || *f.ppd > 1000 {
+		errs = append(errs, fmt.Errorf("--points-per-decade: want 1 to 1000, have %d", *f.ppd))
 	}
 	if a.From > 0 && a.To > 0 && !(a.To > a.From) {
-		errs = append(errs, fmt.Errorf("--to (%s) must be above --from (%s)", *to, *from))
+		errs = append(errs, fmt.Errorf("--to (%s) must be above --from (%s)", *f.to, *f.from))
 	}
-	if a.StepLevel == 0 && *stepLevel != "" {
+	if a.StepLevel == 0 && *f.stepLevel != "" {
 		errs = append(errs, errors.New("--step-level: a step of 0 V moves nothing"))
 	}
-	if *iface != "" {
-		b, ok := signal.LookupBudget(*iface)
+	if *f.iface != "" {
+		b, ok := signal.LookupBudget(*f.iface)
 		if !ok {
-			errs = append(errs, fmt.Errorf("--interface: unknown interface %q (known: %s)", *iface, strings.Join(signal.BudgetNames(), ", ")))
+			errs = append(errs, fmt.Errorf("--interface: unknown interface %q (known: %s)", *f.iface, strings.Join(signal.BudgetNames(), ", ")))
 		}
 		a.Interface = &b
 	}
 	if len(errs) > 0 {
-		return fmt.Errorf("ac: %w", errors.Join(errs...))
+		return opt, fmt.Errorf("ac: %w", errors.Join(errs...))
 	}
-	return acStudy(opt, stdout, stderr)
+	return opt, nil
 }
 
 // acStudy reads the deck, analyses its signal side, prints the tables and

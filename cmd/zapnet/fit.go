@@ -8,9 +8,13 @@ import (
 	"path/filepath"
 	"strings"
 
+	"github.com/spf13/pflag"
+
 	"zapnet/cmd/internal/plots"
 	"zapnet/cmd/internal/report"
+	"zapnet/devices/spec"
 	"zapnet/mna/fit"
+	"zapnet/netlist"
 	"zapnet/netlist/datafile"
 )
 
@@ -33,6 +37,80 @@ type fitOutputs struct {
 	name string // the part's name; "" from the data
 	json string // --json file, "-" stdout
 	plot string // --plot folder
+}
+
+// addFitOutputs adds --name, --json and --plot to a fit's flag set;
+// nameFrom says where the default name comes from, drawn what the figures
+// show.
+func addFitOutputs(fs *pflag.FlagSet, nameFrom, drawn string) *fitOutputs {
+	o := &fitOutputs{}
+	fs.StringVar(&o.name, "name", "", "the part's `NAME` (default: "+nameFrom+")")
+	fs.StringVar(&o.json, "json", "", "write the result as JSON to `FILE` (- for stdout)")
+	fs.StringVar(&o.plot, "plot", "", "draw "+drawn+" as SVG into folder `DIR`")
+	return o
+}
+
+// partName is --name, or def without it, refused where the deck language
+// would not read it.
+func (o fitOutputs) partName(def string) (string, error) {
+	name := def
+	if o.name != "" {
+		name = o.name
+	}
+	return name, checkPartName(name)
+}
+
+// checkPartName refuses a name the deck language would not read.
+func checkPartName(name string) error {
+	if name == "" {
+		return errors.New("the part needs a name: give --name")
+	}
+	for i, r := range name {
+		ok := r == '_' || (r >= 'a' && r <= 'z') || (r >= 'A' && r <= 'Z') || (i > 0 && (r == '-' || r == '.' || (r >= '0' && r <= '9')))
+		if !ok {
+			return fmt.Errorf("%q is not a part name: it starts with a letter or _ and holds letters, digits, _, - and .", name)
+		}
+	}
+	return nil
+}
+
+// oneSource checks that exactly one kind of data is given and nothing
+// else beside the options; msg says which kinds there are.
+func oneSource(fs *pflag.FlagSet, msg string, given ...bool) error {
+	n := 0
+	for _, g := range given {
+		if g {
+			n++
+		}
+	}
+	if n != 1 || fs.NArg() != 0 {
+		fs.Usage()
+		return errors.New(msg)
+	}
+	return nil
+}
+
+// optionalValue reads an option's value in unit; 0 when it is not given.
+func optionalValue(flag, text string, unit spec.Unit, rule spec.Rule) (float64, error) {
+	if text == "" {
+		return 0, nil
+	}
+	return netlist.ParseValue(flag, text, unit, rule)
+}
+
+// readFitData reads the data file at path with read; what starts the
+// messages ("fit clamp").
+func readFitData[T any](what, path string, read func(string, []byte) (T, error)) (T, error) {
+	var zero T
+	src, err := readData(path)
+	if err != nil {
+		return zero, fmt.Errorf("%s: %w", what, err)
+	}
+	v, err := read(path, src)
+	if err != nil {
+		return zero, fitError(what, err)
+	}
+	return v, nil
 }
 
 // runFit dispatches zapnet fit clamp|bead|pin.

@@ -30,42 +30,71 @@ func runFitBead(args []string, stdout, stderr io.Writer) error {
 	ts := fs.StringArray("touchstone", nil, "fit to a Touchstone `FILE` (.s1p, .s2p), optionally @ the DC bias, e.g. b.s2p@0.5A (repeatable)")
 	zcsv := fs.String("z", "", "fit to an impedance CSV `FILE` (f, z [, phase] or f, r, x [, idc])")
 	rdc := fs.String("rdc", "", "hold the DC resistance at this value (a datasheet's), e.g. 90m")
-	var o fitOutputs
-	fs.StringVar(&o.name, "name", "", "the part's `NAME` (default: the file's name)")
-	fs.StringVar(&o.json, "json", "", "write the result as JSON to `FILE` (- for stdout)")
-	fs.StringVar(&o.plot, "plot", "", "draw the data and the fit as SVG into folder `DIR`")
+	o := addFitOutputs(fs, "the file's name", "the data and the fit")
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
-	if (len(*ts) > 0) == (*zcsv != "") || fs.NArg() != 0 {
-		fs.Usage()
-		return errors.New("fit bead: give --touchstone or --z")
+	if err := oneSource(fs, "fit bead: give --touchstone or --z", len(*ts) > 0, *zcsv != ""); err != nil {
+		return err
 	}
 	opt := &fit.BeadOptions{}
-	if *rdc != "" {
-		v, err := netlist.ParseValue("--rdc", *rdc, spec.Ohm, spec.Positive)
-		if err != nil {
-			return fmt.Errorf("fit bead: %w", err)
-		}
-		opt.Rdc = v
+	var err error
+	if opt.Rdc, err = optionalValue("--rdc", *rdc, spec.Ohm, spec.Positive); err != nil {
+		return fmt.Errorf("fit bead: %w", err)
 	}
-	var curves []fit.BeadCurve
-	var sources, notes []string
-	name := ""
+	var in beadInput
 	if *zcsv != "" {
-		src, err := readData(*zcsv)
-		if err != nil {
-			return fmt.Errorf("fit bead: %w", err)
-		}
-		im, err := datafile.ReadImpedance(*zcsv, src)
-		if err != nil {
-			return fitError("fit bead", err)
-		}
-		curves = fit.BeadCurveOf(im)
-		sources, name = []string{*zcsv}, stem(*zcsv)
+		in, err = readBeadCSV(*zcsv)
+	} else {
+		in, err = readBeadTouchstones(*ts)
 	}
+	if err != nil {
+		return err
+	}
+	name, err := o.partName(in.name)
+	if err != nil {
+		return fmt.Errorf("fit bead: %w", err)
+	}
+	if err := o.check(in.paths); err != nil {
+		return fmt.Errorf("fit bead: %w", err)
+	}
+	f, err := fit.FitBead(in.curves, opt)
+	if err != nil {
+		return fmt.Errorf("fit bead: %w", err)
+	}
+	doc := f.Document(beadPart(name, f.Params), in.sources)
+	if opt.Rdc > 0 {
+		doc.SetFrom("rdc", "--rdc")
+	}
+	doc.Notes = append(in.notes, doc.Notes...)
+	return finishFit(doc, *o, stdout)
+}
+
+// beadInput is the data of a bead fit and what it was read from.
+type beadInput struct {
+	curves  []fit.BeadCurve
+	sources []string // as given, a Touchstone file's @BIAS included
+	paths   []string // the files read
+	notes   []string
+	name    string // the part's default name, the (first) file's
+}
+
+// readBeadCSV reads an impedance CSV, a curve for each DC current.
+func readBeadCSV(path string) (beadInput, error) {
+	im, err := readFitData("fit bead", path, datafile.ReadImpedance)
+	if err != nil {
+		return beadInput{}, err
+	}
+	return beadInput{curves: fit.BeadCurveOf(im), sources: []string{path}, paths: []string{path}, name: stem(path)}, nil
+}
+
+// readBeadTouchstones reads each --touchstone FILE[@BIAS] as a curve at
+// its bias, with a note of how the file was read; it reports the problems
+// of every file at once.
+func readBeadTouchstones(args []string) (beadInput, error) {
+	var in beadInput
 	var errs []error
-	for _, arg := range *ts {
+	for _, arg := range args {
 		path, bias := arg, 0.0
 		if k := strings.LastIndexByte(arg, '@'); k > 0 {
 			v, err := netlist.ParseValue("the bias of "+arg[:k], arg[k+1:], spec.Ampere, spec.NonNegative)
@@ -90,45 +119,28 @@ func runFitBead(args []string, stdout, stderr io.Writer) error {
 			errs = append(errs, fitError(path, err))
 			continue
 		}
-		curves = append(curves, c)
-		sources = append(sources, arg)
-		notes = append(notes, fmt.Sprintf("%s: %s", path, how))
-		if name == "" {
-			name = stem(path)
+		in.curves = append(in.curves, c)
+		in.sources = append(in.sources, arg)
+		in.paths = append(in.paths, path)
+		in.notes = append(in.notes, fmt.Sprintf("%s: %s", path, how))
+		if in.name == "" {
+			in.name = stem(path)
 		}
 	}
 	if err := errors.Join(errs...); err != nil {
-		return fmt.Errorf("fit bead: %w", err)
+		return in, fmt.Errorf("fit bead: %w", err)
 	}
-	if o.name != "" {
-		name = o.name
-	}
-	if err := checkPartName(name); err != nil {
-		return fmt.Errorf("fit bead: %w", err)
-	}
-	inputs := append([]string(nil), sources...)
-	for k, src := range inputs {
-		if i := strings.LastIndexByte(src, '@'); i > 0 && src != *zcsv {
-			inputs[k] = src[:i]
-		}
-	}
-	if err := o.check(inputs); err != nil {
-		return fmt.Errorf("fit bead: %w", err)
-	}
-	f, err := fit.FitBead(curves, opt)
-	if err != nil {
-		return fmt.Errorf("fit bead: %w", err)
-	}
+	return in, nil
+}
+
+// beadPart is the part line of a fitted bead; isat only where the curves
+// told it.
+func beadPart(name string, p fit.BeadParams) fit.Part {
 	part := fit.Part{Name: name, Kind: "bead", Num: []fit.Num{
-		{Key: "rdc", Value: f.Params.Rdc, Unit: "Ω"}, {Key: "l", Value: f.Params.L, Unit: "H"},
-		{Key: "c", Value: f.Params.C, Unit: "F"}, {Key: "rac", Value: f.Params.Rac, Unit: "Ω"}}}
-	if f.Params.Isat > 0 {
-		part.Num = append(part.Num, fit.Num{Key: "isat", Value: f.Params.Isat, Unit: "A"})
+		{Key: "rdc", Value: p.Rdc, Unit: "Ω"}, {Key: "l", Value: p.L, Unit: "H"},
+		{Key: "c", Value: p.C, Unit: "F"}, {Key: "rac", Value: p.Rac, Unit: "Ω"}}}
+	if p.Isat > 0 {
+		part.Num = append(part.Num, fit.Num{Key: "isat", Value: p.Isat, Unit: "A"})
 	}
-	doc := f.Document(part, sources)
-	if opt.Rdc > 0 {
-		doc.SetFrom("rdc", "--rdc")
-	}
-	doc.Notes = append(notes, doc.Notes...)
-	return finishFit(doc, o, stdout)
+	return part
 }

@@ -1,14 +1,12 @@
 package main
 
 import (
-	"errors"
 	"fmt"
 	"io"
 	"strings"
 
 	"zapnet/devices/spec"
 	"zapnet/mna/fit"
-	"zapnet/netlist"
 	"zapnet/netlist/datafile"
 )
 
@@ -26,6 +24,26 @@ const fitClampExample = `  zapnet fit clamp --tlp testdata/fit/tvs5-tlp.csv
   statement. Clamping voltages (vc) name their pulse: 8/20, 10/1000 or tlp;
   each is simulated through the engine with that pulse.`
 
+// fitClampOptions are the settings of `zapnet fit clamp`.
+type fitClampOptions struct {
+	tlp       string   // TLP CSV, "" for none
+	datasheet string   // datasheet-points file, "" for none
+	points    []string // --point statements
+	snapback  bool
+	polarity  string // "uni", "bi" or "" (from the data)
+	honour    fit.Honour
+	ls        float64 // H, 0 for none
+}
+
+// clampInput is the data of a clamp fit and what it was read from.
+type clampInput struct {
+	data    []fit.Datum
+	sources []string
+	pub     fit.Published
+	notes   []string
+	it2     float64 // the failure current, 0 unknown
+}
+
 // runFitClamp fits a clamp or a snapback clamp.
 func runFitClamp(args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("fit clamp", "fit clamp (--tlp FILE | --datasheet FILE | --point STATEMENT...) [options]", fitClampExample, stderr)
@@ -36,22 +54,12 @@ func runFitClamp(args []string, stdout, stderr io.Writer) error {
 	pol := fs.String("polarity", "", "uni or bi (default: from the data)")
 	honour := fs.String("honour", "tlp", "where a TLP curve and a surge clamping voltage disagree, keep `tlp` or surge")
 	ls := fs.String("ls", "", "lead inductance to put in the part, e.g. 0.5nH")
-	var o fitOutputs
-	fs.StringVar(&o.name, "name", "", "the part's `NAME` (default: from the data)")
-	fs.StringVar(&o.json, "json", "", "write the result as JSON to `FILE` (- for stdout)")
-	fs.StringVar(&o.plot, "plot", "", "draw the data and the fit as SVG into folder `DIR`")
+	o := addFitOutputs(fs, "from the data", "the data and the fit")
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
-	given := 0
-	for _, g := range []bool{*tlp != "", *ds != "", len(*points) > 0} {
-		if g {
-			given++
-		}
-	}
-	if given != 1 || fs.NArg() != 0 {
-		fs.Usage()
-		return errors.New("fit clamp: give one of --tlp, --datasheet or --point")
+	if err := oneSource(fs, "fit clamp: give one of --tlp, --datasheet or --point", *tlp != "", *ds != "", len(*points) > 0); err != nil {
+		return err
 	}
 	if *pol != "" && *pol != "uni" && *pol != "bi" {
 		return fmt.Errorf("fit clamp: --polarity is uni or bi, not %q", *pol)
@@ -59,138 +67,162 @@ func runFitClamp(args []string, stdout, stderr io.Writer) error {
 	if *honour != "tlp" && *honour != "surge" {
 		return fmt.Errorf("fit clamp: --honour is tlp or surge, not %q", *honour)
 	}
-	var lsVal float64
-	if *ls != "" {
-		v, err := netlist.ParseValue("--ls", *ls, spec.Henry, spec.NonNegative)
-		if err != nil {
-			return fmt.Errorf("fit clamp: %w", err)
-		}
-		lsVal = v
+	opt := fitClampOptions{tlp: *tlp, datasheet: *ds, points: *points, snapback: *snap, polarity: *pol, honour: fit.HonourTLP}
+	if *honour == "surge" {
+		opt.honour = fit.HonourSurge
 	}
+	var err error
+	if opt.ls, err = optionalValue("--ls", *ls, spec.Henry, spec.NonNegative); err != nil {
+		return fmt.Errorf("fit clamp: %w", err)
+	}
+	return fitClamp(opt, *o, stdout)
+}
 
-	var data []fit.Datum
-	var sources []string
-	pub := fit.Published{Polarity: *pol, Ls: lsVal}
-	var notes []string
-	it2 := 0.0
-	switch {
-	case *tlp != "":
-		src, err := readData(*tlp)
-		if err != nil {
-			return fmt.Errorf("fit clamp: %w", err)
-		}
-		t, err := datafile.ReadTLP(*tlp, src)
-		if err != nil {
-			return fitError("fit clamp", err)
-		}
-		for _, n := range t.Notes {
-			if !*snap {
-				notes = append(notes, n.Error())
-			}
-		}
-		data, it2, notes = appendTLP(t, notes)
-		pub.Name = stem(*tlp)
-		sources = append(sources, *tlp)
-		if *snap {
-			pub.Model = "snapback"
-		}
-	default:
-		name, src := *ds, []byte(nil)
-		if name != "" {
-			b, err := readData(name)
-			if err != nil {
-				return fmt.Errorf("fit clamp: %w", err)
-			}
-			src = b
-			sources = append(sources, name)
-		} else {
-			name = "--point"
-			src = []byte(strings.Join(*points, "\n"))
-			sources = append(sources, "--point")
-		}
-		d, err := datafile.ReadDatasheet(name, src)
-		if err != nil {
-			return fitError("fit clamp", err)
-		}
-		dd, p, err := fit.DatasheetData(d)
-		if err != nil {
-			return fmt.Errorf("fit clamp: %w", err)
-		}
-		data = dd
-		if *pol != "" {
-			p.Polarity = *pol
-		}
-		if lsVal > 0 {
-			p.Ls = lsVal
-		}
-		if *snap {
-			p.Model = "snapback"
-		}
-		if name == "--point" && d.NamePos.Line == 0 {
-			p.Name = "fitted"
-		}
-		pub = p
-		it2 = p.It2
+// fitClamp reads the data, fits the model the data or the options ask for
+// and writes what o asks for.
+func fitClamp(opt fitClampOptions, o fitOutputs, stdout io.Writer) error {
+	var in clampInput
+	var err error
+	if opt.tlp != "" {
+		in, err = readClampTLP(opt)
+	} else {
+		in, err = readClampDatasheet(opt)
 	}
-	if o.name != "" {
-		pub.Name = o.name
+	if err != nil {
+		return err
 	}
-	if err := checkPartName(pub.Name); err != nil {
+	if in.pub.Name, err = o.partName(in.pub.Name); err != nil {
 		return fmt.Errorf("fit clamp: %w", err)
 	}
-	if err := o.check(sources); err != nil {
+	if err := o.check(in.sources); err != nil {
 		return fmt.Errorf("fit clamp: %w", err)
 	}
+	// Where the values the data cannot tell came from.
 	origin := "datasheet"
-	if *tlp != "" {
+	if opt.tlp != "" {
 		origin = "--ls"
 	}
-
 	var doc fit.Document
-	if pub.Model == "snapback" {
-		f, err := fit.FitSnapback(data, &fit.SnapbackOptions{Polarity: pub.Polarity, Ron: pub.Ron, It2: it2, Ls: pub.Ls})
-		if err != nil {
-			return fmt.Errorf("fit clamp --snapback: %w", err)
-		}
-		doc = f.Document(f.Params.Part(pub.Name), sources)
-		for _, k := range []string{"vt1", "it1", "vh", "ih", "ron", "ls", "it2"} {
-			doc.SetFrom(k, origin)
-		}
-		if *tlp != "" && it2 > 0 {
-			doc.SetFrom("it2", "the leakage's jump")
-		}
+	if in.pub.Model == "snapback" {
+		doc, err = snapbackDocument(in, opt, origin)
 	} else {
-		h := fit.HonourTLP
-		if *honour == "surge" {
-			h = fit.HonourSurge
-		}
-		f, err := fit.FitClamp(data, &fit.ClampOptions{Polarity: pub.Polarity, Honour: h, Ls: pub.Ls})
-		if err != nil {
-			return fmt.Errorf("fit clamp: %w", err)
-		}
-		part := f.Params.Part(pub.Name)
-		if pub.Vrwm > 0 {
-			part.Num = append(part.Num, fit.Num{Key: "vrwm", Value: pub.Vrwm, Unit: "V"})
-			if v, ok := leakAt(f.Params, pub.Vrwm); ok {
-				f.Notes = append(f.Notes, v)
-			}
-		}
-		if pub.Ipp > 0 {
-			part.Num = append(part.Num, fit.Num{Key: "ipp", Value: pub.Ipp, Unit: "A"})
-			if pub.IppPulse != fit.Surge8x20 {
-				f.Notes = append(f.Notes, fmt.Sprintf("ipp is published for the %s pulse; the study compares it with any strike's peak current", pub.IppPulse))
-			}
-		}
-		if it2 > 0 {
-			f.Notes = append(f.Notes, fmt.Sprintf("the TLP curve shows the clamp failing at %s (It2); ipp, a surge rating, is not set from it: take ipp from the datasheet", spec.FormatSI(it2, "A")))
-		}
-		doc = f.Document(part, sources)
-		for _, k := range []string{"vrwm", "ipp", "ls"} {
-			doc.SetFrom(k, origin)
+		doc, err = clampDocument(in, opt, origin)
+	}
+	if err != nil {
+		return err
+	}
+	doc.Notes = append(in.notes, doc.Notes...)
+	return finishFit(doc, o, stdout)
+}
+
+// readClampTLP reads the TLP curve opt names.
+func readClampTLP(opt fitClampOptions) (clampInput, error) {
+	in := clampInput{pub: fit.Published{Polarity: opt.polarity, Ls: opt.ls}}
+	t, err := readFitData("fit clamp", opt.tlp, datafile.ReadTLP)
+	if err != nil {
+		return in, err
+	}
+	for _, n := range t.Notes {
+		if !opt.snapback {
+			in.notes = append(in.notes, n.Error())
 		}
 	}
-	doc.Notes = append(notes, doc.Notes...)
-	return finishFit(doc, o, stdout)
+	in.data, in.it2, in.notes = appendTLP(t, in.notes)
+	in.pub.Name = stem(opt.tlp)
+	in.sources = append(in.sources, opt.tlp)
+	if opt.snapback {
+		in.pub.Model = "snapback"
+	}
+	return in, nil
+}
+
+// readClampDatasheet reads the datasheet points of the file or the
+// --point statements opt names; the options win over what the points say.
+func readClampDatasheet(opt fitClampOptions) (clampInput, error) {
+	var in clampInput
+	var d *datafile.Datasheet
+	var err error
+	name := opt.datasheet
+	if name != "" {
+		d, err = readFitData("fit clamp", name, datafile.ReadDatasheet)
+	} else {
+		name = "--point"
+		d, err = datafile.ReadDatasheet(name, []byte(strings.Join(opt.points, "\n")))
+		if err != nil {
+			err = fitError("fit clamp", err)
+		}
+	}
+	if err != nil {
+		return in, err
+	}
+	in.sources = append(in.sources, name)
+	dd, p, err := fit.DatasheetData(d)
+	if err != nil {
+		return in, fmt.Errorf("fit clamp: %w", err)
+	}
+	in.data = dd
+	if opt.polarity != "" {
+		p.Polarity = opt.polarity
+	}
+	if opt.ls > 0 {
+		p.Ls = opt.ls
+	}
+	if opt.snapback {
+		p.Model = "snapback"
+	}
+	if name == "--point" && d.NamePos.Line == 0 {
+		p.Name = "fitted"
+	}
+	in.pub = p
+	in.it2 = p.It2
+	return in, nil
+}
+
+// snapbackDocument fits a snapback clamp.
+func snapbackDocument(in clampInput, opt fitClampOptions, origin string) (fit.Document, error) {
+	pub := in.pub
+	f, err := fit.FitSnapback(in.data, &fit.SnapbackOptions{Polarity: pub.Polarity, Ron: pub.Ron, It2: in.it2, Ls: pub.Ls})
+	if err != nil {
+		return fit.Document{}, fmt.Errorf("fit clamp --snapback: %w", err)
+	}
+	doc := f.Document(f.Params.Part(pub.Name), in.sources)
+	for _, k := range []string{"vt1", "it1", "vh", "ih", "ron", "ls", "it2"} {
+		doc.SetFrom(k, origin)
+	}
+	if opt.tlp != "" && in.it2 > 0 {
+		doc.SetFrom("it2", "the leakage's jump")
+	}
+	return doc, nil
+}
+
+// clampDocument fits a clamp and puts the published ratings in its part.
+func clampDocument(in clampInput, opt fitClampOptions, origin string) (fit.Document, error) {
+	pub := in.pub
+	f, err := fit.FitClamp(in.data, &fit.ClampOptions{Polarity: pub.Polarity, Honour: opt.honour, Ls: pub.Ls})
+	if err != nil {
+		return fit.Document{}, fmt.Errorf("fit clamp: %w", err)
+	}
+	part := f.Params.Part(pub.Name)
+	if pub.Vrwm > 0 {
+		part.Num = append(part.Num, fit.Num{Key: "vrwm", Value: pub.Vrwm, Unit: "V"})
+		if v, ok := leakAt(f.Params, pub.Vrwm); ok {
+			f.Notes = append(f.Notes, v)
+		}
+	}
+	if pub.Ipp > 0 {
+		part.Num = append(part.Num, fit.Num{Key: "ipp", Value: pub.Ipp, Unit: "A"})
+		if pub.IppPulse != fit.Surge8x20 {
+			f.Notes = append(f.Notes, fmt.Sprintf("ipp is published for the %s pulse; the study compares it with any strike's peak current", pub.IppPulse))
+		}
+	}
+	if in.it2 > 0 {
+		f.Notes = append(f.Notes, fmt.Sprintf("the TLP curve shows the clamp failing at %s (It2); ipp, a surge rating, is not set from it: take ipp from the datasheet", spec.FormatSI(in.it2, "A")))
+	}
+	doc := f.Document(part, in.sources)
+	for _, k := range []string{"vrwm", "ipp", "ls"} {
+		doc.SetFrom(k, origin)
+	}
+	return doc, nil
 }
 
 // appendTLP turns a TLP file into fit data with its notes.
@@ -206,18 +238,4 @@ func leakAt(p fit.ClampParams, vrwm float64) (string, bool) {
 		return "", false
 	}
 	return fmt.Sprintf("at its stand-off voltage %s the fitted clamp leaks %s", spec.FormatSI(vrwm, "V"), spec.FormatSI(i, "A")), true
-}
-
-// checkPartName refuses a name the deck language would not read.
-func checkPartName(name string) error {
-	if name == "" {
-		return errors.New("the part needs a name: give --name")
-	}
-	for i, r := range name {
-		ok := r == '_' || (r >= 'a' && r <= 'z') || (r >= 'A' && r <= 'Z') || (i > 0 && (r == '-' || r == '.' || (r >= '0' && r <= '9')))
-		if !ok {
-			return fmt.Errorf("%q is not a part name: it starts with a letter or _ and holds letters, digits, _, - and .", name)
-		}
-	}
-	return nil
 }

@@ -36,77 +36,79 @@ func runFitPin(args []string, stdout, stderr io.Writer) error {
 	ibis := fs.String("ibis", "", "import the pin from an IBIS `FILE`")
 	model := fs.String("model", "", "the IBIS [Model] or pin name")
 	corner := fs.String("corner", "typ", "the IBIS corner: typ, min or max")
-	var o fitOutputs
-	fs.StringVar(&o.name, "name", "", "the part's `NAME` (default: the file's or the model's name)")
-	fs.StringVar(&o.json, "json", "", "write the result as JSON to `FILE` (- for stdout)")
-	fs.StringVar(&o.plot, "plot", "", "draw the data and the table as SVG into folder `DIR`")
+	o := addFitOutputs(fs, "the file's or the model's name", "the data and the table")
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
-	if (*tlp != "") == (*ibis != "") || fs.NArg() != 0 {
-		fs.Usage()
-		return errors.New("fit pin: give --tlp or --ibis")
+	if err := oneSource(fs, "fit pin: give --tlp or --ibis", *tlp != "", *ibis != ""); err != nil {
+		return err
 	}
 	if *ibis != "" {
-		return fitPinIBIS(*ibis, *model, *corner, o, stdout)
+		return fitPinIBIS(*ibis, *model, *corner, *o, stdout)
 	}
-	var given float64
-	if *it2 != "" {
-		v, err := netlist.ParseValue("--it2", *it2, spec.Ampere, spec.Positive)
-		if err != nil {
-			return fmt.Errorf("fit pin: %w", err)
-		}
-		given = v
+	given, err := optionalValue("--it2", *it2, spec.Ampere, spec.Positive)
+	if err != nil {
+		return fmt.Errorf("fit pin: %w", err)
 	}
-	var extra [][2]float64
-	for _, l := range *leak {
-		vs, is, ok := strings.Cut(l, "@")
-		if !ok {
-			return fmt.Errorf("fit pin: --leak %q: write VOLTAGE@CURRENT, e.g. 3.3V@2nA", l)
-		}
-		v, err1 := netlist.ParseValue("the voltage of --leak", vs, spec.Volt, spec.Any)
-		i, err2 := netlist.ParseValue("the current of --leak", is, spec.Ampere, spec.Any)
-		if err := errors.Join(err1, err2); err != nil {
-			return fmt.Errorf("fit pin: %w", err)
-		}
-		extra = append(extra, [2]float64{v, i})
+	extra, err := leakPoints(*leak)
+	if err != nil {
+		return err
 	}
 	if len(extra) > 0 && *table == "" {
 		return errors.New("fit pin: --leak adds points to the table, which the part must name: give --table FILE")
 	}
-	src, err := readData(*tlp)
-	if err != nil {
-		return fmt.Errorf("fit pin: %w", err)
+	return fitPinTLP(*tlp, given, extra, *table, *o, stdout)
+}
+
+// leakPoints reads the --leak points, VOLTAGE@CURRENT each.
+func leakPoints(leaks []string) ([][2]float64, error) {
+	var extra [][2]float64
+	for _, l := range leaks {
+		vs, is, ok := strings.Cut(l, "@")
+		if !ok {
+			return nil, fmt.Errorf("fit pin: --leak %q: write VOLTAGE@CURRENT, e.g. 3.3V@2nA", l)
+		}
+		v, err1 := netlist.ParseValue("the voltage of --leak", vs, spec.Volt, spec.Any)
+		i, err2 := netlist.ParseValue("the current of --leak", is, spec.Ampere, spec.Any)
+		if err := errors.Join(err1, err2); err != nil {
+			return nil, fmt.Errorf("fit pin: %w", err)
+		}
+		extra = append(extra, [2]float64{v, i})
 	}
-	t, err := datafile.ReadTLP(*tlp, src)
+	return extra, nil
+}
+
+// fitPinTLP makes a table-path pin from the TLP curve at path with the
+// failure current given (0: from the leakage's jump) and the extra points
+// below the curve, and writes its table to table ("" for none, the part
+// then naming the curve itself).
+func fitPinTLP(path string, given float64, extra [][2]float64, table string, o fitOutputs, stdout io.Writer) error {
+	t, err := readFitData("fit pin", path, datafile.ReadTLP)
 	if err != nil {
-		return fitError("fit pin", err)
+		return err
 	}
 	f, err := fit.PinTable(t, given, extra...)
 	if err != nil {
-		return fitError("fit pin: "+*tlp, err)
+		return fitError("fit pin: "+path, err)
 	}
-	if err := o.check([]string{*tlp}, "--table", *table); err != nil {
+	if err := o.check([]string{path}, "--table", table); err != nil {
 		return fmt.Errorf("fit pin: %w", err)
 	}
-	name := stem(*tlp)
-	if o.name != "" {
-		name = o.name
-	}
-	if err := checkPartName(name); err != nil {
+	name, err := o.partName(stem(path))
+	if err != nil {
 		return fmt.Errorf("fit pin: %w", err)
 	}
-	path := *tlp
-	if *table != "" {
-		path = *table
+	tablePath := path
+	if table != "" {
+		tablePath = table
 	}
-	part := fit.Part{Name: name, Kind: "pin", Words: []fit.Word{{Key: "table", Value: path, Quote: true}}}
+	part := fit.Part{Name: name, Kind: "pin", Words: []fit.Word{{Key: "table", Value: tablePath, Quote: true}}}
 	if f.It2 > 0 {
 		part.Num = append(part.Num, fit.Num{Key: "ifail", Value: f.It2, Unit: "A"})
 	} else {
 		f.Notes = append(f.Notes, "no failure current: the leakage never jumps and --it2 was not given; set ifail yourself")
 	}
-	doc, err := f.Document(part, []string{*tlp}, t)
+	doc, err := f.Document(part, []string{path}, t)
 	if err != nil {
 		return fmt.Errorf("fit pin: %w", err)
 	}
@@ -116,8 +118,8 @@ func runFitPin(args []string, stdout, stderr io.Writer) error {
 		doc.SetFrom("ifail", "the leakage's jump (It2)")
 	}
 	doc.Notes = append(doc.Notes, "table= is read beside the file that holds the part line: move the part or the table so that the path fits")
-	if *table != "" {
-		if err := writePinTable(*table, f); err != nil {
+	if table != "" {
+		if err := writePinTable(table, f); err != nil {
 			return fmt.Errorf("fit pin: --table: %w", err)
 		}
 	}
@@ -145,13 +147,9 @@ func fitPinIBIS(path, model, corner string, o fitOutputs, stdout io.Writer) erro
 	if k < 0 {
 		return fmt.Errorf("fit pin: --corner is typ, min or max, not %q", corner)
 	}
-	src, err := readData(path)
+	ib, err := readFitData("fit pin", path, datafile.ReadIBIS)
 	if err != nil {
-		return fmt.Errorf("fit pin: %w", err)
-	}
-	ib, err := datafile.ReadIBIS(path, src)
-	if err != nil {
-		return fitError("fit pin", err)
+		return err
 	}
 	pm, err := ib.PinModel(model, k)
 	if err != nil {
@@ -164,11 +162,8 @@ func fitPinIBIS(path, model, corner string, o fitOutputs, stdout io.Writer) erro
 	if err != nil {
 		return fmt.Errorf("fit pin: %w", err)
 	}
-	name := pm.Model
-	if o.name != "" {
-		name = o.name
-	}
-	if err := checkPartName(name); err != nil {
+	name, err := o.partName(pm.Model)
+	if err != nil {
 		return fmt.Errorf("fit pin: %w (give --name)", err)
 	}
 	part := fit.Part{Name: name, Kind: "pin", Words: []fit.Word{

@@ -54,96 +54,105 @@ func mergeFiles(paths []string, out string, stdout, stderr io.Writer) error {
 	if err := check.err(); err != nil {
 		return fmt.Errorf("merge: %w", err)
 	}
-	var raws [][]byte
-	kind := ""
-	for _, p := range paths {
-		b, err := os.ReadFile(p)
-		if err != nil {
-			return fmt.Errorf("merge: %w", err)
-		}
-		k, err := docKind(b)
-		if err != nil {
-			return fmt.Errorf("merge: %s: %w", p, err)
-		}
-		if kind != "" && k != kind {
-			return fmt.Errorf("merge: %s is %s output, %s is %s output: merge shards of one command", paths[0], kind, p, k)
-		}
-		kind = k
-		raws = append(raws, b)
+	s, err := readShards(paths)
+	if err != nil {
+		return err
 	}
-	metas := make([]study.Meta, len(raws))
-	decode := func(i int, v any) error {
-		d := json.NewDecoder(bytes.NewReader(raws[i]))
-		if err := d.Decode(v); err != nil {
-			return fmt.Errorf("merge: %s: %w", paths[i], err)
-		}
-		return json.Unmarshal(raws[i], &metas[i])
-	}
-	var err error
-	switch kind {
+	switch s.kind {
 	case "run":
-		docs := make([]study.Document, len(raws))
-		for i := range raws {
-			if err = decode(i, &docs[i]); err != nil {
-				return err
-			}
-		}
-		if err = sameMeta(paths, metas); err != nil {
+		docs, err := decodeShards(s, func() (any, *study.Document) {
+			d := &study.Document{}
+			return d, d
+		})
+		if err != nil {
 			return err
 		}
 		return mergeRuns(docs, jsonPath, stdout, stderr)
 	case "margin":
-		parts := make([]*whatif.MarginResult, len(raws))
-		for i := range raws {
-			doc := whatif.MarginDocument{MarginResult: &whatif.MarginResult{}}
-			if err = decode(i, &doc); err != nil {
-				return err
-			}
-			parts[i] = doc.MarginResult
-		}
-		if err = sameMeta(paths, metas); err != nil {
-			return err
-		}
-		res, err := whatif.MergeMargins(parts)
-		if err != nil {
-			return fmt.Errorf("merge: %w", err)
-		}
-		return writeMargins(res, metas[0], jsonPath, stdout, stderr)
+		return mergeResults(s, func() (any, *whatif.MarginResult) {
+			d := &whatif.MarginDocument{MarginResult: &whatif.MarginResult{}}
+			return d, d.MarginResult
+		}, whatif.MergeMargins, writeMargins, jsonPath, stdout, stderr)
 	case "sensitivity":
-		parts := make([]*whatif.SensitivityResult, len(raws))
-		for i := range raws {
-			doc := whatif.SensitivityDocument{SensitivityResult: &whatif.SensitivityResult{}}
-			if err = decode(i, &doc); err != nil {
-				return err
-			}
-			parts[i] = doc.SensitivityResult
-		}
-		if err = sameMeta(paths, metas); err != nil {
-			return err
-		}
-		res, err := whatif.MergeSensitivities(parts)
-		if err != nil {
-			return fmt.Errorf("merge: %w", err)
-		}
-		return writeSensitivity(res, metas[0], jsonPath, stdout, stderr)
+		return mergeResults(s, func() (any, *whatif.SensitivityResult) {
+			d := &whatif.SensitivityDocument{SensitivityResult: &whatif.SensitivityResult{}}
+			return d, d.SensitivityResult
+		}, whatif.MergeSensitivities, writeSensitivity, jsonPath, stdout, stderr)
 	default: // spread
-		parts := make([]*whatif.SpreadResult, len(raws))
-		for i := range raws {
-			doc := whatif.SpreadDocument{SpreadResult: &whatif.SpreadResult{}}
-			if err = decode(i, &doc); err != nil {
-				return err
-			}
-			parts[i] = doc.SpreadResult
-		}
-		if err = sameMeta(paths, metas); err != nil {
-			return err
-		}
-		res, err := whatif.MergeSpreads(parts)
-		if err != nil {
-			return fmt.Errorf("merge: %w", err)
-		}
-		return writeSpread(res, metas[0], jsonPath, stdout, stderr)
+		return mergeResults(s, func() (any, *whatif.SpreadResult) {
+			d := &whatif.SpreadDocument{SpreadResult: &whatif.SpreadResult{}}
+			return d, d.SpreadResult
+		}, whatif.MergeSpreads, writeSpread, jsonPath, stdout, stderr)
 	}
+}
+
+// mergeResults merges the shards of a what-if command, its documents
+// made by newDoc, joined by merge and written by write as the unsharded
+// command writes them.
+func mergeResults[R any](s *shards, newDoc func() (any, *R), merge func([]*R) (*R, error),
+	write func(*R, study.Meta, string, io.Writer, io.Writer) error, jsonPath string, stdout, stderr io.Writer) error {
+	parts, err := decodeShards(s, newDoc)
+	if err != nil {
+		return err
+	}
+	res, err := merge(parts)
+	if err != nil {
+		return fmt.Errorf("merge: %w", err)
+	}
+	return write(res, s.metas[0], jsonPath, stdout, stderr)
+}
+
+// shards are the JSON documents merge joins, as read.
+type shards struct {
+	kind  string // the command that wrote them
+	paths []string
+	raws  [][]byte
+	metas []study.Meta // each shard's, once decoded
+}
+
+// readShards reads the files and refuses a set that more than one command
+// wrote.
+func readShards(paths []string) (*shards, error) {
+	s := &shards{paths: paths}
+	for _, p := range paths {
+		b, err := os.ReadFile(p)
+		if err != nil {
+			return nil, fmt.Errorf("merge: %w", err)
+		}
+		k, err := docKind(b)
+		if err != nil {
+			return nil, fmt.Errorf("merge: %s: %w", p, err)
+		}
+		if s.kind != "" && k != s.kind {
+			return nil, fmt.Errorf("merge: %s is %s output, %s is %s output: merge shards of one command", paths[0], s.kind, p, k)
+		}
+		s.kind = k
+		s.raws = append(s.raws, b)
+	}
+	s.metas = make([]study.Meta, len(s.raws))
+	return s, nil
+}
+
+// decodeShards decodes every shard into the document newDoc makes, keeping
+// the result newDoc returns beside it, and checks that the shards come
+// from one deck and version.
+func decodeShards[R any](s *shards, newDoc func() (doc any, res *R)) ([]*R, error) {
+	parts := make([]*R, len(s.raws))
+	for i, raw := range s.raws {
+		doc, res := newDoc()
+		d := json.NewDecoder(bytes.NewReader(raw))
+		if err := d.Decode(doc); err != nil {
+			return nil, fmt.Errorf("merge: %s: %w", s.paths[i], err)
+		}
+		if err := json.Unmarshal(raw, &s.metas[i]); err != nil {
+			return nil, err
+		}
+		parts[i] = res
+	}
+	if err := sameMeta(s.paths, s.metas); err != nil {
+		return nil, err
+	}
+	return parts, nil
 }
 
 // docKind tells which command wrote a JSON document by its fields.
@@ -182,7 +191,7 @@ func sameMeta(paths []string, metas []study.Meta) error {
 
 // mergeRuns joins run shards into the document `zapnet run` writes for the
 // whole sweep, and prints its summary.
-func mergeRuns(docs []study.Document, jsonPath string, stdout, stderr io.Writer) error {
+func mergeRuns(docs []*study.Document, jsonPath string, stdout, stderr io.Writer) error {
 	total := -1
 	var infos []*study.ShardInfo
 	for _, d := range docs {

@@ -90,21 +90,7 @@ func FitBead(curves []BeadCurve, opt *BeadOptions) (*BeadFit, error) {
 	if opt == nil {
 		opt = &BeadOptions{}
 	}
-	var pts []BeadPoint
-	cplx := true
-	for _, c := range curves {
-		if len(c.F) != len(c.Z) {
-			panic("fit: a bead curve's frequencies and impedances differ in length")
-		}
-		for k := range c.F {
-			w := ""
-			if k < len(c.Where) {
-				w = c.Where[k]
-			}
-			pts = append(pts, BeadPoint{F: c.F[k], Bias: c.Bias, Measured: c.Z[k], Complex: c.Complex, Where: w})
-		}
-		cplx = cplx && c.Complex
-	}
+	pts, cplx := beadPoints(curves)
 	biases := map[float64]bool{}
 	for _, c := range curves {
 		biases[c.Bias] = true
@@ -138,49 +124,17 @@ func FitBead(curves []BeadCurve, opt *BeadOptions) (*BeadFit, error) {
 	if m <= len(ps.free) {
 		return nil, fmt.Errorf("%d impedance values for %d parameters: give more frequencies", m, len(ps.free))
 	}
-	params := func() BeadParams {
-		bp := BeadParams{Rdc: ps.get("rdc"), L: ps.get("l"), C: ps.get("c"), Rac: ps.get("rac")}
-		if withSat {
-			bp.Isat = ps.get("isat")
-		}
-		return bp
-	}
 	prob := Problem{M: m, Residuals: func(dst, x []float64) {
 		ps.set(x)
-		bp := params()
-		k := 0
-		for _, p := range pts {
-			z := BeadZ(bp, p.F, p.Bias)
-			a := cmplx.Abs(p.Measured)
-			if p.Complex {
-				d := (z - p.Measured) / complex(a, 0)
-				dst[k], dst[k+1] = real(d), imag(d)
-				k += 2
-			} else {
-				dst[k] = (cmplx.Abs(z) - a) / a
-				k++
-			}
-		}
+		beadResiduals(dst, ps.bead(withSat), pts)
 	}}
 	res, err := Minimize(prob, ps.x(), nil)
 	if err != nil {
 		return nil, err
 	}
 	ps.set(res.X)
-	f := &BeadFit{Params: params(), Result: res, Sigma: map[string]float64{}, Fitted: ps.names()}
-	for k, n := range ps.names() {
-		f.Sigma[n] = res.Sigma[k]
-	}
-	for _, p := range pts {
-		p.Fitted = BeadZ(f.Params, p.F, p.Bias)
-		a := cmplx.Abs(p.Measured)
-		if p.Complex {
-			p.Residual = cmplx.Abs(p.Fitted-p.Measured) / a
-		} else {
-			p.Residual = (cmplx.Abs(p.Fitted) - a) / a
-		}
-		f.Points = append(f.Points, p)
-	}
+	f := &BeadFit{Params: ps.bead(withSat), Result: res, Sigma: sigmaByName(res, ps.names()), Fitted: ps.names()}
+	f.compare(pts)
 	f.SRF = f.Params.SRF()
 	f.Z100M = BeadZ(f.Params, 100e6, 0)
 	f.band(base.Bias)
@@ -191,6 +145,69 @@ func FitBead(curves []BeadCurve, opt *BeadOptions) (*BeadFit, error) {
 		f.Notes = append(f.Notes, fmt.Sprintf("the fitted self-resonance (%.4g Hz) lies outside the data (%.4g–%.4g Hz): c and rac are extrapolated", f.SRF, lo, hi))
 	}
 	return f, nil
+}
+
+// beadPoints lists the curves' points in order, and says whether every
+// curve is complex.
+func beadPoints(curves []BeadCurve) ([]BeadPoint, bool) {
+	var pts []BeadPoint
+	cplx := true
+	for _, c := range curves {
+		if len(c.F) != len(c.Z) {
+			panic("fit: a bead curve's frequencies and impedances differ in length")
+		}
+		for k := range c.F {
+			w := ""
+			if k < len(c.Where) {
+				w = c.Where[k]
+			}
+			pts = append(pts, BeadPoint{F: c.F[k], Bias: c.Bias, Measured: c.Z[k], Complex: c.Complex, Where: w})
+		}
+		cplx = cplx && c.Complex
+	}
+	return pts, cplx
+}
+
+// bead returns the bead the parameters describe; isat is 0 (no
+// saturation) unless withSat.
+func (s *paramSet) bead(withSat bool) BeadParams {
+	bp := BeadParams{Rdc: s.get("rdc"), L: s.get("l"), C: s.get("c"), Rac: s.get("rac")}
+	if withSat {
+		bp.Isat = s.get("isat")
+	}
+	return bp
+}
+
+// beadResiduals stores bp's residuals at the points in dst, two for a
+// complex point (see the package doc).
+func beadResiduals(dst []float64, bp BeadParams, pts []BeadPoint) {
+	k := 0
+	for _, p := range pts {
+		z := BeadZ(bp, p.F, p.Bias)
+		a := cmplx.Abs(p.Measured)
+		if p.Complex {
+			d := (z - p.Measured) / complex(a, 0)
+			dst[k], dst[k+1] = real(d), imag(d)
+			k += 2
+		} else {
+			dst[k] = (cmplx.Abs(z) - a) / a
+			k++
+		}
+	}
+}
+
+// compare sets Points: each point with the fitted model beside it.
+func (f *BeadFit) compare(pts []BeadPoint) {
+	for _, p := range pts {
+		p.Fitted = BeadZ(f.Params, p.F, p.Bias)
+		a := cmplx.Abs(p.Measured)
+		if p.Complex {
+			p.Residual = cmplx.Abs(p.Fitted-p.Measured) / a
+		} else {
+			p.Residual = (cmplx.Abs(p.Fitted) - a) / a
+		}
+		f.Points = append(f.Points, p)
+	}
 }
 
 // band finds the widest run of consecutive points of the curve at bias

@@ -247,7 +247,7 @@ func FitClamp(data []Datum, opt *ClampOptions) (*ClampFit, error) {
 	if conflict == 0 {
 		conflict = 0.05
 	}
-	f := &ClampFit{Sigma: map[string]float64{}}
+	f := &ClampFit{}
 	var live []Datum
 	for _, d := range data {
 		f.Points = append(f.Points, ClampPoint{Datum: d, Used: d.Aside == ""})
@@ -262,86 +262,19 @@ func FitClamp(data []Datum, opt *ClampOptions) (*ClampFit, error) {
 	p := DefaultClamp(1)
 	p.Bi, p.Ls = bi, opt.Ls
 	clampStart(&p, live)
-
-	// A conflict between the TLP curve and surge clamping voltages: fit
-	// each side alone first and compare them at the surge currents.
 	if hasGroup(f.Points, true) && hasGroup(f.Points, false) {
-		tlpOnly := p
-		if err := fitClampIV(&tlpOnly, selectPoints(f.Points, func(c ClampPoint) bool { return c.Used && !isSurge(c) }), nil, nil); err == nil {
-			var lines []string
-			for _, c := range f.Points {
-				if !isSurge(c) {
-					continue
-				}
-				vt := tlpOnly.V(c.I)
-				if d := (c.V - vt) / vt; math.Abs(d) > conflict {
-					lines = append(lines, fmt.Sprintf("%s: the %s clamping voltage %.4g V at %.4g A is %+.1f %% off the TLP data's %.4g V at that current", c.Where, c.Pulse, c.V, c.I, 100*d, vt))
-				}
-			}
-			if len(lines) > 0 {
-				keepTLP := opt.Honour == HonourTLP
-				for k := range f.Points {
-					c := &f.Points[k]
-					if (isSurge(*c) && keepTLP) || (isTLP(*c) && !keepTLP) {
-						c.Used = false
-					}
-				}
-				// A microsecond surge heats the clamp and raises its voltage,
-				// typically 10–15 % over a TLP curve [practice].
-				msg := strings.Join(lines, "; ") + ". A microsecond surge heats the clamp and raises its voltage, typically by 10–15 % over a TLP curve; the model has no self-heating, so it cannot follow both. "
-				if keepTLP {
-					msg += "The fit honours the TLP points (nanoseconds, closer to an ESD strike) and shows the surge points without fitting them; let the surge points win (--honour surge) if the part is for surge protection."
-				} else {
-					msg += "The fit honours the surge points as asked and shows the TLP points without fitting them; its ESD voltages will read high."
-				}
-				f.Notes = append(f.Notes, msg)
-			}
-		}
+		f.settleConflict(p, opt.Honour, conflict)
 	}
 
 	used := selectPoints(f.Points, func(c ClampPoint) bool { return c.Used && c.Kind != Capacitance })
-	delta := make([]float64, len(used))
-	var names []string
-	var res *Result
-	var err error
-	// Alternate the static fit with the engine's pulses.
-	for round := 0; round < 10; round++ {
-		res = nil
-		if err = fitClampIV(&p, used, delta, func(r *Result, n []string) { res, names = r, n }); err != nil {
-			if errors.Is(err, errTooFew) && len(used) < len(selectPoints(f.Points, func(c ClampPoint) bool { return c.Kind != Capacitance && c.Aside == "" })) {
-				err = fmt.Errorf("%w, counting only the points left after the conflicting ones were set aside", err)
-			}
-			return nil, err
-		}
-		moved := 0.0
-		anyPulse := false
-		for k, c := range used {
-			if c.Kind != Clamping {
-				continue
-			}
-			anyPulse = true
-			sv, err := simulateClamping(run, p, c.Datum)
-			f.Shots++
-			if err != nil {
-				return nil, fmt.Errorf("%s: simulating the %s pulse: %w", c.Where, c.Pulse, err)
-			}
-			d := sv - p.V(c.I)
-			moved = math.Max(moved, math.Abs(d-delta[k])/math.Abs(c.V))
-			delta[k] = d
-		}
-		if !anyPulse || moved < 1e-6 {
-			break
-		}
+	res, names, err := f.fitPulses(&p, used, run)
+	if err != nil {
+		return nil, err
 	}
 	f.Params = p
 	f.Result = res
 	f.Fitted = names
-	if res != nil {
-		for k, n := range names {
-			f.Sigma[n] = res.Sigma[k]
-		}
-	}
-	// Capacitance.
+	f.Sigma = sigmaByName(res, names)
 	if err := fitCapacitance(&f.Params, f.Points); err != nil {
 		return nil, err
 	}
@@ -351,27 +284,145 @@ func FitClamp(data []Datum, opt *ClampOptions) (*ClampFit, error) {
 			f.Fitted = append(f.Fitted, "m")
 		}
 	}
-	// Report every point, fitted or not, with the final model.
+	simulate := func(d Datum) (float64, error) { return simulateClamping(run, f.Params, d) }
+	if err := comparePoints(f.Points, f.Params.C, f.Params.V, simulate, &f.Shots); err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+// settleConflict compares the TLP curve with the surge clamping voltages:
+// it fits the TLP side alone from p and, where a surge point lies more than
+// conflict off it, sets the side honour does not keep aside and says why.
+func (f *ClampFit) settleConflict(p ClampParams, honour Honour, conflict float64) {
+	tlpOnly := p
+	if err := fitClampIV(&tlpOnly, selectPoints(f.Points, func(c ClampPoint) bool { return c.Used && !isSurge(c) }), nil, nil); err != nil {
+		return
+	}
+	var lines []string
+	for _, c := range f.Points {
+		if !isSurge(c) {
+			continue
+		}
+		vt := tlpOnly.V(c.I)
+		if d := (c.V - vt) / vt; math.Abs(d) > conflict {
+			lines = append(lines, fmt.Sprintf("%s: the %s clamping voltage %.4g V at %.4g A is %+.1f %% off the TLP data's %.4g V at that current", c.Where, c.Pulse, c.V, c.I, 100*d, vt))
+		}
+	}
+	if len(lines) == 0 {
+		return
+	}
+	keepTLP := honour == HonourTLP
 	for k := range f.Points {
 		c := &f.Points[k]
-		switch {
-		case c.Kind == Capacitance:
-			c.Model = f.Params.C(c.V)
+		if (isSurge(*c) && keepTLP) || (isTLP(*c) && !keepTLP) {
+			c.Used = false
+		}
+	}
+	// A microsecond surge heats the clamp and raises its voltage,
+	// typically 10–15 % over a TLP curve [practice].
+	msg := strings.Join(lines, "; ") + ". A microsecond surge heats the clamp and raises its voltage, typically by 10–15 % over a TLP curve; the model has no self-heating, so it cannot follow both. "
+	if keepTLP {
+		msg += "The fit honours the TLP points (nanoseconds, closer to an ESD strike) and shows the surge points without fitting them; let the surge points win (--honour surge) if the part is for surge protection."
+	} else {
+		msg += "The fit honours the surge points as asked and shows the TLP points without fitting them; its ESD voltages will read high."
+	}
+	f.Notes = append(f.Notes, msg)
+}
+
+// fitPulses fits p's I–V parameters to the used points, alternating the
+// static fit with the engine's pulses until the clamping points' shifts
+// settle (ten rounds at the most), and returns the last static fit's result
+// and the parameters it fitted.
+func (f *ClampFit) fitPulses(p *ClampParams, used []ClampPoint, run Runner) (*Result, []string, error) {
+	delta := make([]float64, len(used))
+	var names []string
+	var res *Result
+	simulate := func(d Datum) (float64, error) { return simulateClamping(run, *p, d) }
+	for round := 0; round < 10; round++ {
+		res = nil
+		if err := fitClampIV(p, used, delta, func(r *Result, n []string) { res, names = r, n }); err != nil {
+			if errors.Is(err, errTooFew) && len(used) < len(selectPoints(f.Points, func(c ClampPoint) bool { return c.Kind != Capacitance && c.Aside == "" })) {
+				err = fmt.Errorf("%w, counting only the points left after the conflicting ones were set aside", err)
+			}
+			return nil, nil, err
+		}
+		moved, anyPulse, err := shiftPulses(used, delta, p.V, simulate, &f.Shots)
+		if err != nil {
+			return nil, nil, err
+		}
+		if !anyPulse || moved < 1e-6 {
+			break
+		}
+	}
+	return res, names, nil
+}
+
+// shiftPulses simulates the pulse of each clamping point of pts and stores
+// in delta how far the simulated voltage lies from the static curve at the
+// point's current: the static fit's next round adds it to the static
+// voltage. It returns the largest change of a shift relative to its
+// point's voltage, and whether any point had a pulse; shots counts the
+// simulations.
+func shiftPulses(pts []ClampPoint, delta []float64, static func(float64) float64, simulate func(Datum) (float64, error), shots *int) (moved float64, anyPulse bool, err error) {
+	for k, c := range pts {
+		if c.Kind != Clamping {
+			continue
+		}
+		anyPulse = true
+		sv, err := simulate(c.Datum)
+		*shots++
+		if err != nil {
+			return 0, true, pulseError(c, err)
+		}
+		d := sv - static(c.I)
+		moved = math.Max(moved, math.Abs(d-delta[k])/math.Abs(c.V))
+		delta[k] = d
+	}
+	return moved, anyPulse, nil
+}
+
+// comparePoints sets every point's model value and residual, fitted or
+// not, from the final model: a capacitance by capAt at its bias, a clamping
+// voltage by its pulse simulated, any other voltage by the static curve;
+// shots counts the simulations.
+func comparePoints(pts []ClampPoint, capAt, static func(float64) float64, simulate func(Datum) (float64, error), shots *int) error {
+	for k := range pts {
+		c := &pts[k]
+		switch c.Kind {
+		case Capacitance:
+			c.Model = capAt(c.V)
 			c.Residual = (c.Model - c.C) / c.C
 			continue
-		case c.Kind == Clamping:
-			sv, err := simulateClamping(run, f.Params, c.Datum)
-			f.Shots++
+		case Clamping:
+			sv, err := simulate(c.Datum)
+			*shots++
 			if err != nil {
-				return nil, fmt.Errorf("%s: simulating the %s pulse: %w", c.Where, c.Pulse, err)
+				return pulseError(*c, err)
 			}
 			c.Model = sv
 		default:
-			c.Model = f.Params.V(c.I)
+			c.Model = static(c.I)
 		}
 		c.Residual = (c.Model - c.V) / math.Abs(c.V)
 	}
-	return f, nil
+	return nil
+}
+
+func pulseError(c ClampPoint, err error) error {
+	return fmt.Errorf("%s: simulating the %s pulse: %w", c.Where, c.Pulse, err)
+}
+
+// sigmaByName maps each fitted parameter to its relative standard error;
+// empty without a result.
+func sigmaByName(res *Result, names []string) map[string]float64 {
+	sigma := map[string]float64{}
+	if res != nil {
+		for k, n := range names {
+			sigma[n] = res.Sigma[k]
+		}
+	}
+	return sigma
 }
 
 // isSurge and isTLP sort points into the two sides of a conflict.

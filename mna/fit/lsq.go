@@ -58,72 +58,13 @@ func Minimize(p Problem, x0 []float64, set *Settings) (*Result, error) {
 	if n == 0 || p.M == 0 || p.Residuals == nil {
 		panic("fit: Minimize needs parameters, residuals and a residual function")
 	}
-	var cfg Settings
-	if set != nil {
-		cfg = *set
-	}
-	if cfg.MaxIterations == 0 {
-		cfg.MaxIterations = 200
-	}
-	if cfg.Relative == 0 {
-		cfg.Relative = 1e-12
-	}
-	jset := &fd.JacobianSettings{Formula: fd.Central, Step: cfg.Step}
-	r := make([]float64, p.M)
-	evals := 0
-	// The Jacobian at the last point asked for, shared by Grad and Hess,
-	// which gonum calls at the same x.
-	jac := mat.NewDense(p.M, n, nil)
-	jx := make([]float64, n)
-	jr := make([]float64, p.M)
-	haveJ := false
-	bad := false
-	resid := func(dst, x []float64) {
-		evals++
-		p.Residuals(dst, x)
-		for _, v := range dst {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				bad = true
-			}
-		}
-	}
-	jacobian := func(x []float64) {
-		if haveJ && equal(jx, x) {
-			return
-		}
-		resid(jr, x)
-		fd.Jacobian(jac, func(y, x []float64) { resid(y, x) }, x, jset)
-		copy(jx, x)
-		haveJ = true
-	}
-	cost := func(x []float64) float64 {
-		resid(r, x)
-		s := 0.0
-		for _, v := range r {
-			s += v * v
-		}
-		if math.IsNaN(s) {
-			return math.Inf(1)
-		}
-		return s / 2
-	}
-	prob := optimize.Problem{
-		Func: cost,
-		Grad: func(grad, x []float64) {
-			jacobian(x)
-			g := mat.NewVecDense(n, grad)
-			g.MulVec(jac.T(), mat.NewVecDense(p.M, jr))
-		},
-		Hess: func(h *mat.SymDense, x []float64) {
-			jacobian(x)
-			h.SymOuterK(1, jac.T())
-		},
-	}
+	cfg := set.withDefaults()
+	obj := newObjective(p, n, cfg.Step)
 	settings := &optimize.Settings{
 		MajorIterations: cfg.MaxIterations,
 		Converger:       &optimize.FunctionConverge{Relative: cfg.Relative, Absolute: 1e-300, Iterations: 3},
 	}
-	res, err := optimize.Minimize(prob, x0, settings, &optimize.Newton{Linesearcher: &optimize.Backtracking{}})
+	res, err := optimize.Minimize(obj.problem(), x0, settings, &optimize.Newton{Linesearcher: &optimize.Backtracking{}})
 	if res == nil {
 		return nil, fmt.Errorf("fit: %w", err)
 	}
@@ -133,22 +74,112 @@ func Minimize(p Problem, x0 []float64, set *Settings) (*Result, error) {
 	for _, v := range out.Residuals {
 		out.Cost += v * v / 2
 	}
-	if bad && (math.IsNaN(out.Cost) || math.IsInf(out.Cost, 0)) {
+	if obj.bad && (math.IsNaN(out.Cost) || math.IsInf(out.Cost, 0)) {
 		return nil, errors.New("fit: the model could not be evaluated at the data (a residual is not finite)")
 	}
 	if err != nil && res.Status != optimize.IterationLimit {
 		// gonum reports a line search that cannot improve an optimum
 		// already reached to machine precision as an error; the result
 		// stands when its gradient is that small.
-		if !nearStationary(jac, out.Residuals, n) {
+		if !nearStationary(obj.jac, out.Residuals, n) {
 			return nil, fmt.Errorf("fit: %w", err)
 		}
 	}
-	haveJ = false
-	jacobian(out.X)
-	out.Sigma = sigma(jac, out.Residuals, n)
-	out.Evaluations = evals
+	obj.haveJ = false
+	obj.jacobian(out.X)
+	out.Sigma = sigma(obj.jac, out.Residuals, n)
+	out.Evaluations = obj.evals
 	return out, nil
+}
+
+// withDefaults returns the settings with every zero field (or a nil s)
+// replaced by its default.
+func (s *Settings) withDefaults() Settings {
+	var cfg Settings
+	if s != nil {
+		cfg = *s
+	}
+	if cfg.MaxIterations == 0 {
+		cfg.MaxIterations = 200
+	}
+	if cfg.Relative == 0 {
+		cfg.Relative = 1e-12
+	}
+	return cfg
+}
+
+// objective is a Problem's cost ½·Σr² with the gradient Jᵀr and the
+// Gauss–Newton Hessian JᵀJ, as gonum's optimize asks for them.
+type objective struct {
+	p     Problem
+	n     int
+	jset  *fd.JacobianSettings
+	r     []float64
+	evals int  // residual evaluations, the Jacobian's included
+	bad   bool // a residual was not finite
+	// The Jacobian at the last point asked for, shared by Grad and Hess,
+	// which gonum calls at the same x.
+	jac    *mat.Dense
+	jx, jr []float64
+	haveJ  bool
+}
+
+func newObjective(p Problem, n int, step float64) *objective {
+	return &objective{
+		p:    p,
+		n:    n,
+		jset: &fd.JacobianSettings{Formula: fd.Central, Step: step},
+		r:    make([]float64, p.M),
+		jac:  mat.NewDense(p.M, n, nil),
+		jx:   make([]float64, n),
+		jr:   make([]float64, p.M),
+	}
+}
+
+func (o *objective) resid(dst, x []float64) {
+	o.evals++
+	o.p.Residuals(dst, x)
+	for _, v := range dst {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			o.bad = true
+		}
+	}
+}
+
+// jacobian makes jac and jr the Jacobian and residuals at x.
+func (o *objective) jacobian(x []float64) {
+	if o.haveJ && equal(o.jx, x) {
+		return
+	}
+	o.resid(o.jr, x)
+	fd.Jacobian(o.jac, o.resid, x, o.jset)
+	copy(o.jx, x)
+	o.haveJ = true
+}
+
+func (o *objective) problem() optimize.Problem {
+	return optimize.Problem{
+		Func: func(x []float64) float64 {
+			o.resid(o.r, x)
+			s := 0.0
+			for _, v := range o.r {
+				s += v * v
+			}
+			if math.IsNaN(s) {
+				return math.Inf(1)
+			}
+			return s / 2
+		},
+		Grad: func(grad, x []float64) {
+			o.jacobian(x)
+			g := mat.NewVecDense(o.n, grad)
+			g.MulVec(o.jac.T(), mat.NewVecDense(o.p.M, o.jr))
+		},
+		Hess: func(h *mat.SymDense, x []float64) {
+			o.jacobian(x)
+			h.SymOuterK(1, o.jac.T())
+		},
+	}
 }
 
 func equal(a, b []float64) bool {

@@ -94,22 +94,13 @@ func FitSnapback(data []Datum, opt *SnapbackOptions) (*SnapbackFit, error) {
 	if run == nil {
 		run = Engine
 	}
-	f := &SnapbackFit{Sigma: map[string]float64{}}
+	f := &SnapbackFit{}
 	for _, d := range data {
 		f.Points = append(f.Points, ClampPoint{Datum: d, Used: d.Aside == ""})
 	}
 	p := SnapbackParams{Bi: opt.Polarity == "bi", Ls: opt.Ls, Ton: opt.Ton, It2: opt.It2, Ron: opt.Ron}
 	if !p.Bi {
-		n := 0
-		for k := range f.Points {
-			if c := &f.Points[k]; c.Kind == TLPRow && c.I < 0 && c.Used {
-				c.Used = false
-				n++
-			}
-		}
-		if n > 0 {
-			f.Notes = append(f.Notes, fmt.Sprintf("%d negative rows: a uni snapback clamp conducts forward there through its junction (is, n at their defaults); they are shown against it, not fitted", n))
-		}
+		f.setForwardAside()
 	}
 	var rows []Datum
 	for _, d := range data {
@@ -117,55 +108,15 @@ func FitSnapback(data []Datum, opt *SnapbackOptions) (*SnapbackFit, error) {
 			rows = append(rows, d)
 		}
 	}
-	fromTLP := len(rows) > 0
 	var ps paramSet
-	if fromTLP {
-		k1, kh, err := snapbackPoints(rows)
-		if err != nil {
-			return nil, err
-		}
-		p.Vt1, p.It1, p.Vh, p.Ih = rows[k1].V, rows[k1].I, rows[kh].V, rows[kh].I
-		if p.Ron == 0 {
-			p.Ron = 1
-			if n := len(rows); n-1 > kh {
-				p.Ron = math.Max((rows[n-1].V-rows[kh].V)/(rows[n-1].I-rows[kh].I), 1e-3)
-			}
-		}
-		p.Nbr = 1
-		// The trigger and holding currents are fitted when rows lie
-		// between them (the negative-resistance part a 50 Ω load line
-		// crosses when the snapback is not too steep); otherwise they stay
-		// at the rows'.
-		between := kh-k1 > 1
-		ps.add("vt1", p.Vt1, true)
-		ps.add("it1", p.It1, between)
-		ps.add("vh", p.Vh, true)
-		ps.add("ih", p.Ih, between)
-		ps.add("ron", p.Ron, opt.Ron == 0 && len(rows)-1 > kh)
-		ps.add("nbr", p.Nbr, k1 >= 2)
-		if len(rows) <= len(ps.free) {
-			return nil, fmt.Errorf("%w: %d TLP rows for %d parameters", errTooFew, len(rows), len(ps.free))
-		}
+	var err error
+	if len(rows) > 0 {
+		ps, err = snapbackFromTLP(&p, rows)
 	} else {
-		for _, d := range data {
-			switch d.Kind {
-			case Trigger:
-				p.Vt1, p.It1 = d.V, d.I
-			case Holding:
-				p.Vh, p.Ih = d.V, d.I
-			}
-		}
-		if p.Vt1 == 0 || p.Vh == 0 {
-			return nil, errors.New("a snapback clamp needs its trigger point (vt1 V @ A) and holding voltage (vh), or a TLP curve")
-		}
-		if p.Ih == 0 {
-			p.Ih = p.It1 + (p.Vt1-p.Vh)/50
-			f.Notes = append(f.Notes, fmt.Sprintf("no holding current given: ih = it1 + (vt1 − vh)/50 Ω = %.4g A, where a 50 Ω TLP load line from the trigger meets the holding voltage", p.Ih))
-		}
-		if p.Ron == 0 {
-			p.Ron = 1
-			ps.add("ron", p.Ron, true)
-		}
+		ps, err = f.startFromPoints(&p, data)
+	}
+	if err != nil {
+		return nil, err
 	}
 	if _, err := p.Law(); err != nil {
 		return nil, err
@@ -177,78 +128,15 @@ func FitSnapback(data []Datum, opt *SnapbackOptions) (*SnapbackFit, error) {
 			fitPts = append(fitPts, c)
 		}
 	}
-	delta := make([]float64, len(fitPts))
-	apply := func(q *SnapbackParams) {
-		for _, i := range ps.free {
-			switch ps.p[i].name {
-			case "vt1":
-				q.Vt1 = ps.p[i].value
-			case "it1":
-				q.It1 = ps.p[i].value
-			case "ih":
-				q.Ih = ps.p[i].value
-			case "vh":
-				q.Vh = ps.p[i].value
-			case "ron":
-				q.Ron = ps.p[i].value
-			case "nbr":
-				q.Nbr = ps.p[i].value
-			}
-		}
-	}
 	if len(ps.free) > 0 && len(fitPts) < len(ps.free) {
 		return nil, fmt.Errorf("%w: %d points for %d parameters (%v): give ron, or clamping voltages", errTooFew, len(fitPts), len(ps.free), ps.names())
 	}
-	for round := 0; round < 10 && len(ps.free) > 0; round++ {
-		q := p
-		prob := Problem{M: len(fitPts), Residuals: func(dst, x []float64) {
-			ps.set(x)
-			apply(&q)
-			law, err := q.Law()
-			for k, c := range fitPts {
-				if err != nil {
-					dst[k] = math.Inf(1)
-					continue
-				}
-				v, _ := law.V(c.I)
-				dst[k] = (v + delta[k] - c.V) / math.Abs(c.V)
-			}
-		}}
-		res, err := Minimize(prob, ps.x(), nil)
-		if err != nil {
-			return nil, err
-		}
-		ps.set(res.X)
-		apply(&p)
-		f.Result = res
-		moved, anyPulse := 0.0, false
-		for k, c := range fitPts {
-			if c.Kind != Clamping {
-				continue
-			}
-			anyPulse = true
-			sv, err := simulateSnapback(run, p, c.Datum)
-			f.Shots++
-			if err != nil {
-				return nil, fmt.Errorf("%s: simulating the %s pulse: %w", c.Where, c.Pulse, err)
-			}
-			law, _ := p.Law()
-			v, _ := law.V(c.I)
-			d := sv - v
-			moved = math.Max(moved, math.Abs(d-delta[k])/math.Abs(c.V))
-			delta[k] = d
-		}
-		if !anyPulse || moved < 1e-6 {
-			break
-		}
+	if err := f.fitPulses(&p, &ps, fitPts, run); err != nil {
+		return nil, err
 	}
 	f.Params = p
 	f.Fitted = ps.names()
-	if f.Result != nil {
-		for k, n := range f.Fitted {
-			f.Sigma[n] = f.Result.Sigma[k]
-		}
-	}
+	f.Sigma = sigmaByName(f.Result, f.Fitted)
 	cp := ClampParams{Vj: 0.7}
 	if err := fitCapacitance(&cp, f.Points); err != nil {
 		return nil, err
@@ -261,26 +149,150 @@ func FitSnapback(data []Datum, opt *SnapbackOptions) (*SnapbackFit, error) {
 	if err != nil {
 		return nil, err
 	}
-	for k := range f.Points {
-		c := &f.Points[k]
-		switch c.Kind {
-		case Capacitance:
-			c.Model = f.Params.Cj
-			c.Residual = (c.Model - c.C) / c.C
-			continue
-		case Clamping:
-			sv, err := simulateSnapback(run, f.Params, c.Datum)
-			f.Shots++
-			if err != nil {
-				return nil, fmt.Errorf("%s: simulating the %s pulse: %w", c.Where, c.Pulse, err)
-			}
-			c.Model = sv
-		default:
-			c.Model, _ = law.V(c.I)
-		}
-		c.Residual = (c.Model - c.V) / math.Abs(c.V)
+	capAt := func(float64) float64 { return f.Params.Cj }
+	static := func(i float64) float64 { v, _ := law.V(i); return v }
+	simulate := func(d Datum) (float64, error) { return simulateSnapback(run, f.Params, d) }
+	if err := comparePoints(f.Points, capAt, static, simulate, &f.Shots); err != nil {
+		return nil, err
 	}
 	return f, nil
+}
+
+// setForwardAside shows a uni clamp's negative TLP rows without fitting
+// them: the model conducts there through its junction, whose is and n stay
+// at their defaults.
+func (f *SnapbackFit) setForwardAside() {
+	n := 0
+	for k := range f.Points {
+		if c := &f.Points[k]; c.Kind == TLPRow && c.I < 0 && c.Used {
+			c.Used = false
+			n++
+		}
+	}
+	if n > 0 {
+		f.Notes = append(f.Notes, fmt.Sprintf("%d negative rows: a uni snapback clamp conducts forward there through its junction (is, n at their defaults); they are shown against it, not fitted", n))
+	}
+}
+
+// snapbackFromTLP starts p at the trigger and holding rows of a TLP curve
+// (its positive rows, in pulse order) and returns the parameters the rows
+// can tell.
+func snapbackFromTLP(p *SnapbackParams, rows []Datum) (paramSet, error) {
+	var ps paramSet
+	k1, kh, err := snapbackPoints(rows)
+	if err != nil {
+		return ps, err
+	}
+	ronGiven := p.Ron != 0
+	p.Vt1, p.It1, p.Vh, p.Ih = rows[k1].V, rows[k1].I, rows[kh].V, rows[kh].I
+	if !ronGiven {
+		p.Ron = 1
+		if n := len(rows); n-1 > kh {
+			p.Ron = math.Max((rows[n-1].V-rows[kh].V)/(rows[n-1].I-rows[kh].I), 1e-3)
+		}
+	}
+	p.Nbr = 1
+	// The trigger and holding currents are fitted when rows lie
+	// between them (the negative-resistance part a 50 Ω load line
+	// crosses when the snapback is not too steep); otherwise they stay
+	// at the rows'.
+	between := kh-k1 > 1
+	ps.add("vt1", p.Vt1, true)
+	ps.add("it1", p.It1, between)
+	ps.add("vh", p.Vh, true)
+	ps.add("ih", p.Ih, between)
+	ps.add("ron", p.Ron, !ronGiven && len(rows)-1 > kh)
+	ps.add("nbr", p.Nbr, k1 >= 2)
+	if len(rows) <= len(ps.free) {
+		return ps, fmt.Errorf("%w: %d TLP rows for %d parameters", errTooFew, len(rows), len(ps.free))
+	}
+	return ps, nil
+}
+
+// startFromPoints takes p's trigger and holding points from the published
+// points as given and returns what is left to fit: ron, unless given.
+func (f *SnapbackFit) startFromPoints(p *SnapbackParams, data []Datum) (paramSet, error) {
+	var ps paramSet
+	for _, d := range data {
+		switch d.Kind {
+		case Trigger:
+			p.Vt1, p.It1 = d.V, d.I
+		case Holding:
+			p.Vh, p.Ih = d.V, d.I
+		}
+	}
+	if p.Vt1 == 0 || p.Vh == 0 {
+		return ps, errors.New("a snapback clamp needs its trigger point (vt1 V @ A) and holding voltage (vh), or a TLP curve")
+	}
+	if p.Ih == 0 {
+		p.Ih = p.It1 + (p.Vt1-p.Vh)/50
+		f.Notes = append(f.Notes, fmt.Sprintf("no holding current given: ih = it1 + (vt1 − vh)/50 Ω = %.4g A, where a 50 Ω TLP load line from the trigger meets the holding voltage", p.Ih))
+	}
+	if p.Ron == 0 {
+		p.Ron = 1
+		ps.add("ron", p.Ron, true)
+	}
+	return ps, nil
+}
+
+// fitPulses fits ps's free parameters of p to the TLP rows and clamping
+// points fitPts, alternating the static fit with the engine's pulses as
+// FitClamp does.
+func (f *SnapbackFit) fitPulses(p *SnapbackParams, ps *paramSet, fitPts []ClampPoint, run Runner) error {
+	delta := make([]float64, len(fitPts))
+	static := func(i float64) float64 { law, _ := p.Law(); v, _ := law.V(i); return v }
+	simulate := func(d Datum) (float64, error) { return simulateSnapback(run, *p, d) }
+	for round := 0; round < 10 && len(ps.free) > 0; round++ {
+		q := *p
+		prob := Problem{M: len(fitPts), Residuals: func(dst, x []float64) {
+			ps.set(x)
+			ps.setSnapback(&q)
+			law, err := q.Law()
+			for k, c := range fitPts {
+				if err != nil {
+					dst[k] = math.Inf(1)
+					continue
+				}
+				v, _ := law.V(c.I)
+				dst[k] = (v + delta[k] - c.V) / math.Abs(c.V)
+			}
+		}}
+		res, err := Minimize(prob, ps.x(), nil)
+		if err != nil {
+			return err
+		}
+		ps.set(res.X)
+		ps.setSnapback(p)
+		f.Result = res
+		moved, anyPulse, err := shiftPulses(fitPts, delta, static, simulate, &f.Shots)
+		if err != nil {
+			return err
+		}
+		if !anyPulse || moved < 1e-6 {
+			break
+		}
+	}
+	return nil
+}
+
+// setSnapback writes the free parameters into q.
+func (s *paramSet) setSnapback(q *SnapbackParams) {
+	for _, i := range s.free {
+		switch s.p[i].name {
+		case "vt1":
+			q.Vt1 = s.p[i].value
+		case "it1":
+			q.It1 = s.p[i].value
+		case "ih":
+			q.Ih = s.p[i].value
+		case "vh":
+			q.Vh = s.p[i].value
+		case "ron":
+			q.Ron = s.p[i].value
+		case "nbr":
+			q.Nbr = s.p[i].value
+		}
+	}
 }
 
 func simulateSnapback(run Runner, p SnapbackParams, d Datum) (float64, error) {

@@ -127,25 +127,7 @@ func ReadDatasheet(name string, src []byte) (*Datasheet, error) {
 		seen[key] = at(ws[0])
 		switch key {
 		case "name", "model", "polarity":
-			if len(ws) != 2 {
-				errs.Add(at(ws[0]), ErrSyntax, "%s takes one word", key)
-				continue
-			}
-			w := ws[1].text
-			switch key {
-			case "name":
-				d.Name, d.NamePos = w, at(ws[1])
-			case "model":
-				if w != "clamp" && w != "snapback" {
-					errs.Add(at(ws[1]), ErrSyntax, "model is clamp or snapback, not %q", w)
-				}
-				d.Model = w
-			case "polarity":
-				if w != "uni" && w != "bi" {
-					errs.Add(at(ws[1]), ErrSyntax, "polarity is uni or bi, not %q", w)
-				}
-				d.Polarity = w
-			}
+			d.word(key, ws, at, &errs)
 			continue
 		}
 		k, ok := dsKeys[key]
@@ -153,66 +135,9 @@ func ReadDatasheet(name string, src []byte) (*Datasheet, error) {
 			errs.Add(at(ws[0]), ErrSyntax, "unknown key %q (keys: name model polarity vrwm ir vbr vc c ipp ls vt1 vh ron it2)", ws[0].text)
 			continue
 		}
-		if len(ws) < 2 {
-			errs.Add(at(ws[0]), ErrMissing, "%s needs a value in %s", key, spec.Unit(k.unit).Word())
-			continue
+		if s, ok := dsStatement(key, k, ws, at, &errs); ok {
+			d.Points = append(d.Points, s)
 		}
-		s := Spec{Key: key, At: nan(), Pos: at(ws[0])}
-		v, msg := quantity(ws[1].text, k.unit)
-		if msg != "" {
-			errs.Add(at(ws[1]), ErrNumber, "%s", msg)
-			continue
-		}
-		s.Value = v
-		rest := ws[2:]
-		if len(rest) > 0 && rest[0].text == "@" {
-			if k.atUnit == "" {
-				errs.Add(at(rest[0]), ErrSyntax, "%s takes no condition", key)
-				continue
-			}
-			if len(rest) < 2 {
-				errs.Add(at(rest[0]), ErrMissing, "'@' needs a condition in %s after it", spec.Unit(k.atUnit).Word())
-				continue
-			}
-			c, msg := quantity(rest[1].text, k.atUnit)
-			if msg != "" {
-				errs.Add(at(rest[1]), ErrNumber, "%s", msg)
-				continue
-			}
-			s.At = c
-			rest = rest[2:]
-		} else if k.atNeed {
-			errs.Add(at(ws[0]), ErrMissing, "%s needs its condition: %s VALUE @ %s", key, key, spec.Unit(k.atUnit).Word())
-			continue
-		}
-		if len(rest) > 0 {
-			p := strings.ToLower(rest[0].text)
-			switch {
-			case k.pulse == 0:
-				errs.Add(at(rest[0]), ErrSyntax, "unexpected %q: %s takes no pulse", rest[0].text, key)
-				continue
-			case p != "8/20" && p != "10/1000" && p != "tlp":
-				errs.Add(at(rest[0]), ErrSyntax, "unknown pulse %q (8/20, 10/1000 or tlp)", rest[0].text)
-				continue
-			}
-			s.Pulse = p
-			rest = rest[1:]
-		} else if k.pulse == 2 {
-			errs.Add(at(ws[0]), ErrMissing, "%s needs the pulse it was measured with: 8/20, 10/1000 or tlp", key)
-			continue
-		}
-		if len(rest) > 0 {
-			errs.Add(at(rest[0]), ErrSyntax, "unexpected %q after the statement", rest[0].text)
-			continue
-		}
-		if key == "ipp" && s.Pulse == "" {
-			s.Pulse = "8/20"
-		}
-		if msg := dsRange(s); msg != "" {
-			errs.Add(at(ws[1]), ErrRange, "%s", msg)
-			continue
-		}
-		d.Points = append(d.Points, s)
 	}
 	if len(d.Points) == 0 && len(errs) == 0 {
 		errs.Add(Pos{File: name}, ErrMissing, "no datasheet points")
@@ -222,6 +147,95 @@ func ReadDatasheet(name string, src []byte) (*Datasheet, error) {
 		return nil, err
 	}
 	return d, nil
+}
+
+// word reads a statement of one word: the part's name, the model or the
+// polarity.
+func (d *Datasheet) word(key string, ws []field, at func(field) Pos, errs *ErrorList) {
+	if len(ws) != 2 {
+		errs.Add(at(ws[0]), ErrSyntax, "%s takes one word", key)
+		return
+	}
+	w := ws[1].text
+	switch key {
+	case "name":
+		d.Name, d.NamePos = w, at(ws[1])
+	case "model":
+		if w != "clamp" && w != "snapback" {
+			errs.Add(at(ws[1]), ErrSyntax, "model is clamp or snapback, not %q", w)
+		}
+		d.Model = w
+	case "polarity":
+		if w != "uni" && w != "bi" {
+			errs.Add(at(ws[1]), ErrSyntax, "polarity is uni or bi, not %q", w)
+		}
+		d.Polarity = w
+	}
+}
+
+// dsStatement reads a numeric statement, KEY VALUE [@ CONDITION] [PULSE],
+// of a key that takes what k says; false when it has a problem.
+func dsStatement(key string, k dsKey, ws []field, at func(field) Pos, errs *ErrorList) (Spec, bool) {
+	if len(ws) < 2 {
+		errs.Add(at(ws[0]), ErrMissing, "%s needs a value in %s", key, spec.Unit(k.unit).Word())
+		return Spec{}, false
+	}
+	s := Spec{Key: key, At: nan(), Pos: at(ws[0])}
+	v, msg := quantity(ws[1].text, k.unit)
+	if msg != "" {
+		errs.Add(at(ws[1]), ErrNumber, "%s", msg)
+		return Spec{}, false
+	}
+	s.Value = v
+	rest := ws[2:]
+	if len(rest) > 0 && rest[0].text == "@" {
+		if k.atUnit == "" {
+			errs.Add(at(rest[0]), ErrSyntax, "%s takes no condition", key)
+			return Spec{}, false
+		}
+		if len(rest) < 2 {
+			errs.Add(at(rest[0]), ErrMissing, "'@' needs a condition in %s after it", spec.Unit(k.atUnit).Word())
+			return Spec{}, false
+		}
+		c, msg := quantity(rest[1].text, k.atUnit)
+		if msg != "" {
+			errs.Add(at(rest[1]), ErrNumber, "%s", msg)
+			return Spec{}, false
+		}
+		s.At = c
+		rest = rest[2:]
+	} else if k.atNeed {
+		errs.Add(at(ws[0]), ErrMissing, "%s needs its condition: %s VALUE @ %s", key, key, spec.Unit(k.atUnit).Word())
+		return Spec{}, false
+	}
+	if len(rest) > 0 {
+		p := strings.ToLower(rest[0].text)
+		switch {
+		case k.pulse == 0:
+			errs.Add(at(rest[0]), ErrSyntax, "unexpected %q: %s takes no pulse", rest[0].text, key)
+			return Spec{}, false
+		case p != "8/20" && p != "10/1000" && p != "tlp":
+			errs.Add(at(rest[0]), ErrSyntax, "unknown pulse %q (8/20, 10/1000 or tlp)", rest[0].text)
+			return Spec{}, false
+		}
+		s.Pulse = p
+		rest = rest[1:]
+	} else if k.pulse == 2 {
+		errs.Add(at(ws[0]), ErrMissing, "%s needs the pulse it was measured with: 8/20, 10/1000 or tlp", key)
+		return Spec{}, false
+	}
+	if len(rest) > 0 {
+		errs.Add(at(rest[0]), ErrSyntax, "unexpected %q after the statement", rest[0].text)
+		return Spec{}, false
+	}
+	if key == "ipp" && s.Pulse == "" {
+		s.Pulse = "8/20"
+	}
+	if msg := dsRange(s); msg != "" {
+		errs.Add(at(ws[1]), ErrRange, "%s", msg)
+		return Spec{}, false
+	}
+	return s, true
 }
 
 // dsRange checks what a value can mean.

@@ -86,182 +86,232 @@ type IBISModel struct {
 // M is mega) and ignore any letters after them (5pF, 2.2nH); NA stands for
 // a missing min or max.
 func ReadIBIS(name string, src []byte) (*IBIS, error) {
-	var errs ErrorList
-	ib := &IBIS{Package: [3]Corners{nanCorners(), nanCorners(), nanCorners()}}
-	comment := '|'
-	section := ""
-	var model *IBISModel
-	pinHasRLC := false
-	ended := false
+	r := &ibisReader{
+		name:    name,
+		ib:      &IBIS{Package: [3]Corners{nanCorners(), nanCorners(), nanCorners()}},
+		comment: '|',
+	}
 	for i, raw := range strings.Split(string(src), "\n") {
-		no := i + 1
-		s := strings.TrimSuffix(raw, "\r")
-		if k := strings.IndexRune(s, comment); k >= 0 {
-			s = s[:k]
-		}
-		if strings.TrimSpace(s) == "" {
-			continue
-		}
-		ws := words(s)
-		at := func(f field) Pos { return Pos{File: name, Line: no, Col: f.col} }
-		if ended {
-			errs.Add(at(ws[0]), ErrSyntax, "text after [End]")
+		if !r.line(i+1, raw) {
 			break
 		}
-		if strings.HasPrefix(strings.TrimSpace(s), "[") {
-			kw, rest := ibisKeyword(s)
-			if kw == "" {
-				errs.Add(at(ws[0]), ErrSyntax, "a keyword's bracket is not closed")
-				continue
-			}
-			args := words(rest.text)
-			for k := range args {
-				args[k].col += rest.col - 1
-			}
-			section = kw
-			switch kw {
-			case "ibis ver":
-				if len(args) > 0 {
-					ib.Version = args[0].text
-				}
-			case "comment char":
-				if len(args) > 0 {
-					comment = []rune(args[0].text)[0]
-				}
-			case "component":
-				if len(args) > 0 {
-					ib.Component = strings.TrimSpace(rest.text)
-				}
-			case "pin":
-				pinHasRLC = len(args) >= 5
-			case "model":
-				if len(args) == 0 {
-					errs.Add(at(ws[0]), ErrMissing, "[Model] needs a name")
-					model = nil
-					continue
-				}
-				model = &IBISModel{Name: args[0].text, Pos: at(args[0]),
-					CComp: nanCorners(), VoltageRange: nanCorners(), PowerRef: nanCorners(), GNDRef: nanCorners()}
-				if prev := ib.Model(model.Name); prev != nil {
-					errs.Add(at(args[0]), ErrSyntax, "model %s defined twice (first at line %d)", model.Name, prev.Pos.Line)
-				}
-				ib.Models = append(ib.Models, model)
-			case "voltage range", "power clamp reference", "gnd clamp reference":
-				if model == nil {
-					errs.Add(at(ws[0]), ErrSyntax, "[%s] outside a [Model]", kw)
-					continue
-				}
-				c := ibisCorners(args, at, at(ws[0]), &errs)
-				switch kw {
-				case "voltage range":
-					model.VoltageRange = c
-				case "power clamp reference":
-					model.PowerRef = c
-				default:
-					model.GNDRef = c
-				}
-			case "gnd clamp", "power clamp":
-				if model == nil {
-					errs.Add(at(ws[0]), ErrSyntax, "[%s] outside a [Model]", kw)
-				}
-			case "end":
-				ended = true
-			}
-			continue
-		}
-		switch section {
-		case "package":
-			key := strings.ToLower(ws[0].text)
-			k := map[string]int{"r_pkg": 0, "l_pkg": 1, "c_pkg": 2}[key]
-			if _, ok := map[string]bool{"r_pkg": true, "l_pkg": true, "c_pkg": true}[key]; !ok {
-				errs.Add(at(ws[0]), ErrSyntax, "unknown [Package] entry %q (R_pkg, L_pkg, C_pkg)", ws[0].text)
-				continue
-			}
-			ib.Package[k] = ibisCorners(ws[1:], at, at(ws[0]), &errs)
-		case "pin":
-			if len(ws) < 3 {
-				errs.Add(at(ws[0]), ErrSyntax, "a [Pin] row is: pin_name signal_name model_name [R_pin L_pin C_pin]")
-				continue
-			}
-			p := IBISPin{Name: ws[0].text, Signal: ws[1].text, Model: ws[2].text, R: math.NaN(), L: math.NaN(), C: math.NaN(), Pos: at(ws[0])}
-			if pinHasRLC && len(ws) >= 6 {
-				var bad bool
-				vals := [3]float64{}
-				for k := range 3 {
-					v, msg := ibisNumber(ws[3+k].text)
-					if msg != "" {
-						errs.Add(at(ws[3+k]), ErrNumber, "%s", msg)
-						bad = true
-					}
-					vals[k] = v
-				}
-				if !bad {
-					p.R, p.L, p.C = vals[0], vals[1], vals[2]
-				}
-			}
-			ib.Pins = append(ib.Pins, p)
-		case "model":
-			if model == nil {
-				continue
-			}
-			key := strings.ToLower(ws[0].text)
-			switch key {
-			case "model_type":
-				if len(ws) > 1 {
-					model.Type = ws[1].text
-				}
-			case "c_comp":
-				model.CComp = ibisCorners(ws[1:], at, at(ws[0]), &errs)
-			}
-			// Other sub-parameters (Vinl, Vinh, Vmeas, ...) do not concern a
-			// clamp model.
-		case "gnd clamp", "power clamp":
-			if model == nil {
-				continue
-			}
-			if len(ws) < 2 {
-				errs.Add(at(ws[0]), ErrSyntax, "a clamp table row is: voltage I(typ) [I(min) I(max)]")
-				continue
-			}
-			v, msg := ibisNumber(ws[0].text)
-			if msg != "" || math.IsNaN(v) {
-				if msg == "" {
-					msg = "a table voltage cannot be NA"
-				}
-				errs.Add(at(ws[0]), ErrNumber, "%s", msg)
-				continue
-			}
-			if len(ws) != 2 && len(ws) != 4 {
-				errs.Add(at(ws[0]), ErrSyntax, "a clamp table row has a voltage and 1 or 3 currents (typ min max), not %d", len(ws)-1)
-				continue
-			}
-			row := IVRow{V: v, I: nanCorners(), Pos: at(ws[0])}
-			row.I = ibisCorners(ws[1:], at, at(ws[0]), &errs)
-			if math.IsNaN(row.I[Typ]) {
-				errs.Add(at(ws[1]), ErrNumber, "the typ current cannot be NA")
-				continue
-			}
-			tab := &model.GNDClamp
-			if section == "power clamp" {
-				tab = &model.PowerClamp
-			}
-			if n := len(*tab); n > 0 && v == (*tab)[n-1].V {
-				errs.Add(at(ws[0]), ErrOrder, "voltage %g V repeats the row before", v)
-				continue
-			}
-			*tab = append(*tab, row)
-		}
 	}
-	for _, m := range ib.Models {
+	for _, m := range r.ib.Models {
 		for _, tab := range []*[]IVRow{&m.GNDClamp, &m.PowerClamp} {
-			sortRows(*tab, &errs)
+			sortRows(*tab, &r.errs)
 		}
 	}
-	errs.RemoveMultiples()
-	if err := errs.Err(); err != nil {
+	r.errs.RemoveMultiples()
+	if err := r.errs.Err(); err != nil {
 		return nil, err
 	}
-	return ib, nil
+	return r.ib, nil
+}
+
+// ibisReader is what an IBIS file has said so far, line by line.
+type ibisReader struct {
+	name    string
+	ib      *IBIS
+	errs    ErrorList
+	comment rune   // [Comment Char] changes it for the lines after
+	section string // the keyword whose rows follow
+	// model is the [Model] whose keywords and rows follow; nil before the
+	// first, and after one without a name, so that its rows are skipped.
+	model     *IBISModel
+	pinHasRLC bool // [Pin] names R_pin, L_pin and C_pin columns
+	ended     bool
+}
+
+// at returns the positions of the words of line no.
+func (r *ibisReader) at(no int) func(field) Pos {
+	return func(f field) Pos { return Pos{File: r.name, Line: no, Col: f.col} }
+}
+
+// line reads line no; false stops the reading.
+func (r *ibisReader) line(no int, raw string) bool {
+	s := strings.TrimSuffix(raw, "\r")
+	if k := strings.IndexRune(s, r.comment); k >= 0 {
+		s = s[:k]
+	}
+	if strings.TrimSpace(s) == "" {
+		return true
+	}
+	ws := words(s)
+	at := r.at(no)
+	if r.ended {
+		r.errs.Add(at(ws[0]), ErrSyntax, "text after [End]")
+		return false
+	}
+	if strings.HasPrefix(strings.TrimSpace(s), "[") {
+		r.keyword(s, ws, at)
+		return true
+	}
+	switch r.section {
+	case "package":
+		r.packageRow(ws, at)
+	case "pin":
+		r.pinRow(ws, at)
+	case "model":
+		r.modelRow(ws, at)
+	case "gnd clamp", "power clamp":
+		r.clampRow(ws, at)
+	}
+	return true
+}
+
+// keyword reads a line that starts with a bracket; the keywords zapnet
+// does not use only start a section whose rows are skipped.
+func (r *ibisReader) keyword(s string, ws []field, at func(field) Pos) {
+	ib := r.ib
+	kw, rest := ibisKeyword(s)
+	if kw == "" {
+		r.errs.Add(at(ws[0]), ErrSyntax, "a keyword's bracket is not closed")
+		return
+	}
+	args := words(rest.text)
+	for k := range args {
+		args[k].col += rest.col - 1
+	}
+	r.section = kw
+	switch kw {
+	case "ibis ver":
+		if len(args) > 0 {
+			ib.Version = args[0].text
+		}
+	case "comment char":
+		if len(args) > 0 {
+			r.comment = []rune(args[0].text)[0]
+		}
+	case "component":
+		if len(args) > 0 {
+			ib.Component = strings.TrimSpace(rest.text)
+		}
+	case "pin":
+		r.pinHasRLC = len(args) >= 5
+	case "model":
+		if len(args) == 0 {
+			r.errs.Add(at(ws[0]), ErrMissing, "[Model] needs a name")
+			r.model = nil
+			return
+		}
+		r.model = &IBISModel{Name: args[0].text, Pos: at(args[0]),
+			CComp: nanCorners(), VoltageRange: nanCorners(), PowerRef: nanCorners(), GNDRef: nanCorners()}
+		if prev := ib.Model(r.model.Name); prev != nil {
+			r.errs.Add(at(args[0]), ErrSyntax, "model %s defined twice (first at line %d)", r.model.Name, prev.Pos.Line)
+		}
+		ib.Models = append(ib.Models, r.model)
+	case "voltage range", "power clamp reference", "gnd clamp reference":
+		if r.model == nil {
+			r.errs.Add(at(ws[0]), ErrSyntax, "[%s] outside a [Model]", kw)
+			return
+		}
+		c := ibisCorners(args, at, at(ws[0]), &r.errs)
+		switch kw {
+		case "voltage range":
+			r.model.VoltageRange = c
+		case "power clamp reference":
+			r.model.PowerRef = c
+		default:
+			r.model.GNDRef = c
+		}
+	case "gnd clamp", "power clamp":
+		if r.model == nil {
+			r.errs.Add(at(ws[0]), ErrSyntax, "[%s] outside a [Model]", kw)
+		}
+	case "end":
+		r.ended = true
+	}
+}
+
+// packageRow reads a row of [Package]: R_pkg, L_pkg or C_pkg and its corners.
+func (r *ibisReader) packageRow(ws []field, at func(field) Pos) {
+	k, ok := map[string]int{"r_pkg": 0, "l_pkg": 1, "c_pkg": 2}[strings.ToLower(ws[0].text)]
+	if !ok {
+		r.errs.Add(at(ws[0]), ErrSyntax, "unknown [Package] entry %q (R_pkg, L_pkg, C_pkg)", ws[0].text)
+		return
+	}
+	r.ib.Package[k] = ibisCorners(ws[1:], at, at(ws[0]), &r.errs)
+}
+
+// pinRow reads a row of [Pin]; its R_pin, L_pin and C_pin count only when
+// all three read.
+func (r *ibisReader) pinRow(ws []field, at func(field) Pos) {
+	if len(ws) < 3 {
+		r.errs.Add(at(ws[0]), ErrSyntax, "a [Pin] row is: pin_name signal_name model_name [R_pin L_pin C_pin]")
+		return
+	}
+	p := IBISPin{Name: ws[0].text, Signal: ws[1].text, Model: ws[2].text, R: math.NaN(), L: math.NaN(), C: math.NaN(), Pos: at(ws[0])}
+	if r.pinHasRLC && len(ws) >= 6 {
+		var bad bool
+		vals := [3]float64{}
+		for k := range 3 {
+			v, msg := ibisNumber(ws[3+k].text)
+			if msg != "" {
+				r.errs.Add(at(ws[3+k]), ErrNumber, "%s", msg)
+				bad = true
+			}
+			vals[k] = v
+		}
+		if !bad {
+			p.R, p.L, p.C = vals[0], vals[1], vals[2]
+		}
+	}
+	r.ib.Pins = append(r.ib.Pins, p)
+}
+
+// modelRow reads a sub-parameter line of a [Model].
+func (r *ibisReader) modelRow(ws []field, at func(field) Pos) {
+	if r.model == nil {
+		return
+	}
+	switch strings.ToLower(ws[0].text) {
+	case "model_type":
+		if len(ws) > 1 {
+			r.model.Type = ws[1].text
+		}
+	case "c_comp":
+		r.model.CComp = ibisCorners(ws[1:], at, at(ws[0]), &r.errs)
+	}
+	// Other sub-parameters (Vinl, Vinh, Vmeas, ...) do not concern a
+	// clamp model.
+}
+
+// clampRow reads a row of a [GND Clamp] or [POWER Clamp] table.
+func (r *ibisReader) clampRow(ws []field, at func(field) Pos) {
+	if r.model == nil {
+		return
+	}
+	if len(ws) < 2 {
+		r.errs.Add(at(ws[0]), ErrSyntax, "a clamp table row is: voltage I(typ) [I(min) I(max)]")
+		return
+	}
+	v, msg := ibisNumber(ws[0].text)
+	if msg != "" || math.IsNaN(v) {
+		if msg == "" {
+			msg = "a table voltage cannot be NA"
+		}
+		r.errs.Add(at(ws[0]), ErrNumber, "%s", msg)
+		return
+	}
+	if len(ws) != 2 && len(ws) != 4 {
+		r.errs.Add(at(ws[0]), ErrSyntax, "a clamp table row has a voltage and 1 or 3 currents (typ min max), not %d", len(ws)-1)
+		return
+	}
+	row := IVRow{V: v, I: nanCorners(), Pos: at(ws[0])}
+	row.I = ibisCorners(ws[1:], at, at(ws[0]), &r.errs)
+	if math.IsNaN(row.I[Typ]) {
+		r.errs.Add(at(ws[1]), ErrNumber, "the typ current cannot be NA")
+		return
+	}
+	tab := &r.model.GNDClamp
+	if r.section == "power clamp" {
+		tab = &r.model.PowerClamp
+	}
+	if n := len(*tab); n > 0 && v == (*tab)[n-1].V {
+		r.errs.Add(at(ws[0]), ErrOrder, "voltage %g V repeats the row before", v)
+		return
+	}
+	*tab = append(*tab, row)
 }
 
 // sortRows puts a clamp table in rising voltage (IBIS tables are written

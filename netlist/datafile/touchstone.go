@@ -59,215 +59,280 @@ type tsToken struct {
 // [Network Data], [Noise Data] and [End]; its Y- and Z-parameters are not
 // normalised. Mixed-mode data and H- and G-parameters are refused.
 func ReadTouchstone(name string, src []byte) (*Touchstone, error) {
-	var errs ErrorList
-	t := &Touchstone{Version: 1, Param: 'S', Format: "MA", R: 50}
-	unit := 1e9
-	seenOption, inData, inInfo, ended, noise := false, false, false, false, false
-	nFreq, nNoise := -1, -1
-	order := ""      // two-port data order, v2
-	matrix := "full" // v2 matrix format
-	var refs []float64
-	var refPos Pos
-	inRef := false
-	var toks []tsToken
-	first := true
+	r := &tsReader{
+		name:   name,
+		t:      &Touchstone{Version: 1, Param: 'S', Format: "MA", R: 50},
+		unit:   1e9,
+		first:  true,
+		nFreq:  -1,
+		matrix: "full",
+	}
 	for _, ln := range lines(src, '!') {
-		text := strings.TrimSpace(ln.text)
-		if text == "" {
-			continue
-		}
-		ws := words(ln.text)
-		at := func(f field) Pos { return Pos{File: name, Line: ln.no, Col: f.col} }
-		if ended {
-			errs.Add(at(ws[0]), ErrSyntax, "text after [End]")
+		if !r.line(ln) {
 			break
 		}
-		if inInfo {
-			if kw, _ := tsKeyword(ln.text); kw == "end information" {
-				inInfo = false
-			}
-			continue
-		}
-		if strings.HasPrefix(text, "[") {
-			inRef = false
-			kw, rest := tsKeyword(ln.text)
-			restWords := words(rest.text)
-			for k := range restWords {
-				restWords[k].col += rest.col - 1
-			}
-			if kw == "" {
-				errs.Add(at(ws[0]), ErrSyntax, "a keyword's bracket is not closed")
-				continue
-			}
-			if first && kw != "version" {
-				// A version 1 file has no keywords.
-				errs.Add(at(ws[0]), ErrSyntax, "keyword [%s] in a version 1 file (a version 2 file starts with [Version] 2.0)", kw)
-				first = false
-				continue
-			}
-			first = false
-			arg := func() (field, bool) {
-				if len(restWords) == 0 {
-					errs.Add(at(ws[0]), ErrMissing, "[%s] needs a value", kw)
-					return field{}, false
-				}
-				return restWords[0], true
-			}
-			count := func() int {
-				f, ok := arg()
-				if !ok {
-					return -1
-				}
-				n, err := strconv.Atoi(f.text)
-				if err != nil || n < 1 {
-					errs.Add(at(f), ErrNumber, "[%s] wants a whole number above 0, got %q", kw, f.text)
-					return -1
-				}
-				return n
-			}
-			switch kw {
-			case "version":
-				if f, ok := arg(); ok {
-					v, err := strconv.ParseFloat(f.text, 64)
-					if err != nil || v < 2 || v >= 3 {
-						errs.Add(at(f), ErrUnsupported, "[Version] %s: zapnet reads versions 1.x and 2.x", f.text)
-					}
-				}
-				t.Version = 2
-			case "number of ports":
-				t.Ports = count()
-			case "two-port data order":
-				if f, ok := arg(); ok {
-					order = f.text
-					if order != "12_21" && order != "21_12" {
-						errs.Add(at(f), ErrSyntax, "[Two-Port Data Order] is 12_21 or 21_12, not %q", f.text)
-					}
-				}
-			case "number of frequencies":
-				nFreq = count()
-			case "number of noise frequencies":
-				nNoise = count()
-			case "reference":
-				refPos = at(ws[0])
-				inRef = true
-				for _, f := range restWords {
-					refs = append(refs, tsReal(f, Pos{File: name, Line: ln.no, Col: f.col}, &errs))
-				}
-			case "matrix format":
-				if f, ok := arg(); ok {
-					matrix = strings.ToLower(f.text)
-					if matrix != "full" && matrix != "lower" && matrix != "upper" {
-						errs.Add(at(f), ErrSyntax, "[Matrix Format] is Full, Lower or Upper, not %q", f.text)
-					}
-				}
-			case "mixed-mode order":
-				errs.Add(at(ws[0]), ErrUnsupported, "mixed-mode data is not supported: give single-ended S-parameters")
-			case "begin information":
-				inInfo = true
-			case "network data":
-				if !seenOption {
-					errs.Add(at(ws[0]), ErrMissing, "[Network Data] before the option line (# ...)")
-				}
-				inData = true
-			case "noise data":
-				inData, noise = false, true
-			case "end":
-				ended = true
-			default:
-				errs.Add(at(ws[0]), ErrSyntax, "unknown keyword [%s]", kw)
-			}
-			continue
-		}
-		if strings.HasPrefix(text, "#") {
-			first = false
-			if seenOption {
-				continue // only the first option line counts
-			}
-			seenOption = true
-			unit = t.option(name, ln, &errs)
-			continue
-		}
-		first = false
-		if inRef {
-			for _, f := range ws {
-				refs = append(refs, tsReal(f, at(f), &errs))
-			}
-			continue
-		}
-		if noise {
-			continue
-		}
-		if t.Version == 2 && !inData {
-			errs.Add(at(ws[0]), ErrSyntax, "data before [Network Data]")
-			continue
-		}
-		if !seenOption {
-			errs.Add(at(ws[0]), ErrMissing, "data before the option line: the first line that is not a comment is # <unit> <parameter> <format> R <n>")
-			seenOption = true
-		}
-		for k, f := range ws {
-			toks = append(toks, tsToken{f.text, at(f), k == len(ws)-1})
-		}
 	}
+	t := r.t
+	if !r.ports() {
+		r.errs.RemoveMultiples()
+		return nil, r.errs
+	}
+	r.references()
+	t.records(name, r.toks, r.unit, r.order, r.matrix, &r.errs)
+	if r.nFreq > 0 && len(t.Freq) != r.nFreq && len(r.errs) == 0 {
+		r.errs.Add(Pos{File: name}, ErrSyntax, "[Number of Frequencies] says %d, the data has %d", r.nFreq, len(t.Freq))
+	}
+	if len(t.Freq) == 0 && len(r.errs) == 0 {
+		r.errs.Add(Pos{File: name}, ErrMissing, "no network data")
+	}
+	r.errs.RemoveMultiples()
+	if err := r.errs.Err(); err != nil {
+		return nil, err
+	}
+	return t, nil
+}
+
+// tsReader is what a Touchstone file has said so far, line by line. The
+// data's numbers wait in toks: they fall into records only once the whole
+// file has told the number of ports and how the matrix is laid out.
+type tsReader struct {
+	name string
+	t    *Touchstone
+	errs ErrorList
+	unit float64 // the frequency unit's factor
+
+	// first: no line but comments and unclosed brackets yet, so a keyword
+	// other than [Version] marks a version 1 file.
+	first, seenOption                   bool
+	inData, inInfo, inRef, noise, ended bool
+
+	nFreq  int
+	order  string // two-port data order, v2
+	matrix string // v2 matrix format: full, lower or upper
+	refs   []float64
+	refPos Pos
+	toks   []tsToken
+}
+
+func (r *tsReader) at(ln line, f field) Pos { return Pos{File: r.name, Line: ln.no, Col: f.col} }
+
+// line reads one line; false stops the reading.
+func (r *tsReader) line(ln line) bool {
+	text := strings.TrimSpace(ln.text)
+	if text == "" {
+		return true
+	}
+	ws := words(ln.text)
+	if r.ended {
+		r.errs.Add(r.at(ln, ws[0]), ErrSyntax, "text after [End]")
+		return false
+	}
+	if r.inInfo {
+		if kw, _ := tsKeyword(ln.text); kw == "end information" {
+			r.inInfo = false
+		}
+		return true
+	}
+	if strings.HasPrefix(text, "[") {
+		r.keyword(ln, ws)
+		return true
+	}
+	if strings.HasPrefix(text, "#") {
+		r.first = false
+		if r.seenOption {
+			return true // only the first option line counts
+		}
+		r.seenOption = true
+		r.unit = r.t.option(r.name, ln, &r.errs)
+		return true
+	}
+	r.first = false
+	if r.inRef {
+		for _, f := range ws {
+			r.refs = append(r.refs, tsReal(f, r.at(ln, f), &r.errs))
+		}
+		return true
+	}
+	if r.noise {
+		return true
+	}
+	if r.t.Version == 2 && !r.inData {
+		r.errs.Add(r.at(ln, ws[0]), ErrSyntax, "data before [Network Data]")
+		return true
+	}
+	if !r.seenOption {
+		r.errs.Add(r.at(ln, ws[0]), ErrMissing, "data before the option line: the first line that is not a comment is # <unit> <parameter> <format> R <n>")
+		r.seenOption = true
+	}
+	for k, f := range ws {
+		r.toks = append(r.toks, tsToken{f.text, r.at(ln, f), k == len(ws)-1})
+	}
+	return true
+}
+
+// tsKeywordLine is a "[Keyword] value ..." line of a version 2 file.
+type tsKeywordLine struct {
+	kw   string // lower case
+	ln   line
+	head Pos     // where the line's first word starts
+	rest []field // the words after the bracket, their columns the line's
+}
+
+// keyword reads a line that starts with a bracket.
+func (r *tsReader) keyword(ln line, ws []field) {
+	r.inRef = false
+	kw, rest := tsKeyword(ln.text)
+	restWords := words(rest.text)
+	for k := range restWords {
+		restWords[k].col += rest.col - 1
+	}
+	head := r.at(ln, ws[0])
+	if kw == "" {
+		r.errs.Add(head, ErrSyntax, "a keyword's bracket is not closed")
+		return
+	}
+	if r.first && kw != "version" {
+		// A version 1 file has no keywords.
+		r.errs.Add(head, ErrSyntax, "keyword [%s] in a version 1 file (a version 2 file starts with [Version] 2.0)", kw)
+		r.first = false
+		return
+	}
+	r.first = false
+	r.setKeyword(tsKeywordLine{kw: kw, ln: ln, head: head, rest: restWords})
+}
+
+// setKeyword takes in what a version 2 keyword says.
+func (r *tsReader) setKeyword(k tsKeywordLine) {
+	t := r.t
+	switch k.kw {
+	case "version":
+		if f, ok := r.arg(k); ok {
+			v, err := strconv.ParseFloat(f.text, 64)
+			if err != nil || v < 2 || v >= 3 {
+				r.errs.Add(r.at(k.ln, f), ErrUnsupported, "[Version] %s: zapnet reads versions 1.x and 2.x", f.text)
+			}
+		}
+		t.Version = 2
+	case "number of ports":
+		t.Ports = r.count(k)
+	case "two-port data order":
+		if f, ok := r.arg(k); ok {
+			r.order = f.text
+			if r.order != "12_21" && r.order != "21_12" {
+				r.errs.Add(r.at(k.ln, f), ErrSyntax, "[Two-Port Data Order] is 12_21 or 21_12, not %q", f.text)
+			}
+		}
+	case "number of frequencies":
+		r.nFreq = r.count(k)
+	case "number of noise frequencies":
+		r.count(k) // checked, though the noise data is skipped
+	case "reference":
+		r.refPos = k.head
+		r.inRef = true
+		for _, f := range k.rest {
+			r.refs = append(r.refs, tsReal(f, r.at(k.ln, f), &r.errs))
+		}
+	case "matrix format":
+		if f, ok := r.arg(k); ok {
+			r.matrix = strings.ToLower(f.text)
+			if r.matrix != "full" && r.matrix != "lower" && r.matrix != "upper" {
+				r.errs.Add(r.at(k.ln, f), ErrSyntax, "[Matrix Format] is Full, Lower or Upper, not %q", f.text)
+			}
+		}
+	case "mixed-mode order":
+		r.errs.Add(k.head, ErrUnsupported, "mixed-mode data is not supported: give single-ended S-parameters")
+	case "begin information":
+		r.inInfo = true
+	case "network data":
+		if !r.seenOption {
+			r.errs.Add(k.head, ErrMissing, "[Network Data] before the option line (# ...)")
+		}
+		r.inData = true
+	case "noise data":
+		r.inData, r.noise = false, true
+	case "end":
+		r.ended = true
+	default:
+		r.errs.Add(k.head, ErrSyntax, "unknown keyword [%s]", k.kw)
+	}
+}
+
+// arg returns a keyword's value, the first word after its bracket.
+func (r *tsReader) arg(k tsKeywordLine) (field, bool) {
+	if len(k.rest) == 0 {
+		r.errs.Add(k.head, ErrMissing, "[%s] needs a value", k.kw)
+		return field{}, false
+	}
+	return k.rest[0], true
+}
+
+// count returns a keyword's whole-number value, −1 when it has none.
+func (r *tsReader) count(k tsKeywordLine) int {
+	f, ok := r.arg(k)
+	if !ok {
+		return -1
+	}
+	n, err := strconv.Atoi(f.text)
+	if err != nil || n < 1 {
+		r.errs.Add(r.at(k.ln, f), ErrNumber, "[%s] wants a whole number above 0, got %q", k.kw, f.text)
+		return -1
+	}
+	return n
+}
+
+// ports settles the number of ports (a version 1 file's from its name or
+// its first data line) and says whether there is one.
+func (r *tsReader) ports() bool {
+	t := r.t
 	if t.Version == 2 {
 		switch {
 		case t.Ports < 1:
-			errs.Add(Pos{File: name}, ErrMissing, "a version 2 file needs [Number of Ports]")
-		case t.Ports == 2 && order == "":
-			errs.Add(Pos{File: name}, ErrMissing, "a version 2 two-port file needs [Two-Port Data Order]")
+			r.errs.Add(Pos{File: r.name}, ErrMissing, "a version 2 file needs [Number of Ports]")
+		case t.Ports == 2 && r.order == "":
+			r.errs.Add(Pos{File: r.name}, ErrMissing, "a version 2 two-port file needs [Two-Port Data Order]")
 		}
-		if !ended && len(errs) == 0 {
-			errs.Add(Pos{File: name}, ErrMissing, "a version 2 file ends with [End]")
+		if !r.ended && len(r.errs) == 0 {
+			r.errs.Add(Pos{File: r.name}, ErrMissing, "a version 2 file ends with [End]")
 		}
-	} else {
-		order = "21_12"
-		t.Ports = tsPortsFromName(name)
-		if t.Ports == 0 && len(toks) > 0 {
-			n := 0
-			for _, tk := range toks {
-				n++
-				if tk.eol {
-					break
-				}
-			}
-			switch n {
-			case 3:
-				t.Ports = 1
-			case 9:
-				t.Ports = 2
-			default:
-				errs.Add(toks[0].pos, ErrMissing, "cannot tell the number of ports: name the file .s1p, .s2p, ... (the first data line has %d numbers)", n)
+		return t.Ports >= 1
+	}
+	r.order = "21_12"
+	t.Ports = tsPortsFromName(r.name)
+	if t.Ports == 0 && len(r.toks) > 0 {
+		n := 0
+		for _, tk := range r.toks {
+			n++
+			if tk.eol {
+				break
 			}
 		}
+		switch n {
+		case 3:
+			t.Ports = 1
+		case 9:
+			t.Ports = 2
+		default:
+			r.errs.Add(r.toks[0].pos, ErrMissing, "cannot tell the number of ports: name the file .s1p, .s2p, ... (the first data line has %d numbers)", n)
+		}
 	}
-	if t.Ports < 1 {
-		errs.RemoveMultiples()
-		return nil, errs
-	}
-	_ = nNoise
+	return t.Ports >= 1
+}
+
+// references gives each port the option line's reference resistance, or
+// the one [Reference] names for it.
+func (r *tsReader) references() {
+	t := r.t
 	t.Ref = make([]float64, t.Ports)
 	for k := range t.Ref {
 		t.Ref[k] = t.R
 	}
-	if refs != nil {
-		if len(refs) != t.Ports {
-			errs.Add(refPos, ErrSyntax, "[Reference] gives %d resistances for %d ports", len(refs), t.Ports)
+	if r.refs != nil {
+		if len(r.refs) != t.Ports {
+			r.errs.Add(r.refPos, ErrSyntax, "[Reference] gives %d resistances for %d ports", len(r.refs), t.Ports)
 		} else {
-			copy(t.Ref, refs)
+			copy(t.Ref, r.refs)
 		}
 	}
-	t.records(name, toks, unit, order, matrix, &errs)
-	if nFreq > 0 && len(t.Freq) != nFreq && len(errs) == 0 {
-		errs.Add(Pos{File: name}, ErrSyntax, "[Number of Frequencies] says %d, the data has %d", nFreq, len(t.Freq))
-	}
-	if len(t.Freq) == 0 && len(errs) == 0 {
-		errs.Add(Pos{File: name}, ErrMissing, "no network data")
-	}
-	errs.RemoveMultiples()
-	if err := errs.Err(); err != nil {
-		return nil, err
-	}
-	return t, nil
 }
 
 // tsKeyword returns the lower-case keyword of a "[Keyword] rest" line and

@@ -35,12 +35,32 @@ func Overlays(c *netlist.Circuit, runs []study.Run, opt *Options) ([]Figure, err
 	if len(solved) == 0 {
 		return nil, nil
 	}
-	type group struct {
-		name, what string
-		runs       []study.Run
-		label      func(*study.Run) string
+	var figs []Figure
+	for _, g := range overlayGroups(solved) {
+		if len(g.runs) < 2 {
+			continue
+		}
+		fs, err := g.figures(&o, c)
+		if err != nil {
+			return nil, err
+		}
+		figs = append(figs, fs...)
 	}
-	var groups []group
+	return figs, nil
+}
+
+// overlayGroup is a set of runs compared in one figure a quantity.
+type overlayGroup struct {
+	name, what string
+	runs       []study.Run
+	label      func(*study.Run) string
+}
+
+// overlayGroups groups the solved runs as Overlays compares them: the
+// first variant's across levels and polarities, and with several variants
+// every variant's run at the highest level, a group a polarity.
+func overlayGroups(solved []study.Run) []overlayGroup {
+	var groups []overlayGroup
 	first := solved[0].VariantIndex
 	var levels []study.Run
 	several := false
@@ -51,78 +71,79 @@ func Overlays(c *netlist.Circuit, runs []study.Run, opt *Options) ([]Figure, err
 			several = true
 		}
 	}
-	g := group{name: "overlay", what: "every run", runs: levels,
+	g := overlayGroup{name: "overlay", what: "every run", runs: levels,
 		label: func(r *study.Run) string { return spec.FormatSI(r.Level, r.LevelUnit) + " " + r.Polarity }}
 	if several {
 		g.what = "every level, " + levels[0].Variant.String()
 	}
 	groups = append(groups, g)
-	if several {
-		top := math.Inf(-1)
-		for _, r := range solved {
-			top = math.Max(top, r.Level)
-		}
-		for _, pol := range []string{"pos", "neg"} {
-			var vs []study.Run
-			for _, r := range solved {
-				if r.Level == top && r.Polarity == pol {
-					vs = append(vs, r)
-				}
-			}
-			if len(vs) == 0 {
-				continue
-			}
-			groups = append(groups, group{name: "overlay-variants-" + pol,
-				what:  "every variant, " + spec.FormatSI(top, vs[0].LevelUnit) + " " + pol,
-				runs:  vs,
-				label: func(r *study.Run) string { return r.Variant.String() }})
-		}
+	if !several {
+		return groups
 	}
-
-	var figs []Figure
-	for _, g := range groups {
-		use := g.runs
-		if len(use) < 2 {
+	top := math.Inf(-1)
+	for _, r := range solved {
+		top = math.Max(top, r.Level)
+	}
+	for _, pol := range []string{"pos", "neg"} {
+		var vs []study.Run
+		for _, r := range solved {
+			if r.Level == top && r.Polarity == pol {
+				vs = append(vs, r)
+			}
+		}
+		if len(vs) == 0 {
 			continue
 		}
-		note := ""
-		if len(use) > o.MaxOverlay {
-			note = fmt.Sprintf(" (the first %d of %d runs)", o.MaxOverlay, len(use))
-			use = use[:o.MaxOverlay]
+		groups = append(groups, overlayGroup{name: "overlay-variants-" + pol,
+			what:  "every variant, " + spec.FormatSI(top, vs[0].LevelUnit) + " " + pol,
+			runs:  vs,
+			label: func(r *study.Run) string { return r.Variant.String() }})
+	}
+	return groups
+}
+
+// figures draws the group's figures: the residual pulse at each protected
+// pin and the current in each clamp, of at most o.MaxOverlay runs.
+func (g overlayGroup) figures(o *Options, c *netlist.Circuit) ([]Figure, error) {
+	use := g.runs
+	note := ""
+	if len(use) > o.MaxOverlay {
+		note = fmt.Sprintf(" (the first %d of %d runs)", o.MaxOverlay, len(use))
+		use = use[:o.MaxOverlay]
+	}
+	var figs []Figure
+	ref := &use[0]
+	closeUp := closeUpSpan(ref.Waves)
+	for _, pin := range ref.Pins() {
+		what := "Residual pulse at " + pin.Name + ", " + g.what + note
+		f, err := residualFigure(o, c, use, g.label, pin, g.name+"-residual-"+pin.Name, what, closeUp)
+		if err != nil {
+			return nil, err
 		}
-		ref := &use[0]
-		closeUp := closeUpSpan(ref.Waves)
-		for _, pin := range ref.Pins() {
-			what := "Residual pulse at " + pin.Name + ", " + g.what + note
-			f, err := residualFigure(&o, c, use, g.label, pin, g.name+"-residual-"+pin.Name, what, closeUp)
-			if err != nil {
-				return nil, err
-			}
-			figs = append(figs, f)
+		figs = append(figs, f)
+	}
+	for _, e := range ref.Elements {
+		if e.Role != spec.Protector {
+			continue
 		}
-		for _, e := range ref.Elements {
-			if e.Role != spec.Protector {
-				continue
+		var cs []curve
+		for i := range use {
+			if iw := elementWave(use[i].Waves, e.Name); iw != nil {
+				cs = append(cs, curve{g.label(&use[i]), use[i].Waves.Time, iw})
 			}
-			var cs []curve
-			for i := range use {
-				if iw := elementWave(use[i].Waves, e.Name); iw != nil {
-					cs = append(cs, curve{g.label(&use[i]), use[i].Waves.Time, iw})
-				}
-			}
-			var lims []limitLine
-			if l := ref.LimitOn(e.Name, spec.PeakCurrent); l != nil {
-				lims = append(lims, limitLine{l.Param + " +" + spec.FormatSI(l.Value, "A"), l.Value},
-					limitLine{l.Param + " " + spec.FormatSI(-l.Value, "A"), -l.Value})
-			}
-			what := "Current in " + e.Name + ", " + g.what + note
-			f, err := timeFigure(&o, timeSpec{name: g.name + "-clamp-" + e.Name, what: what, caption: what,
-				quantity: "current", unit: "A", curves: cs, limits: lims, closeUp: closeUp})
-			if err != nil {
-				return nil, err
-			}
-			figs = append(figs, f)
 		}
+		var lims []limitLine
+		if l := ref.LimitOn(e.Name, spec.PeakCurrent); l != nil {
+			lims = append(lims, limitLine{l.Param + " +" + spec.FormatSI(l.Value, "A"), l.Value},
+				limitLine{l.Param + " " + spec.FormatSI(-l.Value, "A"), -l.Value})
+		}
+		what := "Current in " + e.Name + ", " + g.what + note
+		f, err := timeFigure(o, timeSpec{name: g.name + "-clamp-" + e.Name, what: what, caption: what,
+			quantity: "current", unit: "A", curves: cs, limits: lims, closeUp: closeUp})
+		if err != nil {
+			return nil, err
+		}
+		figs = append(figs, f)
 	}
 	return figs, nil
 }

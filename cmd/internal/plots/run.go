@@ -50,29 +50,7 @@ func RunFigures(c *netlist.Circuit, r *study.Run, opt *Options) ([]Figure, error
 		}
 	}
 
-	var nodes []curve
-	var nodeLimits []limitLine
-	watched := map[string]bool{}
-	for _, n := range r.Nodes {
-		watched[n.Name] = n.Watched
-	}
-	anyWatch := false
-	for _, n := range r.Nodes {
-		anyWatch = anyWatch || n.Watched
-	}
-	for _, n := range r.Nodes {
-		if (anyWatch && !n.Watched) || (!anyWatch && !n.Pin) {
-			continue
-		}
-		if v := nodeWave(w, n.Name); v != nil {
-			nodes = append(nodes, curve{n.Name, w.Time, v})
-		}
-	}
-	for _, l := range r.Limits {
-		if (l.Param == "max" || l.Param == "min") && watched[l.Element] {
-			nodeLimits = append(nodeLimits, limitLine{l.Element + " " + l.Param + " " + spec.FormatSI(l.Value, "V"), l.Value})
-		}
-	}
+	nodes, nodeLimits := nodeCurves(r)
 	if len(nodes) > 0 {
 		what := "Node voltages, " + label
 		if err := add(timeFigure(&o, timeSpec{name: "nodes", what: what, caption: what,
@@ -81,24 +59,7 @@ func RunFigures(c *netlist.Circuit, r *study.Run, opt *Options) ([]Figure, error
 		}
 	}
 
-	var clamps []curve
-	var clampLimits []limitLine
-	for _, e := range r.Elements {
-		if e.Role != spec.Protector {
-			continue
-		}
-		i := elementWave(w, e.Name)
-		if i == nil {
-			continue
-		}
-		clamps = append(clamps, curve{e.Name, w.Time, i})
-		if l := r.LimitOn(e.Name, spec.PeakCurrent); l != nil {
-			// The rating bounds |i|: draw it on the side the current
-			// went.
-			v := math.Copysign(l.Value, signAtPeak(i))
-			clampLimits = append(clampLimits, limitLine{e.Name + " " + l.Param + " " + spec.FormatSI(v, "A"), v})
-		}
-	}
+	clamps, clampLimits := clampCurves(r)
 	if len(clamps) > 0 {
 		what := "Clamp current, " + label
 		if err := add(timeFigure(&o, timeSpec{name: "clamps", what: what, caption: what,
@@ -119,6 +80,60 @@ func RunFigures(c *netlist.Circuit, r *study.Run, opt *Options) ([]Figure, error
 		return nil, err
 	}
 	return figs, nil
+}
+
+// nodeCurves are the voltages of the watched nodes (of the pins' nodes when
+// nothing is watched), with the watched nodes' max and min.
+func nodeCurves(r *study.Run) ([]curve, []limitLine) {
+	w := r.Waves
+	var nodes []curve
+	var limits []limitLine
+	watched := map[string]bool{}
+	for _, n := range r.Nodes {
+		watched[n.Name] = n.Watched
+	}
+	anyWatch := false
+	for _, n := range r.Nodes {
+		anyWatch = anyWatch || n.Watched
+	}
+	for _, n := range r.Nodes {
+		if (anyWatch && !n.Watched) || (!anyWatch && !n.Pin) {
+			continue
+		}
+		if v := nodeWave(w, n.Name); v != nil {
+			nodes = append(nodes, curve{n.Name, w.Time, v})
+		}
+	}
+	for _, l := range r.Limits {
+		if (l.Param == "max" || l.Param == "min") && watched[l.Element] {
+			limits = append(limits, limitLine{l.Element + " " + l.Param + " " + spec.FormatSI(l.Value, "V"), l.Value})
+		}
+	}
+	return nodes, limits
+}
+
+// clampCurves are the currents of the clamps, with their ipp.
+func clampCurves(r *study.Run) ([]curve, []limitLine) {
+	w := r.Waves
+	var clamps []curve
+	var limits []limitLine
+	for _, e := range r.Elements {
+		if e.Role != spec.Protector {
+			continue
+		}
+		i := elementWave(w, e.Name)
+		if i == nil {
+			continue
+		}
+		clamps = append(clamps, curve{e.Name, w.Time, i})
+		if l := r.LimitOn(e.Name, spec.PeakCurrent); l != nil {
+			// The rating bounds |i|: draw it on the side the current
+			// went.
+			v := math.Copysign(l.Value, signAtPeak(i))
+			limits = append(limits, limitLine{e.Name + " " + l.Param + " " + spec.FormatSI(v, "A"), v})
+		}
+	}
+	return clamps, limits
 }
 
 // residualFigure draws the residual pulse v(pin) − v(ref) of pin in each of

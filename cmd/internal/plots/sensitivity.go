@@ -33,16 +33,7 @@ func SensitivityBars(title string, res *whatif.SensitivityResult, opt *Options) 
 	if res == nil {
 		return Figure{}, fmt.Errorf("plots: sensitivity: nothing to draw")
 	}
-	finite := func(v float64) bool { return !math.IsNaN(v) && math.Abs(v) < 1e300 }
-	var rows []whatif.ParamEffect
-	left := 0
-	for _, p := range res.Parameters {
-		if p.Error != "" || !finite(p.Minus10) || !finite(p.Plus10) {
-			left++
-			continue
-		}
-		rows = append(rows, p)
-	}
+	rows, left := placedEffects(res)
 	if len(rows) == 0 || !finite(res.Baseline) {
 		return Figure{}, fmt.Errorf("plots: sensitivity: no parameter with a finite margin to draw")
 	}
@@ -75,24 +66,72 @@ func SensitivityBars(title string, res *whatif.SensitivityResult, opt *Options) 
 
 	p := newPlot("")
 	p.X.Label.Text = quantity + " (% of the limit)"
+	minus, plus := effectBars(p, res.Baseline, rows)
+	lo, hi := marginSpan(res.Baseline, rows)
+	pad := 0.05 * (hi - lo)
+	p.X.Min, p.X.Max = lo-pad, hi+pad
+
+	step := stepText(res.Step)
+	entries := []legendEntry{{"−" + step, minus}, {"+" + step, plus}}
+	fig := Figure{Name: "sensitivity", Caption: caption, Series: []string{"−" + step, "+" + step}}
+	lines, err := marginLines(p, res.Baseline, lo, hi)
+	if err != nil {
+		return Figure{}, fmt.Errorf("plots: sensitivity: %w", err)
+	}
+	for _, l := range lines {
+		entries = append(entries, l)
+		fig.Series = append(fig.Series, l.name)
+	}
+	svg, err := render(&o, heading(title, what), []*plot.Plot{p}, entries)
+	if err != nil {
+		return Figure{}, fmt.Errorf("plots: sensitivity: %w", err)
+	}
+	fig.SVG = svg
+	return fig, nil
+}
+
+// finite says whether a margin can be placed on an axis.
+func finite(v float64) bool { return !math.IsNaN(v) && math.Abs(v) < 1e300 }
+
+// placedEffects are the parameters whose margins can be placed, in the
+// ranking's order, and the count of those that cannot.
+func placedEffects(res *whatif.SensitivityResult) (rows []whatif.ParamEffect, left int) {
+	for _, p := range res.Parameters {
+		if p.Error != "" || !finite(p.Minus10) || !finite(p.Plus10) {
+			left++
+			continue
+		}
+		rows = append(rows, p)
+	}
+	return rows, left
+}
+
+// effectBars adds to p a row per parameter, the first on top, of two bars
+// from the baseline to the margin with the parameter lowered and raised.
+func effectBars(p *plot.Plot, baseline float64, rows []whatif.ParamEffect) (minus, plus *plotter.Polygon) {
 	names := make([]string, len(rows))
 	n := len(rows)
-	minus := &plotter.Polygon{Color: palette[0]}
-	plus := &plotter.Polygon{Color: palette[1]}
+	minus = &plotter.Polygon{Color: palette[0]}
+	plus = &plotter.Polygon{Color: palette[1]}
 	const half = 0.36 // of a row: the two bars and a gap between rows
 	for i, r := range rows {
 		// The ranking reads from the top: the first row sits highest.
 		y := float64(n - 1 - i)
 		names[n-1-i] = clip(r.Param, 24)
-		minus.XYs = append(minus.XYs, bar(res.Baseline, r.Minus10, y, y+half))
-		plus.XYs = append(plus.XYs, bar(res.Baseline, r.Plus10, y-half, y))
+		minus.XYs = append(minus.XYs, bar(baseline, r.Minus10, y, y+half))
+		plus.XYs = append(plus.XYs, bar(baseline, r.Plus10, y-half, y))
 	}
 	minus.LineStyle.Width, plus.LineStyle.Width = 0, 0
 	p.Add(minus, plus)
 	p.NominalY(names...)
 	p.Y.Min, p.Y.Max = -0.6, float64(n)-0.4
+	return minus, plus
+}
 
-	lo, hi := res.Baseline, res.Baseline
+// marginSpan is the range of margins the bars cover, the baseline's
+// included; never empty.
+func marginSpan(baseline float64, rows []whatif.ParamEffect) (lo, hi float64) {
+	lo, hi = baseline, baseline
 	for _, r := range rows {
 		lo = math.Min(lo, math.Min(r.Minus10, r.Plus10))
 		hi = math.Max(hi, math.Max(r.Minus10, r.Plus10))
@@ -101,37 +140,29 @@ func SensitivityBars(title string, res *whatif.SensitivityResult, opt *Options) 
 		// No parameter moves the margin: give the axis a width to draw.
 		lo, hi = lo-1, hi+1
 	}
-	pad := 0.05 * (hi - lo)
-	p.X.Min, p.X.Max = lo-pad, hi+pad
+	return lo, hi
+}
 
-	step := stepText(res.Step)
-	entries := []legendEntry{{"−" + step, minus}, {"+" + step, plus}}
-	fig := Figure{Name: "sensitivity", Caption: caption, Series: []string{"−" + step, "+" + step}}
-
-	baseName := "baseline " + percent(res.Baseline) // as the table prints it
-	base, err := vline(res.Baseline, p.Y.Min, p.Y.Max, draw.LineStyle{Color: palette[6], Width: vg.Points(1.2)})
+// marginLines adds to p the baseline and, where the bars reach both sides
+// of it, the zero line where PASS turns into FAIL, with their legend
+// entries.
+func marginLines(p *plot.Plot, baseline, lo, hi float64) ([]legendEntry, error) {
+	base, err := vline(baseline, p.Y.Min, p.Y.Max, draw.LineStyle{Color: palette[6], Width: vg.Points(1.2)})
 	if err != nil {
-		return Figure{}, fmt.Errorf("plots: sensitivity: %w", err)
+		return nil, err
 	}
 	p.Add(base)
-	entries = append(entries, legendEntry{baseName, base})
-	fig.Series = append(fig.Series, baseName)
+	lines := []legendEntry{{"baseline " + percent(baseline), base}} // as the table prints it
 	if lo < 0 && hi > 0 {
 		zero, err := vline(0, p.Y.Min, p.Y.Max, draw.LineStyle{Color: limitColor, Width: vg.Points(1),
 			Dashes: []vg.Length{vg.Points(5), vg.Points(3)}})
 		if err != nil {
-			return Figure{}, fmt.Errorf("plots: sensitivity: %w", err)
+			return nil, err
 		}
 		p.Add(zero)
-		entries = append(entries, legendEntry{"0 %: PASS right, FAIL left", zero})
-		fig.Series = append(fig.Series, "0 %: PASS right, FAIL left")
+		lines = append(lines, legendEntry{"0 %: PASS right, FAIL left", zero})
 	}
-	svg, err := render(&o, heading(title, what), []*plot.Plot{p}, entries)
-	if err != nil {
-		return Figure{}, fmt.Errorf("plots: sensitivity: %w", err)
-	}
-	fig.SVG = svg
-	return fig, nil
+	return lines, nil
 }
 
 // bar is the rectangle from x0 to x1 between heights y0 and y1.

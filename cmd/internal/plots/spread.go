@@ -114,21 +114,9 @@ func histogram(o *Options, name, what, stats, quantity string, unit spec.Unit, t
 	if n == 0 {
 		return Figure{}, fmt.Errorf("plots: %s: nothing to draw", name)
 	}
-	values, sk := t.Values(), t.Sketch()
-	var lo, hi float64
-	if sk != nil {
-		lo, hi = sk.Min(), sk.Max()
-	} else {
-		lo, hi = values[0], values[n-1]
-	}
+	lo, hi, span := tallySpan(t)
 	// A rating within a few spans of the data is drawn to scale; one far
 	// off would squeeze the histogram into a sliver, so it is only named.
-	span := hi - lo
-	if span < 1e-6*math.Max(math.Abs(hi), 1e-30) {
-		// Every circuit gave the same value: give the bins a width.
-		span = math.Max(math.Abs(hi)*1e-3, 1e-30)
-		lo, hi = lo-span/2, hi+span/2
-	}
 	drawLim := lim != nil && lim.value >= lo-3*span && lim.value <= hi+3*span
 	xMax := math.Max(math.Abs(lo), math.Abs(hi))
 	if drawLim {
@@ -151,49 +139,19 @@ func histogram(o *Options, name, what, stats, quantity string, unit spec.Unit, t
 	p.Add(h)
 	p.Y.Min, p.Y.Max = 0, top*1.08
 	fig := Figure{Name: name, Caption: what + "; " + stats}
-	if sk != nil {
+	if sk := t.Sketch(); sk != nil {
 		a := strconv.FormatFloat(100*sk.Alpha(), 'g', -1, 64)
 		fig.Caption += "; each bar a group of the sketch's buckets, p1, p50 and p99 within " + a + " %"
 	}
 	entries := []legendEntry{{fmt.Sprintf("circuits (%d)", n), h}}
 	fig.Series = append(fig.Series, entries[0].name)
-
-	marks := []struct {
-		name  string
-		value float64
-		style draw.LineStyle
-	}{
-		{"p1 " + spec.FormatSI(pc.P1, unit), pc.P1, draw.LineStyle{Color: palette[0], Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}},
-		{"p50 " + spec.FormatSI(pc.P50, unit), pc.P50, draw.LineStyle{Color: palette[6], Width: vg.Points(1.2)}},
-		{"p99 " + spec.FormatSI(pc.P99, unit), pc.P99, draw.LineStyle{Color: palette[1], Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(6), vg.Points(3)}}},
+	lines, err := histogramLines(p, pc, unit, xs, lim, drawLim, lo)
+	if err != nil {
+		return Figure{}, fmt.Errorf("plots: %s: %w", name, err)
 	}
-	for _, m := range marks {
-		l, err := vline(m.value*xs, 0, p.Y.Max, m.style)
-		if err != nil {
-			return Figure{}, fmt.Errorf("plots: %s: %w", name, err)
-		}
-		p.Add(l)
-		entries = append(entries, legendEntry{m.name, l})
-		fig.Series = append(fig.Series, m.name)
-	}
-	if lim != nil {
-		s := draw.LineStyle{Color: limitColor, Width: vg.Points(1.5), Dashes: []vg.Length{vg.Points(5), vg.Points(3)}}
-		l, err := vline(lim.value*xs, 0, p.Y.Max, s)
-		if err != nil {
-			return Figure{}, fmt.Errorf("plots: %s: %w", name, err)
-		}
-		n := lim.name
-		if drawLim {
-			p.Add(l)
-		} else {
-			// Named, with its line style and the side it lies on, not drawn.
-			n += ", off scale right"
-			if lim.value < lo {
-				n = lim.name + ", off scale left"
-			}
-		}
-		entries = append(entries, legendEntry{n, l})
-		fig.Series = append(fig.Series, n)
+	for _, l := range lines {
+		entries = append(entries, l)
+		fig.Series = append(fig.Series, l.name)
 	}
 	// Room on both sides so that no line sits on the frame.
 	pad := 0.04 * (p.X.Max - p.X.Min)
@@ -206,6 +164,66 @@ func histogram(o *Options, name, what, stats, quantity string, unit spec.Unit, t
 	}
 	fig.SVG = svg
 	return fig, nil
+}
+
+// tallySpan is the range of the tally's values and its width, widened
+// where every circuit gave the same value so that the bins have a width.
+func tallySpan(t *whatif.Tally) (lo, hi, span float64) {
+	values, sk := t.Values(), t.Sketch()
+	if sk != nil {
+		lo, hi = sk.Min(), sk.Max()
+	} else {
+		lo, hi = values[0], values[t.N()-1]
+	}
+	span = hi - lo
+	if span < 1e-6*math.Max(math.Abs(hi), 1e-30) {
+		span = math.Max(math.Abs(hi)*1e-3, 1e-30)
+		lo, hi = lo-span/2, hi+span/2
+	}
+	return lo, hi, span
+}
+
+// histogramLines adds to p the p1, p50 and p99 lines and the rating lim
+// (nil: none; not drawn unless drawLim, only named with the side of lo it
+// lies on), at the axis's scale xs, with their legend entries.
+func histogramLines(p *plot.Plot, pc whatif.Percentiles, unit spec.Unit, xs float64, lim *limitLine, drawLim bool, lo float64) ([]legendEntry, error) {
+	marks := []struct {
+		name  string
+		value float64
+		style draw.LineStyle
+	}{
+		{"p1 " + spec.FormatSI(pc.P1, unit), pc.P1, draw.LineStyle{Color: palette[0], Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}},
+		{"p50 " + spec.FormatSI(pc.P50, unit), pc.P50, draw.LineStyle{Color: palette[6], Width: vg.Points(1.2)}},
+		{"p99 " + spec.FormatSI(pc.P99, unit), pc.P99, draw.LineStyle{Color: palette[1], Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(6), vg.Points(3)}}},
+	}
+	var entries []legendEntry
+	for _, m := range marks {
+		l, err := vline(m.value*xs, 0, p.Y.Max, m.style)
+		if err != nil {
+			return nil, err
+		}
+		p.Add(l)
+		entries = append(entries, legendEntry{m.name, l})
+	}
+	if lim != nil {
+		s := draw.LineStyle{Color: limitColor, Width: vg.Points(1.5), Dashes: []vg.Length{vg.Points(5), vg.Points(3)}}
+		l, err := vline(lim.value*xs, 0, p.Y.Max, s)
+		if err != nil {
+			return nil, err
+		}
+		n := lim.name
+		if drawLim {
+			p.Add(l)
+		} else {
+			// Named, with its line style and the side it lies on, not drawn.
+			n += ", off scale right"
+			if lim.value < lo {
+				n = lim.name + ", off scale left"
+			}
+		}
+		entries = append(entries, legendEntry{n, l})
+	}
+	return entries, nil
 }
 
 // spreadBins are the histogram's bars over [lo, hi], scaled by xs, and the

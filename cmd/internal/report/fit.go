@@ -18,82 +18,16 @@ func FitText(w io.Writer, d *fit.Document, caution string) error {
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "Fit of %s %s, %s, from %s\n\n", article(d.Kind), d.Kind, d.Name, strings.Join(d.Sources, ", "))
 	fmt.Fprintf(bw, "  %s\n\n", d.Part)
-
-	fitted := map[string]bool{}
-	for _, k := range d.Fitted {
-		fitted[k] = true
-	}
 	if len(d.Order) > 0 {
-		fmt.Fprintln(bw, "Parameters")
-		t := newTable(bw, []string{"parameter", "value", "standard error", "from"})
-		t.Header("parameter", "value", "standard error", "from")
-		for _, k := range d.Order {
-			from, se := "given", ""
-			if f, ok := d.From[k]; ok {
-				from = f
-			}
-			if fitted[k] {
-				from = "fitted"
-				if s, ok := d.Sigma[k]; ok {
-					se = fitPercent(100 * s)
-				}
-			}
-			if err := t.Append(k, spec.FormatSI(d.Params[k], spec.Unit(d.Units[k])), se, from); err != nil {
-				return err
-			}
-		}
-		if err := t.Render(); err != nil {
+		if err := fitParameters(bw, d); err != nil {
 			return err
 		}
-		fmt.Fprintln(bw)
 	}
-
 	if len(d.Points) > 0 {
-		fmt.Fprintln(bw, "Points")
-		bead := d.Bead != nil
-		head := []string{"where", "what", "at", "measured", "model", "residual", ""}
-		if bead {
-			head = []string{"where", "frequency", "bias", "measured", "model", "residual", ""}
-		}
-		t := newTable(bw, head)
-		t.Header(toAny(head)...)
-		worst, worstAt := 0.0, ""
-		for _, p := range d.Points {
-			note := ""
-			if !p.Used {
-				note = "not fitted: " + p.Why
-			} else if math.Abs(p.Residual) > math.Abs(worst) {
-				worst, worstAt = p.Residual, p.Where
-			}
-			meas, mod := spec.FormatSI(p.Measured, spec.Unit(p.Unit)), spec.FormatSI(p.Fitted, spec.Unit(p.Unit))
-			if p.What == "z" {
-				meas, mod = complexText(p.MeasuredRe, p.MeasuredIm), complexText(p.FittedRe, p.FittedIm)
-			}
-			res := signedPercent(100 * p.Residual)
-			if p.What == "z" {
-				res = fitPercent(100 * p.Residual) // a distance in the complex plane has no sign
-			}
-			row := []string{p.Where, p.What, spec.FormatSI(p.X, spec.Unit(p.XUnit)), meas, mod, res, note}
-			if bead {
-				row = []string{p.Where, spec.FormatSI(p.X, "Hz"), spec.FormatSI(p.Bias, "A"), meas, mod, res, note}
-			}
-			if err := t.Append(toAny(row)...); err != nil {
-				return err
-			}
-		}
-		if err := t.Render(); err != nil {
+		if err := fitPoints(bw, d); err != nil {
 			return err
 		}
-		if worstAt != "" || worst != 0 {
-			fmt.Fprintf(bw, "Largest residual of the fitted points: %s", fitPercent(100*math.Abs(worst)))
-			if worstAt != "" {
-				fmt.Fprintf(bw, " (%s)", worstAt)
-			}
-			fmt.Fprintln(bw)
-		}
-		fmt.Fprintln(bw)
 	}
-
 	if b := d.Bead; b != nil {
 		fmt.Fprintf(bw, "Self-resonance %s; |Z| at 100 MHz %s; ", spec.FormatSI(b.SRF, "Hz"), spec.FormatSI(b.Z100MHz, "Ω"))
 		if b.BandHi > 0 {
@@ -111,6 +45,93 @@ func FitText(w io.Writer, d *fit.Document, caution string) error {
 	}
 	fmt.Fprintln(bw, caution)
 	return bw.Flush()
+}
+
+// fitParameters prints each parameter with its standard error and where
+// its value came from.
+func fitParameters(w io.Writer, d *fit.Document) error {
+	fitted := map[string]bool{}
+	for _, k := range d.Fitted {
+		fitted[k] = true
+	}
+	fmt.Fprintln(w, "Parameters")
+	t := newTable(w, []string{"parameter", "value", "standard error", "from"})
+	t.Header("parameter", "value", "standard error", "from")
+	for _, k := range d.Order {
+		from, se := "given", ""
+		if f, ok := d.From[k]; ok {
+			from = f
+		}
+		if fitted[k] {
+			from = "fitted"
+			if s, ok := d.Sigma[k]; ok {
+				se = fitPercent(100 * s)
+			}
+		}
+		if err := t.Append(k, spec.FormatSI(d.Params[k], spec.Unit(d.Units[k])), se, from); err != nil {
+			return err
+		}
+	}
+	if err := t.Render(); err != nil {
+		return err
+	}
+	fmt.Fprintln(w)
+	return nil
+}
+
+// fitPoints prints every point with the model beside it, and the largest
+// residual of those fitted.
+func fitPoints(w io.Writer, d *fit.Document) error {
+	fmt.Fprintln(w, "Points")
+	bead := d.Bead != nil
+	head := []string{"where", "what", "at", "measured", "model", "residual", ""}
+	if bead {
+		head = []string{"where", "frequency", "bias", "measured", "model", "residual", ""}
+	}
+	t := newTable(w, head)
+	t.Header(toAny(head)...)
+	worst, worstAt := 0.0, ""
+	for _, p := range d.Points {
+		if p.Used && math.Abs(p.Residual) > math.Abs(worst) {
+			worst, worstAt = p.Residual, p.Where
+		}
+		if err := t.Append(toAny(fitPointRow(p, bead))...); err != nil {
+			return err
+		}
+	}
+	if err := t.Render(); err != nil {
+		return err
+	}
+	if worstAt != "" || worst != 0 {
+		fmt.Fprintf(w, "Largest residual of the fitted points: %s", fitPercent(100*math.Abs(worst)))
+		if worstAt != "" {
+			fmt.Fprintf(w, " (%s)", worstAt)
+		}
+		fmt.Fprintln(w)
+	}
+	fmt.Fprintln(w)
+	return nil
+}
+
+// fitPointRow is a point's row: a bead's by frequency and bias, any
+// other's by what it is and where it was measured.
+func fitPointRow(p fit.Point, bead bool) []string {
+	note := ""
+	if !p.Used {
+		note = "not fitted: " + p.Why
+	}
+	meas, mod := spec.FormatSI(p.Measured, spec.Unit(p.Unit)), spec.FormatSI(p.Fitted, spec.Unit(p.Unit))
+	if p.What == "z" {
+		meas, mod = complexText(p.MeasuredRe, p.MeasuredIm), complexText(p.FittedRe, p.FittedIm)
+	}
+	res := signedPercent(100 * p.Residual)
+	if p.What == "z" {
+		res = fitPercent(100 * p.Residual) // a distance in the complex plane has no sign
+	}
+	if bead {
+		return []string{p.Where, spec.FormatSI(p.X, "Hz"), spec.FormatSI(p.Bias, "A"), meas, mod, res, note}
+	}
+	return []string{p.Where, p.What, spec.FormatSI(p.X, spec.Unit(p.XUnit)), meas, mod, res, note}
 }
 
 func article(kind string) string {

@@ -106,42 +106,86 @@ func Analyse(c *netlist.Circuit, req *Request, opt *Options) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	bias := func(p mna.Pair) float64 {
-		v := map[string]float64{}
-		for i, n := range a.Nodes() {
-			v[n] = a.OperatingPoint()[i]
-		}
-		return v[p.Node] - v[p.Ref]
-	}
 	res := &Result{
-		Drive:     Drive{Node: req.Drive.Node, Ref: refName(req.Drive.Ref), Bias: bias(req.Drive)},
+		Drive:     Drive{Node: req.Drive.Node, Ref: refName(req.Drive.Ref), Bias: bias(a, req.Drive)},
 		Freq:      freq,
-		Nodes:     map[string]*Transfer{},
 		Impedance: impedance(freq, zin),
-		Elements:  map[string]*Impedance{},
-		Peaking:   []Peaking{},
-		Loading:   []Loading{},
 		Edges:     []Edge{},
 	}
-	for k, t := range req.Targets {
-		tr := &Transfer{Freq: freq, H: h[k], Bias: bias(t.Pair)}
+	res.Nodes, res.Order = transfers(a, req.Targets, freq, h)
+	if res.Elements, res.ElementOrder, err = elementImpedances(a, req.Elements, freq); err != nil {
+		return nil, err
+	}
+	if res.Peaking, err = peakings(c, a, req, &o, freq, h); err != nil {
+		return nil, err
+	}
+	if res.Loading, err = loadings(a, req, &o); err != nil {
+		return nil, err
+	}
+	if len(req.Ports) == 2 {
+		if res.TwoPort, err = twoPort(a, freq, [2]mna.Port{req.Ports[0], req.Ports[1]}); err != nil {
+			return nil, err
+		}
+	}
+	if res.Edges, err = Edges(c, req, opt); err != nil {
+		return nil, err
+	}
+	if res.Edges == nil {
+		res.Edges = []Edge{}
+	}
+	return res, nil
+}
+
+// bias is the operating point's voltage of p's node over its reference.
+func bias(a *mna.AC, p mna.Pair) float64 {
+	v := map[string]float64{}
+	for i, n := range a.Nodes() {
+		v[n] = a.OperatingPoint()[i]
+	}
+	return v[p.Node] - v[p.Ref]
+}
+
+// transfers are the targets' transfers from the drive, h[k] the k-th
+// target's, by name and in the targets' order.
+func transfers(a *mna.AC, targets []Target, freq []float64, h [][]complex128) (map[string]*Transfer, []string) {
+	nodes := map[string]*Transfer{}
+	var order []string
+	for k, t := range targets {
+		tr := &Transfer{Freq: freq, H: h[k], Bias: bias(a, t.Pair)}
 		for _, v := range h[k] {
 			tr.GainDB = append(tr.GainDB, db(v))
 			tr.PhaseDeg = append(tr.PhaseDeg, deg(v))
 		}
-		res.Nodes[t.Name] = tr
-		res.Order = append(res.Order, t.Name)
+		nodes[t.Name] = tr
+		order = append(order, t.Name)
 	}
-	for _, name := range req.Elements {
+	return nodes, order
+}
+
+// elementImpedances are the named elements' own impedances, by name and in
+// the order given.
+func elementImpedances(a *mna.AC, names []string, freq []float64) (map[string]*Impedance, []string, error) {
+	elements := map[string]*Impedance{}
+	var order []string
+	for _, name := range names {
 		z := make([]complex128, len(freq))
 		for k, f := range freq {
+			var err error
 			if z[k], err = a.ElementImpedance(name, f); err != nil {
-				return nil, err
+				return nil, nil, err
 			}
 		}
-		res.Elements[name] = impedance(freq, z)
-		res.ElementOrder = append(res.ElementOrder, name)
+		elements[name] = impedance(freq, z)
+		order = append(order, name)
 	}
+	return elements, order, nil
+}
+
+// peakings finds each target's peaking above its low-frequency gain (h[k]
+// the target's transfer) and, for one over its limit, the damping values
+// that bring it under, unless o says not to look.
+func peakings(c *netlist.Circuit, a *mna.AC, req *Request, o *options, freq []float64, h [][]complex128) ([]Peaking, error) {
+	out := []Peaking{}
 	for k, t := range req.Targets {
 		p, ok, err := peaking(a, freq, req, t.Pair, h[k])
 		if err != nil {
@@ -157,18 +201,25 @@ func Analyse(c *netlist.Circuit, req *Request, opt *Options) (*Result, error) {
 		pk := Peaking{Node: t.Name, GainDB: p.RiseDB, PeakGainDB: 20 * math.Log10(p.Gain), Freq: p.Freq,
 			Q: p.Q, LimitDB: lim, Exceeds: p.RiseDB > lim, AtEnd: p.AtEnd}
 		if pk.Exceeds && !o.NoDamping {
-			if pk.Damping, err = damping(c, req, &o, freq, t, lim); err != nil {
+			if pk.Damping, err = damping(c, req, o, freq, t, lim); err != nil {
 				return nil, err
 			}
 		}
-		res.Peaking = append(res.Peaking, pk)
+		out = append(out, pk)
 	}
+	return out, nil
+}
+
+// loadings finds the capacitance each target sees, element by element;
+// what the protection adds leaves out the protected pins' own.
+func loadings(a *mna.AC, req *Request, o *options) ([]Loading, error) {
 	pins := map[string]bool{}
 	for _, t := range req.Targets {
 		if t.Pin != "" {
 			pins[t.Pin] = true
 		}
 	}
+	out := []Loading{}
 	for _, t := range req.Targets {
 		tot, per, err := a.NodeCapacitance(t.Pair, o.LoadingFreq)
 		if err != nil {
@@ -183,31 +234,26 @@ func Analyse(c *netlist.Circuit, req *Request, opt *Options) (*Result, error) {
 			}
 		}
 		l.Exceeds = (l.Limit > 0 && l.Capacitance > l.Limit) || (l.Budget > 0 && l.Added > l.Budget)
-		res.Loading = append(res.Loading, l)
+		out = append(out, l)
 	}
-	if len(req.Ports) == 2 {
-		p := [2]mna.Port{req.Ports[0], req.Ports[1]}
-		tp := &TwoPort{Ports: [2]string{p[0].Name, p[1].Name}, Z0: [2]float64{p[0].Z0, p[1].Z0}, Freq: freq}
-		for _, f := range freq {
-			s, err := a.TwoPort(f, p)
-			if err != nil {
-				return nil, err
-			}
-			tp.S = append(tp.S, s)
-			tp.S11DB, tp.S11Deg = append(tp.S11DB, db(s[0][0])), append(tp.S11Deg, deg(s[0][0]))
-			tp.S21DB, tp.S21Deg = append(tp.S21DB, db(s[1][0])), append(tp.S21Deg, deg(s[1][0]))
-			tp.S12DB, tp.S12Deg = append(tp.S12DB, db(s[0][1])), append(tp.S12Deg, deg(s[0][1]))
-			tp.S22DB, tp.S22Deg = append(tp.S22DB, db(s[1][1])), append(tp.S22Deg, deg(s[1][1]))
+	return out, nil
+}
+
+// twoPort finds the S-parameters between two ports at every frequency.
+func twoPort(a *mna.AC, freq []float64, p [2]mna.Port) (*TwoPort, error) {
+	tp := &TwoPort{Ports: [2]string{p[0].Name, p[1].Name}, Z0: [2]float64{p[0].Z0, p[1].Z0}, Freq: freq}
+	for _, f := range freq {
+		s, err := a.TwoPort(f, p)
+		if err != nil {
+			return nil, err
 		}
-		res.TwoPort = tp
+		tp.S = append(tp.S, s)
+		tp.S11DB, tp.S11Deg = append(tp.S11DB, db(s[0][0])), append(tp.S11Deg, deg(s[0][0]))
+		tp.S21DB, tp.S21Deg = append(tp.S21DB, db(s[1][0])), append(tp.S21Deg, deg(s[1][0]))
+		tp.S12DB, tp.S12Deg = append(tp.S12DB, db(s[0][1])), append(tp.S12Deg, deg(s[0][1]))
+		tp.S22DB, tp.S22Deg = append(tp.S22DB, db(s[1][1])), append(tp.S22Deg, deg(s[1][1]))
 	}
-	if res.Edges, err = Edges(c, req, opt); err != nil {
-		return nil, err
-	}
-	if res.Edges == nil {
-		res.Edges = []Edge{}
-	}
-	return res, nil
+	return tp, nil
 }
 
 func refName(r string) string {

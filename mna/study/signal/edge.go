@@ -38,34 +38,7 @@ func Edges(c *netlist.Circuit, req *Request, opt *Options) ([]Edge, error) {
 	if len(req.Ports) == 0 {
 		return nil, nil
 	}
-	type probe struct {
-		from, to string
-		pair     mna.Pair
-		limit    float64
-		budget   float64
-	}
-	var probes []probe
-	src := req.Ports[0]
-	for _, p := range req.Ports[1:] {
-		probes = append(probes, probe{from: src.Name, to: p.Name, pair: p.Pair, budget: o.RiseBudget})
-	}
-	for _, t := range req.Targets {
-		if !(t.Rise > 0) {
-			continue
-		}
-		// A target at another port's node is that port's probe, judged
-		// against the target's limit too.
-		merged := false
-		for i := range probes {
-			if probes[i].pair == t.Pair || (probes[i].pair.Node == t.Pair.Node && refName(probes[i].pair.Ref) == refName(t.Pair.Ref)) {
-				probes[i].limit = tighter(probes[i].limit, t.Rise)
-				merged = true
-			}
-		}
-		if !merged {
-			probes = append(probes, probe{from: src.Name, to: t.Name, pair: t.Pair, limit: t.Rise})
-		}
-	}
+	probes := edgeProbes(req, o)
 	if len(probes) == 0 {
 		return nil, nil
 	}
@@ -73,6 +46,7 @@ func Edges(c *netlist.Circuit, req *Request, opt *Options) ([]Edge, error) {
 	if err != nil {
 		return nil, err
 	}
+	src := req.Ports[0]
 	for i, p := range req.Ports {
 		d, ok := sys.Device(p.Name).(devices.Porter)
 		if !ok {
@@ -86,34 +60,6 @@ func Edges(c *netlist.Circuit, req *Request, opt *Options) ([]Edge, error) {
 	nodeIdx := map[string]int{}
 	for i, n := range sys.Nodes() {
 		nodeIdx[n] = i
-	}
-	volt := func(res *mna.Result, p mna.Pair) ([]float64, error) {
-		get := func(n string) ([]float64, error) {
-			if n == "" || n == netlist.Ground {
-				return nil, nil
-			}
-			i, ok := nodeIdx[n]
-			if !ok {
-				return nil, fmt.Errorf("edge check: no node %s", n)
-			}
-			return res.V[i], nil
-		}
-		a, err := get(p.Node)
-		if err != nil {
-			return nil, err
-		}
-		b, err := get(p.Ref)
-		if err != nil {
-			return nil, err
-		}
-		v := make([]float64, len(res.Time))
-		for k := range v {
-			v[k] = a[k]
-			if b != nil {
-				v[k] -= b[k]
-			}
-		}
-		return v, nil
 	}
 	for span := edgeFirstSpan; ; span *= 2 {
 		st, err := waveforms.Step(o.StepLevel, o.StepRise, src.Z0, span)
@@ -131,24 +77,9 @@ func Edges(c *netlist.Circuit, req *Request, opt *Options) ([]Edge, error) {
 		if err != nil {
 			return nil, fmt.Errorf("edge check from %s: %w", src.Name, err)
 		}
-		var out []Edge
-		settled := true
-		for _, p := range probes {
-			v, err := volt(res, p.pair)
-			if err != nil {
-				return nil, err
-			}
-			e := Edge{From: p.from, To: p.to, Node: p.pair.Node, Level: o.StepLevel, Step: 0.8 * o.StepRise,
-				Limit: p.limit, Budget: p.budget}
-			ok := measureEdge(res.Time, v, &e)
-			if !ok {
-				settled = false
-			}
-			if e.Note == "" {
-				e.Delay -= o.StepRise / 2
-			}
-			e.Exceeds = (e.Limit > 0 && !(e.Rise <= e.Limit)) || (e.Budget > 0 && !(e.Added <= e.Budget))
-			out = append(out, e)
+		out, settled, err := measureProbes(res, nodeIdx, probes, o)
+		if err != nil {
+			return nil, err
 		}
 		if settled || span*2 > edgeMaxSpan {
 			if !settled {
@@ -161,6 +92,99 @@ func Edges(c *netlist.Circuit, req *Request, opt *Options) ([]Edge, error) {
 			return out, nil
 		}
 	}
+}
+
+// edgeProbe is a node the edge check measures, with its limits.
+type edgeProbe struct {
+	from, to string
+	pair     mna.Pair
+	limit    float64
+	budget   float64
+}
+
+// edgeProbes lists the nodes the edge check measures: every port but the
+// first, judged against the rise budget, and every target with a rise
+// limit.
+func edgeProbes(req *Request, o options) []edgeProbe {
+	var probes []edgeProbe
+	src := req.Ports[0]
+	for _, p := range req.Ports[1:] {
+		probes = append(probes, edgeProbe{from: src.Name, to: p.Name, pair: p.Pair, budget: o.RiseBudget})
+	}
+	for _, t := range req.Targets {
+		if !(t.Rise > 0) {
+			continue
+		}
+		// A target at another port's node is that port's probe, judged
+		// against the target's limit too.
+		merged := false
+		for i := range probes {
+			if probes[i].pair == t.Pair || (probes[i].pair.Node == t.Pair.Node && refName(probes[i].pair.Ref) == refName(t.Pair.Ref)) {
+				probes[i].limit = tighter(probes[i].limit, t.Rise)
+				merged = true
+			}
+		}
+		if !merged {
+			probes = append(probes, edgeProbe{from: src.Name, to: t.Name, pair: t.Pair, limit: t.Rise})
+		}
+	}
+	return probes
+}
+
+// measureProbes measures the edge at every probe of a solved span and
+// says whether every node had settled.
+func measureProbes(res *mna.Result, nodeIdx map[string]int, probes []edgeProbe, o options) ([]Edge, bool, error) {
+	var out []Edge
+	settled := true
+	for _, p := range probes {
+		v, err := pairVoltage(res, nodeIdx, p.pair)
+		if err != nil {
+			return nil, false, err
+		}
+		e := Edge{From: p.from, To: p.to, Node: p.pair.Node, Level: o.StepLevel, Step: 0.8 * o.StepRise,
+			Limit: p.limit, Budget: p.budget}
+		ok := measureEdge(res.Time, v, &e)
+		if !ok {
+			settled = false
+		}
+		if e.Note == "" {
+			e.Delay -= o.StepRise / 2
+		}
+		e.Exceeds = (e.Limit > 0 && !(e.Rise <= e.Limit)) || (e.Budget > 0 && !(e.Added <= e.Budget))
+		out = append(out, e)
+	}
+	return out, settled, nil
+}
+
+// pairVoltage is the voltage of a pair's node over its reference at every
+// solved time.
+func pairVoltage(res *mna.Result, nodeIdx map[string]int, p mna.Pair) ([]float64, error) {
+	get := func(n string) ([]float64, error) {
+		if n == "" || n == netlist.Ground {
+			return nil, nil
+		}
+		i, ok := nodeIdx[n]
+		if !ok {
+			return nil, fmt.Errorf("edge check: no node %s", n)
+		}
+		return res.V[i], nil
+	}
+	a, err := get(p.Node)
+	if err != nil {
+		return nil, err
+	}
+	b, err := get(p.Ref)
+	if err != nil {
+		return nil, err
+	}
+	v := make([]float64, len(res.Time))
+	for k := range v {
+		v[k] = a[k]
+		if b != nil {
+			v[k] -= b[k]
+		}
+	}
+	return v, nil
 }
 
 // measureEdge fills e's Rise, Added and Delay (from t = 0) from the

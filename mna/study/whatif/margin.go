@@ -222,24 +222,9 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 		scan = DefaultScan
 	}
 
-	type search struct {
-		index, variant int
-		polarity       string
-	}
-	var all []search
-	for vi := range variants {
-		for _, p := range pols {
-			all = append(all, search{len(all), vi, p})
-		}
-	}
-	res.Total = len(all)
-	res.Shard = opt.Shard.Info(len(all))
-	var mine []search
-	for _, s := range all {
-		if opt.Shard.Has(s.index) {
-			mine = append(mine, s)
-		}
-	}
+	mine, all := shardSearches(len(variants), pols, opt.Shard)
+	res.Total = all
+	res.Shard = opt.Shard.Info(all)
 	out := make([]Margin, len(mine))
 	for i, sr := range mine {
 		out[i] = Margin{Index: sr.index, Variant: variants[sr.variant], Polarity: sr.polarity, LevelUnit: unit}
@@ -252,31 +237,13 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 	if opt.Verify {
 		total += 2 * len(mine)
 	}
-	var mu sync.Mutex
-	solved := 0
-	tick := func() {
-		if opt.Progress == nil {
-			return
-		}
-		mu.Lock()
-		solved++
-		opt.Progress(min(solved, total-1), total)
-		mu.Unlock()
-	}
-
-	// A variant that does not compile fails its searches before any solve.
-	compileErr := map[int]error{}
-	for _, sr := range mine {
-		if _, done := compileErr[sr.variant]; !done {
-			_, err := study.NewBench(c, variants[sr.variant])
-			compileErr[sr.variant] = err
-		}
-	}
+	counter := &progressCounter{report: opt.Progress, total: total}
+	compileErr := compileErrors(c, variants, mine)
 	benches := study.NewBenches(c, workers)
 	tight := study.Tighter(c, &sopt)
 	solverWith := func(w int, sr search, o *study.Options) func(float64) (outcome, error) {
 		return func(level float64) (outcome, error) {
-			defer tick()
+			defer counter.tick()
 			b, err := benches.Get(w, sr.variant, variants[sr.variant])
 			if err != nil {
 				return outcome{}, err
@@ -334,6 +301,57 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 }
 
 func ctxDone(ctx context.Context) bool { return ctx.Err() != nil }
+
+// search is one margin search: a variant at a polarity, in plan order.
+type search struct {
+	index, variant int
+	polarity       string
+}
+
+// shardSearches lists the searches of the shard (variant-major, then
+// polarity) and counts those of the whole study.
+func shardSearches(variants int, pols []string, shard study.Shard) (mine []search, all int) {
+	for vi := range variants {
+		for _, p := range pols {
+			if shard.Has(all) {
+				mine = append(mine, search{all, vi, p})
+			}
+			all++
+		}
+	}
+	return mine, all
+}
+
+// compileErrors compiles each variant of the searches once: a variant that
+// does not compile fails its searches before any solve.
+func compileErrors(c *netlist.Circuit, variants []netlist.Variant, mine []search) map[int]error {
+	errs := map[int]error{}
+	for _, sr := range mine {
+		if _, done := errs[sr.variant]; !done {
+			_, err := study.NewBench(c, variants[sr.variant])
+			errs[sr.variant] = err
+		}
+	}
+	return errs
+}
+
+// progressCounter tells report (when set) of each solve against an
+// estimated total, never saying done before the end.
+type progressCounter struct {
+	report        Progress
+	mu            sync.Mutex
+	solved, total int
+}
+
+func (p *progressCounter) tick() {
+	if p.report == nil {
+		return
+	}
+	p.mu.Lock()
+	p.solved++
+	p.report(min(p.solved, p.total-1), p.total)
+	p.mu.Unlock()
+}
 
 // outcome is what a search needs of one solve.
 type outcome struct {

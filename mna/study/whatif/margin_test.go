@@ -115,7 +115,7 @@ func TestSearchFindsNonMonotonic(t *testing.T) {
 	var m Margin
 	m.LevelUnit, m.Polarity = "V", "pos"
 	// 100 steps of 100 V, a scan of 16: levels 700, 1300, …, 6300, … 10000.
-	if !search(context.Background(), &m, 100, 16, 100, verdict) {
+	if !searchSerially(context.Background(), &m, 100, 16, 100, verdict) {
 		t.Fatal("search reported an interruption")
 	}
 	if ptr(m.MaxPass) != 3000 || ptr(m.FirstFail) != 3100 {
@@ -130,13 +130,13 @@ func TestSearchFindsNonMonotonic(t *testing.T) {
 
 	// Monotonic, failing from the lowest level: no passing level at all.
 	m = Margin{LevelUnit: "V"}
-	search(context.Background(), &m, 100, 16, 100, func(float64) (outcome, error) { return outcome{}, nil })
+	searchSerially(context.Background(), &m, 100, 16, 100, func(float64) (outcome, error) { return outcome{}, nil })
 	if m.MaxPass != nil || ptr(m.FirstFail) != 100 || !m.Monotonic {
 		t.Errorf("always failing: pass %v fail %v monotonic %v; want none, 100, true", ptr(m.MaxPass), ptr(m.FirstFail), m.Monotonic)
 	}
 	// Always passing: the top of the range, no failure.
 	m = Margin{LevelUnit: "V"}
-	search(context.Background(), &m, 100, 16, 100, func(float64) (outcome, error) { return outcome{pass: true}, nil })
+	searchSerially(context.Background(), &m, 100, 16, 100, func(float64) (outcome, error) { return outcome{pass: true}, nil })
 	if ptr(m.MaxPass) != 10000 || m.FirstFail != nil || m.Solves != 16 {
 		t.Errorf("always passing: pass %v fail %v after %d solves; want 10000, none, 16", ptr(m.MaxPass), ptr(m.FirstFail), m.Solves)
 	}
@@ -150,7 +150,7 @@ func TestSearchFindsNonMonotonic(t *testing.T) {
 func TestSearchCurve(t *testing.T) {
 	percent := func(level float64) float64 { return 100 * (4250 - level) / 4250 }
 	m := Margin{LevelUnit: "V", Polarity: "pos"}
-	search(context.Background(), &m, 100, 16, 100, func(level float64) (outcome, error) {
+	searchSerially(context.Background(), &m, 100, 16, 100, func(level float64) (outcome, error) {
 		p := percent(level)
 		return outcome{pass: p >= 0, worst: &study.Limit{Element: "U1", Param: "vmax", Percent: p}}, nil
 	})
@@ -176,7 +176,7 @@ func TestSearchCurve(t *testing.T) {
 
 	// A deck without limits has no margin to draw: NaN, not zero.
 	m = Margin{LevelUnit: "V"}
-	search(context.Background(), &m, 10, 4, 100, func(float64) (outcome, error) { return outcome{pass: true}, nil })
+	searchSerially(context.Background(), &m, 10, 4, 100, func(float64) (outcome, error) { return outcome{pass: true}, nil })
 	if len(m.Curve) != 4 || !math.IsNaN(m.Curve[0].Percent) {
 		t.Errorf("no limits: curve %v, want 4 points of NaN", m.Curve)
 	}
@@ -195,9 +195,9 @@ func TestMarginInterrupted(t *testing.T) {
 	}
 }
 
-// search is the scan and the bisection done one solve after the other,
+// searchSerially is the scan and the bisection done one solve after the other,
 // as the parallel search does them (finishSearch after the scan).
-func search(ctx context.Context, m *Margin, steps, scan int, step float64, solveAt func(level float64) (outcome, error)) bool {
+func searchSerially(ctx context.Context, m *Margin, steps, scan int, step float64, solveAt func(level float64) (outcome, error)) bool {
 	grid := scanGrid(steps, scan)
 	res := make([]scanned, len(grid))
 	for i, g := range grid {

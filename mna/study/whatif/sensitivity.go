@@ -143,44 +143,8 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 	}
 	sopt := *opt.Study.WithContext(ctx)
 	sopt.Record = false
-	limit := limitName(opt.Limit)
-	// marginOf is the margin that ranks: the run's worst, or the named
-	// limit's.
-	marginOf := func(r *study.Run) *study.Limit {
-		if limit == "" {
-			return r.Worst
-		}
-		for i := range r.Limits {
-			if r.Limits[i].Name() == limit {
-				return &r.Limits[i]
-			}
-		}
-		return nil
-	}
-
-	// worstOf solves every job on circuit x and returns the smallest
-	// percentage margin with its place.
-	worstOf := func(x *netlist.Circuit) (float64, string, error) {
-		b, err := study.NewBench(x, nil)
-		if err != nil {
-			return 0, "", err
-		}
-		best, where := math.Inf(1), ""
-		for _, j := range jobs {
-			r, err := b.Solve(j.Level, j.Polarity, &sopt)
-			if err != nil {
-				return 0, "", fmt.Errorf("%s %s: %w", spec.FormatSI(j.Level, c.Strike().Waveform.Unit), j.Polarity, err)
-			}
-			if m := marginOf(r); m != nil && (where == "" || m.Percent < best) {
-				best = m.Percent
-				where = fmt.Sprintf("%s at %s %s", m.Name(), spec.FormatSI(j.Level, r.LevelUnit), j.Polarity)
-			}
-		}
-		if where == "" && limit != "" {
-			return 0, "", fmt.Errorf("no limit %q in the deck (name one as ELEMENT PARAM, e.g. \"U1 vmax\")", opt.Limit)
-		}
-		return jsonSafe(best), where, nil
-	}
+	rk := &ranker{jobs: jobs, opt: &sopt, limit: limitName(opt.Limit), asked: opt.Limit, unit: c.Strike().Waveform.Unit}
+	worstOf := rk.worstOf
 	base, where, err := worstOf(c)
 	if err != nil {
 		return nil, fmt.Errorf("the deck as written: %w", err)
@@ -192,11 +156,6 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 		if opt.Shard.Has(p.index) {
 			mine = append(mine, p)
 		}
-	}
-	type half struct {
-		margin float64
-		where  string
-		err    error
 	}
 	halves := make([]half, 2*len(mine))
 	finished := study.ForEach(ctx, workerCount(opt.Study.Workers), 2*len(mine), opt.Progress, func(_ int, i int) {
@@ -216,31 +175,91 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 		halves[i] = half{m, w, err}
 	})
 	for k, p := range mine {
-		if !finished[2*k] || !finished[2*k+1] || study.Interrupted(halves[2*k].err) || study.Interrupted(halves[2*k+1].err) {
+		lo, hi := halves[2*k], halves[2*k+1]
+		if !finished[2*k] || !finished[2*k+1] || study.Interrupted(lo.err) || study.Interrupted(hi.err) {
 			res.Interrupted = true
 			continue
 		}
-		if lo, hi := halves[2*k], halves[2*k+1]; lo.err == nil && hi.err == nil && math.Abs(hi.margin-lo.margin) < 2*stillEffect {
-			res.Skipped = append(res.Skipped, Skipped{p.index, p.elem + "." + p.param,
-				fmt.Sprintf("±%g %% moves no margin", 100*step)})
-			continue
-		}
-		lo, hi := halves[2*k], halves[2*k+1]
-		e := ParamEffect{Index: p.index, Param: p.elem + "." + p.param, Nominal: p.nominal, Unit: c.Element(p.elem).Unit(p.param),
-			Minus10: lo.margin, Plus10: hi.margin, LimitingMinus: lo.where, LimitingPlus: hi.where}
-		switch {
-		case lo.err != nil:
-			e.Error = fmt.Sprintf("at −%g %%: %v", 100*step, lo.err)
-		case hi.err != nil:
-			e.Error = fmt.Sprintf("at +%g %%: %v", 100*step, hi.err)
-		default:
-			e.Effect = (hi.margin - lo.margin) / 2
-		}
-		res.Parameters = append(res.Parameters, e)
+		res.add(c, p, lo, hi, step)
 	}
 	SortEffects(res.Parameters)
 	sort.Slice(res.Skipped, func(a, b int) bool { return res.Skipped[a].Index < res.Skipped[b].Index })
 	return res, nil
+}
+
+// half is the worst margin with a parameter moved one way, and where.
+type half struct {
+	margin float64
+	where  string
+	err    error
+}
+
+// add books parameter p's two halves: as an effect, or as skipped when
+// neither moved the margin.
+func (res *SensitivityResult) add(c *netlist.Circuit, p param, lo, hi half, step float64) {
+	if lo.err == nil && hi.err == nil && math.Abs(hi.margin-lo.margin) < 2*stillEffect {
+		res.Skipped = append(res.Skipped, Skipped{p.index, p.elem + "." + p.param,
+			fmt.Sprintf("±%g %% moves no margin", 100*step)})
+		return
+	}
+	e := ParamEffect{Index: p.index, Param: p.elem + "." + p.param, Nominal: p.nominal, Unit: c.Element(p.elem).Unit(p.param),
+		Minus10: lo.margin, Plus10: hi.margin, LimitingMinus: lo.where, LimitingPlus: hi.where}
+	switch {
+	case lo.err != nil:
+		e.Error = fmt.Sprintf("at −%g %%: %v", 100*step, lo.err)
+	case hi.err != nil:
+		e.Error = fmt.Sprintf("at +%g %%: %v", 100*step, hi.err)
+	default:
+		e.Effect = (hi.margin - lo.margin) / 2
+	}
+	res.Parameters = append(res.Parameters, e)
+}
+
+// ranker finds the margin a sensitivity ranks by on a circuit: the worst
+// over the jobs, of every limit or of the one named.
+type ranker struct {
+	jobs         []study.Job
+	opt          *study.Options
+	limit, asked string // the limit as "ELEMENT PARAM", and as the user gave it
+	unit         spec.Unit
+}
+
+// marginOf is the margin that ranks in a run: its worst, or the named
+// limit's.
+func (k *ranker) marginOf(r *study.Run) *study.Limit {
+	if k.limit == "" {
+		return r.Worst
+	}
+	for i := range r.Limits {
+		if r.Limits[i].Name() == k.limit {
+			return &r.Limits[i]
+		}
+	}
+	return nil
+}
+
+// worstOf solves every job on circuit x and returns the smallest
+// percentage margin with its place.
+func (k *ranker) worstOf(x *netlist.Circuit) (float64, string, error) {
+	b, err := study.NewBench(x, nil)
+	if err != nil {
+		return 0, "", err
+	}
+	best, where := math.Inf(1), ""
+	for _, j := range k.jobs {
+		r, err := b.Solve(j.Level, j.Polarity, k.opt)
+		if err != nil {
+			return 0, "", fmt.Errorf("%s %s: %w", spec.FormatSI(j.Level, k.unit), j.Polarity, err)
+		}
+		if m := k.marginOf(r); m != nil && (where == "" || m.Percent < best) {
+			best = m.Percent
+			where = fmt.Sprintf("%s at %s %s", m.Name(), spec.FormatSI(j.Level, r.LevelUnit), j.Polarity)
+		}
+	}
+	if where == "" && k.limit != "" {
+		return 0, "", fmt.Errorf("no limit %q in the deck (name one as ELEMENT PARAM, e.g. \"U1 vmax\")", k.asked)
+	}
+	return jsonSafe(best), where, nil
 }
 
 // limitName reads the name of a limit as "ELEMENT PARAM" or
