@@ -31,7 +31,10 @@ type Settings struct {
 	// Accuracy is the relative accuracy wanted on what a report reads:
 	// every extreme of a node voltage, element current or probe and every
 	// energy of the ledger, against a converged solution of the same
-	// equations. Zero: DefaultAccuracy (0.2 %). A tenfold smaller Accuracy
+	// equations. An extreme is relative to the largest magnitude reached
+	// on its side of zero (at least SideFloor of the largest on either
+	// side), an energy of the ledger to the larger of itself and its
+	// Gross. Zero: DefaultAccuracy (0.2 %). A tenfold smaller Accuracy
 	// gives about a tenfold smaller error (at about three times the
 	// steps), so the difference between a run and one at Accuracy/10 is
 	// the first run's error to within about a tenth: its error bar.
@@ -125,6 +128,17 @@ type Result struct {
 	// Energy is ∫ Σ v·i dt into each element over the run, J, in
 	// System.Elements order; the strike's entry is negative (it delivers).
 	Energy []float64
+	// Gross is ∫ |Σ v·i − p₀| dt of each element, J, p₀ its power at the
+	// operating point, summed step by step: the energy the strike moved
+	// through the element in either direction. For an element that only
+	// takes energy from the strike (a resistor or a clamp at rest) it is
+	// the strike's share of Energy; for one that also gives energy back
+	// (a capacitor, a pin's input capacitance, a load on a rail that the
+	// strike lifts and then pulls below its rest) it is larger, and
+	// Energy less p₀·Stop is the small difference of what went in and
+	// came back. It is the scale to which that difference is accurate
+	// (see Accuracy).
+	Gross []float64
 	// PeakCurrent is the largest |I| of each element, A, refined between
 	// the points as waveforms.Tracker refines it.
 	PeakCurrent []float64

@@ -103,6 +103,7 @@ type System struct {
 	tjCur, tjCol   []int32
 	termV, termI   []float64 // every terminal's voltage and current at the last accepted point
 	stepEnergy     []float64 // each element's ledger entry over the last step, J
+	power0         []float64 // each element's power at the operating point, W
 	curTr          []waveforms.Tracker
 	dcMethod       string // how the last operating point was found, for tests
 	factorisations int    // LU factorisations of the transient, for Stats
@@ -422,6 +423,7 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.termV = make([]float64, nTerm)
 	s.termI = make([]float64, nTerm)
 	s.stepEnergy = make([]float64, len(s.devs))
+	s.power0 = make([]float64, len(s.devs))
 	s.curTr = make([]waveforms.Tracker, len(s.devs))
 	for i := range s.curTr {
 		s.curTr[i].Refine = true

@@ -546,6 +546,9 @@ func (b *Bench) measure(r *Run, res *mna.Result) {
 		er := ElementResult{Name: m.e.Name, Kind: m.e.Kind.Name, Role: m.e.Kind.Role,
 			PeakCurrent: quiet(pk, currentFloor), TPeak: tpk, Energy: r.Ledger.Entries[k].Energy,
 			Quiescent: b.w0[m.elem]}
+		if m.elem < len(res.Gross) {
+			er.Gross = res.Gross[m.elem]
+		}
 		if m.e.Kind.Role == spec.ProtectedPin {
 			er.Residual = m.residual(er.Energy)
 		}

@@ -181,7 +181,11 @@ type ElementResult struct {
 	PeakCurrent float64   `json:"peak_current"` // A
 	TPeak       float64   `json:"t_peak_current"`
 	Energy      float64   `json:"energy"` // J
-	Residual    *Residual `json:"residual,omitempty"`
+	// Gross is the energy the strike moved through the element in either
+	// direction, ∫ |v·i − v₀·i₀| dt, J (mna.Result.Gross): Energy is
+	// accurate relative to the larger of the two.
+	Gross    float64   `json:"-"`
+	Residual *Residual `json:"residual,omitempty"`
 	// PeakVoltage is the largest |voltage| across the element, V, with its
 	// time; nil for elements not rated on a voltage.
 	PeakVoltage  *float64 `json:"peak_voltage,omitempty"`

@@ -40,14 +40,21 @@ type VerifiedQuantity struct {
 	Tighter float64   `json:"tighter"`
 	// Difference is Value − Tighter; Relative is |Difference| over the
 	// quantity's scale: for a highest or lowest voltage the largest
-	// magnitude it reached on its side of zero (as the engine states its
-	// accuracy), for the others the larger magnitude of the two; at least
-	// the noise floor: a millivolt, a milliampere, and for an energy a
+	// magnitude it reached on its side of zero, and at least
+	// mna.SideFloor of its largest on either side (as the engine states
+	// its accuracy); for an energy the larger of itself and the energy
+	// the strike moved through the element in either direction
+	// (ElementResult.Gross: a load on a rail that the strike lifts and
+	// then pulls below its rest nets the small difference of the two); for
+	// the others the larger magnitude of the two; at least the noise
+	// floor: a millivolt, a milliampere, and for an energy a
 	// hundred-thousandth of the energy delivered (the integrator leaves
 	// the net energy of a part that only stores it, an inductor carrying
-	// the strike, at a few millionths of the delivered).
+	// the strike, at a few millionths of the delivered). Scale is that
+	// scale.
 	Difference float64 `json:"difference"`
 	Relative   float64 `json:"relative"`
+	Scale      float64 `json:"scale"`
 	// Within says Relative is at most the accuracy asked for.
 	Within bool `json:"within"`
 }
@@ -122,11 +129,12 @@ func compare(r, t *Run, acc float64) *Verification {
 	addScaled := func(name string, unit spec.Unit, a, b, scale float64) {
 		floor := map[spec.Unit]float64{spec.Volt: 1e-3, spec.Ampere: 1e-3, spec.Joule: energyFloor}[unit]
 		d := a - b
-		rel := math.Abs(d) / math.Max(scale, floor)
+		scale = math.Max(scale, floor)
+		rel := math.Abs(d) / scale
 		if math.IsNaN(rel) || math.IsInf(rel, 0) {
 			rel = 0
 		}
-		q := VerifiedQuantity{Name: name, Unit: unit, Value: a, Tighter: b, Difference: d, Relative: rel, Within: rel <= acc}
+		q := VerifiedQuantity{Name: name, Unit: unit, Value: a, Tighter: b, Difference: d, Relative: rel, Scale: scale, Within: rel <= acc}
 		v.Quantities = append(v.Quantities, q)
 		if !q.Within {
 			v.Beyond++
@@ -146,13 +154,17 @@ func compare(r, t *Run, acc float64) *Verification {
 	// extremes compares a highest and a lowest value as the engine states
 	// its accuracy: each relative to the largest magnitude the quantity
 	// reached on its side of zero (a rail's dip to 0.5 V from 5 V is held
-	// to a share of 5 V, not of 0.5 V).
+	// to a share of 5 V, not of 0.5 V), and at least mna.SideFloor of the
+	// largest on either side (a pin's dip to −0.4 V after +99 V is held to
+	// a share of 5 V).
 	extremes := func(name string, hi, lo, thi, tlo float64, hiName, loName string) {
+		up, down := math.Max(math.Max(hi, thi), 0), -math.Min(math.Min(lo, tlo), 0)
+		floor := mna.SideFloor * math.Max(up, down)
 		side := func(x float64) float64 {
 			if x >= 0 {
-				return math.Max(math.Max(hi, thi), 0)
+				return math.Max(up, floor)
 			}
-			return -math.Min(math.Min(lo, tlo), 0)
+			return math.Max(down, floor)
 		}
 		scaleOf[hi], scaleOf[lo] = side(hi), side(lo)
 		addScaled(name+" "+hiName, spec.Volt, hi, thi, side(hi))
@@ -175,7 +187,11 @@ func compare(r, t *Run, acc float64) *Verification {
 		// difference of what went in and came back, left out.
 		switch e.Role {
 		case spec.Passive, spec.Protector, spec.ProtectedPin:
-			add(e.Name+" energy", spec.Joule, e.Energy, te.Energy)
+			// A limit on the energy (emax) reads the same number, at
+			// the same scale.
+			s := math.Max(math.Max(math.Abs(e.Energy), math.Abs(te.Energy)), math.Max(e.Gross, te.Gross))
+			scaleOf[e.Energy] = s
+			addScaled(e.Name+" energy", spec.Joule, e.Energy, te.Energy, s)
 		}
 		if e.Residual != nil && te.Residual != nil {
 			extremes(e.Name, e.Residual.Peak, e.Residual.Min, te.Residual.Peak, te.Residual.Min, "residual peak", "residual low")
