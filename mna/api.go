@@ -34,7 +34,8 @@ type Settings struct {
 	// equations. An extreme is relative to the largest magnitude reached
 	// on its side of zero (at least SideFloor of the largest on either
 	// side), an energy of the ledger to the larger of itself and its
-	// Gross. Zero: DefaultAccuracy (0.2 %). A tenfold smaller Accuracy
+	// Gross; a protected pin's currents to PinCurrentFactor times
+	// Accuracy. Zero: DefaultAccuracy (0.2 %). A tenfold smaller Accuracy
 	// gives about a tenfold smaller error (at about three times the
 	// steps), so the difference between a run and one at Accuracy/10 is
 	// the first run's error to within about a tenth: its error bar.

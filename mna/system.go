@@ -80,7 +80,14 @@ type System struct {
 	// clamp) needs its own accuracy.
 	pairs     [][2]int
 	pairScale []float64
-	xtol      []float64 // Newton's tolerance on each unknown, see setTolerances
+	// The devices with probes, and for each probe its highest and lowest
+	// value so far and two scratch readings: a probe is a reported
+	// quantity too (a pin's internal-path current, an exponential of its
+	// voltage), and its error is held like an unknown's (errorRatio).
+	probers            []int
+	pHi, pLo, pAt, pEr []float64
+	xe                 []float64 // the solution plus its estimated error
+	xtol               []float64 // Newton's tolerance on each unknown, see setTolerances
 
 	// The trapezoidal stage's solution and terminal currents, and its time.
 	xG, termG []float64
@@ -411,6 +418,14 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		}
 	}
 	s.pairScale = make([]float64, len(s.pairs))
+	for di := range s.devs {
+		if s.devs[di].prober != nil {
+			s.probers = append(s.probers, di)
+		}
+	}
+	s.pHi, s.pLo = make([]float64, nProbe), make([]float64, nProbe)
+	s.pAt, s.pEr = make([]float64, nProbe), make([]float64, nProbe)
+	s.xe = make([]float64, n)
 	s.xMin = make([]float64, n)
 	s.termCur = make([]float64, nTerm)
 	nSlopes := 0

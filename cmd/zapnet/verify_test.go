@@ -6,6 +6,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"zapnet/mna"
 )
 
 // --verify solves every run again at a tenth of its accuracy: at the
@@ -32,7 +34,7 @@ func TestVerifyWarnsWhenCoarse(t *testing.T) {
 		deck, want string
 		beyond     bool
 	}{
-		{demoDeck, "Error bar: every number within the 0.2 % asked of it, solved again at 0.02 %", false},
+		{demoDeck, "Error bar: every number within the 0.2 % (a pin's currents 1 %) asked of it, solved again at 0.02 %", false},
 		{coarse, "WARNING: ", true},
 	} {
 		js := filepath.Join(dir, "v.json")
@@ -50,9 +52,10 @@ func TestVerifyWarnsWhenCoarse(t *testing.T) {
 					Accuracy, Tighter float64
 					Beyond            int
 					Quantities        []struct {
-						Name            string
-						Value, Relative float64
-						Within          bool
+						Name                     string
+						Value, Tighter, Relative float64
+						Asked                    float64
+						Within                   bool
 					}
 				}
 			}
@@ -67,6 +70,23 @@ func TestVerifyWarnsWhenCoarse(t *testing.T) {
 		v := doc.Runs[0].Verify
 		if v == nil || len(v.Quantities) < 10 || (v.Beyond > 0) != c.beyond || v.Tighter != v.Accuracy/10 {
 			t.Fatalf("%s: verify %+v", c.deck, v)
+		}
+		// Each number once, held to the accuracy the engine states for
+		// it (mna.PinCurrentFactor for a pin's currents).
+		seen := map[[2]float64]string{}
+		for _, q := range v.Quantities {
+			if k := [2]float64{q.Value, q.Tighter}; q.Value != 0 && seen[k] != "" {
+				t.Errorf("%s: %s is %s again", c.deck, q.Name, seen[k])
+			} else {
+				seen[k] = q.Name
+			}
+			want := v.Accuracy
+			if q.Name == "U1 internal-path current" || q.Name == "U1 peak current" {
+				want = mna.PinCurrentFactor * v.Accuracy
+			}
+			if q.Asked != want || q.Within != (q.Relative <= q.Asked) {
+				t.Errorf("%s: %s held to %g, within %v at %g; want held to %g", c.deck, q.Name, q.Asked, q.Within, q.Relative, want)
+			}
 		}
 		html, _ := os.ReadFile(page)
 		if !strings.Contains(string(html), `id="run-1-verify"`) {

@@ -21,10 +21,12 @@ type Verification struct {
 	// Quantities are every headline number: each node's extremes, each
 	// element's peak current, the energy each resistor, protector and pin
 	// takes, each pin's residual and internal-path current, each probe's
-	// peak, each limit's measured value.
+	// peak, each limit's measured value; each number once (a limit or a
+	// probe that reads a number already listed is not listed again).
 	Quantities []VerifiedQuantity `json:"quantities"`
-	// Worst is the quantity whose relative difference is largest; Beyond
-	// counts those whose difference exceeds Accuracy.
+	// Worst is the quantity whose relative difference is largest against
+	// the accuracy it is held to; Beyond counts those whose difference
+	// exceeds it.
 	Worst  *VerifiedQuantity `json:"worst,omitempty"`
 	Beyond int               `json:"beyond"`
 	// Error says why the tighter solution failed; the quantities are then
@@ -55,8 +57,11 @@ type VerifiedQuantity struct {
 	Difference float64 `json:"difference"`
 	Relative   float64 `json:"relative"`
 	Scale      float64 `json:"scale"`
-	// Within says Relative is at most the accuracy asked for.
-	Within bool `json:"within"`
+	// Asked is the relative accuracy the quantity is held to: the run's
+	// Accuracy, and mna.PinCurrentFactor times it for a protected pin's
+	// currents. Within says Relative is at most Asked.
+	Asked  float64 `json:"asked"`
+	Within bool    `json:"within"`
 }
 
 // Accuracy is the relative accuracy the runs of c ask of the engine under
@@ -124,9 +129,15 @@ func compare(r, t *Run, acc float64) *Verification {
 	v := &Verification{Accuracy: acc, Tighter: acc / 10}
 	energyFloor := 1e-5 * math.Abs(r.Ledger.Delivered)
 	scaleOf := map[float64]float64{} // an extreme's scale, by its value (for the limits that read it)
-	// addScaled compares a and b relative to scale, at least the unit's
-	// noise floor.
-	addScaled := func(name string, unit spec.Unit, a, b, scale float64) {
+	listed := map[[2]float64]bool{}  // the numbers listed, by value and tighter value
+	// addAt compares a and b relative to scale, at least the unit's noise
+	// floor, and holds the difference to asked; a number listed already
+	// (a pin's residual peak is its node's highest, a limit reads a peak)
+	// is not listed again.
+	addAt := func(name string, unit spec.Unit, a, b, scale, asked float64) {
+		if (a != 0 || b != 0) && listed[[2]float64{a, b}] {
+			return
+		}
 		floor := map[spec.Unit]float64{spec.Volt: 1e-3, spec.Ampere: 1e-3, spec.Joule: energyFloor}[unit]
 		d := a - b
 		scale = math.Max(scale, floor)
@@ -134,22 +145,29 @@ func compare(r, t *Run, acc float64) *Verification {
 		if math.IsNaN(rel) || math.IsInf(rel, 0) {
 			rel = 0
 		}
-		q := VerifiedQuantity{Name: name, Unit: unit, Value: a, Tighter: b, Difference: d, Relative: rel, Scale: scale, Within: rel <= acc}
+		listed[[2]float64{a, b}] = true
+		q := VerifiedQuantity{Name: name, Unit: unit, Value: a, Tighter: b, Difference: d, Relative: rel,
+			Scale: scale, Asked: asked, Within: rel <= asked}
 		v.Quantities = append(v.Quantities, q)
 		if !q.Within {
 			v.Beyond++
 		}
-		if v.Worst == nil || q.Relative > v.Worst.Relative {
+		if v.Worst == nil || q.Relative/q.Asked > v.Worst.Relative/v.Worst.Asked {
 			w := q
 			v.Worst = &w
 		}
 	}
-	add := func(name string, unit spec.Unit, a, b float64) {
+	addScaled := func(name string, unit spec.Unit, a, b, scale float64) {
+		addAt(name, unit, a, b, scale, acc)
+	}
+	// add adds a number at the scale an extreme gave it, or its own,
+	// held to asked.
+	add := func(name string, unit spec.Unit, a, b, asked float64) {
 		s, ok := scaleOf[a]
 		if !ok {
 			s = math.Max(math.Abs(a), math.Abs(b))
 		}
-		addScaled(name, unit, a, b, s)
+		addAt(name, unit, a, b, s, asked)
 	}
 	// extremes compares a highest and a lowest value as the engine states
 	// its accuracy: each relative to the largest magnitude the quantity
@@ -181,7 +199,12 @@ func compare(r, t *Run, acc float64) *Verification {
 			continue
 		}
 		te := &t.Elements[i]
-		add(e.Name+" peak current", spec.Ampere, e.PeakCurrent, te.PeakCurrent)
+		// A pin's currents are stated looser (mna.PinCurrentFactor).
+		cur := acc
+		if e.Role == spec.ProtectedPin {
+			cur = mna.PinCurrentFactor * acc
+		}
+		add(e.Name+" peak current", spec.Ampere, e.PeakCurrent, te.PeakCurrent, cur)
 		// The energy a part dissipates is a headline number; what a part
 		// that stores or carries energy nets over the window is the small
 		// difference of what went in and came back, left out.
@@ -195,11 +218,15 @@ func compare(r, t *Run, acc float64) *Verification {
 		}
 		if e.Residual != nil && te.Residual != nil {
 			extremes(e.Name, e.Residual.Peak, e.Residual.Min, te.Residual.Peak, te.Residual.Min, "residual peak", "residual low")
-			add(e.Name+" internal-path current", spec.Ampere, e.Residual.IPath, te.Residual.IPath)
+			add(e.Name+" internal-path current", spec.Ampere, e.Residual.IPath, te.Residual.IPath, cur)
 		}
 		for _, p := range e.Probes {
 			if tp := te.Probe(p.Name); tp != nil {
-				add(e.Name+"."+p.Name+" peak", p.Unit, p.Peak, tp.Peak)
+				asked := acc
+				if p.Unit == spec.Ampere {
+					asked = cur
+				}
+				add(e.Name+"."+p.Name+" peak", p.Unit, p.Peak, tp.Peak, asked)
 			}
 		}
 	}
@@ -207,7 +234,7 @@ func compare(r, t *Run, acc float64) *Verification {
 		if i >= len(t.Limits) || t.Limits[i].Name() != l.Name() {
 			continue
 		}
-		add(l.Name()+" measured", l.Unit, l.Measured, t.Limits[i].Measured)
+		add(l.Name()+" measured", l.Unit, l.Measured, t.Limits[i].Measured, acc)
 	}
 	return v
 }

@@ -234,12 +234,19 @@ func verifySentence(v *study.Verification) string {
 	}
 	worst := fmt.Sprintf("%s %.2g %% (%s against %s)", v.Worst.Name, 100*v.Worst.Relative,
 		si(v.Worst.Value, v.Worst.Unit), si(v.Worst.Tighter, v.Worst.Unit))
+	asked := spec.FormatFraction(v.Accuracy)
+	for _, q := range v.Quantities {
+		if q.Asked != v.Accuracy {
+			asked += fmt.Sprintf(" (a pin's currents %s)", spec.FormatFraction(q.Asked))
+			break
+		}
+	}
 	if v.Beyond == 0 {
 		return fmt.Sprintf("Error bar: every number within the %s asked of it, solved again at %s; the largest difference %s",
-			spec.FormatFraction(v.Accuracy), spec.FormatFraction(v.Tighter), worst)
+			asked, spec.FormatFraction(v.Tighter), worst)
 	}
 	return fmt.Sprintf("WARNING: %d of %d numbers differ by more than the %s asked when solved again at %s, the most %s: tighten the window's accuracy= (or bound the step with resolve=) and run again",
-		v.Beyond, len(v.Quantities), spec.FormatFraction(v.Accuracy), spec.FormatFraction(v.Tighter), worst)
+		v.Beyond, len(v.Quantities), asked, spec.FormatFraction(v.Tighter), worst)
 }
 
 // The rows of a run's tables that the text and the HTML report share, one
