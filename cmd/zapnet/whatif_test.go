@@ -111,7 +111,7 @@ func TestMarginCommand(t *testing.T) {
 		t.Fatalf("document %+v", doc)
 	}
 	for _, m := range doc.Margins {
-		// The resolution is 0.1 kV (the requirement [practice]).
+		// The resolution is 0.1 kV, as the help promises [practice].
 		if m.MaxPass == nil || m.FirstFail == nil || *m.FirstFail-*m.MaxPass != 100 || m.Limiting == "" || !m.Monotonic {
 			t.Errorf("%s: %+v", m.Polarity, m)
 		}
