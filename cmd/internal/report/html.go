@@ -240,7 +240,7 @@ func htmlRunTables(id string, r *study.Run) []htmlTable {
 	add("limits", "Limits", []string{"limit", "measured", "at", "rating", "margin", "margin %", "verdict"}, limitRows(r))
 	if v := r.Verify; v != nil && len(v.Quantities) > 0 {
 		add("verify", "Error bar: every headline number solved again at accuracy "+spec.FormatFraction(v.Tighter),
-			[]string{"number", "value", "tighter", "difference %", "within " + spec.FormatFraction(v.Accuracy)}, verifyRows(v))
+			[]string{"number", "value", "tighter", "difference %", "asked", "within"}, verifyRows(v))
 	}
 	return ts
 }

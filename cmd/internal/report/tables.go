@@ -208,7 +208,8 @@ func runDetail(w io.Writer, r *study.Run, i, n int) {
 }
 
 // verifyRows are a run's verified numbers: value, the tighter solution's,
-// the relative difference and whether it is within the accuracy asked.
+// the relative difference, the accuracy it is held to and whether it is
+// within it.
 func verifyRows(v *study.Verification) [][]string {
 	var rows [][]string
 	for _, q := range v.Quantities {
@@ -216,7 +217,7 @@ func verifyRows(v *study.Verification) [][]string {
 		if !q.Within {
 			within = "NO"
 		}
-		rows = append(rows, []string{q.Name, si(q.Value, q.Unit), si(q.Tighter, q.Unit), fmt.Sprintf("%.2g", 100*q.Relative), within})
+		rows = append(rows, []string{q.Name, si(q.Value, q.Unit), si(q.Tighter, q.Unit), fmt.Sprintf("%.2g", 100*q.Relative), spec.FormatFraction(q.Asked), within})
 	}
 	return rows
 }
