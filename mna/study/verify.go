@@ -126,115 +126,129 @@ func Verify(ctx context.Context, c *netlist.Circuit, runs []Run, opt *Options) e
 
 // compare builds the verification of run r against the tighter run t.
 func compare(r, t *Run, acc float64) *Verification {
-	v := &Verification{Accuracy: acc, Tighter: acc / 10}
-	energyFloor := 1e-5 * math.Abs(r.Ledger.Delivered)
-	scaleOf := map[float64]float64{} // an extreme's scale, by its value (for the limits that read it)
-	listed := map[[2]float64]bool{}  // the numbers listed, by value and tighter value
-	// addAt compares a and b relative to scale, at least the unit's noise
-	// floor, and holds the difference to asked; a number listed already
-	// (a pin's residual peak is its node's highest, a limit reads a peak)
-	// is not listed again.
-	addAt := func(name string, unit spec.Unit, a, b, scale, asked float64) {
-		if (a != 0 || b != 0) && listed[[2]float64{a, b}] {
-			return
-		}
-		floor := map[spec.Unit]float64{spec.Volt: 1e-3, spec.Ampere: 1e-3, spec.Joule: energyFloor}[unit]
-		d := a - b
-		scale = math.Max(scale, floor)
-		rel := math.Abs(d) / scale
-		if math.IsNaN(rel) || math.IsInf(rel, 0) {
-			rel = 0
-		}
-		listed[[2]float64{a, b}] = true
-		q := VerifiedQuantity{Name: name, Unit: unit, Value: a, Tighter: b, Difference: d, Relative: rel,
-			Scale: scale, Asked: asked, Within: rel <= asked}
-		v.Quantities = append(v.Quantities, q)
-		if !q.Within {
-			v.Beyond++
-		}
-		if v.Worst == nil || q.Relative/q.Asked > v.Worst.Relative/v.Worst.Asked {
-			w := q
-			v.Worst = &w
-		}
-	}
-	addScaled := func(name string, unit spec.Unit, a, b, scale float64) {
-		addAt(name, unit, a, b, scale, acc)
-	}
-	// add adds a number at the scale an extreme gave it, or its own,
-	// held to asked.
-	add := func(name string, unit spec.Unit, a, b, asked float64) {
-		s, ok := scaleOf[a]
-		if !ok {
-			s = math.Max(math.Abs(a), math.Abs(b))
-		}
-		addAt(name, unit, a, b, s, asked)
-	}
-	// extremes compares a highest and a lowest value as the engine states
-	// its accuracy: each relative to the largest magnitude the quantity
-	// reached on its side of zero (a rail's dip to 0.5 V from 5 V is held
-	// to a share of 5 V, not of 0.5 V), and at least mna.SideFloor of the
-	// largest on either side (a pin's dip to −0.4 V after +99 V is held to
-	// a share of 5 V).
-	extremes := func(name string, hi, lo, thi, tlo float64, hiName, loName string) {
-		up, down := math.Max(math.Max(hi, thi), 0), -math.Min(math.Min(lo, tlo), 0)
-		floor := mna.SideFloor * math.Max(up, down)
-		side := func(x float64) float64 {
-			if x >= 0 {
-				return math.Max(up, floor)
-			}
-			return math.Max(down, floor)
-		}
-		scaleOf[hi], scaleOf[lo] = side(hi), side(lo)
-		addScaled(name+" "+hiName, spec.Volt, hi, thi, side(hi))
-		addScaled(name+" "+loName, spec.Volt, lo, tlo, side(lo))
-	}
+	c := &comparison{v: &Verification{Accuracy: acc, Tighter: acc / 10},
+		energyFloor: 1e-5 * math.Abs(r.Ledger.Delivered),
+		scaleOf:     map[float64]float64{}, listed: map[[2]float64]bool{}}
 	for i, n := range r.Nodes {
 		if i >= len(t.Nodes) || t.Nodes[i].Name != n.Name {
 			continue
 		}
-		extremes(n.Name, n.Max, n.Min, t.Nodes[i].Max, t.Nodes[i].Min, "max", "min")
+		c.extremes(n.Name, n.Max, n.Min, t.Nodes[i].Max, t.Nodes[i].Min, "max", "min")
 	}
-	for i, e := range r.Elements {
-		if i >= len(t.Elements) || t.Elements[i].Name != e.Name {
+	for i := range r.Elements {
+		if i >= len(t.Elements) || t.Elements[i].Name != r.Elements[i].Name {
 			continue
 		}
-		te := &t.Elements[i]
-		// A pin's currents are stated looser (mna.PinCurrentFactor).
-		cur := acc
-		if e.Role == spec.ProtectedPin {
-			cur = mna.PinCurrentFactor * acc
-		}
-		add(e.Name+" peak current", spec.Ampere, e.PeakCurrent, te.PeakCurrent, cur)
-		// The energy a part dissipates is a headline number; what a part
-		// that stores or carries energy nets over the window is the small
-		// difference of what went in and came back, left out.
-		switch e.Role {
-		case spec.Passive, spec.Protector, spec.ProtectedPin:
-			// A limit on the energy (emax) reads the same number, at
-			// the same scale.
-			s := math.Max(math.Max(math.Abs(e.Energy), math.Abs(te.Energy)), math.Max(e.Gross, te.Gross))
-			scaleOf[e.Energy] = s
-			addScaled(e.Name+" energy", spec.Joule, e.Energy, te.Energy, s)
-		}
-		if e.Residual != nil && te.Residual != nil {
-			extremes(e.Name, e.Residual.Peak, e.Residual.Min, te.Residual.Peak, te.Residual.Min, "residual peak", "residual low")
-			add(e.Name+" internal-path current", spec.Ampere, e.Residual.IPath, te.Residual.IPath, cur)
-		}
-		for _, p := range e.Probes {
-			if tp := te.Probe(p.Name); tp != nil {
-				asked := acc
-				if p.Unit == spec.Ampere {
-					asked = cur
-				}
-				add(e.Name+"."+p.Name+" peak", p.Unit, p.Peak, tp.Peak, asked)
-			}
-		}
+		c.element(&r.Elements[i], &t.Elements[i])
 	}
 	for i, l := range r.Limits {
 		if i >= len(t.Limits) || t.Limits[i].Name() != l.Name() {
 			continue
 		}
-		add(l.Name()+" measured", l.Unit, l.Measured, t.Limits[i].Measured, acc)
+		c.add(l.Name()+" measured", l.Unit, l.Measured, t.Limits[i].Measured, acc)
 	}
-	return v
+	return c.v
+}
+
+// comparison is a verification being built.
+type comparison struct {
+	v           *Verification
+	energyFloor float64             // J: a hundred-thousandth of the energy delivered
+	scaleOf     map[float64]float64 // an extreme's scale, by its value (for the limits that read it)
+	listed      map[[2]float64]bool // the numbers listed, by value and tighter value
+}
+
+// addAt compares a and b relative to scale, at least the unit's noise
+// floor, and holds the difference to asked; a number listed already (a
+// pin's residual peak is its node's highest, a limit reads a peak) is not
+// listed again.
+func (c *comparison) addAt(name string, unit spec.Unit, a, b, scale, asked float64) {
+	if (a != 0 || b != 0) && c.listed[[2]float64{a, b}] {
+		return
+	}
+	floor := map[spec.Unit]float64{spec.Volt: 1e-3, spec.Ampere: 1e-3, spec.Joule: c.energyFloor}[unit]
+	d := a - b
+	scale = math.Max(scale, floor)
+	rel := math.Abs(d) / scale
+	if math.IsNaN(rel) || math.IsInf(rel, 0) {
+		rel = 0
+	}
+	c.listed[[2]float64{a, b}] = true
+	q := VerifiedQuantity{Name: name, Unit: unit, Value: a, Tighter: b, Difference: d, Relative: rel,
+		Scale: scale, Asked: asked, Within: rel <= asked}
+	v := c.v
+	v.Quantities = append(v.Quantities, q)
+	if !q.Within {
+		v.Beyond++
+	}
+	if v.Worst == nil || q.Relative/q.Asked > v.Worst.Relative/v.Worst.Asked {
+		w := q
+		v.Worst = &w
+	}
+}
+
+// add adds a number at the scale an extreme gave it, or its own, held to
+// asked.
+func (c *comparison) add(name string, unit spec.Unit, a, b, asked float64) {
+	s, ok := c.scaleOf[a]
+	if !ok {
+		s = math.Max(math.Abs(a), math.Abs(b))
+	}
+	c.addAt(name, unit, a, b, s, asked)
+}
+
+// extremes compares a highest and a lowest value as the engine states its
+// accuracy: each relative to the largest magnitude the quantity reached on
+// its side of zero (a rail's dip to 0.5 V from 5 V is held to a share of
+// 5 V, not of 0.5 V), and at least mna.SideFloor of the largest on either
+// side (a pin's dip to −0.4 V after +99 V is held to a share of 5 V).
+func (c *comparison) extremes(name string, hi, lo, thi, tlo float64, hiName, loName string) {
+	up, down := math.Max(math.Max(hi, thi), 0), -math.Min(math.Min(lo, tlo), 0)
+	floor := mna.SideFloor * math.Max(up, down)
+	side := func(x float64) float64 {
+		if x >= 0 {
+			return math.Max(up, floor)
+		}
+		return math.Max(down, floor)
+	}
+	c.scaleOf[hi], c.scaleOf[lo] = side(hi), side(lo)
+	c.addAt(name+" "+hiName, spec.Volt, hi, thi, side(hi), c.v.Accuracy)
+	c.addAt(name+" "+loName, spec.Volt, lo, tlo, side(lo), c.v.Accuracy)
+}
+
+// element compares an element's numbers: its peak current, the energy a
+// resistor, protector or pin takes, a pin's residual and internal-path
+// current, its probes' peaks. A pin's currents are held to
+// mna.PinCurrentFactor times the accuracy.
+func (c *comparison) element(e, te *ElementResult) {
+	acc := c.v.Accuracy
+	cur := acc
+	if e.Role == spec.ProtectedPin {
+		cur = mna.PinCurrentFactor * acc
+	}
+	c.add(e.Name+" peak current", spec.Ampere, e.PeakCurrent, te.PeakCurrent, cur)
+	// The energy a part dissipates is a headline number; what a part that
+	// stores or carries energy nets over the window is the small
+	// difference of what went in and came back, left out.
+	switch e.Role {
+	case spec.Passive, spec.Protector, spec.ProtectedPin:
+		// A limit on the energy (emax) reads the same number, at the
+		// same scale.
+		s := math.Max(math.Max(math.Abs(e.Energy), math.Abs(te.Energy)), math.Max(e.Gross, te.Gross))
+		c.scaleOf[e.Energy] = s
+		c.addAt(e.Name+" energy", spec.Joule, e.Energy, te.Energy, s, acc)
+	}
+	if e.Residual != nil && te.Residual != nil {
+		c.extremes(e.Name, e.Residual.Peak, e.Residual.Min, te.Residual.Peak, te.Residual.Min, "residual peak", "residual low")
+		c.add(e.Name+" internal-path current", spec.Ampere, e.Residual.IPath, te.Residual.IPath, cur)
+	}
+	for _, p := range e.Probes {
+		if tp := te.Probe(p.Name); tp != nil {
+			asked := acc
+			if p.Unit == spec.Ampere {
+				asked = cur
+			}
+			c.add(e.Name+"."+p.Name+" peak", p.Unit, p.Peak, tp.Peak, asked)
+		}
+	}
 }
