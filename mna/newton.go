@@ -238,10 +238,13 @@ func (s *System) stampLocal() {
 
 // setNoise sums on every row the magnitudes of the history terms of the
 // states stamped there, the rounding allowance of residualOK. The history
-// is fixed over the Newton iterations of a step, so this is done once per
-// step, after the history is formed (and cleared for the operating point,
-// which has no state derivatives).
+// is fixed over the Newton iterations of a step, so this is done at most
+// once per step, at the first residual test after the history is formed
+// (and cleared for the operating point, which has no state derivatives):
+// most stages converge on their update alone and never test the residual,
+// and forming the history marks the sums stale (noiseOK) instead.
 func (s *System) setNoise() {
+	s.noiseOK = true
 	clear(s.noise)
 	if s.ctx.DC {
 		return
@@ -266,6 +269,9 @@ func (s *System) setNoise() {
 // at a picosecond step), which leaves an error of a few ulps of the history
 // that no iteration removes.
 func (s *System) residualOK(t *tol) bool {
+	if !s.noiseOK {
+		s.setNoise()
+	}
 	p := s.pat
 	ok := true
 	worst := -1.0

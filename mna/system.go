@@ -49,6 +49,7 @@ type System struct {
 	eta             [2]float64 // Newton's contraction factors θ/(1−θ), last measured and relaxed since (see newton)
 	scale           []float64  // largest single contribution on each row, for the residual test
 	noise           []float64  // size of the cancelling state terms on each row, for the same
+	noiseOK         bool       // noise belongs to the history in force (see setNoise)
 	// Devices stamp in one of two ways. A small circuit (n ≤ denseMax)
 	// stamps into a dense n×n Jacobian, dense, from which the pattern's
 	// entries are gathered: the fastest way for tens of unknowns. A large

@@ -352,7 +352,7 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 			for k, q := range qn {
 				s.hist[k] = -q / hs
 			}
-			s.setNoise()
+			s.noiseOK = false
 			c.T = tNew
 			s.predict(tNew, false)
 			it, st = s.newton(&t, t.gmin, false)
@@ -364,7 +364,7 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 			for k, q := range qn {
 				s.hist[k] = -c.Alpha*q - s.qdotAcc[k]
 			}
-			s.setNoise()
+			s.noiseOK = false
 			c.T = now + h1
 			s.predict(c.T, false)
 			it, st = s.newton(&t, t.gmin, false)
@@ -380,7 +380,7 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 				for k, q := range qn {
 					s.hist[k] = c.Alpha * (a2*q - a1*s.qG[k])
 				}
-				s.setNoise()
+				s.noiseOK = false
 				c.T = tNew
 				s.predict(tNew, true)
 				it, st = s.newton(&t, t.gmin, true)
