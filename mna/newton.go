@@ -553,7 +553,7 @@ func (s *System) setTolerances(t *tol) {
 		return
 	}
 	for i, v := range x {
-		s.xtol[i] = t.newton*s.scaleOf(v, v, hi[i], lo[i], sc[i]) + t.abs
+		s.xtol[i] = t.newton*scaleOf(v, v, hi[i], lo[i], SideFloor*sc[i]) + t.abs
 	}
 }
 

@@ -626,7 +626,7 @@ func (s *System) errorRatio(h float64, t *tol) (r float64, have bool) {
 		wmax = 1
 	}
 	for i, v := range e {
-		b := s.scaleOf(x[i], xo[i], hi[i], lo[i], sc[i])
+		b := scaleOf(x[i], xo[i], hi[i], lo[i], SideFloor*sc[i])
 		w := 1.0
 		if d := min(hi[i]-x[i], x[i]-lo[i]); d > 0 && wmax > 1 {
 			d /= b
@@ -656,9 +656,11 @@ func (s *System) errorRatio(h float64, t *tol) (r float64, have bool) {
 }
 
 // scaleOf is the scale of an unknown whose value is x (xo before the step),
-// which has reached hi and lo so far and whose largest magnitude is sc: the
-// largest magnitude on the side of zero where x lies, at least |x|, |xo|
-// and SideFloor·sc (see localShare).
+// which has reached hi and lo so far and whose largest magnitude times
+// SideFloor is floor: the largest magnitude on the side of zero where x
+// lies, at least |x|, |xo| and floor (see localShare). The caller forms
+// floor, which keeps this small enough to be inlined into the loops over
+// the unknowns that call it at every step.
 //
 // A value nearer zero than the other side's scale is on its way to that
 // side as much as to its own, and an error made there is still in it when
@@ -667,15 +669,16 @@ func (s *System) errorRatio(h float64, t *tol) (r float64, have bool) {
 // cancellation of its clamp's 13 V and its pin inductance's −13.4 V) is
 // held, on the way down through the last volts, to the −0.4 V side's scale
 // (at least a twentieth of 99 V), not to the 99 V it left behind.
-func (s *System) scaleOf(x, xo, hi, lo, sc float64) float64 {
+func scaleOf(x, xo, hi, lo, floor float64) float64 {
 	side, other := hi, -lo
 	if x < 0 {
-		side, other = -lo, hi
+		side, other = other, side
 	}
-	if other = max(other, SideFloor*sc); math.Abs(x) < other {
+	ax := math.Abs(x)
+	if other = max(other, floor); ax < other {
 		side = min(side, other)
 	}
-	return max(side, math.Abs(x), math.Abs(xo), SideFloor*sc, scaleFloor)
+	return max(side, ax, math.Abs(xo), floor, scaleFloor)
 }
 
 // truncationError is the error of a step that the error control keeps
