@@ -95,10 +95,11 @@ func localRel(acc float64) float64 {
 // entries, forms the state derivatives and adds them, and adds the shunt
 // conductances. Along the way it records each device's terminal currents
 // (its own stamps on its terminal rows, with its states' below) and each
-// row's largest single contribution.
+// device's contribution to each of its rows, from which setScale forms
+// the rows' largest single contributions if the residual is tested.
 func (s *System) assemble(g float64) {
 	clear(s.f)
-	clear(s.scale)
+	s.scaleOK = false
 	c := &s.ctx
 	c.Limited = false
 	c.NSlopes = 0
@@ -107,7 +108,7 @@ func (s *System) assemble(g float64) {
 	} else {
 		s.stampLocal()
 	}
-	f, scale := s.f, s.scale
+	f := s.f
 	if c.DC {
 		clear(s.qdot)
 	} else {
@@ -115,18 +116,11 @@ func (s *System) assemble(g float64) {
 		for k, r := range s.rows {
 			qd := c.Alpha*s.q[k] + hist[k]
 			qdot[k] = qd
-			a := math.Abs(qd)
 			if r.Plus >= 0 {
 				f[r.Plus] += qd
-				if a > scale[r.Plus] {
-					scale[r.Plus] = a
-				}
 			}
 			if r.Minus >= 0 {
 				f[r.Minus] -= qd
-				if a > scale[r.Minus] {
-					scale[r.Minus] = a
-				}
 			}
 			st := s.stateTerm[k]
 			if st[0] >= 0 {
@@ -151,10 +145,11 @@ func (s *System) assemble(g float64) {
 func (s *System) stampDense() {
 	c := &s.ctx
 	clear(s.dense)
-	f, scale, snap := s.f, s.scale, s.snap
+	f := s.f
 	dense := s.dense
 	for di := range s.devs {
 		d := &s.devs[di]
+		snap := s.contrib[d.cLo : d.cLo+len(d.touched)]
 		for _, k := range d.prior {
 			snap[k] = f[d.touched[k]]
 		}
@@ -177,9 +172,6 @@ func (s *System) stampDense() {
 				v -= snap[k]
 			}
 			snap[k] = v
-			if a := math.Abs(v); a > scale[r] {
-				scale[r] = a
-			}
 		}
 		for t, k := range d.termSnap {
 			v := 0.0
@@ -196,7 +188,7 @@ func (s *System) stampDense() {
 func (s *System) stampLocal() {
 	c := &s.ctx
 	clear(s.jac)
-	f, scale, jac, local := s.f, s.scale, s.jac, s.local
+	f, jac, local := s.f, s.jac, s.local
 	for di := range s.devs {
 		d := &s.devs[di]
 		m := len(d.touched)
@@ -209,12 +201,11 @@ func (s *System) stampLocal() {
 		c.F, c.J, c.N = fl, jl, m
 		c.StateBase = d.stateLo
 		d.dev.Eval(c)
+		own := s.contrib[d.cLo : d.cLo+m]
 		for k, r := range d.touched {
 			v := fl[k]
 			f[r] += v
-			if a := math.Abs(v); a > scale[r] {
-				scale[r] = a
-			}
+			own[k] = v
 		}
 		for t, k := range d.termSnap {
 			v := 0.0
@@ -260,6 +251,36 @@ func (s *System) setNoise() {
 	}
 }
 
+// setScale forms each row's largest single contribution at the last
+// evaluation, a device's or a state derivative's, for the residual test.
+// Most iterates are judged by their update alone, so it is formed only
+// when a residual is tested; the largest magnitude does not depend on the
+// order in which the contributions are met.
+func (s *System) setScale() {
+	s.scaleOK = true
+	scale := s.scale
+	clear(scale)
+	for di := range s.devs {
+		d := &s.devs[di]
+		own := s.contrib[d.cLo : d.cLo+len(d.touched)]
+		for k, r := range d.touched {
+			if a := math.Abs(own[k]); a > scale[r] {
+				scale[r] = a
+			}
+		}
+	}
+	// At the operating point the derivatives are zero and add nothing.
+	for k, r := range s.rows {
+		a := math.Abs(s.qdot[k])
+		if r.Plus >= 0 && a > scale[r.Plus] {
+			scale[r.Plus] = a
+		}
+		if r.Minus >= 0 && a > scale[r.Minus] {
+			scale[r.Minus] = a
+		}
+	}
+}
+
 // residualOK tests the KCL residual of every node row against
 // current + rel·(largest current any one element puts on that node), and
 // every branch row (volts) against abs + rel·(largest term of its equation,
@@ -271,6 +292,9 @@ func (s *System) setNoise() {
 func (s *System) residualOK(t *tol) bool {
 	if !s.noiseOK {
 		s.setNoise()
+	}
+	if !s.scaleOK {
+		s.setScale()
 	}
 	p := s.pat
 	ok := true
