@@ -420,8 +420,7 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 	for it := 1; it <= t.maxIter; it++ {
 		s.assemble(g)
 		if have {
-			s.negF()
-			s.lu.solve(s.dx)
+			s.lu.solveNeg(s.dx, s.f)
 			r, volts, bad := s.measure()
 			if bad >= 0 {
 				s.resRow, s.resValue = bad, s.f[bad]
@@ -479,8 +478,7 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 			return it, singular
 		}
 		s.luOK, have, fresh = true, true, true
-		s.negF()
-		s.lu.solve(s.dx)
+		s.lu.solveNeg(s.dx, s.f)
 		r, volts, bad := s.measure()
 		if bad >= 0 {
 			s.resRow, s.resValue = bad, s.f[bad]
@@ -555,13 +553,6 @@ const (
 	etaRelax  = 2.0
 	etaFloor  = 1e-12
 )
-
-// negF sets dx to −F, the right-hand side of the Newton step.
-func (s *System) negF() {
-	for i, f := range s.f {
-		s.dx[i] = -f
-	}
-}
 
 // setTolerances sets Newton's tolerance on every unknown, newton·scale +
 // abs, the scale being the error control's (see localShare) at the point
