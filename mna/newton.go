@@ -112,9 +112,11 @@ func (s *System) assemble(g float64) {
 	if c.DC {
 		clear(s.qdot)
 	} else {
-		hist, qdot := s.hist[:len(s.q)], s.qdot[:len(s.q)]
-		for k, r := range s.rows {
-			qd := c.Alpha*s.q[k] + hist[k]
+		// The slices and Alpha in locals, as in take.
+		alpha, cur, q := c.Alpha, s.termCur, s.q
+		hist, qdot, st := s.hist[:len(q)], s.qdot[:len(q)], s.stateTerm[:len(q)]
+		for k, r := range s.rows[:len(q)] {
+			qd := alpha*q[k] + hist[k]
 			qdot[k] = qd
 			if r.Plus >= 0 {
 				f[r.Plus] += qd
@@ -122,18 +124,17 @@ func (s *System) assemble(g float64) {
 			if r.Minus >= 0 {
 				f[r.Minus] -= qd
 			}
-			st := s.stateTerm[k]
-			if st[0] >= 0 {
-				s.termCur[st[0]] += qd
+			if t := st[k][0]; t >= 0 {
+				cur[t] += qd
 			}
-			if st[1] >= 0 {
-				s.termCur[st[1]] -= qd
+			if t := st[k][1]; t >= 0 {
+				cur[t] -= qd
 			}
 		}
 	}
-	jac, diag := s.jacBuf, s.jacDiag
+	jac, diag, x := s.jacBuf, s.jacDiag, s.x
 	for _, i := range s.nodeRows {
-		f[i] += g * s.x[i]
+		f[i] += g * x[i]
 		jac[diag[i]] += g
 	}
 }
@@ -502,11 +503,14 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 // integrates belongs to the point taken; the update being converged, what
 // that linearisation leaves out is of its square.
 func (s *System) take() newtonStatus {
+	// The slices and Alpha in locals: each store through a slice of the
+	// System would otherwise reload them.
 	dx := s.dx
+	x := s.x[:len(dx)]
 	for i, d := range dx {
-		s.x[i] += d
+		x[i] += d
 	}
-	for i, v := range s.x {
+	for i, v := range x {
 		if !(math.Abs(v) < impossible) {
 			s.resRow, s.resValue = i, s.f[i]
 			return runaway
@@ -516,14 +520,16 @@ func (s *System) take() newtonStatus {
 	if c.DC || c.NSlopes > len(c.Slopes) {
 		return converged
 	}
+	q, qdot, alpha := s.q, s.qdot, c.Alpha
 	for _, sl := range c.Slopes[:c.NSlopes] {
 		d := sl.D * dx[sl.Col]
-		s.q[sl.State] += d
-		s.qdot[sl.State] += c.Alpha * d
+		q[sl.State] += d
+		qdot[sl.State] += alpha * d
 	}
+	tc := s.termCur
 	cur, col := s.tjCur[:len(s.termJ)], s.tjCol[:len(s.termJ)]
 	for e, v := range s.termJ {
-		s.termCur[cur[e]] += v * dx[col[e]]
+		tc[cur[e]] += v * dx[col[e]]
 	}
 	return converged
 }

@@ -735,34 +735,38 @@ func (s *System) accept(res *Result, cfg *Settings, x, termCur []float64, now, h
 	for i, k := range s.nodeIdx {
 		pt.V[i] = x[k]
 	}
+	// The ledger's slices in locals, as in take.
+	energy, gross, power0, stepEnergy := res.Energy, res.Gross, s.power0, s.stepEnergy
 	for di := range s.devs {
 		d := &s.devs[di]
 		e, p := 0.0, 0.0
-		for ti, r := range d.term {
-			k := d.curBase + ti
-			v, i := 0.0, termCur[k]
+		lo, hi := d.curBase, d.curBase+len(d.term)
+		cur, tv, ti := termCur[lo:hi], s.termV[lo:hi], s.termI[lo:hi]
+		for t, r := range d.term {
+			v, i := 0.0, cur[t]
 			if r >= 0 {
 				v = x[r]
 			}
-			e += (v + s.termV[k]) * (i + s.termI[k])
+			e += (v + tv[t]) * (i + ti[t])
 			p += v * i
-			s.termV[k], s.termI[k] = v, i
+			tv[t], ti[t] = v, i
 		}
-		s.stepEnergy[di] = 0
+		se := 0.0
 		if first {
-			s.power0[di] = p
+			power0[di] = p
 		} else {
-			s.stepEnergy[di] = 0.25 * h * e
-			res.Energy[di] += s.stepEnergy[di]
-			res.Gross[di] += math.Abs(s.stepEnergy[di] - s.power0[di]*h)
+			se = 0.25 * h * e
+			energy[di] += se
+			gross[di] += math.Abs(se - power0[di]*h)
 		}
+		stepEnergy[di] = se
 		pt.W[di] = p
 		i := 0.0
 		switch {
-		case len(d.term) > 0 && d.term[0] >= 0:
-			i = termCur[d.curBase]
-		case len(d.term) > 1:
-			i = -termCur[d.curBase+1]
+		case len(cur) > 0 && d.term[0] >= 0:
+			i = cur[0]
+		case len(cur) > 1:
+			i = -cur[1]
 		}
 		pt.I[di] = i
 		s.curTr[di].Add(now, i)
