@@ -49,7 +49,7 @@ func (s *System) operatingPoint(t *tol) (int, error) {
 	c := &s.ctx
 	c.DC, c.T, c.Alpha, c.Gmin, c.SourceScale = true, 0, 0, t.gmin, 1
 	clear(s.hist)
-	s.setNoise()
+	s.noiseOK = false
 	total := 0
 	defer func() { c.SourceScale = 1 }()
 

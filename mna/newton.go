@@ -95,10 +95,11 @@ func localRel(acc float64) float64 {
 // entries, forms the state derivatives and adds them, and adds the shunt
 // conductances. Along the way it records each device's terminal currents
 // (its own stamps on its terminal rows, with its states' below) and each
-// row's largest single contribution.
+// device's contribution to each of its rows, from which setScale forms
+// the rows' largest single contributions if the residual is tested.
 func (s *System) assemble(g float64) {
 	clear(s.f)
-	clear(s.scale)
+	s.scaleOK = false
 	c := &s.ctx
 	c.Limited = false
 	c.NSlopes = 0
@@ -107,39 +108,33 @@ func (s *System) assemble(g float64) {
 	} else {
 		s.stampLocal()
 	}
-	f, scale := s.f, s.scale
+	f := s.f
 	if c.DC {
 		clear(s.qdot)
 	} else {
-		hist, qdot := s.hist[:len(s.q)], s.qdot[:len(s.q)]
-		for k, r := range s.rows {
-			qd := c.Alpha*s.q[k] + hist[k]
+		// The slices and Alpha in locals, as in take.
+		alpha, cur, q := c.Alpha, s.termCur, s.q
+		hist, qdot, st := s.hist[:len(q)], s.qdot[:len(q)], s.stateTerm[:len(q)]
+		for k, r := range s.rows[:len(q)] {
+			qd := alpha*q[k] + hist[k]
 			qdot[k] = qd
-			a := math.Abs(qd)
 			if r.Plus >= 0 {
 				f[r.Plus] += qd
-				if a > scale[r.Plus] {
-					scale[r.Plus] = a
-				}
 			}
 			if r.Minus >= 0 {
 				f[r.Minus] -= qd
-				if a > scale[r.Minus] {
-					scale[r.Minus] = a
-				}
 			}
-			st := s.stateTerm[k]
-			if st[0] >= 0 {
-				s.termCur[st[0]] += qd
+			if t := st[k][0]; t >= 0 {
+				cur[t] += qd
 			}
-			if st[1] >= 0 {
-				s.termCur[st[1]] -= qd
+			if t := st[k][1]; t >= 0 {
+				cur[t] -= qd
 			}
 		}
 	}
-	jac, diag := s.jacBuf, s.jacDiag
+	jac, diag, x := s.jacBuf, s.jacDiag, s.x
 	for _, i := range s.nodeRows {
-		f[i] += g * s.x[i]
+		f[i] += g * x[i]
 		jac[diag[i]] += g
 	}
 }
@@ -151,10 +146,11 @@ func (s *System) assemble(g float64) {
 func (s *System) stampDense() {
 	c := &s.ctx
 	clear(s.dense)
-	f, scale, snap := s.f, s.scale, s.snap
+	f := s.f
 	dense := s.dense
 	for di := range s.devs {
 		d := &s.devs[di]
+		snap := s.contrib[d.cLo : d.cLo+len(d.touched)]
 		for _, k := range d.prior {
 			snap[k] = f[d.touched[k]]
 		}
@@ -177,9 +173,6 @@ func (s *System) stampDense() {
 				v -= snap[k]
 			}
 			snap[k] = v
-			if a := math.Abs(v); a > scale[r] {
-				scale[r] = a
-			}
 		}
 		for t, k := range d.termSnap {
 			v := 0.0
@@ -196,7 +189,7 @@ func (s *System) stampDense() {
 func (s *System) stampLocal() {
 	c := &s.ctx
 	clear(s.jac)
-	f, scale, jac, local := s.f, s.scale, s.jac, s.local
+	f, jac, local := s.f, s.jac, s.local
 	for di := range s.devs {
 		d := &s.devs[di]
 		m := len(d.touched)
@@ -209,12 +202,11 @@ func (s *System) stampLocal() {
 		c.F, c.J, c.N = fl, jl, m
 		c.StateBase = d.stateLo
 		d.dev.Eval(c)
+		own := s.contrib[d.cLo : d.cLo+m]
 		for k, r := range d.touched {
 			v := fl[k]
 			f[r] += v
-			if a := math.Abs(v); a > scale[r] {
-				scale[r] = a
-			}
+			own[k] = v
 		}
 		for t, k := range d.termSnap {
 			v := 0.0
@@ -238,10 +230,13 @@ func (s *System) stampLocal() {
 
 // setNoise sums on every row the magnitudes of the history terms of the
 // states stamped there, the rounding allowance of residualOK. The history
-// is fixed over the Newton iterations of a step, so this is done once per
-// step, after the history is formed (and cleared for the operating point,
-// which has no state derivatives).
+// is fixed over the Newton iterations of a step, so this is done at most
+// once per step, at the first residual test after the history is formed
+// (and cleared for the operating point, which has no state derivatives):
+// most stages converge on their update alone and never test the residual,
+// and forming the history marks the sums stale (noiseOK) instead.
 func (s *System) setNoise() {
+	s.noiseOK = true
 	clear(s.noise)
 	if s.ctx.DC {
 		return
@@ -257,6 +252,36 @@ func (s *System) setNoise() {
 	}
 }
 
+// setScale forms each row's largest single contribution at the last
+// evaluation, a device's or a state derivative's, for the residual test.
+// Most iterates are judged by their update alone, so it is formed only
+// when a residual is tested; the largest magnitude does not depend on the
+// order in which the contributions are met.
+func (s *System) setScale() {
+	s.scaleOK = true
+	scale := s.scale
+	clear(scale)
+	for di := range s.devs {
+		d := &s.devs[di]
+		own := s.contrib[d.cLo : d.cLo+len(d.touched)]
+		for k, r := range d.touched {
+			if a := math.Abs(own[k]); a > scale[r] {
+				scale[r] = a
+			}
+		}
+	}
+	// At the operating point the derivatives are zero and add nothing.
+	for k, r := range s.rows {
+		a := math.Abs(s.qdot[k])
+		if r.Plus >= 0 && a > scale[r.Plus] {
+			scale[r.Plus] = a
+		}
+		if r.Minus >= 0 && a > scale[r.Minus] {
+			scale[r.Minus] = a
+		}
+	}
+}
+
 // residualOK tests the KCL residual of every node row against
 // current + rel·(largest current any one element puts on that node), and
 // every branch row (volts) against abs + rel·(largest term of its equation,
@@ -266,6 +291,12 @@ func (s *System) setNoise() {
 // at a picosecond step), which leaves an error of a few ulps of the history
 // that no iteration removes.
 func (s *System) residualOK(t *tol) bool {
+	if !s.noiseOK {
+		s.setNoise()
+	}
+	if !s.scaleOK {
+		s.setScale()
+	}
 	p := s.pat
 	ok := true
 	worst := -1.0
@@ -390,8 +421,7 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 	for it := 1; it <= t.maxIter; it++ {
 		s.assemble(g)
 		if have {
-			s.negF()
-			s.lu.solve(s.dx)
+			s.lu.solveNeg(s.dx, s.f)
 			r, volts, bad := s.measure()
 			if bad >= 0 {
 				s.resRow, s.resValue = bad, s.f[bad]
@@ -449,8 +479,7 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 			return it, singular
 		}
 		s.luOK, have, fresh = true, true, true
-		s.negF()
-		s.lu.solve(s.dx)
+		s.lu.solveNeg(s.dx, s.f)
 		r, volts, bad := s.measure()
 		if bad >= 0 {
 			s.resRow, s.resValue = bad, s.f[bad]
@@ -474,11 +503,14 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 // integrates belongs to the point taken; the update being converged, what
 // that linearisation leaves out is of its square.
 func (s *System) take() newtonStatus {
+	// The slices and Alpha in locals: each store through a slice of the
+	// System would otherwise reload them.
 	dx := s.dx
+	x := s.x[:len(dx)]
 	for i, d := range dx {
-		s.x[i] += d
+		x[i] += d
 	}
-	for i, v := range s.x {
+	for i, v := range x {
 		if !(math.Abs(v) < impossible) {
 			s.resRow, s.resValue = i, s.f[i]
 			return runaway
@@ -488,14 +520,16 @@ func (s *System) take() newtonStatus {
 	if c.DC || c.NSlopes > len(c.Slopes) {
 		return converged
 	}
+	q, qdot, alpha := s.q, s.qdot, c.Alpha
 	for _, sl := range c.Slopes[:c.NSlopes] {
 		d := sl.D * dx[sl.Col]
-		s.q[sl.State] += d
-		s.qdot[sl.State] += c.Alpha * d
+		q[sl.State] += d
+		qdot[sl.State] += alpha * d
 	}
+	tc := s.termCur
 	cur, col := s.tjCur[:len(s.termJ)], s.tjCol[:len(s.termJ)]
 	for e, v := range s.termJ {
-		s.termCur[cur[e]] += v * dx[col[e]]
+		tc[cur[e]] += v * dx[col[e]]
 	}
 	return converged
 }
@@ -526,13 +560,6 @@ const (
 	etaFloor  = 1e-12
 )
 
-// negF sets dx to −F, the right-hand side of the Newton step.
-func (s *System) negF() {
-	for i, f := range s.f {
-		s.dx[i] = -f
-	}
-}
-
 // setTolerances sets Newton's tolerance on every unknown, newton·scale +
 // abs, the scale being the error control's (see localShare) at the point
 // Newton starts from (|x| at the operating point, at least scaleFloor).
@@ -547,7 +574,7 @@ func (s *System) setTolerances(t *tol) {
 		return
 	}
 	for i, v := range x {
-		s.xtol[i] = t.newton*s.scaleOf(v, v, hi[i], lo[i], sc[i]) + t.abs
+		s.xtol[i] = t.newton*scaleOf(v, v, hi[i], lo[i], SideFloor*sc[i]) + t.abs
 	}
 }
 

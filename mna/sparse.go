@@ -578,10 +578,25 @@ func (f *sparseLU) layout() {
 
 // solve overwrites b with the solution of A·x = b for the last matrix
 // factored.
-func (f *sparseLU) solve(b []float64) {
+func (f *sparseLU) solve(b []float64) { f.solveTo(b, b, false) }
+
+// solveNeg sets x to the solution of A·x = −b for the last matrix factored:
+// Newton's update from the residual b, whose negation is folded into the
+// gather of the right-hand side instead of taking a pass of its own.
+func (f *sparseLU) solveNeg(x, b []float64) { f.solveTo(x, b, true) }
+
+// solveTo sets x to the solution of A·x = b, or of A·x = −b with neg; x
+// may be b.
+func (f *sparseLU) solveTo(x, b []float64, neg bool) {
 	y := f.work[:f.n]
-	for k, r := range f.rowOf {
-		y[k] = b[r]
+	if neg {
+		for k, r := range f.rowOf {
+			y[k] = -b[r]
+		}
+	} else {
+		for k, r := range f.rowOf {
+			y[k] = b[r]
+		}
 	}
 	lRow, lCol := f.lRow[:len(f.lv)], f.lCol[:len(f.lv)]
 	for i, v := range f.lv {
@@ -598,6 +613,6 @@ func (f *sparseLU) solve(b []float64) {
 		y[uRow[i]] -= v * y[uCol[i]]
 	}
 	for k, c := range f.colOf {
-		b[c] = y[k]
+		x[c] = y[k]
 	}
 }

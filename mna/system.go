@@ -47,18 +47,24 @@ type System struct {
 	lu              *sparseLU
 	luOK            bool       // lu holds the factors of a recent matrix
 	eta             [2]float64 // Newton's contraction factors θ/(1−θ), last measured and relaxed since (see newton)
-	scale           []float64  // largest single contribution on each row, for the residual test
+	scale           []float64  // largest single contribution on each row, for the residual test (see setScale)
+	scaleOK         bool       // scale belongs to the last evaluation
 	noise           []float64  // size of the cancelling state terms on each row, for the same
+	noiseOK         bool       // noise belongs to the history in force (see setNoise)
 	// Devices stamp in one of two ways. A small circuit (n ≤ denseMax)
 	// stamps into a dense n×n Jacobian, dense, from which the pattern's
 	// entries are gathered: the fastest way for tens of unknowns. A large
 	// one stamps each device's own block (Context.Local) and adds it in,
 	// so that it never holds n² numbers.
 	dense []float64 // n×n, or nil
-	snap  []float64 // per-device scratch: shared rows before its Eval (dense)
-	local []int32   // Context.Local: each unknown's place among the current device's rows
-	floc  []float64 // the current device's residual rows (local)
-	jloc  []float64 // ... and its Jacobian block
+	// contrib holds each device's own contribution to each of its rows
+	// at the last evaluation, device by device (device.cLo), in the order
+	// of its touched rows; while a device is evaluated densely, its
+	// shared rows hold what the devices before it left there.
+	contrib []float64
+	local   []int32   // Context.Local: each unknown's place among the current device's rows
+	floc    []float64 // the current device's residual rows (local)
+	jloc    []float64 // ... and its Jacobian block
 
 	// States: q set by the devices at the last evaluation, hist the
 	// integration history, qdot the derivative formed at the last
@@ -133,6 +139,7 @@ type device struct {
 	prior    []int   // indices in touched of the rows an earlier device stamps too
 	shared   []bool  // for each row in touched, whether it is in prior
 	termSnap []int   // for each terminal, its index in touched, or -1
+	cLo      int     // the device's entries of contrib
 	stateLo  int
 	stateHi  int
 	curBase  int
@@ -320,11 +327,13 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.pat = newPattern(n, blocks)
 	s.scale = make([]float64, n)
 	s.noise = make([]float64, n)
-	maxTouched := 0
+	maxTouched, nContrib := 0, 0
 	for di := range s.devs {
 		d := &s.devs[di]
 		m := len(d.touched)
 		maxTouched = max(maxTouched, m)
+		d.cLo = nContrib
+		nContrib += m
 		d.jpos = make([]int32, m*m)
 		for k, r := range d.touched {
 			for l, c := range d.touched {
@@ -349,6 +358,7 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		d.tjHi = len(s.tjCur)
 	}
 	s.termJ = make([]float64, len(s.tjCur))
+	s.contrib = make([]float64, nContrib)
 	s.jsnap = make([]float64, maxTouched*maxTouched)
 	s.jacSrc = make([]int32, s.pat.nnz())
 	if n <= denseMax {
@@ -359,7 +369,6 @@ func Compile(c *netlist.Circuit) (*System, error) {
 			}
 		}
 		s.jacBuf = s.dense
-		s.snap = make([]float64, maxTouched)
 		both := make([]bool, n*n) // entries stamped by the devices so far
 		for di := range s.devs {
 			d := &s.devs[di]

@@ -365,7 +365,7 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 			for k, q := range qn {
 				s.hist[k] = -q / hs
 			}
-			s.setNoise()
+			s.noiseOK = false
 			c.T = tNew
 			s.predict(tNew, false)
 			it, st = s.newton(&t, t.gmin, false)
@@ -377,7 +377,7 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 			for k, q := range qn {
 				s.hist[k] = -c.Alpha*q - s.qdotAcc[k]
 			}
-			s.setNoise()
+			s.noiseOK = false
 			c.T = now + h1
 			s.predict(c.T, false)
 			it, st = s.newton(&t, t.gmin, false)
@@ -393,7 +393,7 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 				for k, q := range qn {
 					s.hist[k] = c.Alpha * (a2*q - a1*s.qG[k])
 				}
-				s.setNoise()
+				s.noiseOK = false
 				c.T = tNew
 				s.predict(tNew, true)
 				it, st = s.newton(&t, t.gmin, true)
@@ -659,7 +659,7 @@ func (s *System) errorRatio(h float64, t *tol) (r float64, have bool) {
 		wmax = 1
 	}
 	for i, v := range e {
-		b := s.scaleOf(x[i], xo[i], hi[i], lo[i], sc[i])
+		b := scaleOf(x[i], xo[i], hi[i], lo[i], SideFloor*sc[i])
 		tl := rel*b*slack(x[i], hi[i], lo[i], b, wmax) + t.abs
 		if a := math.Abs(v); a > r*tl {
 			r, s.lteWorst = a/tl, i
@@ -688,7 +688,7 @@ func (s *System) errorRatio(h float64, t *tol) (r float64, have bool) {
 			d.prober.Probe(xe, s.pEr[lo:hi])
 			for k := lo; k < hi; k++ {
 				v, vh, vl := s.pAt[k], s.pHi[k], s.pLo[k]
-				b := s.scaleOf(v, v, vh, vl, max(vh, -vl))
+				b := scaleOf(v, v, vh, vl, SideFloor*max(vh, -vl))
 				tl := rel*b*slack(v, vh, vl, b, wmax) + t.abs
 				if a := math.Abs(s.pEr[k] - v); a > r*tl {
 					r, s.lteWorst = a/tl, worstOf(d.term)
@@ -730,9 +730,11 @@ func worstOf(term []int) int {
 }
 
 // scaleOf is the scale of an unknown whose value is x (xo before the step),
-// which has reached hi and lo so far and whose largest magnitude is sc: the
-// largest magnitude on the side of zero where x lies, at least |x|, |xo|
-// and SideFloor·sc (see localShare).
+// which has reached hi and lo so far and whose largest magnitude times
+// SideFloor is floor: the largest magnitude on the side of zero where x
+// lies, at least |x|, |xo| and floor (see localShare). The caller forms
+// floor, which keeps this small enough to be inlined into the loops over
+// the unknowns that call it at every step.
 //
 // A value nearer zero than the other side's scale is on its way to that
 // side as much as to its own, and an error made there is still in it when
@@ -741,15 +743,16 @@ func worstOf(term []int) int {
 // cancellation of its clamp's 13 V and its pin inductance's −13.4 V) is
 // held, on the way down through the last volts, to the −0.4 V side's scale
 // (at least a twentieth of 99 V), not to the 99 V it left behind.
-func (s *System) scaleOf(x, xo, hi, lo, sc float64) float64 {
+func scaleOf(x, xo, hi, lo, floor float64) float64 {
 	side, other := hi, -lo
 	if x < 0 {
-		side, other = -lo, hi
+		side, other = other, side
 	}
-	if other = max(other, SideFloor*sc); math.Abs(x) < other {
+	ax := math.Abs(x)
+	if other = max(other, floor); ax < other {
 		side = min(side, other)
 	}
-	return max(side, math.Abs(x), math.Abs(xo), SideFloor*sc, scaleFloor)
+	return max(side, ax, math.Abs(xo), floor, scaleFloor)
 }
 
 // truncationError is the error of a step that the error control keeps
@@ -806,34 +809,38 @@ func (s *System) accept(res *Result, cfg *Settings, x, termCur []float64, now, h
 	for i, k := range s.nodeIdx {
 		pt.V[i] = x[k]
 	}
+	// The ledger's slices in locals, as in take.
+	energy, gross, power0, stepEnergy := res.Energy, res.Gross, s.power0, s.stepEnergy
 	for di := range s.devs {
 		d := &s.devs[di]
 		e, p := 0.0, 0.0
-		for ti, r := range d.term {
-			k := d.curBase + ti
-			v, i := 0.0, termCur[k]
+		lo, hi := d.curBase, d.curBase+len(d.term)
+		cur, tv, ti := termCur[lo:hi], s.termV[lo:hi], s.termI[lo:hi]
+		for t, r := range d.term {
+			v, i := 0.0, cur[t]
 			if r >= 0 {
 				v = x[r]
 			}
-			e += (v + s.termV[k]) * (i + s.termI[k])
+			e += (v + tv[t]) * (i + ti[t])
 			p += v * i
-			s.termV[k], s.termI[k] = v, i
+			tv[t], ti[t] = v, i
 		}
-		s.stepEnergy[di] = 0
+		se := 0.0
 		if first {
-			s.power0[di] = p
+			power0[di] = p
 		} else {
-			s.stepEnergy[di] = 0.25 * h * e
-			res.Energy[di] += s.stepEnergy[di]
-			res.Gross[di] += math.Abs(s.stepEnergy[di] - s.power0[di]*h)
+			se = 0.25 * h * e
+			energy[di] += se
+			gross[di] += math.Abs(se - power0[di]*h)
 		}
+		stepEnergy[di] = se
 		pt.W[di] = p
 		i := 0.0
 		switch {
-		case len(d.term) > 0 && d.term[0] >= 0:
-			i = termCur[d.curBase]
-		case len(d.term) > 1:
-			i = -termCur[d.curBase+1]
+		case len(cur) > 0 && d.term[0] >= 0:
+			i = cur[0]
+		case len(cur) > 1:
+			i = -cur[1]
 		}
 		pt.I[di] = i
 		s.curTr[di].Add(now, i)

@@ -86,8 +86,10 @@ func (r *Tracker) Corner() { r.seg = 0 }
 // samples show at the one before it.
 func (r *Tracker) push(t, y float64) {
 	if r.seg == len(r.wt) {
-		copy(r.wt[:], r.wt[1:])
-		copy(r.wy[:], r.wy[1:])
+		// Three moves written out: a copy of three numbers costs a call of
+		// the runtime's memmove, at every sample of every tracked waveform.
+		r.wt[0], r.wt[1], r.wt[2] = r.wt[1], r.wt[2], r.wt[3]
+		r.wy[0], r.wy[1], r.wy[2] = r.wy[1], r.wy[2], r.wy[3]
 		r.seg--
 	}
 	r.wt[r.seg], r.wy[r.seg] = t, y
