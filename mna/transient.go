@@ -284,7 +284,6 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 	for k := range s.pairScale {
 		s.pairScale[k] = scaleFloor
 	}
-	s.probeRange(s.x, true)
 	copy(s.qAcc, s.q)
 	clear(s.qdotAcc)
 	s.pushPoint(0, s.x, s.q, true)
@@ -511,26 +510,6 @@ func (s *System) scaleWith(x []float64) {
 	for k, p := range s.pairs {
 		if a := math.Abs(x[p[0]] - x[p[1]]); a > s.pairScale[k] {
 			s.pairScale[k] = a
-		}
-	}
-	s.probeRange(x, false)
-}
-
-// probeRange widens each probe's range to its reading at x; first starts
-// the ranges there.
-func (s *System) probeRange(x []float64, first bool) {
-	for _, di := range s.probers {
-		d := &s.devs[di]
-		lo, hi := d.probeBase, d.probeBase+d.nProbe
-		d.prober.Probe(x, s.pAt[lo:hi])
-		for k := lo; k < hi; k++ {
-			v := s.pAt[k]
-			if first || v > s.pHi[k] {
-				s.pHi[k] = v
-			}
-			if first || v < s.pLo[k] {
-				s.pLo[k] = v
-			}
 		}
 	}
 }
@@ -848,7 +827,17 @@ func (s *System) accept(res *Result, cfg *Settings, x, termCur []float64, now, h
 			s.curTr[di].Corner()
 		}
 		if d.prober != nil {
-			d.prober.Probe(x, pt.P[d.probeBase:d.probeBase+d.nProbe])
+			lo, hi := d.probeBase, d.probeBase+d.nProbe
+			d.prober.Probe(x, pt.P[lo:hi])
+			// Each probe's range, for its error bound (errorRatio).
+			for k := lo; k < hi; k++ {
+				if v := pt.P[k]; first || v > s.pHi[k] {
+					s.pHi[k] = v
+				}
+				if v := pt.P[k]; first || v < s.pLo[k] {
+					s.pLo[k] = v
+				}
+			}
 		}
 		if d.acceptor != nil {
 			d.acceptor.Accept(now, x)
