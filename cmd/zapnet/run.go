@@ -30,7 +30,7 @@ type runOptions struct {
 
 func runRun(args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("run",
-		"run DECK [--level LIST] [--polarity pos|neg|both] [--set E.P=v1,v2] [--shard i/n] [--json FILE] [--csv FILE] [--plot DIR] [--html FILE] [--verify] [--workers N]",
+		"run DECK [--level LIST] [--polarity pos|neg|both] [--set E.P=v1,v2] [--shard i/n] [--json FILE] [--csv FILE] [--plot DIR] [--html FILE] [--verify] [--timings] [--workers N]",
 		`  zapnet run testdata/demo.zap
   zapnet run testdata/demo.zap --level 8k --polarity neg
   zapnet run testdata/demo.zap --json result.json --csv 'waves/{run}.csv'
