@@ -166,6 +166,34 @@ type device struct {
 // built by its kind's constructor (devices.Kind.New).
 func Compile(c *netlist.Circuit) (*System, error) {
 	s := &System{}
+	if err := s.buildDevices(c); err != nil {
+		return nil, err
+	}
+	nTerm, errs := s.numberUnknowns()
+	s.n = len(s.unknowns)
+	if err := devices.TooManyUnknowns(s.n); err != nil {
+		return nil, fmt.Errorf("mna: %w", err)
+	}
+	s.markShared()
+	s.maskNodes()
+	s.bindStates()
+	if len(errs) > 0 {
+		return nil, errors.Join(errs...)
+	}
+	s.layStateTerms()
+	s.x = make([]float64, s.n)
+	s.xAcc = make([]float64, s.n)
+	s.dx = make([]float64, s.n)
+	s.f = make([]float64, s.n)
+	s.checkStateRows()
+	s.layStamping()
+	s.allocate(nTerm)
+	return s, nil
+}
+
+// buildDevices builds every element of c by its kind's constructor, and
+// reports every element that cannot be built, not only the first.
+func (s *System) buildDevices(c *netlist.Circuit) error {
 	var errs []error
 	for _, e := range c.Elements {
 		d, err := e.Kind.New(e.Name, e.Nodes, &e.Values)
@@ -177,99 +205,129 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		s.elements = append(s.elements, e.Name)
 	}
 	if len(errs) > 0 {
-		return nil, errors.Join(errs...)
+		return errors.Join(errs...)
 	}
 	if len(s.devs) == 0 {
-		return nil, errors.New("mna: the circuit has no elements")
+		return errors.New("mna: the circuit has no elements")
 	}
+	return nil
+}
 
-	// Unknowns are numbered as the elements are met: a new terminal node,
-	// then the element's internal nodes and branches. Unknowns that share
-	// an element stay close, which keeps the matrix of a chain (a ladder, a
-	// line of parts) banded and its factorisation cheap.
+// numberUnknowns numbers the circuit's unknowns and lays out each device's
+// rows, terminal currents and probes; it returns the number of terminals
+// and the faults of the circuit's wiring (a terminal without a node, a
+// second strike), which Compile reports once the states are bound.
+//
+// Unknowns are numbered as the elements are met: a new terminal node,
+// then the element's internal nodes and branches. Unknowns that share
+// an element stay close, which keeps the matrix of a chain (a ladder, a
+// line of parts) banded and its factorisation cheap.
+func (s *System) numberUnknowns() (nTerm int, errs []error) {
 	nodeIndex := map[string]int{} // node name → unknown
-	var rows []devices.StateRows
-	var stateDev []int
-	nTerm, nProbe := 0, 0
 	for di := range s.devs {
 		d := &s.devs[di]
 		lay := d.dev.Layout()
 		name := d.dev.Name()
-		for k, t := range lay.Terminals {
-			if t == "" {
-				errs = append(errs, fmt.Errorf("mna: %s: terminal %d has no node", name, k+1))
-			}
-			idx := devices.Ground
-			if t != netlist.Ground && t != "" {
-				var ok bool
-				if idx, ok = nodeIndex[t]; !ok {
-					idx = s.addUnknown(t, true, -1)
-					nodeIndex[t] = idx
-					s.nodeNames = append(s.nodeNames, t)
-					s.nodeIdx = append(s.nodeIdx, idx)
-					s.nodeDevs = append(s.nodeDevs, nil)
-				}
-				cn := s.circuitNode[idx]
-				if k := len(s.nodeDevs[cn]); k == 0 || s.nodeDevs[cn][k-1] != di {
-					s.nodeDevs[cn] = append(s.nodeDevs[cn], di)
-				}
-			}
-			d.nodes.Terminals = append(d.nodes.Terminals, idx)
-		}
+		errs = s.numberTerminals(di, lay.Terminals, nodeIndex, errs)
 		for _, in := range lay.Internal {
 			d.nodes.Internal = append(d.nodes.Internal, s.addUnknown(name+"."+in, true, di))
 		}
 		for _, br := range lay.Branches {
 			d.nodes.Branches = append(d.nodes.Branches, s.addUnknown(name+"."+br, false, di))
 		}
-		d.term = d.nodes.Terminals
-		for _, r := range d.nodes.Terminals {
-			d.termSnap = append(d.termSnap, addRow(&d.touched, r))
-		}
-		// A device with a terminal twice on one node gets that row's current
-		// on its first terminal only.
-		for t := range d.termSnap {
-			for u := 0; u < t; u++ {
-				if d.termSnap[u] == d.termSnap[t] {
-					d.termSnap[t] = -1
-				}
-			}
-		}
-		for _, r := range d.nodes.Internal {
-			addRow(&d.touched, r)
-		}
-		for _, r := range d.nodes.Branches {
-			addRow(&d.touched, r)
-		}
+		d.layRows()
 		d.curBase = nTerm
 		nTerm += len(d.term)
-		d.prober, _ = d.dev.(devices.Prober)
-		d.acceptor, _ = d.dev.(devices.Acceptor)
-		d.resetter, _ = d.dev.(devices.Resetter)
-		d.limiter, _ = d.dev.(devices.StepLimiter)
-		if st, ok := d.dev.(devices.Striker); ok {
-			if s.striker != nil {
-				errs = append(errs, fmt.Errorf("mna: more than one strike (%s)", name))
-			}
-			s.striker = st
+		errs = s.takeRoles(di, errs)
+	}
+	return nTerm, errs
+}
+
+// numberTerminals numbers the nodes of device di's terminals that are new,
+// records the device among those touching each node (for hints), and
+// appends a fault for a terminal without a node to errs.
+func (s *System) numberTerminals(di int, terminals []string, nodeIndex map[string]int, errs []error) []error {
+	d := &s.devs[di]
+	for k, t := range terminals {
+		if t == "" {
+			errs = append(errs, fmt.Errorf("mna: %s: terminal %d has no node", d.dev.Name(), k+1))
 		}
-		d.probeBase = nProbe
-		if d.prober != nil {
-			for _, p := range d.prober.Probes() {
-				p.Name = name + "." + p.Name
-				s.probes = append(s.probes, p)
-				nProbe++
-				d.nProbe++
+		idx := devices.Ground
+		if t != netlist.Ground && t != "" {
+			var ok bool
+			if idx, ok = nodeIndex[t]; !ok {
+				idx = s.addUnknown(t, true, -1)
+				nodeIndex[t] = idx
+				s.nodeNames = append(s.nodeNames, t)
+				s.nodeIdx = append(s.nodeIdx, idx)
+				s.nodeDevs = append(s.nodeDevs, nil)
+			}
+			cn := s.circuitNode[idx]
+			if k := len(s.nodeDevs[cn]); k == 0 || s.nodeDevs[cn][k-1] != di {
+				s.nodeDevs[cn] = append(s.nodeDevs[cn], di)
+			}
+		}
+		d.nodes.Terminals = append(d.nodes.Terminals, idx)
+	}
+	return errs
+}
+
+// layRows lists the distinct rows the device may stamp, terminals first,
+// and the place among them of each terminal's row.
+func (d *device) layRows() {
+	d.term = d.nodes.Terminals
+	for _, r := range d.nodes.Terminals {
+		d.termSnap = append(d.termSnap, addRow(&d.touched, r))
+	}
+	// A device with a terminal twice on one node gets that row's current
+	// on its first terminal only.
+	for t := range d.termSnap {
+		for u := 0; u < t; u++ {
+			if d.termSnap[u] == d.termSnap[t] {
+				d.termSnap[t] = -1
 			}
 		}
 	}
-	s.n = len(s.unknowns)
-	if err := devices.TooManyUnknowns(s.n); err != nil {
-		return nil, fmt.Errorf("mna: %w", err)
+	for _, r := range d.nodes.Internal {
+		addRow(&d.touched, r)
 	}
-	// A row that no earlier device stamps holds zero when a device's Eval
-	// starts, so only the others need a snapshot to tell its contribution
-	// (dense stamping).
+	for _, r := range d.nodes.Branches {
+		addRow(&d.touched, r)
+	}
+}
+
+// takeRoles notes what else device di does besides stamping (probes,
+// acceptance of a point, a reset, a bound on the step, the strike) and
+// names its probes; a second strike is a fault appended to errs.
+func (s *System) takeRoles(di int, errs []error) []error {
+	d := &s.devs[di]
+	name := d.dev.Name()
+	d.prober, _ = d.dev.(devices.Prober)
+	d.acceptor, _ = d.dev.(devices.Acceptor)
+	d.resetter, _ = d.dev.(devices.Resetter)
+	d.limiter, _ = d.dev.(devices.StepLimiter)
+	if st, ok := d.dev.(devices.Striker); ok {
+		if s.striker != nil {
+			errs = append(errs, fmt.Errorf("mna: more than one strike (%s)", name))
+		}
+		s.striker = st
+	}
+	d.probeBase = len(s.probes)
+	if d.prober != nil {
+		for _, p := range d.prober.Probes() {
+			p.Name = name + "." + p.Name
+			s.probes = append(s.probes, p)
+			d.nProbe++
+		}
+	}
+	return errs
+}
+
+// markShared marks each device's rows that an earlier device stamps too.
+// A row that no earlier device stamps holds zero when a device's Eval
+// starts, so only the others need a snapshot to tell its contribution
+// (dense stamping).
+func (s *System) markShared() {
 	stamped := make([]bool, s.n)
 	for di := range s.devs {
 		d := &s.devs[di]
@@ -284,6 +342,10 @@ func Compile(c *netlist.Circuit) (*System, error) {
 			stamped[r] = true
 		}
 	}
+}
+
+// maskNodes lists the KCL rows, which carry the shunt conductance.
+func (s *System) maskNodes() {
 	s.nodeMask = make([]float64, s.n)
 	for i, node := range s.isNode {
 		if node {
@@ -291,6 +353,13 @@ func Compile(c *netlist.Circuit) (*System, error) {
 			s.nodeMask[i] = 1
 		}
 	}
+}
+
+// bindStates hands each device its unknowns and gathers the rows its
+// charges and fluxes enter, device by device.
+func (s *System) bindStates() {
+	var rows []devices.StateRows
+	var stateDev []int
 	for di := range s.devs {
 		d := &s.devs[di]
 		sr := d.dev.Bind(d.nodes)
@@ -304,30 +373,48 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		}
 		d.stateHi = len(rows)
 	}
-	if len(errs) > 0 {
-		return nil, errors.Join(errs...)
-	}
 	s.rows, s.stateDev = rows, stateDev
-	s.stateTerm = make([][2]int, len(rows))
-	for k, r := range rows {
-		d := &s.devs[stateDev[k]]
+}
+
+// layStateTerms finds the terminal current each state's rows carry.
+func (s *System) layStateTerms() {
+	s.stateTerm = make([][2]int, len(s.rows))
+	for k, r := range s.rows {
+		d := &s.devs[s.stateDev[k]]
 		s.stateTerm[k] = [2]int{termOf(d, r.Plus), termOf(d, r.Minus)}
 	}
+}
 
-	n, ns := s.n, len(rows)
-	s.x = make([]float64, n)
-	s.xAcc = make([]float64, n)
-	s.dx = make([]float64, n)
-	s.f = make([]float64, n)
-	s.checkStateRows()
+// layStamping builds the matrix's pattern and the factorisation's storage,
+// and lays out where each device's stamps and terminal-current derivatives
+// go, for dense or local stamping (see System.dense).
+func (s *System) layStamping() {
+	n := s.n
 	blocks := make([][]int, len(s.devs))
 	for di := range s.devs {
 		blocks[di] = s.devs[di].touched
 	}
 	s.pat = newPattern(n, blocks)
-	s.scale = make([]float64, n)
-	s.noise = make([]float64, n)
-	maxTouched, nContrib := 0, 0
+	maxTouched := s.layBlocks()
+	tjRow := s.layTermJ()
+	s.jsnap = make([]float64, maxTouched*maxTouched)
+	s.jacSrc = make([]int32, s.pat.nnz())
+	if n <= denseMax {
+		s.layDense(tjRow)
+	} else {
+		s.layLocal(maxTouched)
+	}
+	s.jacDiag = make([]int32, n)
+	for i := range s.jacDiag {
+		s.jacDiag[i] = s.jacSrc[s.pat.diag[i]]
+	}
+	s.lu = newSparseLU(s.pat, s.jacSrc)
+}
+
+// layBlocks places each device's block of the Jacobian among the pattern's
+// entries and its rows in contrib, and returns the largest block's size.
+func (s *System) layBlocks() (maxTouched int) {
+	nContrib := 0
 	for di := range s.devs {
 		d := &s.devs[di]
 		m := len(d.touched)
@@ -341,7 +428,13 @@ func Compile(c *netlist.Circuit) (*System, error) {
 			}
 		}
 	}
-	var tjRow []int32 // the row of each entry of termJ
+	s.contrib = make([]float64, nContrib)
+	return maxTouched
+}
+
+// layTermJ numbers the derivatives of each device's terminal currents by
+// its unknowns (termJ), and returns the Jacobian row of each.
+func (s *System) layTermJ() (tjRow []int32) {
 	for di := range s.devs {
 		d := &s.devs[di]
 		d.tjLo = len(s.tjCur)
@@ -358,48 +451,60 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		d.tjHi = len(s.tjCur)
 	}
 	s.termJ = make([]float64, len(s.tjCur))
-	s.contrib = make([]float64, nContrib)
-	s.jsnap = make([]float64, maxTouched*maxTouched)
-	s.jacSrc = make([]int32, s.pat.nnz())
-	if n <= denseMax {
-		s.dense = make([]float64, n*n)
-		for i := 0; i < n; i++ {
-			for e := s.pat.ptr[i]; e < s.pat.ptr[i+1]; e++ {
-				s.jacSrc[e] = int32(i*n) + s.pat.col[e]
-			}
+	return tjRow
+}
+
+// layDense sets a small circuit up to stamp into the dense n×n Jacobian:
+// the pattern's entries are gathered from it, and each device's
+// terminal-current derivatives are read at their place in it, those that
+// an earlier device stamps too from a snapshot.
+func (s *System) layDense(tjRow []int32) {
+	n := s.n
+	s.dense = make([]float64, n*n)
+	for i := 0; i < n; i++ {
+		for e := s.pat.ptr[i]; e < s.pat.ptr[i+1]; e++ {
+			s.jacSrc[e] = int32(i*n) + s.pat.col[e]
 		}
-		s.jacBuf = s.dense
-		both := make([]bool, n*n) // entries stamped by the devices so far
-		for di := range s.devs {
-			d := &s.devs[di]
-			for e := d.tjLo; e < d.tjHi; e++ {
-				p := tjRow[e]*int32(n) + s.tjCol[e]
-				if both[p] {
-					d.tjPrior = append(d.tjPrior, int32(e-d.tjLo))
-				}
-				d.tjPos = append(d.tjPos, p)
-			}
-			for _, r := range d.touched {
-				for _, c := range d.touched {
-					both[r*n+c] = true
-				}
-			}
-		}
-	} else {
-		s.jac = make([]float64, s.pat.nnz())
-		for e := range s.jacSrc {
-			s.jacSrc[e] = int32(e)
-		}
-		s.jacBuf = s.jac
-		s.local = make([]int32, n)
-		s.floc = make([]float64, maxTouched)
-		s.jloc = make([]float64, maxTouched*maxTouched)
 	}
-	s.jacDiag = make([]int32, n)
-	for i := range s.jacDiag {
-		s.jacDiag[i] = s.jacSrc[s.pat.diag[i]]
+	s.jacBuf = s.dense
+	both := make([]bool, n*n) // entries stamped by the devices so far
+	for di := range s.devs {
+		d := &s.devs[di]
+		for e := d.tjLo; e < d.tjHi; e++ {
+			p := tjRow[e]*int32(n) + s.tjCol[e]
+			if both[p] {
+				d.tjPrior = append(d.tjPrior, int32(e-d.tjLo))
+			}
+			d.tjPos = append(d.tjPos, p)
+		}
+		for _, r := range d.touched {
+			for _, c := range d.touched {
+				both[r*n+c] = true
+			}
+		}
 	}
-	s.lu = newSparseLU(s.pat, s.jacSrc)
+}
+
+// layLocal sets a large circuit up to stamp each device's own block and
+// add it into the pattern's entries.
+func (s *System) layLocal(maxTouched int) {
+	s.jac = make([]float64, s.pat.nnz())
+	for e := range s.jacSrc {
+		s.jacSrc[e] = int32(e)
+	}
+	s.jacBuf = s.jac
+	s.local = make([]int32, s.n)
+	s.floc = make([]float64, maxTouched)
+	s.jloc = make([]float64, maxTouched*maxTouched)
+}
+
+// allocate makes every remaining buffer of a solution: the residual
+// test's, the states and their history, the error estimate's, the
+// ledger's, the reported point, and the devices' evaluation context.
+func (s *System) allocate(nTerm int) {
+	n, ns, nProbe := s.n, len(s.rows), len(s.probes)
+	s.scale = make([]float64, n)
+	s.noise = make([]float64, n)
 	s.q = make([]float64, ns)
 	s.hist = make([]float64, ns)
 	s.qdot = make([]float64, ns)
@@ -417,16 +522,7 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.xScale = make([]float64, n)
 	s.xMax = make([]float64, n)
 	s.xtol = make([]float64, n)
-	for di := range s.devs {
-		d := &s.devs[di]
-		for t := 1; t < len(d.term); t++ {
-			a, b := d.term[0], d.term[t]
-			if a >= 0 && b >= 0 && a != b {
-				s.pairs = append(s.pairs, [2]int{a, b})
-			}
-		}
-	}
-	s.pairScale = make([]float64, len(s.pairs))
+	s.layPairs()
 	for di := range s.devs {
 		if s.devs[di].prober != nil {
 			s.probers = append(s.probers, di)
@@ -437,13 +533,6 @@ func Compile(c *netlist.Circuit) (*System, error) {
 	s.xe = make([]float64, n)
 	s.xMin = make([]float64, n)
 	s.termCur = make([]float64, nTerm)
-	nSlopes := 0
-	for di := range s.devs {
-		d := &s.devs[di]
-		// Each state's derivatives by each of the device's unknowns, with
-		// room for a device that gives some in parts.
-		nSlopes += 2 * (d.stateHi - d.stateLo) * len(d.touched)
-	}
 	s.termV = make([]float64, nTerm)
 	s.termI = make([]float64, nTerm)
 	s.stepEnergy = make([]float64, len(s.devs))
@@ -458,11 +547,32 @@ func Compile(c *netlist.Circuit) (*System, error) {
 		W: make([]float64, len(s.devs)),
 		P: make([]float64, nProbe),
 	}
+	nSlopes := 0
+	for di := range s.devs {
+		d := &s.devs[di]
+		// Each state's derivatives by each of the device's unknowns, with
+		// room for a device that gives some in parts.
+		nSlopes += 2 * (d.stateHi - d.stateLo) * len(d.touched)
+	}
 	s.ctx = devices.Context{
 		X: s.x, F: s.f, J: s.dense, N: n, Local: s.local,
 		Q: s.q, Rows: s.rows, SourceScale: 1, Slopes: make([]devices.Slope, nSlopes),
 	}
-	return s, nil
+}
+
+// layPairs lists each device's terminal pairs, whose voltages the error
+// control holds to their own scale (see System.pairs).
+func (s *System) layPairs() {
+	for di := range s.devs {
+		d := &s.devs[di]
+		for t := 1; t < len(d.term); t++ {
+			a, b := d.term[0], d.term[t]
+			if a >= 0 && b >= 0 && a != b {
+				s.pairs = append(s.pairs, [2]int{a, b})
+			}
+		}
+	}
+	s.pairScale = make([]float64, len(s.pairs))
 }
 
 // checkStateRows panics unless every state of a device enters only rows

@@ -205,20 +205,74 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 	if err := s.setStimulus(stim, sign); err != nil {
 		return nil, err
 	}
-	var cfg Settings
-	if set != nil {
-		cfg = *set
+	r := run{s: s, start: start}
+	if err := r.configure(set); err != nil {
+		return nil, err
 	}
-	t := tolerances(set)
-	stop := cfg.Stop
+	res := r.res
+	s.reset()
+	dcIt, err := s.operatingPoint(&r.t)
+	res.Stats.DCNewton = dcIt
+	if err != nil {
+		return res.fail(start), err
+	}
+	r.startPoint()
+	r.begin()
+	for loop := 0; r.now < r.stop; loop++ {
+		if r.cfg.Context != nil && loop%checkEvery == 0 {
+			if err := r.cfg.Context.Err(); err != nil {
+				res.fail(start).Status = Interrupted
+				return res, fmt.Errorf("mna: %w at %s: %w", ErrInterrupted, spec.FormatSI(r.now, "s"), err)
+			}
+		}
+		if err := r.step(); err != nil {
+			return res.fail(start), err
+		}
+	}
+	return r.finish(), nil
+}
+
+// run is one transient solution under way: its settings as the step loop
+// reads them, and what the loop carries from one step to the next.
+type run struct {
+	s     *System
+	res   *Result
+	cfg   Settings
+	t     tol
+	start time.Time
+
+	stop      float64   // the end of the run, s
+	maxStep   float64   // the longest step: Resolve, MaxStep, the devices' bounds
+	minStep   float64   // the step below which the run gives up
+	fixed     float64   // Settings.FixedStep: no error control when positive
+	stimScale float64   // the stimulus's time scale, 0 without a stimulus
+	hFloor    float64   // the step below which the error control no longer rejects (see begin)
+	bps       []float64 // the stimulus's breakpoints
+
+	now     float64 // time of the last accepted point
+	h       float64 // the step to try next
+	bi      int     // next candidate breakpoint in bps
+	restart bool    // the next step is the backward-Euler step after a corner
+	logPrev float64 // log of the error ratio of the last accepted step (PI memory)
+}
+
+// configure reads the run's settings (nil: every default): the stop time,
+// the bounds of the step and the tolerances; and it makes the result.
+func (r *run) configure(set *Settings) error {
+	s := r.s
+	if set != nil {
+		r.cfg = *set
+	}
+	r.t = tolerances(set)
+	stop := r.cfg.Stop
 	if stop <= 0 && s.stim != nil {
 		stop = s.stim.Stop
 	}
 	if !(stop > 0) || math.IsInf(stop, 0) {
-		return nil, errors.New("mna: no stop time: give one in the settings or set a stimulus with a default span")
+		return errors.New("mna: no stop time: give one in the settings or set a stimulus with a default span")
 	}
 	maxStep := stop / 50
-	for _, m := range []float64{cfg.Resolve, cfg.MaxStep} {
+	for _, m := range []float64{r.cfg.Resolve, r.cfg.MaxStep} {
 		if m > 0 && m < maxStep {
 			maxStep = m
 		}
@@ -229,49 +283,65 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 				maxStep = min(maxStep, m)
 				// A line solved by its characteristics is a memory: see
 				// slackMax.
-				t.slackMax = 1
+				r.t.slackMax = 1
 			}
 		}
 	}
-	minStep := cfg.MinStep
-	if minStep <= 0 {
-		minStep = 1e-16
+	r.stop, r.maxStep = stop, maxStep
+	r.minStep = r.cfg.MinStep
+	if r.minStep <= 0 {
+		r.minStep = 1e-16
 	}
-	fixed := cfg.FixedStep
-	stimScale := 0.0
+	r.fixed = r.cfg.FixedStep
 	if s.stim != nil {
-		stimScale = s.stim.Scale()
-	}
-	// first is the first step after t = 0 and after each breakpoint.
-	first := func(interval float64) float64 {
-		h := min(maxStep, interval) * firstFraction
-		if cfg.FirstStep > 0 {
-			h = min(h, cfg.FirstStep)
-		} else if s.stim != nil && s.stim.Scale() > 0 {
-			// The stimulus's own time scale (one pulse's, for a train),
-			// not a window stretched for a slow circuit, sets how fine the
-			// first step must be.
-			h = min(h, s.stim.Scale()/50*firstFraction)
-		}
-		return max(h, minStep, min(floorShare*stimScale, 0.01*interval))
+		r.stimScale = s.stim.Scale()
 	}
 
 	ne := len(s.devs)
 	res := &Result{Energy: make([]float64, ne), Gross: make([]float64, ne), PeakCurrent: make([]float64, ne), Stop: stop}
-	if cfg.Record {
+	if r.cfg.Record {
 		res.V = make([][]float64, len(s.nodeNames))
 		res.I = make([][]float64, ne)
 		res.P = make([][]float64, len(s.probes))
 	}
+	r.res = res
+	return nil
+}
 
-	s.reset()
-	dcIt, err := s.operatingPoint(&t)
-	res.Stats.DCNewton = dcIt
-	if err != nil {
-		return res.fail(start), err
+// first is the first step after t = 0 and after each breakpoint, in an
+// interval of the length given.
+func (r *run) first(interval float64) float64 {
+	s := r.s
+	h := min(r.maxStep, interval) * firstFraction
+	if r.cfg.FirstStep > 0 {
+		h = min(h, r.cfg.FirstStep)
+	} else if s.stim != nil && s.stim.Scale() > 0 {
+		// The stimulus's own time scale (one pulse's, for a train),
+		// not a window stretched for a slow circuit, sets how fine the
+		// first step must be.
+		h = min(h, s.stim.Scale()/50*firstFraction)
 	}
-	c := &s.ctx
-	c.DC = false
+	return max(h, r.minStep, min(floorShare*r.stimScale, 0.01*interval))
+}
+
+// nextTarget is the next breakpoint after now (or the stop time), and
+// whether it is a breakpoint.
+func (r *run) nextTarget() (float64, bool) {
+	for r.bi < len(r.bps) && r.bps[r.bi] <= r.now+r.minStep {
+		r.bi++
+	}
+	if r.bi < len(r.bps) && r.bps[r.bi] < r.stop-r.minStep {
+		return r.bps[r.bi], true
+	}
+	return r.stop, false
+}
+
+// startPoint makes the operating point the run's first accepted point:
+// its values the first scales and extremes, its charges and fluxes the
+// first history, with zero derivatives.
+func (r *run) startPoint() {
+	s := r.s
+	s.ctx.DC = false
 	s.factorisations = 0
 	s.eta = [2]float64{1, 1}
 
@@ -287,28 +357,21 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 	copy(s.qAcc, s.q)
 	clear(s.qdotAcc)
 	s.pushPoint(0, s.x, s.q, true)
-	s.accept(res, &cfg, s.x, s.termCur, 0, 0, true, true)
+	s.accept(r.res, &r.cfg, s.x, s.termCur, 0, 0, true, true)
+}
 
-	now := 0.0
-	bi := 0 // next candidate breakpoint in s.stim.Breakpoints
-	var bps []float64
-	if s.stim != nil {
-		bps = s.stim.Breakpoints
+// begin sets the step loop up at t = 0: the first step, a backward-Euler
+// restart, and the floor of the error control.
+func (r *run) begin() {
+	r.now = 0
+	r.bi = 0
+	if r.s.stim != nil {
+		r.bps = r.s.stim.Breakpoints
 	}
-	// nextTarget is the next breakpoint after now (or the stop time).
-	nextTarget := func() (float64, bool) {
-		for bi < len(bps) && bps[bi] <= now+minStep {
-			bi++
-		}
-		if bi < len(bps) && bps[bi] < stop-minStep {
-			return bps[bi], true
-		}
-		return stop, false
-	}
-	target, _ := nextTarget()
-	h := first(target)
-	if fixed > 0 {
-		h = min(h, fixed)
+	target, _ := r.nextTarget()
+	r.h = r.first(target)
+	if r.fixed > 0 {
+		r.h = min(r.h, r.fixed)
 	}
 	// hFloor is the step below which the error control no longer rejects:
 	// a hundredth of the first step, which is taken with no estimate at all,
@@ -320,156 +383,213 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 	// that shrinks as it goes: a corner in all but name. The estimate of a
 	// step across it is a fixed share of the move however short the step,
 	// and without a floor the run would stop there.
-	hFloor := max(first(stop)/100, floorShare*stimScale)
-	if cfg.MinStep <= 0 {
-		hFloor = max(hFloor, 2*minStep)
+	r.hFloor = max(r.first(r.stop)/100, floorShare*r.stimScale)
+	if r.cfg.MinStep <= 0 {
+		r.hFloor = max(r.hFloor, 2*r.minStep)
 	}
-	restart := true // the next step is the backward-Euler step after a corner
-	logPrev := 0.0  // log of the error ratio of the last accepted step (PI memory)
+	r.restart = true
+	r.logPrev = 0
+}
+
+// step tries one step from r.now. A step that Newton or the error control
+// rejects is counted and leaves a shorter r.h to retry with; an accepted
+// one is booked and sets r.h for the next. An error ends the run: the
+// step fell below the minimum.
+func (r *run) step() error {
+	hs, tNew, corner, err := r.plan()
+	if err != nil {
+		return err
+	}
+	if st := r.solve(hs, tNew); st != converged {
+		if r.reject(hs / 2) {
+			return r.s.solveError(r.now, st)
+		}
+		return nil
+	}
+	grow, ok, err := r.control(hs)
+	if !ok {
+		return err
+	}
+	r.acceptStep(tNew, corner)
+	r.advance(hs, grow, corner)
+	return nil
+}
+
+// plan sizes the step to try, hs to tNew: r.h within the step bound,
+// ending exactly on the next breakpoint or the stop time when it reaches
+// it, and at most half the way there when it would stop just short, which
+// leaves two even steps instead of a sliver. corner says it ends on a
+// breakpoint. It also tells the tolerances whether the step lies in a
+// stimulus edge.
+func (r *run) plan() (hs, tNew float64, corner bool, err error) {
+	s := r.s
+	target, isBP := r.nextTarget()
+	hs = min(r.h, r.maxStep)
+	rem := target - r.now
+	hit := false
+	if hs >= rem {
+		hs, hit = rem, true
+	} else if hs > 0.5*rem {
+		hs = 0.5 * rem
+	}
+	if hs < r.minStep {
+		return 0, 0, false, s.solveError(r.now, notConverged, "the time step fell below the minimum step")
+	}
+	tNew = r.now + hs
+	if hit {
+		tNew = target
+	}
+	corner = hit && isBP
+	// A stimulus edge: the interval between the last breakpoint and the
+	// next is short against the stimulus's span.
+	bi, bps := r.bi, r.bps
+	r.t.setEdge(bi > 0 && bi < len(bps) && s.stim != nil && bps[bi]-bps[bi-1] < edgeSpan*s.stim.Stop)
+	return hs, tNew, corner, nil
+}
+
+// solve solves the step from r.now to tNew, of length hs: a backward-Euler
+// step after a corner, otherwise a TR-BDF2 step, whose trapezoidal stage
+// it keeps in s.xG, s.qG, s.termG and s.stageT.
+func (r *run) solve(hs, tNew float64) newtonStatus {
+	s, c := r.s, &r.s.ctx
+	qn := s.qAcc[:len(s.q)]
+	if r.restart {
+		// Backward Euler: q' = (q − q_n)/h.
+		c.Alpha = 1 / hs
+		for k, q := range qn {
+			s.hist[k] = -q / hs
+		}
+		s.noiseOK = false
+		c.T = tNew
+		s.predict(tNew, false)
+		it, st := s.newton(&r.t, r.t.gmin, false)
+		r.res.Stats.Newton += it
+		return st
+	}
 	const a2 = (1 - gamma) * (1 - gamma) / (gamma * (2 - gamma))
 	const a1 = 1 / (gamma * (2 - gamma))
-	for loop := 0; now < stop; loop++ {
-		if cfg.Context != nil && loop%checkEvery == 0 {
-			if err := cfg.Context.Err(); err != nil {
-				res.fail(start).Status = Interrupted
-				return res, fmt.Errorf("mna: %w at %s: %w", ErrInterrupted, spec.FormatSI(now, "s"), err)
-			}
-		}
-		target, isBP := nextTarget()
-		hs := min(h, maxStep)
-		rem := target - now
-		hit := false
-		if hs >= rem {
-			hs, hit = rem, true
-		} else if hs > 0.5*rem {
-			hs = 0.5 * rem
-		}
-		if hs < minStep {
-			return res.fail(start), s.solveError(now, notConverged, "the time step fell below the minimum step")
-		}
-		tNew := now + hs
-		if hit {
-			tNew = target
-		}
-		corner := hit && isBP
-		// A stimulus edge: the interval between the last breakpoint and the
-		// next is short against the stimulus's span.
-		t.setEdge(bi > 0 && bi < len(bps) && s.stim != nil && bps[bi]-bps[bi-1] < edgeSpan*s.stim.Stop)
-		qn := s.qAcc[:len(s.q)]
-		var it int
-		var st newtonStatus
-		if restart {
-			// Backward Euler: q' = (q − q_n)/h.
-			c.Alpha = 1 / hs
-			for k, q := range qn {
-				s.hist[k] = -q / hs
-			}
-			s.noiseOK = false
-			c.T = tNew
-			s.predict(tNew, false)
-			it, st = s.newton(&t, t.gmin, false)
-			res.Stats.Newton += it
-		} else {
-			// TR-BDF2: the trapezoidal stage to now + gamma·hs, ...
-			h1 := gamma * hs
-			c.Alpha = 2 / h1
-			for k, q := range qn {
-				s.hist[k] = -c.Alpha*q - s.qdotAcc[k]
-			}
-			s.noiseOK = false
-			c.T = now + h1
-			s.predict(c.T, false)
-			it, st = s.newton(&t, t.gmin, false)
-			res.Stats.Newton += it
-			if st == converged {
-				copy(s.xG, s.x)
-				copy(s.qG, s.q)
-				copy(s.termG, s.termCur)
-				s.stageT = c.T
-				// ... then second-order backward differentiation through
-				// q_n, q_G and the end: q' = Alpha·(q − a1·q_G + a2·q_n),
-				// the same Alpha.
-				for k, q := range qn {
-					s.hist[k] = c.Alpha * (a2*q - a1*s.qG[k])
-				}
-				s.noiseOK = false
-				c.T = tNew
-				s.predict(tNew, true)
-				it, st = s.newton(&t, t.gmin, true)
-				res.Stats.Newton += it
-			}
-		}
-		if st != converged {
-			res.Stats.Rejected++
-			h = hs / 2
-			logPrev = 0
-			if h < minStep {
-				return res.fail(start), s.solveError(now, st)
-			}
-			continue
-		}
-		grow := maxGrow
-		if fixed <= 0 && !restart {
-			if r, have := s.errorRatio(hs, &t); have {
-				if r > 1 && hs > hFloor {
-					res.Stats.Rejected++
-					h = max(hFloor, hs*max(minShrink, safety*math.Exp(-math.Log(r)/3)))
-					logPrev = 0
-					if h < minStep {
-						return res.fail(start), s.truncationError(now)
-					}
-					continue
-				}
-				// Far below its bound the estimate is rounding, and its
-				// trend from one step to the next means nothing.
-				lr := math.Log(max(r, rFloor))
-				if r > rFloor {
-					grow = min(maxGrow, safety*math.Exp((-kI*lr+kP*logPrev)/3))
-				}
-				logPrev = lr
-				if r > 1 {
-					// Accepted at the floor: try the floor again.
-					grow, logPrev = hFloor/hs, 0
-				}
-			}
-		}
-
-		// Accept: the stage's point, then the end's.
-		if !restart {
-			s.pushPoint(s.stageT, s.xG, s.qG, false)
-			s.scaleWith(s.xG)
-			s.accept(res, &cfg, s.xG, s.termG, s.stageT, s.stageT-now, false, false)
-			now = s.stageT
-		}
-		copy(s.qAcc, s.q)
-		copy(s.qdotAcc, s.qdot)
-		copy(s.xAcc, s.x)
-		s.scaleWith(s.x)
-		s.pushPoint(tNew, s.x, s.q, corner)
-		s.accept(res, &cfg, s.x, s.termCur, tNew, tNew-now, false, corner)
-		now = tNew
-		res.Stats.Steps++
-
-		switch {
-		case corner:
-			restart = true
-			logPrev = 0
-			next, _ := nextTarget()
-			h = first(next - now)
-		case restart:
-			// The step after backward Euler takes twice its length: its
-			// estimate needs the restart's point, and one of that size is
-			// as safe as the restart.
-			restart = false
-			h = 2 * hs
-			logPrev = 0
-		default:
-			h = hs * grow
-		}
-		if fixed > 0 {
-			h = fixed
-		}
+	// TR-BDF2: the trapezoidal stage to now + gamma·hs, ...
+	h1 := gamma * hs
+	c.Alpha = 2 / h1
+	for k, q := range qn {
+		s.hist[k] = -c.Alpha*q - s.qdotAcc[k]
 	}
+	s.noiseOK = false
+	c.T = r.now + h1
+	s.predict(c.T, false)
+	it, st := s.newton(&r.t, r.t.gmin, false)
+	r.res.Stats.Newton += it
+	if st != converged {
+		return st
+	}
+	copy(s.xG, s.x)
+	copy(s.qG, s.q)
+	copy(s.termG, s.termCur)
+	s.stageT = c.T
+	// ... then second-order backward differentiation through
+	// q_n, q_G and the end: q' = Alpha·(q − a1·q_G + a2·q_n),
+	// the same Alpha.
+	for k, q := range qn {
+		s.hist[k] = c.Alpha * (a2*q - a1*s.qG[k])
+	}
+	s.noiseOK = false
+	c.T = tNew
+	s.predict(tNew, true)
+	it, st = s.newton(&r.t, r.t.gmin, true)
+	r.res.Stats.Newton += it
+	return st
+}
+
+// reject counts a rejected step and sets h as the step to retry with;
+// tooShort says h is below the minimum step, and the run must stop.
+func (r *run) reject(h float64) (tooShort bool) {
+	r.res.Stats.Rejected++
+	r.h = h
+	r.logPrev = 0
+	return h < r.minStep
+}
+
+// control judges a solved step of length hs by its error estimate (the
+// restart after a corner and a fixed step go unjudged). A rejected step
+// (ok false) leaves a shorter r.h to retry with, or err when that is below
+// the minimum step; an accepted one gives grow, the next step's factor
+// over this one.
+func (r *run) control(hs float64) (grow float64, ok bool, err error) {
+	grow = maxGrow
+	if r.fixed > 0 || r.restart {
+		return grow, true, nil
+	}
+	ratio, have := r.s.errorRatio(hs, &r.t)
+	if !have {
+		return grow, true, nil
+	}
+	if ratio > 1 && hs > r.hFloor {
+		if r.reject(max(r.hFloor, hs*max(minShrink, safety*math.Exp(-math.Log(ratio)/3)))) {
+			return 0, false, r.s.truncationError(r.now)
+		}
+		return 0, false, nil
+	}
+	// Far below its bound the estimate is rounding, and its
+	// trend from one step to the next means nothing.
+	lr := math.Log(max(ratio, rFloor))
+	if ratio > rFloor {
+		grow = min(maxGrow, safety*math.Exp((-kI*lr+kP*r.logPrev)/3))
+	}
+	r.logPrev = lr
+	if ratio > 1 {
+		// Accepted at the floor: try the floor again.
+		grow, r.logPrev = r.hFloor/hs, 0
+	}
+	return grow, true, nil
+}
+
+// acceptStep books an accepted step ending at tNew: the stage's point,
+// then the end's, which becomes the last accepted solution.
+func (r *run) acceptStep(tNew float64, corner bool) {
+	s := r.s
+	if !r.restart {
+		s.pushPoint(s.stageT, s.xG, s.qG, false)
+		s.scaleWith(s.xG)
+		s.accept(r.res, &r.cfg, s.xG, s.termG, s.stageT, s.stageT-r.now, false, false)
+		r.now = s.stageT
+	}
+	copy(s.qAcc, s.q)
+	copy(s.qdotAcc, s.qdot)
+	copy(s.xAcc, s.x)
+	s.scaleWith(s.x)
+	s.pushPoint(tNew, s.x, s.q, corner)
+	s.accept(r.res, &r.cfg, s.x, s.termCur, tNew, tNew-r.now, false, corner)
+	r.now = tNew
+	r.res.Stats.Steps++
+}
+
+// advance sets r.h after an accepted step of length hs: a restart after
+// a corner, twice a restart, or the step grown by grow.
+func (r *run) advance(hs, grow float64, corner bool) {
+	switch {
+	case corner:
+		r.restart = true
+		r.logPrev = 0
+		next, _ := r.nextTarget()
+		r.h = r.first(next - r.now)
+	case r.restart:
+		// The step after backward Euler takes twice its length: its
+		// estimate needs the restart's point, and one of that size is
+		// as safe as the restart.
+		r.restart = false
+		r.h = 2 * hs
+		r.logPrev = 0
+	default:
+		r.h = hs * grow
+	}
+	if r.fixed > 0 {
+		r.h = r.fixed
+	}
+}
+
+// finish completes the result of a run that reached its stop time.
+func (r *run) finish() *Result {
+	s, res := r.s, r.res
 	for i := range s.curTr {
 		res.PeakCurrent[i], _ = s.curTr[i].AbsPeak()
 	}
@@ -477,9 +597,9 @@ func (s *System) Transient(stim *waveforms.Stimulus, sign float64, set *Settings
 		res.Balance += e
 	}
 	res.Stats.Factorisations = s.factorisations
-	res.Stats.Wall = time.Since(start)
+	res.Stats.Wall = time.Since(r.start)
 	res.Status = Completed
-	return res, nil
+	return res
 }
 
 // checkEvery is how many passes of the step loop go between two looks at
