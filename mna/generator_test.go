@@ -1,12 +1,11 @@
 package mna
 
 import (
-	"encoding/csv"
 	"math"
-	"os"
 	"strconv"
 	"testing"
 
+	"zapnet/internal/refdata"
 	"zapnet/waveforms"
 )
 
@@ -15,19 +14,9 @@ import (
 // (generators.py beside it; provenance in that folder's README.md).
 func generatorRef(t testing.TB) map[string]float64 {
 	t.Helper()
-	f, err := os.Open("../testdata/reference/generators.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	r := csv.NewReader(f)
-	r.Comment = '#'
-	rows, err := r.ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, rows := refdata.Read(t, "../testdata/reference/generators.csv")
 	out := map[string]float64{}
-	for _, row := range rows[1:] {
+	for _, row := range rows {
 		v, err := strconv.ParseFloat(row[2], 64)
 		if err != nil {
 			t.Fatal(err)
