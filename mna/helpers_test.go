@@ -133,6 +133,20 @@ func strikeEl(name, a, b, waveform string) *netlist.Element {
 	return e
 }
 
+// compileDeck parses deck text, named name in its messages, and compiles it.
+func compileDeck(t testing.TB, name, deck string) *System {
+	t.Helper()
+	c, err := netlist.Parse(name, []byte(deck))
+	if err != nil {
+		t.Fatalf("deck: %v", err)
+	}
+	s, err := Compile(c)
+	if err != nil {
+		t.Fatalf("Compile: %v", err)
+	}
+	return s
+}
+
 func compile(t testing.TB, els ...*netlist.Element) *struck {
 	t.Helper()
 	s, err := Compile(&netlist.Circuit{Elements: els})
