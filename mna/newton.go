@@ -503,13 +503,11 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 // integrates belongs to the point taken; the update being converged, what
 // that linearisation leaves out is of its square.
 func (s *System) take() newtonStatus {
+	s.apply()
 	// The slices and Alpha in locals: each store through a slice of the
 	// System would otherwise reload them.
 	dx := s.dx
 	x := s.x[:len(dx)]
-	for i, d := range dx {
-		x[i] += d
-	}
 	for i, v := range x {
 		if !(math.Abs(v) < impossible) {
 			s.resRow, s.resValue = i, s.f[i]
