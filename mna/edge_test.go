@@ -23,7 +23,7 @@ func TestEdgeRiseThroughShuntCapacitor(t *testing.T) {
 		tau := 50 * c / 2
 		deck := fmt.Sprintf("strike s in gnd waveform=tlp level=0.02 rise=1p width=%g\ncapacitor C1 in gnd %g\nresistor R2 in gnd 50\n", 60*tau, c)
 		s := compileDeck(t, "edge.zap", deck)
-		st := stimulus(t, "tlp", 0.02, map[string]float64{"rise": 1e-12, "width": 60 * tau})
+		st := stimulus(t, "tlp", 0.02, map[string]float64{"rise": 1e-12, "width": 60 * tau}, nil)
 		res, err := s.Transient(st, 1, &Settings{Stop: 30 * tau, MaxStep: tau / 50, RelTol: 1e-6, Record: true})
 		if err != nil {
 			t.Fatal(err)

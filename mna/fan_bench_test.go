@@ -40,7 +40,7 @@ func lines(t testing.TB, n int, fan bool) *struck {
 			el("inductor", fmt.Sprintf("Lg%d", k), r, to, 0.8e-9))
 	}
 	s := compile(t, els...)
-	s.SetStimulus(stimulus(t, "iec61000-4-2", 8000, nil), 1)
+	s.SetStimulus(stimulus(t, "iec61000-4-2", 8000, nil, nil), 1)
 	return s
 }
 

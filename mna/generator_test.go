@@ -27,30 +27,10 @@ func generatorRef(t testing.TB) map[string]float64 {
 	return out
 }
 
-// stim builds waveform name at level with num and str set as on a deck's
-// strike line (through the waveform's table), the rest at their defaults.
-func stim(t testing.TB, name string, level float64, num map[string]float64, str map[string]string) *waveforms.Stimulus {
-	t.Helper()
-	w := waveforms.Lookup(name)
-	v := w.Values()
-	for k, x := range num {
-		must(v.Set(k, x))
-	}
-	for k, x := range str {
-		must(v.SetWord(k, x))
-	}
-	v.FillDefaults()
-	st, err := w.New(level, &v)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return st
-}
-
 // into solves waveform name at level into ohms with IntoLoad's defaults.
 func into(t testing.TB, name string, level float64, num map[string]float64, str map[string]string, ohms float64) *LoadResult {
 	t.Helper()
-	r, err := IntoLoad(stim(t, name, level, num, str), ohms, nil)
+	r, err := IntoLoad(stimulus(t, name, level, num, str), ohms, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -105,7 +85,7 @@ func near(t *testing.T, what string, got, want, rel float64) {
 // published tolerances [pub: CHECKS.md's table; tolerances mem].
 func TestIECNetworkCalibration(t *testing.T) {
 	for _, level := range []float64{2000, 4000, 6000, 8000} {
-		st := stim(t, "iec61000-4-2-network", level, nil, nil)
+		st := stimulus(t, "iec61000-4-2-network", level, nil, nil)
 		solvedChecks(t, fmt.Sprintf("%g V", level), st, waveforms.DefaultLoad, 4)
 	}
 }
@@ -294,7 +274,7 @@ func valueAt(t, y []float64, at float64) float64 {
 // delays the discharge: from 10 kΩ to 100 MΩ the first peak of an 8 kV air
 // discharge moves by under 0.05 % [practice claim of generator.go, checked].
 func TestSparkSeed(t *testing.T) {
-	base := stim(t, "iec61000-4-2-air", 8000, nil, nil)
+	base := stimulus(t, "iec61000-4-2-air", 8000, nil, nil)
 	var peaks []float64
 	for _, r0 := range []float64{1e4, 1e6, 1e8} {
 		frag := *base.Gen
@@ -328,7 +308,7 @@ func TestSparkSeed(t *testing.T) {
 // solution [calc: generators.csv] within 0.3 %.
 func TestCombinationWave(t *testing.T) {
 	ref := generatorRef(t)
-	st := stim(t, "surge-cwg", 1000, nil, nil)
+	st := stimulus(t, "surge-cwg", 1000, nil, nil)
 	for _, load := range []float64{math.Inf(1), 0} {
 		cs := solvedChecks(t, fmt.Sprintf("load %g", load), st, load, 4)
 		for _, c := range cs {
@@ -383,7 +363,7 @@ func TestEveryNetworkPassesItsStandard(t *testing.T) {
 		{"hbm", 2000, nil, nil},
 		{"iso10605", 8000, nil, nil},
 	} {
-		st := stim(t, c.name, c.level, c.num, c.str)
+		st := stimulus(t, c.name, c.level, c.num, c.str)
 		w := waveforms.Lookup(c.name)
 		for _, load := range append([]float64{w.Load}, w.Loads...) {
 			solvedChecks(t, fmt.Sprintf("%s %v into %g Ω", c.name, c.str, load), st, load, 0)

@@ -210,14 +210,20 @@ func maxErr(time, v []float64, want func(float64) float64) float64 {
 	return e
 }
 
-// stimulus builds waveform name at level with the parameters num (the
-// others at their defaults).
-func stimulus(t testing.TB, name string, level float64, num map[string]float64) *waveforms.Stimulus {
+// stimulus builds waveform name at level with the numbers num and the
+// words str set as on a deck's strike line (through the waveform's
+// table), the others at their defaults.
+func stimulus(t testing.TB, name string, level float64, num map[string]float64, str map[string]string) *waveforms.Stimulus {
 	t.Helper()
 	w := waveforms.Lookup(name)
 	v := w.Values()
 	for k, x := range num {
 		if err := v.Set(k, x); err != nil {
+			t.Fatal(err)
+		}
+	}
+	for k, x := range str {
+		if err := v.SetWord(k, x); err != nil {
 			t.Fatal(err)
 		}
 	}

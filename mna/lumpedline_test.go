@@ -23,7 +23,7 @@ resistor Rl out gnd 1k
 func peaks(t *testing.T, td, rise float64) (hi, energy float64, steps int, lumped bool) {
 	t.Helper()
 	s := compileDeck(t, "short.zap", shortLineDeck(td))
-	st := stimulus(t, "surge-8-20", 50, nil)
+	st := stimulus(t, "surge-8-20", 50, nil, nil)
 	st.Rise = rise
 	res, err := s.Transient(st, 1, &Settings{Stop: 40e-6, Record: true})
 	if err != nil {
@@ -65,7 +65,7 @@ func TestShortLineLumped(t *testing.T) {
 // lines were lumped.
 func BenchmarkSurgeIntoPicosecondLine(b *testing.B) {
 	s := compileDeck(b, "short.zap", shortLineDeck(1e-12))
-	st := stimulus(b, "surge-8-20", 50, nil)
+	st := stimulus(b, "surge-8-20", 50, nil, nil)
 	set := &Settings{Stop: 40e-6}
 	var steps int
 	cpu0 := cpuTime()
