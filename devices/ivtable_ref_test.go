@@ -1,33 +1,24 @@
 package devices
 
 import (
-	"encoding/csv"
 	"math"
-	"os"
 	"strconv"
 	"testing"
+
+	"zapnet/internal/refdata"
 )
 
 func TestIVTableAgreesWithSciPy(t *testing.T) {
 	// The interpolant inside the table against SciPy's PchipInterpolator
 	// through the same points, values and slopes [calc: SciPy 1.10.1
 	// reference, testdata/reference/fit.py and README.md].
-	f, err := os.Open("../testdata/reference/fit-pchip.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	r := csv.NewReader(f)
-	r.Comment = '#'
-	recs, err := r.ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, rows := refdata.Read(t, "../testdata/reference/fit-pchip.csv")
 	tab := mustTable(t, pinTabV, pinTabI)
 	n := 0
-	for _, rec := range recs[1:] {
+	for _, rec := range rows {
 		var x [3]float64
 		for k := range x {
+			var err error
 			if x[k], err = strconv.ParseFloat(rec[k], 64); err != nil {
 				t.Fatal(err)
 			}

@@ -1,14 +1,13 @@
 package mna
 
 import (
-	"encoding/csv"
 	"math"
 	"math/cmplx"
-	"os"
 	"strconv"
 	"strings"
 	"testing"
 
+	"zapnet/internal/refdata"
 	"zapnet/netlist"
 )
 
@@ -16,22 +15,12 @@ import (
 // then NAME_re, NAME_im pairs.
 func readComplexCSV(t testing.TB, path string) (freq []float64, cols map[string][]complex128) {
 	t.Helper()
-	f, err := os.Open(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	r := csv.NewReader(f)
-	r.Comment = '#'
-	recs, err := r.ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	head := recs[0]
+	head, rows := refdata.Read(t, path)
 	cols = map[string][]complex128{}
-	for _, rec := range recs[1:] {
+	for _, rec := range rows {
 		v := make([]float64, len(rec))
 		for k, s := range rec {
+			var err error
 			if v[k], err = strconv.ParseFloat(s, 64); err != nil {
 				t.Fatal(err)
 			}
@@ -134,20 +123,13 @@ func TestACAgainstReference(t *testing.T) {
 // Network B's peaking, found by FindPeaking on the sweep ac.py uses, against
 // the reference's own refinement (SciPy's bounded scalar search on log f).
 func TestACPeakingAgainstReference(t *testing.T) {
-	f, err := os.Open("../testdata/reference/ac-peak.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	r := csv.NewReader(f)
-	r.Comment = '#'
-	recs, err := r.ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, rows := refdata.Read(t, "../testdata/reference/ac-peak.csv")
 	want := make([]float64, 3)
+	var err error
 	for k := range want {
-		want[k], _ = strconv.ParseFloat(recs[1][k+1], 64)
+		if want[k], err = strconv.ParseFloat(rows[0][k+1], 64); err != nil {
+			t.Fatal(err)
+		}
 	}
 	a := referenceAC(t, "ac-b.zap", &Settings{Gmin: 1e-20})
 	freq := LogFrequencies(10e3, 6e9, 10)

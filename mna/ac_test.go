@@ -9,8 +9,6 @@ import (
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
-
-	"zapnet/netlist"
 )
 
 // linearizeDeck parses deck text, compiles it and linearises it at its
@@ -24,14 +22,7 @@ func linearizeDeck(t testing.TB, deck string) (*System, *AC) {
 // engine's shunt out of a comparison that looks at high impedances.
 func linearizeWith(t testing.TB, deck string, set *Settings) (*System, *AC) {
 	t.Helper()
-	c, err := netlist.Parse("ac-test.zap", []byte(deck))
-	if err != nil {
-		t.Fatalf("deck: %v", err)
-	}
-	s, err := Compile(c)
-	if err != nil {
-		t.Fatalf("Compile: %v", err)
-	}
+	s := compileDeck(t, "ac-test.zap", deck)
 	a, err := s.Linearize(set)
 	if err != nil {
 		t.Fatalf("Linearize: %v", err)
@@ -467,14 +458,7 @@ func TestACLowFrequencyAgainstDCSweep(t *testing.T) {
 		_, zin := transfer(t, a, 10, "in", nil, "in")
 		dv := 1e-4
 		op := func(vs float64) float64 {
-			c, err := netlist.Parse("fd.zap", []byte(deck(vs)))
-			if err != nil {
-				t.Fatal(err)
-			}
-			sys, err := Compile(c)
-			if err != nil {
-				t.Fatal(err)
-			}
+			sys := compileDeck(t, "fd.zap", deck(vs))
 			x, err := sys.OperatingPoint(&Settings{RelTol: 1e-13, AbsTol: 1e-15})
 			if err != nil {
 				t.Fatal(err)

@@ -34,11 +34,7 @@ func referenceNetworkFor(t testing.TB, waveform string) *struck {
 		el("bead", "FB1", "n1", "n2", 0, "rdc", 0.15, "rac", 520.0, "l", 1.1e-6, "c", 1.3e-12),
 		el("capacitor", "C1", "n2", "gnd", 100e-9, "esr", 20e-3, "esl", 0.5e-9),
 		el("pin", "U1", "n2", "gnd", 0, "cin", 6e-12))
-	st, err := waveforms.Lookup("iec61000-4-2").New(8000, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	s.SetStimulus(st, 1)
+	s.SetStimulus(stimulus(t, "iec61000-4-2", 8000, nil, nil), 1)
 	return s
 }
 

@@ -23,7 +23,7 @@ func burstBench(t testing.TB, rate float64) (*struck, *waveforms.Stimulus) {
 	s := compile(t, strike,
 		el("clamp", "D1", "line", "gnd", 0, "vbr", 33.0, "rdyn", 0.5, "cj", 100e-12),
 		el("resistor", "Rleak", "line", "gnd", 1000.0))
-	return s, stim(t, "eft", 2000, map[string]float64{"burst": rate}, nil)
+	return s, stimulus(t, "eft", 2000, map[string]float64{"burst": rate}, nil)
 }
 
 // A burst solved to its settled pulses and extrapolated brings the same
@@ -77,7 +77,7 @@ func TestBurstExtrapolation(t *testing.T) {
 // 0.2 µs stepped over the 50 ns pulses and the clamp took 0.4 % of it.
 func TestTrainResolvedByDefault(t *testing.T) {
 	s, burst := burstBench(t, 5e3)
-	train := stim(t, "eft", 2000, map[string]float64{"count": 10, "rate": 5e3}, nil)
+	train := stimulus(t, "eft", 2000, map[string]float64{"count": 10, "rate": 5e3}, nil)
 	d1 := elemIndex(t, s, "D1")
 	for _, st := range []*waveforms.Stimulus{burst, train} {
 		var e [2]float64

@@ -5,7 +5,6 @@ import (
 	"math"
 	"testing"
 
-	"zapnet/netlist"
 	"zapnet/waveforms"
 )
 
@@ -23,15 +22,8 @@ func TestEdgeRiseThroughShuntCapacitor(t *testing.T) {
 	for _, c := range []float64{0.3e-12, 3e-12} {
 		tau := 50 * c / 2
 		deck := fmt.Sprintf("strike s in gnd waveform=tlp level=0.02 rise=1p width=%g\ncapacitor C1 in gnd %g\nresistor R2 in gnd 50\n", 60*tau, c)
-		cir, err := netlist.Parse("edge.zap", []byte(deck))
-		if err != nil {
-			t.Fatal(err)
-		}
-		s, err := Compile(cir)
-		if err != nil {
-			t.Fatal(err)
-		}
-		st := stimulus(t, "tlp", 0.02, map[string]float64{"rise": 1e-12, "width": 60 * tau})
+		s := compileDeck(t, "edge.zap", deck)
+		st := stimulus(t, "tlp", 0.02, map[string]float64{"rise": 1e-12, "width": 60 * tau}, nil)
 		res, err := s.Transient(st, 1, &Settings{Stop: 30 * tau, MaxStep: tau / 50, RelTol: 1e-6, Record: true})
 		if err != nil {
 			t.Fatal(err)

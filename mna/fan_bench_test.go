@@ -5,7 +5,6 @@ import (
 	"testing"
 
 	"zapnet/netlist"
-	"zapnet/waveforms"
 )
 
 // lines builds n protected lines of a connector (an invented design), each
@@ -41,11 +40,7 @@ func lines(t testing.TB, n int, fan bool) *struck {
 			el("inductor", fmt.Sprintf("Lg%d", k), r, to, 0.8e-9))
 	}
 	s := compile(t, els...)
-	st, err := waveforms.Lookup("iec61000-4-2").New(8000, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	s.SetStimulus(st, 1)
+	s.SetStimulus(stimulus(t, "iec61000-4-2", 8000, nil, nil), 1)
 	return s
 }
 

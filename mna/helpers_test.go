@@ -133,6 +133,20 @@ func strikeEl(name, a, b, waveform string) *netlist.Element {
 	return e
 }
 
+// compileDeck parses deck text, named name in its messages, and compiles it.
+func compileDeck(t testing.TB, name, deck string) *System {
+	t.Helper()
+	c, err := netlist.Parse(name, []byte(deck))
+	if err != nil {
+		t.Fatalf("deck: %v", err)
+	}
+	s, err := Compile(c)
+	if err != nil {
+		t.Fatalf("Compile: %v", err)
+	}
+	return s
+}
+
 func compile(t testing.TB, els ...*netlist.Element) *struck {
 	t.Helper()
 	s, err := Compile(&netlist.Circuit{Elements: els})
@@ -196,14 +210,20 @@ func maxErr(time, v []float64, want func(float64) float64) float64 {
 	return e
 }
 
-// stimulus builds waveform name at level with the parameters num (the
-// others at their defaults).
-func stimulus(t testing.TB, name string, level float64, num map[string]float64) *waveforms.Stimulus {
+// stimulus builds waveform name at level with the numbers num and the
+// words str set as on a deck's strike line (through the waveform's
+// table), the others at their defaults.
+func stimulus(t testing.TB, name string, level float64, num map[string]float64, str map[string]string) *waveforms.Stimulus {
 	t.Helper()
 	w := waveforms.Lookup(name)
 	v := w.Values()
 	for k, x := range num {
 		if err := v.Set(k, x); err != nil {
+			t.Fatal(err)
+		}
+	}
+	for k, x := range str {
+		if err := v.SetWord(k, x); err != nil {
 			t.Fatal(err)
 		}
 	}

@@ -4,8 +4,6 @@ import (
 	"fmt"
 	"math"
 	"testing"
-
-	"zapnet/netlist"
 )
 
 // shortLineDeck is a surge into a clamp behind a short trace, a line of
@@ -24,15 +22,8 @@ resistor Rl out gnd 1k
 // the extremes of out and the clamp's energy, with the steps taken.
 func peaks(t *testing.T, td, rise float64) (hi, energy float64, steps int, lumped bool) {
 	t.Helper()
-	c, err := netlist.Parse("short.zap", []byte(shortLineDeck(td)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := Compile(c)
-	if err != nil {
-		t.Fatal(err)
-	}
-	st := stimulus(t, "surge-8-20", 50, nil)
+	s := compileDeck(t, "short.zap", shortLineDeck(td))
+	st := stimulus(t, "surge-8-20", 50, nil, nil)
 	st.Rise = rise
 	res, err := s.Transient(st, 1, &Settings{Stop: 40e-6, Record: true})
 	if err != nil {
@@ -73,15 +64,8 @@ func TestShortLineLumped(t *testing.T) {
 // which bounded the step to a picosecond (20 million steps) before short
 // lines were lumped.
 func BenchmarkSurgeIntoPicosecondLine(b *testing.B) {
-	c, err := netlist.Parse("short.zap", []byte(shortLineDeck(1e-12)))
-	if err != nil {
-		b.Fatal(err)
-	}
-	s, err := Compile(c)
-	if err != nil {
-		b.Fatal(err)
-	}
-	st := stimulus(b, "surge-8-20", 50, nil)
+	s := compileDeck(b, "short.zap", shortLineDeck(1e-12))
+	st := stimulus(b, "surge-8-20", 50, nil, nil)
 	set := &Settings{Stop: 40e-6}
 	var steps int
 	cpu0 := cpuTime()

@@ -174,13 +174,7 @@ func (s *System) stampDense() {
 			}
 			snap[k] = v
 		}
-		for t, k := range d.termSnap {
-			v := 0.0
-			if k >= 0 {
-				v = snap[k]
-			}
-			s.termCur[d.curBase+t] = v
-		}
+		s.bookTermCur(d, snap)
 	}
 }
 
@@ -208,13 +202,7 @@ func (s *System) stampLocal() {
 			f[r] += v
 			own[k] = v
 		}
-		for t, k := range d.termSnap {
-			v := 0.0
-			if k >= 0 {
-				v = fl[k]
-			}
-			s.termCur[d.curBase+t] = v
-		}
+		s.bookTermCur(d, fl)
 		pos := d.jpos[:len(jl)]
 		for e, v := range jl {
 			jac[pos[e]] += v
@@ -225,6 +213,20 @@ func (s *System) stampLocal() {
 				tj = tj[copy(tj, jl[k*m:(k+1)*m]):]
 			}
 		}
+	}
+}
+
+// bookTermCur sets device d's terminal currents from its own residual
+// rows, own, in the order of d.touched: a terminal's current is its row's,
+// and a second terminal on the same row carries none (see layRows).
+func (s *System) bookTermCur(d *device, own []float64) {
+	cur := s.termCur[d.curBase : d.curBase+len(d.termSnap)]
+	for t, k := range d.termSnap {
+		v := 0.0
+		if k >= 0 {
+			v = own[k]
+		}
+		cur[t] = v
 	}
 }
 
@@ -503,13 +505,11 @@ func (s *System) newton(t *tol, g float64, reuse bool) (int, newtonStatus) {
 // integrates belongs to the point taken; the update being converged, what
 // that linearisation leaves out is of its square.
 func (s *System) take() newtonStatus {
+	s.apply()
 	// The slices and Alpha in locals: each store through a slice of the
 	// System would otherwise reload them.
 	dx := s.dx
 	x := s.x[:len(dx)]
-	for i, d := range dx {
-		x[i] += d
-	}
 	for i, v := range x {
 		if !(math.Abs(v) < impossible) {
 			s.resRow, s.resValue = i, s.f[i]

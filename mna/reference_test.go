@@ -1,14 +1,13 @@
 package mna_test
 
 import (
-	"encoding/csv"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
 
+	"zapnet/internal/refdata"
 	"zapnet/mna"
 	"zapnet/netlist"
 	"zapnet/waveforms"
@@ -45,25 +44,15 @@ type refRow struct {
 
 func readSummary(t *testing.T) []refRow {
 	t.Helper()
-	f, err := os.Open(filepath.Join(refDir, "summary.csv"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	r := csv.NewReader(f)
-	r.Comment = '#'
-	r.FieldsPerRecord = 6
-	recs, err := r.ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	if len(recs) < 2 || recs[0][0] != "network" {
-		t.Fatalf("summary.csv: no header line")
+	head, recs := refdata.Read(t, filepath.Join(refDir, "summary.csv"))
+	if len(head) != 6 || head[0] != "network" || len(recs) == 0 {
+		t.Fatalf("summary.csv: no header line of six fields, or no rows")
 	}
 	var rows []refRow
-	for _, rec := range recs[1:] {
+	for _, rec := range recs {
 		var num [3]float64
 		for k, s := range []string{rec[2], rec[4], rec[5]} {
+			var err error
 			if num[k], err = strconv.ParseFloat(s, 64); err != nil {
 				t.Fatalf("summary.csv: %v", err)
 			}

@@ -11,7 +11,7 @@ import (
 // load (a short for a 1.5 kΩ network) and returns the load current.
 func hbmIntoShort(t *testing.T, level float64, num map[string]float64) (*struck, *Result) {
 	t.Helper()
-	st := stimulus(t, "hbm", level, num)
+	st := stimulus(t, "hbm", level, num, nil)
 	s := compile(t,
 		el("strike", "zap", "p", "gnd", 0),
 		el("resistor", "Rload", "p", "gnd", 1.0))

@@ -146,7 +146,6 @@ func (s *System) solvePulses(cut *waveforms.Stimulus, sign float64, set *Setting
 		lg.energy[k] = make([]float64, ne)
 		lg.start[k] = make([]float64, nn)
 	}
-	hi, lo := make([]float64, nn), make([]float64, nn)
 	var cfg Settings
 	if set != nil {
 		cfg = *set
@@ -166,14 +165,6 @@ func (s *System) solvePulses(cut *waveforms.Stimulus, sign float64, set *Setting
 			copy(lg.start[next], p.V)
 			next++
 		}
-		for i, v := range p.V {
-			if p.T == 0 || v > hi[i] {
-				hi[i] = v
-			}
-			if p.T == 0 || v < lo[i] {
-				lo[i] = v
-			}
-		}
 		prevT = p.T
 		if user != nil {
 			user(p)
@@ -183,8 +174,10 @@ func (s *System) solvePulses(cut *waveforms.Stimulus, sign float64, set *Setting
 	if err != nil {
 		return nil, res, err
 	}
-	for i := range lg.swing {
-		lg.swing[i] = hi[i] - lo[i]
+	// The run kept every unknown's range over the points reported, the
+	// error control's (see scaleWith).
+	for i, k := range s.nodeIdx {
+		lg.swing[i] = s.xMax[k] - s.xMin[k]
 	}
 	return lg, res, nil
 }

@@ -311,15 +311,14 @@ func (r *run) configure(set *Settings) error {
 // first is the first step after t = 0 and after each breakpoint, in an
 // interval of the length given.
 func (r *run) first(interval float64) float64 {
-	s := r.s
 	h := min(r.maxStep, interval) * firstFraction
 	if r.cfg.FirstStep > 0 {
 		h = min(h, r.cfg.FirstStep)
-	} else if s.stim != nil && s.stim.Scale() > 0 {
+	} else if r.stimScale > 0 {
 		// The stimulus's own time scale (one pulse's, for a train),
 		// not a window stretched for a slow circuit, sets how fine the
 		// first step must be.
-		h = min(h, s.stim.Scale()/50*firstFraction)
+		h = min(h, r.stimScale/50*firstFraction)
 	}
 	return max(h, r.minStep, min(floorShare*r.stimScale, 0.01*interval))
 }

@@ -1,13 +1,13 @@
 package fit
 
 import (
-	"encoding/csv"
 	"math"
 	"os"
 	"path/filepath"
 	"strconv"
 	"testing"
 
+	"zapnet/internal/refdata"
 	"zapnet/netlist/datafile"
 )
 
@@ -23,19 +23,9 @@ const refDir = "../../testdata/reference"
 
 func scipySummary(t *testing.T) map[string]map[string]float64 {
 	t.Helper()
-	f, err := os.Open(filepath.Join(refDir, "fit-summary.csv"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	r := csv.NewReader(f)
-	r.Comment = '#'
-	recs, err := r.ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, recs := refdata.Read(t, filepath.Join(refDir, "fit-summary.csv"))
 	out := map[string]map[string]float64{}
-	for _, rec := range recs[1:] {
+	for _, rec := range recs {
 		v, err := strconv.ParseFloat(rec[2], 64)
 		if err != nil {
 			t.Fatal(err)
