@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -102,7 +101,7 @@ func optionalValue(flag, text string, unit spec.Unit, rule spec.Rule) (float64, 
 // messages ("fit clamp").
 func readFitData[T any](what, path string, read func(string, []byte) (T, error)) (T, error) {
 	var zero T
-	src, err := readData(path)
+	src, err := datafile.ReadFile(path)
 	if err != nil {
 		return zero, fmt.Errorf("%s: %w", what, err)
 	}
@@ -131,19 +130,6 @@ func runFit(args []string, stdout, stderr io.Writer) error {
 		return runFitPin(args[1:], stdout, stderr)
 	}
 	return fmt.Errorf("fit: unknown part %q: fit clamp, bead or pin", args[0])
-}
-
-// readData reads a data file for a fit.
-func readData(path string) ([]byte, error) {
-	b, err := os.ReadFile(path)
-	if err != nil {
-		var pe *os.PathError
-		if errors.As(err, &pe) {
-			return nil, fmt.Errorf("cannot read %s: %v", pe.Path, pe.Err)
-		}
-		return nil, err
-	}
-	return b, nil
 }
 
 // stem is a file's name without folder and extension: the default part

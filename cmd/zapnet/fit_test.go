@@ -145,6 +145,10 @@ func TestFitBadInputWritesNothing(t *testing.T) {
 		{[]string{"fit", "clamp", "--datasheet", pts}, "bad.points:1:1: vc needs the pulse it was measured with"},
 		{[]string{"fit", "clamp", "--point", "vbr 6.8V", "--point", "vc 9V@5A 8/20"}, "--point:1:1: vbr needs its condition"},
 		{[]string{"fit", "pin", "--tlp", snap}, "snap.csv:4:1: 5 V at 0.5 A is not above 9 V at 0.05 A"},
+		// A data file is read as a deck is: a regular file of bounded size
+		// (a pipe or a device would never end).
+		{[]string{"fit", "clamp", "--tlp", dir}, "is not a regular file"},
+		{[]string{"fit", "bead", "--touchstone", dir}, "is not a regular file"},
 	} {
 		js := filepath.Join(dir, "out.json")
 		figs := filepath.Join(dir, "figs")

@@ -104,7 +104,7 @@ func readBeadTouchstones(args []string) (beadInput, error) {
 			}
 			path, bias = arg[:k], v
 		}
-		src, err := readData(path)
+		src, err := datafile.ReadFile(path)
 		if err != nil {
 			errs = append(errs, err)
 			continue
