@@ -169,8 +169,10 @@ func (o fitOutputs) check(inputs []string, files ...string) error {
 }
 
 // finishFit prints the report of a fit and writes what was asked, every
-// file whole or not at all.
-func finishFit(doc fit.Document, o fitOutputs, stdout io.Writer) error {
+// file whole or not at all. With --json - the report goes to stderr, as
+// every command's tables do, so that the JSON stays parseable and the
+// caution is still shown.
+func finishFit(doc fit.Document, o fitOutputs, stdout, stderr io.Writer) error {
 	doc.Tool, doc.Version = "zapnet", Version
 	var errs []error
 	if o.plot != "" {
@@ -187,14 +189,11 @@ func finishFit(doc fit.Document, o fitOutputs, stdout io.Writer) error {
 		}
 	}
 	if o.json != "" {
-		if o.json == "-" {
-			return errors.Join(append(errs, report.EncodeJSON(stdout, doc))...)
-		}
-		if err := report.WriteFile(o.json, func(w io.Writer) error { return report.EncodeJSON(w, doc) }); err != nil {
+		if err := writeOutput(o.json, stdout, doc); err != nil {
 			errs = append(errs, fmt.Errorf("--json: %w", err))
 		}
 	}
-	if err := report.FitText(stdout, &doc, fitCaution); err != nil {
+	if err := report.FitText(tablesOut(o.json, stdout, stderr), &doc, fitCaution); err != nil {
 		errs = append(errs, err)
 	}
 	return errors.Join(errs...)

@@ -121,6 +121,22 @@ func TestFitPlots(t *testing.T) {
 	}
 }
 
+func TestFitJSONToStdoutKeepsTheReport(t *testing.T) {
+	// With --json - standard output holds the JSON alone and the report,
+	// its caution included, goes to stderr, as every command's tables do.
+	out, errOut, code := zapnet(t, "fit", "clamp", "--tlp", fitData+"tvs5-tlp.csv", "--json", "-")
+	if code != exitPass {
+		t.Fatalf("exit %d\n%s", code, errOut)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Errorf("stdout is not one JSON document: %v\n%s", err, out)
+	}
+	if !strings.Contains(errOut, fitCaution) || !strings.Contains(errOut, "part tvs5-tlp clamp") {
+		t.Errorf("stderr lacks the report and its caution:\n%s", errOut)
+	}
+}
+
 func TestFitBadInputWritesNothing(t *testing.T) {
 	// Malformed files are reported as file:line:col: message, the command
 	// exits 2 and writes no output file.

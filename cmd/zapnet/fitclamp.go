@@ -75,12 +75,12 @@ func runFitClamp(args []string, stdout, stderr io.Writer) error {
 	if opt.ls, err = optionalValue("--ls", *ls, spec.Henry, spec.NonNegative); err != nil {
 		return fmt.Errorf("fit clamp: %w", err)
 	}
-	return fitClamp(opt, *o, stdout)
+	return fitClamp(opt, *o, stdout, stderr)
 }
 
 // fitClamp reads the data, fits the model the data or the options ask for
 // and writes what o asks for.
-func fitClamp(opt fitClampOptions, o fitOutputs, stdout io.Writer) error {
+func fitClamp(opt fitClampOptions, o fitOutputs, stdout, stderr io.Writer) error {
 	var in clampInput
 	var err error
 	if opt.tlp != "" {
@@ -112,7 +112,7 @@ func fitClamp(opt fitClampOptions, o fitOutputs, stdout io.Writer) error {
 		return err
 	}
 	doc.Notes = append(in.notes, doc.Notes...)
-	return finishFit(doc, o, stdout)
+	return finishFit(doc, o, stdout, stderr)
 }
 
 // readClampTLP reads the TLP curve opt names.
