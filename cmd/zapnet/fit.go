@@ -204,11 +204,7 @@ func finishFit(doc fit.Document, o fitOutputs, stdout, stderr io.Writer) error {
 func fitError(what string, err error) error {
 	var list datafile.ErrorList
 	if errors.As(err, &list) {
-		var lines []string
-		for _, e := range list {
-			lines = append(lines, e.Error())
-		}
-		return fmt.Errorf("%s: %d problem(s):\n%s", what, list.Problems(), strings.Join(lines, "\n"))
+		return fmt.Errorf("%s: %d problem(s):\n%s", what, list.Problems(), list.Error())
 	}
 	return fmt.Errorf("%s: %w", what, err)
 }
