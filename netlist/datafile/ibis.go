@@ -168,10 +168,7 @@ func (r *ibisReader) keyword(s string, ws []field, at func(field) Pos) {
 		r.errs.Add(at(ws[0]), ErrSyntax, "a keyword's bracket is not closed")
 		return
 	}
-	args := words(rest.text)
-	for k := range args {
-		args[k].col += rest.col - 1
-	}
+	args := rest.words()
 	r.section = kw
 	switch kw {
 	case "ibis ver":
@@ -447,17 +444,11 @@ func (ib *IBIS) PinModel(name string, corner int) (*PinModel, error) {
 	return pm, nil
 }
 
-// ibisKeyword returns the normalised keyword of a "[Key Word] rest" line
-// (lower case, underscores as spaces) and the rest with its column.
+// ibisKeyword reads a keyword line as keyword does; IBIS also writes a
+// keyword's spaces as underscores ([GND_Clamp]).
 func ibisKeyword(s string) (string, field) {
-	i := strings.IndexByte(s, '[')
-	j := strings.IndexByte(s, ']')
-	if i < 0 || j < i {
-		return "", field{}
-	}
-	kw := strings.ToLower(strings.ReplaceAll(s[i+1:j], "_", " "))
-	kw = strings.Join(strings.Fields(kw), " ")
-	return kw, field{s[j+1:], len([]rune(s[:j+1])) + 1}
+	kw, rest := keyword(s)
+	return strings.Join(strings.Fields(strings.ReplaceAll(kw, "_", " ")), " "), rest
 }
 
 // ibisCorners reads typ [min max] (NA allowed for min and max).
