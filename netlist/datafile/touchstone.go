@@ -204,8 +204,8 @@ func (r *tsReader) setKeyword(k tsKeywordLine) {
 	switch k.kw {
 	case "version":
 		if f, ok := r.arg(k); ok {
-			v, err := strconv.ParseFloat(f.text, 64)
-			if err != nil || v < 2 || v >= 3 {
+			v, msg := spec.ParsePlain(f.text)
+			if msg != "" || v < 2 || v >= 3 {
 				r.errs.Add(r.at(k.ln, f), ErrUnsupported, "[Version] %s: zapnet reads versions 1.x and 2.x", f.text)
 			}
 		}
