@@ -137,6 +137,17 @@ func TestFitJSONToStdoutKeepsTheReport(t *testing.T) {
 	}
 }
 
+func TestFitClampSaysWhereIt2CameFrom(t *testing.T) {
+	// A published it2 is the datasheet's, not a TLP curve's.
+	out, errOut, code := zapnet(t, "fit", "clamp", "--point", "vbr 6.6V@1mA", "--point", "vc 11.9V@16A tlp", "--point", "it2 20A")
+	if code != exitPass {
+		t.Fatalf("exit %d\n%s", code, errOut)
+	}
+	if !strings.Contains(out, "the datasheet gives the clamp's TLP failure current It2 = 20 A") || strings.Contains(out, "the TLP curve shows") {
+		t.Errorf("the note on it2 does not name the datasheet:\n%s", out)
+	}
+}
+
 func TestFitBadInputWritesNothing(t *testing.T) {
 	// Malformed files are reported as file:line:col: message, the command
 	// exits 2 and writes no output file.
