@@ -91,8 +91,10 @@ func ReadIBIS(name string, src []byte) (*IBIS, error) {
 		ib:      &IBIS{Package: [3]Corners{nanCorners(), nanCorners(), nanCorners()}},
 		comment: '|',
 	}
-	for i, raw := range strings.Split(string(src), "\n") {
-		if !r.line(i+1, raw) {
+	// The comment character can change from one line to the next: each
+	// line drops its comment as it is read.
+	for _, ln := range lines(src, 0) {
+		if !r.line(ln) {
 			break
 		}
 	}
@@ -127,9 +129,9 @@ func (r *ibisReader) at(no int) func(field) Pos {
 	return func(f field) Pos { return Pos{File: r.name, Line: no, Col: f.col} }
 }
 
-// line reads line no; false stops the reading.
-func (r *ibisReader) line(no int, raw string) bool {
-	s := strings.TrimSuffix(raw, "\r")
+// line reads one line; false stops the reading.
+func (r *ibisReader) line(ln line) bool {
+	s := ln.text
 	if k := strings.IndexRune(s, r.comment); k >= 0 {
 		s = s[:k]
 	}
@@ -137,7 +139,7 @@ func (r *ibisReader) line(no int, raw string) bool {
 		return true
 	}
 	ws := words(s)
-	at := r.at(no)
+	at := r.at(ln.no)
 	if r.ended {
 		r.errs.Add(at(ws[0]), ErrSyntax, "text after [End]")
 		return false
