@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -102,7 +101,7 @@ func optionalValue(flag, text string, unit spec.Unit, rule spec.Rule) (float64, 
 // messages ("fit clamp").
 func readFitData[T any](what, path string, read func(string, []byte) (T, error)) (T, error) {
 	var zero T
-	src, err := readData(path)
+	src, err := datafile.ReadFile(path)
 	if err != nil {
 		return zero, fmt.Errorf("%s: %w", what, err)
 	}
@@ -131,19 +130,6 @@ func runFit(args []string, stdout, stderr io.Writer) error {
 		return runFitPin(args[1:], stdout, stderr)
 	}
 	return fmt.Errorf("fit: unknown part %q: fit clamp, bead or pin", args[0])
-}
-
-// readData reads a data file for a fit.
-func readData(path string) ([]byte, error) {
-	b, err := os.ReadFile(path)
-	if err != nil {
-		var pe *os.PathError
-		if errors.As(err, &pe) {
-			return nil, fmt.Errorf("cannot read %s: %v", pe.Path, pe.Err)
-		}
-		return nil, err
-	}
-	return b, nil
 }
 
 // stem is a file's name without folder and extension: the default part
@@ -183,8 +169,10 @@ func (o fitOutputs) check(inputs []string, files ...string) error {
 }
 
 // finishFit prints the report of a fit and writes what was asked, every
-// file whole or not at all.
-func finishFit(doc fit.Document, o fitOutputs, stdout io.Writer) error {
+// file whole or not at all. With --json - the report goes to stderr, as
+// every command's tables do, so that the JSON stays parseable and the
+// caution is still shown.
+func finishFit(doc fit.Document, o fitOutputs, stdout, stderr io.Writer) error {
 	doc.Tool, doc.Version = "zapnet", Version
 	var errs []error
 	if o.plot != "" {
@@ -201,14 +189,11 @@ func finishFit(doc fit.Document, o fitOutputs, stdout io.Writer) error {
 		}
 	}
 	if o.json != "" {
-		if o.json == "-" {
-			return errors.Join(append(errs, report.EncodeJSON(stdout, doc))...)
-		}
-		if err := report.WriteFile(o.json, func(w io.Writer) error { return report.EncodeJSON(w, doc) }); err != nil {
+		if err := writeOutput(o.json, stdout, doc); err != nil {
 			errs = append(errs, fmt.Errorf("--json: %w", err))
 		}
 	}
-	if err := report.FitText(stdout, &doc, fitCaution); err != nil {
+	if err := report.FitText(tablesOut(o.json, stdout, stderr), &doc, fitCaution); err != nil {
 		errs = append(errs, err)
 	}
 	return errors.Join(errs...)
@@ -219,11 +204,7 @@ func finishFit(doc fit.Document, o fitOutputs, stdout io.Writer) error {
 func fitError(what string, err error) error {
 	var list datafile.ErrorList
 	if errors.As(err, &list) {
-		var lines []string
-		for _, e := range list {
-			lines = append(lines, e.Error())
-		}
-		return fmt.Errorf("%s: %d problem(s):\n%s", what, list.Problems(), strings.Join(lines, "\n"))
+		return fmt.Errorf("%s: %d problem(s):\n%s", what, list.Problems(), list.Error())
 	}
 	return fmt.Errorf("%s: %w", what, err)
 }

@@ -121,6 +121,33 @@ func TestFitPlots(t *testing.T) {
 	}
 }
 
+func TestFitJSONToStdoutKeepsTheReport(t *testing.T) {
+	// With --json - standard output holds the JSON alone and the report,
+	// its caution included, goes to stderr, as every command's tables do.
+	out, errOut, code := zapnet(t, "fit", "clamp", "--tlp", fitData+"tvs5-tlp.csv", "--json", "-")
+	if code != exitPass {
+		t.Fatalf("exit %d\n%s", code, errOut)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Errorf("stdout is not one JSON document: %v\n%s", err, out)
+	}
+	if !strings.Contains(errOut, fitCaution) || !strings.Contains(errOut, "part tvs5-tlp clamp") {
+		t.Errorf("stderr lacks the report and its caution:\n%s", errOut)
+	}
+}
+
+func TestFitClampSaysWhereIt2CameFrom(t *testing.T) {
+	// A published it2 is the datasheet's, not a TLP curve's.
+	out, errOut, code := zapnet(t, "fit", "clamp", "--point", "vbr 6.6V@1mA", "--point", "vc 11.9V@16A tlp", "--point", "it2 20A")
+	if code != exitPass {
+		t.Fatalf("exit %d\n%s", code, errOut)
+	}
+	if !strings.Contains(out, "the datasheet gives the clamp's TLP failure current It2 = 20 A") || strings.Contains(out, "the TLP curve shows") {
+		t.Errorf("the note on it2 does not name the datasheet:\n%s", out)
+	}
+}
+
 func TestFitBadInputWritesNothing(t *testing.T) {
 	// Malformed files are reported as file:line:col: message, the command
 	// exits 2 and writes no output file.
@@ -145,6 +172,10 @@ func TestFitBadInputWritesNothing(t *testing.T) {
 		{[]string{"fit", "clamp", "--datasheet", pts}, "bad.points:1:1: vc needs the pulse it was measured with"},
 		{[]string{"fit", "clamp", "--point", "vbr 6.8V", "--point", "vc 9V@5A 8/20"}, "--point:1:1: vbr needs its condition"},
 		{[]string{"fit", "pin", "--tlp", snap}, "snap.csv:4:1: 5 V at 0.5 A is not above 9 V at 0.05 A"},
+		// A data file is read as a deck is: a regular file of bounded size
+		// (a pipe or a device would never end).
+		{[]string{"fit", "clamp", "--tlp", dir}, "is not a regular file"},
+		{[]string{"fit", "bead", "--touchstone", dir}, "is not a regular file"},
 	} {
 		js := filepath.Join(dir, "out.json")
 		figs := filepath.Join(dir, "figs")

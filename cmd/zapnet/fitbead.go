@@ -67,7 +67,7 @@ func runFitBead(args []string, stdout, stderr io.Writer) error {
 		doc.SetFrom("rdc", "--rdc")
 	}
 	doc.Notes = append(in.notes, doc.Notes...)
-	return finishFit(doc, *o, stdout)
+	return finishFit(doc, *o, stdout, stderr)
 }
 
 // beadInput is the data of a bead fit and what it was read from.
@@ -104,7 +104,7 @@ func readBeadTouchstones(args []string) (beadInput, error) {
 			}
 			path, bias = arg[:k], v
 		}
-		src, err := readData(path)
+		src, err := datafile.ReadFile(path)
 		if err != nil {
 			errs = append(errs, err)
 			continue

@@ -39,9 +39,8 @@ type fitClampOptions struct {
 type clampInput struct {
 	data    []fit.Datum
 	sources []string
-	pub     fit.Published
+	pub     fit.Published // pub.It2: the failure current, published or from the TLP leakage; 0 unknown
 	notes   []string
-	it2     float64 // the failure current, 0 unknown
 }
 
 // runFitClamp fits a clamp or a snapback clamp.
@@ -75,12 +74,12 @@ func runFitClamp(args []string, stdout, stderr io.Writer) error {
 	if opt.ls, err = optionalValue("--ls", *ls, spec.Henry, spec.NonNegative); err != nil {
 		return fmt.Errorf("fit clamp: %w", err)
 	}
-	return fitClamp(opt, *o, stdout)
+	return fitClamp(opt, *o, stdout, stderr)
 }
 
 // fitClamp reads the data, fits the model the data or the options ask for
 // and writes what o asks for.
-func fitClamp(opt fitClampOptions, o fitOutputs, stdout io.Writer) error {
+func fitClamp(opt fitClampOptions, o fitOutputs, stdout, stderr io.Writer) error {
 	var in clampInput
 	var err error
 	if opt.tlp != "" {
@@ -112,7 +111,7 @@ func fitClamp(opt fitClampOptions, o fitOutputs, stdout io.Writer) error {
 		return err
 	}
 	doc.Notes = append(in.notes, doc.Notes...)
-	return finishFit(doc, o, stdout)
+	return finishFit(doc, o, stdout, stderr)
 }
 
 // readClampTLP reads the TLP curve opt names.
@@ -127,7 +126,7 @@ func readClampTLP(opt fitClampOptions) (clampInput, error) {
 			in.notes = append(in.notes, n.Error())
 		}
 	}
-	in.data, in.it2, in.notes = appendTLP(t, in.notes)
+	in.data, in.pub.It2, in.notes = appendTLP(t, in.notes)
 	in.pub.Name = stem(opt.tlp)
 	in.sources = append(in.sources, opt.tlp)
 	if opt.snapback {
@@ -174,14 +173,13 @@ func readClampDatasheet(opt fitClampOptions) (clampInput, error) {
 		p.Name = "fitted"
 	}
 	in.pub = p
-	in.it2 = p.It2
 	return in, nil
 }
 
 // snapbackDocument fits a snapback clamp.
 func snapbackDocument(in clampInput, opt fitClampOptions, origin string) (fit.Document, error) {
 	pub := in.pub
-	f, err := fit.FitSnapback(in.data, &fit.SnapbackOptions{Polarity: pub.Polarity, Ron: pub.Ron, It2: in.it2, Ls: pub.Ls})
+	f, err := fit.FitSnapback(in.data, &fit.SnapbackOptions{Polarity: pub.Polarity, Ron: pub.Ron, It2: pub.It2, Ls: pub.Ls})
 	if err != nil {
 		return fit.Document{}, fmt.Errorf("fit clamp --snapback: %w", err)
 	}
@@ -189,7 +187,7 @@ func snapbackDocument(in clampInput, opt fitClampOptions, origin string) (fit.Do
 	for _, k := range []string{"vt1", "it1", "vh", "ih", "ron", "ls", "it2"} {
 		doc.SetFrom(k, origin)
 	}
-	if opt.tlp != "" && in.it2 > 0 {
+	if opt.tlp != "" && pub.It2 > 0 {
 		doc.SetFrom("it2", "the leakage's jump")
 	}
 	return doc, nil
@@ -215,8 +213,12 @@ func clampDocument(in clampInput, opt fitClampOptions, origin string) (fit.Docum
 			f.Notes = append(f.Notes, fmt.Sprintf("ipp is published for the %s pulse; the study compares it with any strike's peak current", pub.IppPulse))
 		}
 	}
-	if in.it2 > 0 {
-		f.Notes = append(f.Notes, fmt.Sprintf("the TLP curve shows the clamp failing at %s (It2); ipp, a surge rating, is not set from it: take ipp from the datasheet", spec.FormatSI(in.it2, "A")))
+	if pub.It2 > 0 {
+		failing := "the datasheet gives the clamp's TLP failure current It2 = %s"
+		if opt.tlp != "" {
+			failing = "the TLP curve shows the clamp failing at %s (It2)"
+		}
+		f.Notes = append(f.Notes, fmt.Sprintf(failing+"; ipp, a surge rating, is not set from it: take ipp from the datasheet", spec.FormatSI(pub.It2, "A")))
 	}
 	doc := f.Document(part, in.sources)
 	for _, k := range []string{"vrwm", "ipp", "ls"} {

@@ -44,7 +44,7 @@ func runFitPin(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	if *ibis != "" {
-		return fitPinIBIS(*ibis, *model, *corner, *o, stdout)
+		return fitPinIBIS(*ibis, *model, *corner, *o, stdout, stderr)
 	}
 	given, err := optionalValue("--it2", *it2, spec.Ampere, spec.Positive)
 	if err != nil {
@@ -57,7 +57,7 @@ func runFitPin(args []string, stdout, stderr io.Writer) error {
 	if len(extra) > 0 && *table == "" {
 		return errors.New("fit pin: --leak adds points to the table, which the part must name: give --table FILE")
 	}
-	return fitPinTLP(*tlp, given, extra, *table, *o, stdout)
+	return fitPinTLP(*tlp, given, extra, *table, *o, stdout, stderr)
 }
 
 // leakPoints reads the --leak points, VOLTAGE@CURRENT each.
@@ -82,7 +82,7 @@ func leakPoints(leaks []string) ([][2]float64, error) {
 // failure current given (0: from the leakage's jump) and the extra points
 // below the curve, and writes its table to table ("" for none, the part
 // then naming the curve itself).
-func fitPinTLP(path string, given float64, extra [][2]float64, table string, o fitOutputs, stdout io.Writer) error {
+func fitPinTLP(path string, given float64, extra [][2]float64, table string, o fitOutputs, stdout, stderr io.Writer) error {
 	t, err := readFitData("fit pin", path, datafile.ReadTLP)
 	if err != nil {
 		return err
@@ -123,7 +123,7 @@ func fitPinTLP(path string, given float64, extra [][2]float64, table string, o f
 			return fmt.Errorf("fit pin: --table: %w", err)
 		}
 	}
-	return finishFit(doc, o, stdout)
+	return finishFit(doc, o, stdout, stderr)
 }
 
 // writePinTable writes the pin's table as a TLP-style CSV the deck reads.
@@ -139,7 +139,7 @@ func writePinTable(path string, f *fit.PinTableFit) error {
 }
 
 // fitPinIBIS imports an IBIS pin.
-func fitPinIBIS(path, model, corner string, o fitOutputs, stdout io.Writer) error {
+func fitPinIBIS(path, model, corner string, o fitOutputs, stdout, stderr io.Writer) error {
 	if model == "" {
 		return errors.New("fit pin: --ibis needs --model NAME, a [Model] or a pin of the file")
 	}
@@ -181,5 +181,5 @@ func fitPinIBIS(path, model, corner string, o fitOutputs, stdout io.Writer) erro
 	doc.Notes = append(doc.Notes, "the corners of "+pm.Model+" — "+strings.Join(corners, "; ")+"; to run all three, vary U1.corner=min,typ,max in the deck")
 	doc.Notes = append(doc.Notes, notes...)
 	doc.Notes = append(doc.Notes, "the table's points are the pin's DC current at each row's die voltage, both clamp tables together; a run notes every time the pin leaves the tables' range")
-	return finishFit(doc, o, stdout)
+	return finishFit(doc, o, stdout, stderr)
 }

@@ -335,27 +335,43 @@ func (f *ClampFit) settleConflict(p ClampParams, honour Honour, conflict float64
 // settle (ten rounds at the most), and returns the last static fit's result
 // and the parameters it fitted.
 func (f *ClampFit) fitPulses(p *ClampParams, used []ClampPoint, run Runner) (*Result, []string, error) {
-	delta := make([]float64, len(used))
 	var names []string
 	var res *Result
-	simulate := func(d Datum) (float64, error) { return simulateClamping(run, *p, d) }
-	for round := 0; round < 10; round++ {
+	fitStatic := func(delta []float64) error {
 		res = nil
-		if err := fitClampIV(p, used, delta, func(r *Result, n []string) { res, names = r, n }); err != nil {
-			if errors.Is(err, errTooFew) && len(used) < len(selectPoints(f.Points, func(c ClampPoint) bool { return c.Kind != Capacitance && c.Aside == "" })) {
-				err = fmt.Errorf("%w, counting only the points left after the conflicting ones were set aside", err)
-			}
-			return nil, nil, err
+		err := fitClampIV(p, used, delta, func(r *Result, n []string) { res, names = r, n })
+		if errors.Is(err, errTooFew) && len(used) < len(selectPoints(f.Points, func(c ClampPoint) bool { return c.Kind != Capacitance && c.Aside == "" })) {
+			err = fmt.Errorf("%w, counting only the points left after the conflicting ones were set aside", err)
 		}
-		moved, anyPulse, err := shiftPulses(used, delta, p.V, simulate, &f.Shots)
+		return err
+	}
+	static := func(i float64) float64 { return p.V(i) }
+	simulate := func(d Datum) (float64, error) { return simulateClamping(run, *p, d) }
+	if err := settlePulses(used, fitStatic, static, simulate, &f.Shots); err != nil {
+		return nil, nil, err
+	}
+	return res, names, nil
+}
+
+// settlePulses alternates fitStatic, a least-squares fit in which each
+// clamping point of pts is modelled by the static curve plus its shift
+// delta, with the engine's pulses from the fit's result (shiftPulses),
+// until the shifts settle: ten rounds at the most.
+func settlePulses(pts []ClampPoint, fitStatic func(delta []float64) error, static func(float64) float64, simulate func(Datum) (float64, error), shots *int) error {
+	delta := make([]float64, len(pts))
+	for range 10 {
+		if err := fitStatic(delta); err != nil {
+			return err
+		}
+		moved, anyPulse, err := shiftPulses(pts, delta, static, simulate, shots)
 		if err != nil {
-			return nil, nil, err
+			return err
 		}
 		if !anyPulse || moved < 1e-6 {
 			break
 		}
 	}
-	return res, names, nil
+	return nil
 }
 
 // shiftPulses simulates the pulse of each clamping point of pts and stores

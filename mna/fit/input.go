@@ -33,14 +33,7 @@ func TLPData(t *datafile.TLP) (data []Datum, it2 float64, notes []string) {
 		name string
 		sign float64
 	}{{"positive", 1}, {"negative", -1}} {
-		var rows []datafile.TLPPoint
-		var idx []int
-		for k, p := range t.Points {
-			if (p.I > 0 || p.I == 0 && p.V >= 0) == (side.sign > 0) {
-				rows = append(rows, p)
-				idx = append(idx, k)
-			}
-		}
+		idx, rows := t.Side(side.sign)
 		c, k, ok := FailureCurrent(rows)
 		if !ok {
 			continue

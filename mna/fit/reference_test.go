@@ -63,16 +63,7 @@ func TestBeadFitAgreesWithSciPy(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		var curves []BeadCurve
-		for _, cv := range im.Curves {
-			bc := BeadCurve{Bias: cv.Bias, Complex: im.Complex}
-			for _, p := range cv.Points {
-				bc.F = append(bc.F, p.F)
-				bc.Z = append(bc.Z, p.Z)
-			}
-			curves = append(curves, bc)
-		}
-		fit, err := FitBead(curves, nil)
+		fit, err := FitBead(BeadCurveOf(im), nil)
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -239,10 +239,12 @@ func (f *SnapbackFit) startFromPoints(p *SnapbackParams, data []Datum) (paramSet
 // points fitPts, alternating the static fit with the engine's pulses as
 // FitClamp does.
 func (f *SnapbackFit) fitPulses(p *SnapbackParams, ps *paramSet, fitPts []ClampPoint, run Runner) error {
-	delta := make([]float64, len(fitPts))
+	if len(ps.free) == 0 {
+		return nil
+	}
 	static := func(i float64) float64 { law, _ := p.Law(); v, _ := law.V(i); return v }
 	simulate := func(d Datum) (float64, error) { return simulateSnapback(run, *p, d) }
-	for round := 0; round < 10 && len(ps.free) > 0; round++ {
+	fitStatic := func(delta []float64) error {
 		q := *p
 		prob := Problem{M: len(fitPts), Residuals: func(dst, x []float64) {
 			ps.set(x)
@@ -264,15 +266,9 @@ func (f *SnapbackFit) fitPulses(p *SnapbackParams, ps *paramSet, fitPts []ClampP
 		ps.set(res.X)
 		ps.setSnapback(p)
 		f.Result = res
-		moved, anyPulse, err := shiftPulses(fitPts, delta, static, simulate, &f.Shots)
-		if err != nil {
-			return err
-		}
-		if !anyPulse || moved < 1e-6 {
-			break
-		}
+		return nil
 	}
-	return nil
+	return settlePulses(fitPts, fitStatic, static, simulate, &f.Shots)
 }
 
 // setSnapback writes the free parameters into q.

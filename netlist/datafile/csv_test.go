@@ -20,8 +20,8 @@ func TestReadTLP(t *testing.T) {
 	if p := tl.Points[2]; p.I != 1 || !math.IsNaN(p.Leak) || p.Pos.Line != 5 {
 		t.Errorf("row 3: %+v (i [mA] scales by 1e-3; blank leak is NaN)", p)
 	}
-	_, pos := tl.side(1)
-	_, neg := tl.side(-1)
+	_, pos := tl.Side(1)
+	_, neg := tl.Side(-1)
 	if len(pos) != 4 || len(neg) != 2 {
 		t.Errorf("polarities: %d positive, %d negative", len(pos), len(neg))
 	}

@@ -4,6 +4,7 @@ import (
 	"math"
 	"path/filepath"
 	"strings"
+	"unicode/utf8"
 
 	"zapnet/devices/spec"
 )
@@ -112,12 +113,10 @@ func ReadDatasheet(name string, src []byte) (*Datasheet, error) {
 	d.Name = strings.TrimSuffix(base, filepath.Ext(base))
 	seen := map[string]Pos{}
 	for _, ln := range lines(src, '#') {
-		ws := words(strings.ReplaceAll(ln.text, "@", " @ "))
+		ws := dsWords(ln.text)
 		if len(ws) == 0 {
 			continue
 		}
-		// Columns shift where '@' got spaces; map them back.
-		fixCols(ln.text, ws)
 		at := func(f field) Pos { return Pos{File: name, Line: ln.no, Col: f.col} }
 		key := strings.ToLower(ws[0].text)
 		if prev, ok := seen[key]; ok && !(dsKeys[key].repeats) {
@@ -256,29 +255,25 @@ func dsRange(s Spec) string {
 	return ""
 }
 
-// fixCols sets the columns of words split from s with spaces put around
-// every '@' to their columns in s itself.
-func fixCols(s string, ws []field) {
-	col, k := 1, 0
-	rs := []rune(s)
-	for i := 0; i < len(rs) && k < len(ws); {
-		if rs[i] == ' ' || rs[i] == '\t' {
-			i++
-			col++
-			continue
+// dsWords splits a statement into its words at white space and around
+// every '@', which may touch its neighbours (6.8V@1mA).
+func dsWords(s string) []field {
+	var out []field
+	for _, w := range words(s) {
+		for {
+			before, after, found := strings.Cut(w.text, "@")
+			if before != "" {
+				out = append(out, field{before, w.col})
+			}
+			if !found {
+				break
+			}
+			at := w.col + utf8.RuneCountInString(before)
+			out = append(out, field{"@", at})
+			w = field{after, at + 1}
 		}
-		ws[k].col = col
-		n := len([]rune(ws[k].text))
-		if ws[k].text == "@" {
-			n = 1
-		}
-		// Advance over the word, which in s may touch an '@'.
-		for j := 0; j < n && i < len(rs); j++ {
-			i++
-			col++
-		}
-		k++
 	}
+	return out
 }
 
 func nan() float64 { return math.NaN() }

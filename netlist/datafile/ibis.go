@@ -91,8 +91,10 @@ func ReadIBIS(name string, src []byte) (*IBIS, error) {
 		ib:      &IBIS{Package: [3]Corners{nanCorners(), nanCorners(), nanCorners()}},
 		comment: '|',
 	}
-	for i, raw := range strings.Split(string(src), "\n") {
-		if !r.line(i+1, raw) {
+	// The comment character can change from one line to the next: each
+	// line drops its comment as it is read.
+	for _, ln := range lines(src, 0) {
+		if !r.line(ln) {
 			break
 		}
 	}
@@ -127,9 +129,9 @@ func (r *ibisReader) at(no int) func(field) Pos {
 	return func(f field) Pos { return Pos{File: r.name, Line: no, Col: f.col} }
 }
 
-// line reads line no; false stops the reading.
-func (r *ibisReader) line(no int, raw string) bool {
-	s := strings.TrimSuffix(raw, "\r")
+// line reads one line; false stops the reading.
+func (r *ibisReader) line(ln line) bool {
+	s := ln.text
 	if k := strings.IndexRune(s, r.comment); k >= 0 {
 		s = s[:k]
 	}
@@ -137,7 +139,7 @@ func (r *ibisReader) line(no int, raw string) bool {
 		return true
 	}
 	ws := words(s)
-	at := r.at(no)
+	at := r.at(ln.no)
 	if r.ended {
 		r.errs.Add(at(ws[0]), ErrSyntax, "text after [End]")
 		return false
@@ -168,10 +170,7 @@ func (r *ibisReader) keyword(s string, ws []field, at func(field) Pos) {
 		r.errs.Add(at(ws[0]), ErrSyntax, "a keyword's bracket is not closed")
 		return
 	}
-	args := words(rest.text)
-	for k := range args {
-		args[k].col += rest.col - 1
-	}
+	args := rest.words()
 	r.section = kw
 	switch kw {
 	case "ibis ver":
@@ -447,17 +446,11 @@ func (ib *IBIS) PinModel(name string, corner int) (*PinModel, error) {
 	return pm, nil
 }
 
-// ibisKeyword returns the normalised keyword of a "[Key Word] rest" line
-// (lower case, underscores as spaces) and the rest with its column.
+// ibisKeyword reads a keyword line as keyword does; IBIS also writes a
+// keyword's spaces as underscores ([GND_Clamp]).
 func ibisKeyword(s string) (string, field) {
-	i := strings.IndexByte(s, '[')
-	j := strings.IndexByte(s, ']')
-	if i < 0 || j < i {
-		return "", field{}
-	}
-	kw := strings.ToLower(strings.ReplaceAll(s[i+1:j], "_", " "))
-	kw = strings.Join(strings.Fields(kw), " ")
-	return kw, field{s[j+1:], len([]rune(s[:j+1])) + 1}
+	kw, rest := keyword(s)
+	return strings.Join(strings.Fields(strings.ReplaceAll(kw, "_", " ")), " "), rest
 }
 
 // ibisCorners reads typ [min max] (NA allowed for min and max).

@@ -57,6 +57,30 @@ func words(s string) []field {
 	return out
 }
 
+// words splits a field at white space, each word at its column in the
+// field's line.
+func (f field) words() []field {
+	ws := words(f.text)
+	for k := range ws {
+		ws[k].col += f.col - 1
+	}
+	return ws
+}
+
+// keyword reads a "[Key Word] rest" line, as IBIS and Touchstone 2 write
+// their keywords: the keyword in lower case with its inner white space
+// one space each ("" when the bracket is not closed), and the text after
+// the bracket with its column.
+func keyword(s string) (string, field) {
+	i := strings.IndexByte(s, '[')
+	j := strings.IndexByte(s, ']')
+	if i < 0 || j < i {
+		return "", field{}
+	}
+	kw := strings.ToLower(strings.Join(strings.Fields(s[i+1:j]), " "))
+	return kw, field{s[j+1:], len([]rune(s[:j+1])) + 1}
+}
+
 // splitSep splits a line at sep (a comma, semicolon or tab), trimming the
 // white space around each field; a field in double quotes may hold sep.
 func splitSep(s string, sep rune) []field {

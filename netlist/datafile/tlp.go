@@ -25,10 +25,10 @@ type TLP struct {
 	file    string
 }
 
-// side returns the rows of one polarity, s = 1 positive (current > 0, or
+// Side returns the rows of one polarity, s = 1 positive (current > 0, or
 // voltage ≥ 0 at zero current) or −1 negative, in file order, with their
 // indices in Points.
-func (t *TLP) side(s float64) (idx []int, rows []TLPPoint) {
+func (t *TLP) Side(s float64) (idx []int, rows []TLPPoint) {
 	for k, p := range t.Points {
 		if tlpSign(p) == s {
 			idx, rows = append(idx, k), append(rows, p)
@@ -151,7 +151,7 @@ func median(x []float64) float64 {
 func (t *TLP) Intact() []bool {
 	ok := make([]bool, len(t.Points))
 	for _, s := range []float64{1, -1} {
-		idx, rows := t.side(s)
+		idx, rows := t.Side(s)
 		end := len(rows)
 		if k, failed := FirstFailure(rows); failed {
 			end = k

@@ -128,7 +128,7 @@ func (r *tsReader) line(ln line) bool {
 		return false
 	}
 	if r.inInfo {
-		if kw, _ := tsKeyword(ln.text); kw == "end information" {
+		if kw, _ := keyword(ln.text); kw == "end information" {
 			r.inInfo = false
 		}
 		return true
@@ -181,11 +181,8 @@ type tsKeywordLine struct {
 // keyword reads a line that starts with a bracket.
 func (r *tsReader) keyword(ln line, ws []field) {
 	r.inRef = false
-	kw, rest := tsKeyword(ln.text)
-	restWords := words(rest.text)
-	for k := range restWords {
-		restWords[k].col += rest.col - 1
-	}
+	kw, rest := keyword(ln.text)
+	restWords := rest.words()
 	head := r.at(ln, ws[0])
 	if kw == "" {
 		r.errs.Add(head, ErrSyntax, "a keyword's bracket is not closed")
@@ -207,8 +204,8 @@ func (r *tsReader) setKeyword(k tsKeywordLine) {
 	switch k.kw {
 	case "version":
 		if f, ok := r.arg(k); ok {
-			v, err := strconv.ParseFloat(f.text, 64)
-			if err != nil || v < 2 || v >= 3 {
+			v, msg := spec.ParsePlain(f.text)
+			if msg != "" || v < 2 || v >= 3 {
 				r.errs.Add(r.at(k.ln, f), ErrUnsupported, "[Version] %s: zapnet reads versions 1.x and 2.x", f.text)
 			}
 		}
@@ -335,18 +332,6 @@ func (r *tsReader) references() {
 	}
 }
 
-// tsKeyword returns the lower-case keyword of a "[Keyword] rest" line and
-// the rest with its column.
-func tsKeyword(s string) (string, field) {
-	i := strings.IndexByte(s, '[')
-	j := strings.IndexByte(s, ']')
-	if i < 0 || j < i {
-		return "", field{}
-	}
-	kw := strings.ToLower(strings.Join(strings.Fields(s[i+1:j]), " "))
-	return kw, field{s[j+1:], len([]rune(s[:j+1])) + 1}
-}
-
 // tsReal reads a positive resistance.
 func tsReal(f field, pos Pos, errs *ErrorList) float64 {
 	v, msg := spec.ParsePlain(f.text)
@@ -365,12 +350,11 @@ func tsReal(f field, pos Pos, errs *ErrorList) float64 {
 func (t *Touchstone) option(name string, ln line, errs *ErrorList) float64 {
 	unit := 1e9
 	hash := strings.Index(ln.text, "#")
-	ws := words(ln.text[hash+1:])
-	off := len([]rune(ln.text[:hash+1])) // rune column offset of the text after '#'
+	ws := field{ln.text[hash+1:], len([]rune(ln.text[:hash+1])) + 1}.words()
 
 	for k := 0; k < len(ws); k++ {
 		f := ws[k]
-		pos := Pos{File: name, Line: ln.no, Col: f.col + off}
+		pos := Pos{File: name, Line: ln.no, Col: f.col}
 		switch w := strings.ToUpper(f.text); w {
 		case "HZ":
 			unit = 1
@@ -392,7 +376,7 @@ func (t *Touchstone) option(name string, ln line, errs *ErrorList) float64 {
 				continue
 			}
 			k++
-			t.R = tsReal(ws[k], Pos{File: name, Line: ln.no, Col: ws[k].col + off}, errs)
+			t.R = tsReal(ws[k], Pos{File: name, Line: ln.no, Col: ws[k].col}, errs)
 		default:
 			errs.Add(pos, ErrSyntax, "unknown option %q: the option line is # <Hz|kHz|MHz|GHz> <S|Y|Z> <MA|DB|RI> R <n>", f.text)
 		}

@@ -185,6 +185,8 @@ func TestTouchstoneErrors(t *testing.T) {
 		{"a.s1p", "100 0.1 0\n", "a.s1p:1:1: data before the option line", ErrMissing},
 		{"a.s2p", "[Version] 2.0\n# MHz S MA R 50\n[Number of Ports] 2\n[Network Data]\n100 0.1 0 0.5 -30 0.5 -30 0.1 0\n[End]\n", "a.s2p: a version 2 two-port file needs [Two-Port Data Order]", ErrMissing},
 		{"a.dat", "# MHz S MA\n100 0.1 0 0.5\n", "a.dat:2:1: cannot tell the number of ports", ErrMissing},
+		// The version is a number as the data's numbers are: NaN is none.
+		{"a.s1p", "[Version] NaN\n# MHz S MA R 50\n[Number of Ports] 1\n[Network Data]\n100 0.1 0\n[End]\n", "a.s1p:1:11: [Version] NaN: zapnet reads versions 1.x and 2.x", ErrUnsupported},
 	} {
 		_, err := ReadTouchstone(c.name, []byte(c.src))
 		if err == nil || !strings.Contains(err.Error(), c.want) {
