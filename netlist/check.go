@@ -184,21 +184,10 @@ func problems(e *Element, skip map[string]bool) []*Error {
 		}
 	}
 	// A window of two ratings must be open: its low side below its high.
-	var lo, hi *spec.Param
-	for i, sp := range k.Params {
-		if sp.Rates != nil && sp.Rates.Measure == spec.LowVoltage {
-			lo = &k.Params[i]
-		}
-		if sp.Rates != nil && sp.Rates.Measure == spec.HighVoltage {
-			hi = &k.Params[i]
-		}
-	}
-	if lo != nil && hi != nil {
-		l, okl := e.Values.Lookup(lo.Key)
-		h, okh := e.Values.Lookup(hi.Key)
-		if okl && okh && !(l < h) {
-			out = append(out, &Error{Err: ErrValue, Msg: fmt.Sprintf("%s %s: %s %s is not below %s %s", k.Name, e.Name, lo.Key, spec.FormatSI(l, lo.Unit), hi.Key, spec.FormatSI(h, hi.Unit))})
-		}
+	lo, l, okl := e.Rating(spec.LowVoltage)
+	hi, h, okh := e.Rating(spec.HighVoltage)
+	if okl && okh && !(l < h) {
+		out = append(out, &Error{Err: ErrValue, Msg: fmt.Sprintf("%s %s: %s %s is not below %s %s", k.Name, e.Name, lo.Key, spec.FormatSI(l, lo.Unit), hi.Key, spec.FormatSI(h, hi.Unit))})
 	}
 	return out
 }
