@@ -78,12 +78,8 @@ func (p *parser) readParam(k *devices.Kind, kv rawParam, vals *spec.Values, skip
 			return false
 		}
 		if w.Path {
-			// A file named in a deck is found beside the file that names it.
-			path := kv.val
-			if path != "" && !filepath.IsAbs(path) {
-				path = filepath.Join(filepath.Dir(kv.keyPos.File), path)
-			}
-			if fi, err := os.Stat(path); path == "" || err != nil || fi.IsDir() {
+			path, ok := deckFile(kv)
+			if !ok {
 				p.errs.Add(kv.valPos, ErrFile, "%s file %s: no such file", kv.key, kv.val)
 				return false
 			}
@@ -130,6 +126,17 @@ func (p *parser) readParam(k *devices.Kind, kv rawParam, vals *spec.Values, skip
 	}
 	vals.Set(kv.key, v) // the rule was checked above
 	return true
+}
+
+// deckFile resolves the file path kv names beside the file that names it,
+// as a deck's files are found, and says whether a file is there.
+func deckFile(kv rawParam) (string, bool) {
+	path := kv.val
+	if path != "" && !filepath.IsAbs(path) {
+		path = filepath.Join(filepath.Dir(kv.keyPos.File), path)
+	}
+	fi, err := os.Stat(path)
+	return path, path != "" && err == nil && !fi.IsDir()
 }
 
 // merge builds an element's values: the part's, then the element's own,
@@ -560,24 +567,20 @@ func (p *parser) strikeParam(re *rawElement, w *waveforms.Waveform, bad bool, kv
 		p.errs.Add(kv.keyPos, ErrUnknown, "%s is a parameter of waveform %s, not of %s", kv.key, strings.Join(taking, ", "), w.Name)
 		return
 	}
-	if wd := w.Word(kv.key); wd != nil && !wd.Path {
-		if m := wordProblem(re.kind, wd, kv.val); m != "" {
+	if wd := w.Word(kv.key); wd != nil {
+		val := kv.val
+		if wd.Path {
+			path, ok := deckFile(kv)
+			if !ok {
+				p.errs.Add(kv.valPos, ErrFile, "waveform file %s: no such file", kv.val)
+				return
+			}
+			val = path
+		} else if m := wordProblem(re.kind, wd, kv.val); m != "" {
 			p.errs.Add(kv.valPos, ErrValue, "%s", m)
 			return
 		}
-		own.vals.SetWord(kv.key, kv.val)
-		return
-	}
-	if wd := w.Word(kv.key); wd != nil {
-		path := kv.val
-		if path != "" && !filepath.IsAbs(path) {
-			path = filepath.Join(filepath.Dir(kv.keyPos.File), path)
-		}
-		if fi, err := os.Stat(path); path == "" || err != nil || fi.IsDir() {
-			p.errs.Add(kv.valPos, ErrFile, "waveform file %s: no such file", kv.val)
-			return
-		}
-		own.vals.SetWord(kv.key, path)
+		own.vals.SetWord(kv.key, val)
 		return
 	}
 	sp := w.Param(kv.key)
