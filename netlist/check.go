@@ -24,17 +24,17 @@ type ownParams struct {
 // numValue parses text as a value of a parameter in unit under rule, and
 // returns a message for the user when it is not one.
 func numValue(what string, unit spec.Unit, r spec.Rule, text string) (float64, string) {
-	n, msg := parseNumber(text, false)
+	n, msg := spec.ParseNumber(text, false)
 	if msg != "" {
 		return 0, msg
 	}
-	if n.unit != "" && n.unit != unit {
-		return 0, fmt.Sprintf("%s is in %s, but %s is in %s", text, n.unit.Word(), what, unit.Word())
+	if n.Unit != "" && n.Unit != unit {
+		return 0, fmt.Sprintf("%s is in %s, but %s is in %s", text, n.Unit.Word(), what, unit.Word())
 	}
-	if m := r.Check(n.val); m != "" {
+	if m := r.Check(n.Value); m != "" {
 		return 0, fmt.Sprintf("%s %s (got %s)", what, m, text)
 	}
-	return n.val, ""
+	return n.Value, ""
 }
 
 // wordProblem checks a word parameter of kind k and returns a message when
