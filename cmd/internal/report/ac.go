@@ -55,11 +55,8 @@ func ACTables(w io.Writer, res *signal.Result, opt *TableOptions) error {
 		opt = &TableOptions{}
 	}
 	ew := &errWriter{w: w}
-	switch {
-	case opt.Title != "" && opt.Deck != "":
-		fmt.Fprintf(ew, "%s (%s)\n\n", opt.Title, opt.Deck)
-	case opt.Title != "" || opt.Deck != "":
-		fmt.Fprintf(ew, "%s%s\n\n", opt.Title, opt.Deck)
+	if s := titleLine(opt.Title, opt.Deck); s != "" {
+		fmt.Fprintf(ew, "%s\n\n", s)
 	}
 	fmt.Fprintf(ew, "Small signal at the operating point (strike off, supplies on): the drive is an ideal source at %s, biased at %s against %s.\n\n",
 		res.Drive.Node, biasText(res.Drive.Bias), res.Drive.Ref)
