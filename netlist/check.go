@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 
@@ -41,7 +42,7 @@ func numValue(what string, unit spec.Unit, r spec.Rule, text string) (float64, s
 // the word is not allowed.
 func wordProblem(k *devices.Kind, w *spec.Word, val string) string {
 	switch {
-	case w.Choices != nil && !contains(w.Choices, val):
+	case w.Choices != nil && !slices.Contains(w.Choices, val):
 		return fmt.Sprintf("%s %s is %s, not %s%s", k.Name, w.Key, orList(w.Choices), val, didYouMean(val, w.Choices))
 	case w.Node:
 		if m := nameProblem(val); m != "" {
@@ -57,15 +58,6 @@ func orList(words []string) string {
 		return strings.Join(words, "")
 	}
 	return strings.Join(words[:len(words)-1], ", ") + " or " + words[len(words)-1]
-}
-
-func contains(list []string, s string) bool {
-	for _, x := range list {
-		if x == s {
-			return true
-		}
-	}
-	return false
 }
 
 // readParam parses one key=value of an element or part of kind k into vals
@@ -494,7 +486,7 @@ func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
 			hasLevel = true
 			p.strikeLevels(e, w, bad, kv)
 		case "polarity":
-			if !contains(polarityWords, kv.val) {
+			if !slices.Contains(polarityWords, kv.val) {
 				p.errs.Add(kv.valPos, ErrValue, "strike polarity is pos, neg or both, not %s%s", kv.val, didYouMean(kv.val, polarityWords))
 				continue
 			}
