@@ -457,7 +457,6 @@ func (p *parser) plausible(e *Element, own *ownParams) {
 // decides the unit of the levels and which parameters are allowed.
 func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
 	e := &Element{Kind: re.kind, Name: re.name, Nodes: re.nodes, Pos: re.kindPos, Polarity: "pos"}
-	names := waveforms.Names()
 	var w *waveforms.Waveform
 	bad := false // the waveform is unknown: its parameters cannot be judged
 	for _, kv := range re.params {
@@ -465,7 +464,8 @@ func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
 			continue
 		}
 		if w = waveforms.Lookup(kv.val); w == nil {
-			p.errs.Add(kv.valPos, ErrUnknown, "unknown waveform %s%s; the waveforms are %s", kv.val, didYouMean(kv.val, names), strings.Join(catalogueNames(), ", "))
+			names := catalogueNames()
+			p.errs.Add(kv.valPos, ErrUnknown, "unknown waveform %s%s; the waveforms are %s", kv.val, didYouMean(kv.val, names), strings.Join(names, ", "))
 			bad = true
 		}
 	}
