@@ -131,7 +131,7 @@ func marginCheckText(c *whatif.MarginCheck) (col, note string) {
 // worst margin.
 func SensitivityTable(w io.Writer, r *whatif.SensitivityResult, title, deck string) error {
 	ew := &errWriter{w: w}
-	pct := fmt.Sprintf("%g %%", 100*r.Step)
+	pct := spec.FormatFraction(r.Step)
 	which := "worst margin"
 	if r.Limit != "" {
 		which = "margin of " + strings.Replace(r.Limit, ".", " ", 1)
