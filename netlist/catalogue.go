@@ -73,12 +73,8 @@ func SplitTarget(s string) (elem, param string, ok bool) {
 	return s[:k], s[k+1:], true
 }
 
-// suggest and editDistance are spec's, which the number reader's hints
-// use too.
-var (
-	suggest      = spec.Suggest
-	editDistance = spec.EditDistance
-)
+// suggest is spec's, which the number reader's hints use too.
+var suggest = spec.Suggest
 
 // didYouMean renders the suggestion clause of a message.
 func didYouMean(s string, cands []string) string {

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 
@@ -24,24 +25,24 @@ type ownParams struct {
 // numValue parses text as a value of a parameter in unit under rule, and
 // returns a message for the user when it is not one.
 func numValue(what string, unit spec.Unit, r spec.Rule, text string) (float64, string) {
-	n, msg := parseNumber(text, false)
+	n, msg := spec.ParseNumber(text, false)
 	if msg != "" {
 		return 0, msg
 	}
-	if n.unit != "" && n.unit != unit {
-		return 0, fmt.Sprintf("%s is in %s, but %s is in %s", text, n.unit.Word(), what, unit.Word())
+	if n.Unit != "" && n.Unit != unit {
+		return 0, fmt.Sprintf("%s is in %s, but %s is in %s", text, n.Unit.Word(), what, unit.Word())
 	}
-	if m := r.Check(n.val); m != "" {
+	if m := r.Check(n.Value); m != "" {
 		return 0, fmt.Sprintf("%s %s (got %s)", what, m, text)
 	}
-	return n.val, ""
+	return n.Value, ""
 }
 
 // wordProblem checks a word parameter of kind k and returns a message when
 // the word is not allowed.
 func wordProblem(k *devices.Kind, w *spec.Word, val string) string {
 	switch {
-	case w.Choices != nil && !contains(w.Choices, val):
+	case w.Choices != nil && !slices.Contains(w.Choices, val):
 		return fmt.Sprintf("%s %s is %s, not %s%s", k.Name, w.Key, orList(w.Choices), val, didYouMean(val, w.Choices))
 	case w.Node:
 		if m := nameProblem(val); m != "" {
@@ -59,15 +60,6 @@ func orList(words []string) string {
 	return strings.Join(words[:len(words)-1], ", ") + " or " + words[len(words)-1]
 }
 
-func contains(list []string, s string) bool {
-	for _, x := range list {
-		if x == s {
-			return true
-		}
-	}
-	return false
-}
-
 // readParam parses one key=value of an element or part of kind k into vals
 // and reports what is wrong with it. Keys written but unusable are added to
 // skip when it is not nil, so that they are not reported again as missing.
@@ -78,12 +70,8 @@ func (p *parser) readParam(k *devices.Kind, kv rawParam, vals *spec.Values, skip
 			return false
 		}
 		if w.Path {
-			// A file named in a deck is found beside the file that names it.
-			path := kv.val
-			if path != "" && !filepath.IsAbs(path) {
-				path = filepath.Join(filepath.Dir(kv.keyPos.File), path)
-			}
-			if fi, err := os.Stat(path); path == "" || err != nil || fi.IsDir() {
+			path, ok := deckFile(kv)
+			if !ok {
 				p.errs.Add(kv.valPos, ErrFile, "%s file %s: no such file", kv.key, kv.val)
 				return false
 			}
@@ -130,6 +118,17 @@ func (p *parser) readParam(k *devices.Kind, kv rawParam, vals *spec.Values, skip
 	}
 	vals.Set(kv.key, v) // the rule was checked above
 	return true
+}
+
+// deckFile resolves the file path kv names beside the file that names it,
+// as a deck's files are found, and says whether a file is there.
+func deckFile(kv rawParam) (string, bool) {
+	path := kv.val
+	if path != "" && !filepath.IsAbs(path) {
+		path = filepath.Join(filepath.Dir(kv.keyPos.File), path)
+	}
+	fi, err := os.Stat(path)
+	return path, path != "" && err == nil && !fi.IsDir()
 }
 
 // merge builds an element's values: the part's, then the element's own,
@@ -184,21 +183,10 @@ func problems(e *Element, skip map[string]bool) []*Error {
 		}
 	}
 	// A window of two ratings must be open: its low side below its high.
-	var lo, hi *spec.Param
-	for i, sp := range k.Params {
-		if sp.Rates != nil && sp.Rates.Measure == spec.LowVoltage {
-			lo = &k.Params[i]
-		}
-		if sp.Rates != nil && sp.Rates.Measure == spec.HighVoltage {
-			hi = &k.Params[i]
-		}
-	}
-	if lo != nil && hi != nil {
-		l, okl := e.Values.Lookup(lo.Key)
-		h, okh := e.Values.Lookup(hi.Key)
-		if okl && okh && !(l < h) {
-			out = append(out, &Error{Err: ErrValue, Msg: fmt.Sprintf("%s %s: %s %s is not below %s %s", k.Name, e.Name, lo.Key, spec.FormatSI(l, lo.Unit), hi.Key, spec.FormatSI(h, hi.Unit))})
-		}
+	lo, l, okl := e.Rating(spec.LowVoltage)
+	hi, h, okh := e.Rating(spec.HighVoltage)
+	if okl && okh && !(l < h) {
+		out = append(out, &Error{Err: ErrValue, Msg: fmt.Sprintf("%s %s: %s %s is not below %s %s", k.Name, e.Name, lo.Key, spec.FormatSI(l, lo.Unit), hi.Key, spec.FormatSI(h, hi.Unit))})
 	}
 	return out
 }
@@ -469,7 +457,6 @@ func (p *parser) plausible(e *Element, own *ownParams) {
 // decides the unit of the levels and which parameters are allowed.
 func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
 	e := &Element{Kind: re.kind, Name: re.name, Nodes: re.nodes, Pos: re.kindPos, Polarity: "pos"}
-	names := waveforms.Names()
 	var w *waveforms.Waveform
 	bad := false // the waveform is unknown: its parameters cannot be judged
 	for _, kv := range re.params {
@@ -477,7 +464,8 @@ func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
 			continue
 		}
 		if w = waveforms.Lookup(kv.val); w == nil {
-			p.errs.Add(kv.valPos, ErrUnknown, "unknown waveform %s%s; the waveforms are %s", kv.val, didYouMean(kv.val, names), strings.Join(catalogueNames(), ", "))
+			names := catalogueNames()
+			p.errs.Add(kv.valPos, ErrUnknown, "unknown waveform %s%s; the waveforms are %s", kv.val, didYouMean(kv.val, names), strings.Join(names, ", "))
 			bad = true
 		}
 	}
@@ -498,7 +486,7 @@ func (p *parser) checkStrike(re *rawElement, c *Circuit) *Element {
 			hasLevel = true
 			p.strikeLevels(e, w, bad, kv)
 		case "polarity":
-			if !contains(polarityWords, kv.val) {
+			if !slices.Contains(polarityWords, kv.val) {
 				p.errs.Add(kv.valPos, ErrValue, "strike polarity is pos, neg or both, not %s%s", kv.val, didYouMean(kv.val, polarityWords))
 				continue
 			}
@@ -571,24 +559,20 @@ func (p *parser) strikeParam(re *rawElement, w *waveforms.Waveform, bad bool, kv
 		p.errs.Add(kv.keyPos, ErrUnknown, "%s is a parameter of waveform %s, not of %s", kv.key, strings.Join(taking, ", "), w.Name)
 		return
 	}
-	if wd := w.Word(kv.key); wd != nil && !wd.Path {
-		if m := wordProblem(re.kind, wd, kv.val); m != "" {
+	if wd := w.Word(kv.key); wd != nil {
+		val := kv.val
+		if wd.Path {
+			path, ok := deckFile(kv)
+			if !ok {
+				p.errs.Add(kv.valPos, ErrFile, "waveform file %s: no such file", kv.val)
+				return
+			}
+			val = path
+		} else if m := wordProblem(re.kind, wd, kv.val); m != "" {
 			p.errs.Add(kv.valPos, ErrValue, "%s", m)
 			return
 		}
-		own.vals.SetWord(kv.key, kv.val)
-		return
-	}
-	if wd := w.Word(kv.key); wd != nil {
-		path := kv.val
-		if path != "" && !filepath.IsAbs(path) {
-			path = filepath.Join(filepath.Dir(kv.keyPos.File), path)
-		}
-		if fi, err := os.Stat(path); path == "" || err != nil || fi.IsDir() {
-			p.errs.Add(kv.valPos, ErrFile, "waveform file %s: no such file", kv.val)
-			return
-		}
-		own.vals.SetWord(kv.key, path)
+		own.vals.SetWord(kv.key, val)
 		return
 	}
 	sp := w.Param(kv.key)

@@ -142,22 +142,22 @@ func (p *parser) windowValue(kv rawParam, unit spec.Unit) float64 {
 
 // accuracyValue reads accuracy=, a fraction or a percentage (0.001, 0.1%).
 func (p *parser) accuracyValue(kv rawParam) float64 {
-	n, msg := parseNumber(kv.val, true)
+	n, msg := spec.ParseNumber(kv.val, true)
 	switch {
 	case msg != "":
-	case n.unit != "":
-		msg = fmt.Sprintf("accuracy is a fraction or a percentage (0.001 or 0.1%%), not in %s", n.unit.Word())
-	case n.percent:
-		n.val /= 100
+	case n.Unit != "":
+		msg = fmt.Sprintf("accuracy is a fraction or a percentage (0.001 or 0.1%%), not in %s", n.Unit.Word())
+	case n.Percent:
+		n.Value /= 100
 	}
-	if msg == "" && !(n.val >= tightestAccuracy && n.val <= loosestAccuracy) {
+	if msg == "" && !(n.Value >= tightestAccuracy && n.Value <= loosestAccuracy) {
 		msg = fmt.Sprintf("accuracy %s is outside %s to %s", kv.val, spec.FormatFraction(tightestAccuracy), spec.FormatFraction(loosestAccuracy))
 	}
 	if msg != "" {
 		p.errs.Add(kv.valPos, ErrValue, "%s", msg)
 		return 0
 	}
-	return n.val
+	return n.Value
 }
 
 // problem is a deck error without a position yet.
@@ -386,19 +386,19 @@ func (p *parser) checkTolerances(c *Circuit) {
 				continue
 			}
 			seen[target] = rt.targetPos
-			n, m := parseNumber(rt.percent, true)
+			n, m := spec.ParseNumber(rt.percent, true)
 			switch {
 			case m != "":
 				p.errs.Add(rt.percentPos, ErrValue, "%s", m)
 				continue
-			case !n.percent:
+			case !n.Percent:
 				p.errs.Add(rt.percentPos, ErrValue, "a tolerance is a percentage such as 5%%, not %s", rt.percent)
 				continue
-			case !(n.val > 0 && n.val < 100):
+			case !(n.Value > 0 && n.Value < 100):
 				p.errs.Add(rt.percentPos, ErrValue, "a tolerance must be above 0%% and below 100%% (got %s)", rt.percent)
 				continue
 			}
-			c.Tolerances = append(c.Tolerances, Tolerance{Element: rt.elem, Param: rt.param, Percent: n.val, Dist: line.dist, Pos: rt.targetPos})
+			c.Tolerances = append(c.Tolerances, Tolerance{Element: rt.elem, Param: rt.param, Percent: n.Value, Dist: line.dist, Pos: rt.targetPos})
 		}
 	}
 }

@@ -8,6 +8,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"zapnet/devices/spec"
 )
 
 func mustParse(t *testing.T, src string) *Circuit {
@@ -263,8 +265,8 @@ func TestSuggest(t *testing.T) {
 		a, b string
 		d    int
 	}{{"kitten", "sitting", 3}, {"ab", "ba", 1}, {"", "abc", 3}, {"µF", "uF", 1}} {
-		if got := editDistance(tt.a, tt.b); got != tt.d {
-			t.Errorf("editDistance(%q, %q) = %d, want %d", tt.a, tt.b, got, tt.d)
+		if got := spec.EditDistance(tt.a, tt.b); got != tt.d {
+			t.Errorf("spec.EditDistance(%q, %q) = %d, want %d", tt.a, tt.b, got, tt.d)
 		}
 	}
 }

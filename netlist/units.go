@@ -10,22 +10,6 @@ import (
 	"zapnet/waveforms"
 )
 
-// number is a numeric literal of a deck: its value in SI units, the unit
-// written after it ("" when none) and whether it was a percentage.
-type number struct {
-	val     float64
-	unit    spec.Unit
-	percent bool
-}
-
-// parseNumber reads a number by the deck's rules (spec.ParseNumber), a
-// trailing % taken when allowPercent is set. It returns a message fit for
-// a user when the text is not a number.
-func parseNumber(s string, allowPercent bool) (number, string) {
-	n, msg := spec.ParseNumber(s, allowPercent)
-	return number{val: n.Value, unit: n.Unit, percent: n.Percent}, msg
-}
-
 // ParseValue reads text as the deck reads a parameter's value: a number with
 // an optional SI prefix and unit, where a unit written must be unit and the
 // value must keep rule. what names the value in the error ("--max").
@@ -57,17 +41,17 @@ func ParseLevels(list string, w *waveforms.Waveform) ([]float64, error) {
 
 // levelValue reads one level of waveform w (nil: unknown, any unit).
 func levelValue(text string, w *waveforms.Waveform) (float64, string) {
-	n, msg := parseNumber(text, false)
+	n, msg := spec.ParseNumber(text, false)
 	switch {
 	case msg != "":
 		return 0, msg
-	case n.unit != "" && w != nil && n.unit != w.Unit:
+	case n.Unit != "" && w != nil && n.Unit != w.Unit:
 		if w.Unit == "" {
-			return 0, fmt.Sprintf("%s is in %s, but the levels of waveform %s are plain scale factors", text, n.unit.Word(), w.Name)
+			return 0, fmt.Sprintf("%s is in %s, but the levels of waveform %s are plain scale factors", text, n.Unit.Word(), w.Name)
 		}
-		return 0, fmt.Sprintf("%s is in %s, but the levels of waveform %s are in %s", text, n.unit.Word(), w.Name, w.Unit.Word())
-	case !(n.val > 0) || math.IsInf(n.val, 0):
+		return 0, fmt.Sprintf("%s is in %s, but the levels of waveform %s are in %s", text, n.Unit.Word(), w.Name, w.Unit.Word())
+	case !(n.Value > 0) || math.IsInf(n.Value, 0):
 		return 0, fmt.Sprintf("level %s must be positive (polarity= gives the sign)", text)
 	}
-	return n.val, ""
+	return n.Value, ""
 }

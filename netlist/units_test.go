@@ -58,20 +58,20 @@ func TestParseNumber(t *testing.T) {
 		{in: ".", msg: `"." is not a number`},
 	}
 	for _, tt := range tests {
-		n, msg := parseNumber(tt.in, false)
+		n, msg := spec.ParseNumber(tt.in, false)
 		if msg != tt.msg {
-			t.Errorf("parseNumber(%q) message %q, want %q", tt.in, msg, tt.msg)
+			t.Errorf("spec.ParseNumber(%q) message %q, want %q", tt.in, msg, tt.msg)
 			continue
 		}
 		if msg != "" {
 			continue
 		}
-		if n.val != tt.val || string(n.unit) != tt.unit {
-			t.Errorf("parseNumber(%q) = %g %q, want %g %q", tt.in, n.val, n.unit, tt.val, tt.unit)
+		if n.Value != tt.val || string(n.Unit) != tt.unit {
+			t.Errorf("spec.ParseNumber(%q) = %g %q, want %g %q", tt.in, n.Value, n.Unit, tt.val, tt.unit)
 		}
 	}
-	if n, msg := parseNumber("5%", true); msg != "" || !n.percent || n.val != 5 {
-		t.Errorf("parseNumber(5%%, true) = %+v %q", n, msg)
+	if n, msg := spec.ParseNumber("5%", true); msg != "" || !n.Percent || n.Value != 5 {
+		t.Errorf("spec.ParseNumber(5%%, true) = %+v %q", n, msg)
 	}
 }
 

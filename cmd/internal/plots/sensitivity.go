@@ -3,7 +3,6 @@ package plots
 import (
 	"fmt"
 	"math"
-	"strconv"
 	"strings"
 
 	"gonum.org/v1/plot"
@@ -11,6 +10,7 @@ import (
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
+	"zapnet/devices/spec"
 	"zapnet/mna/study/whatif"
 )
 
@@ -42,7 +42,8 @@ func SensitivityBars(title string, res *whatif.SensitivityResult, opt *Options) 
 	if res.Limit != "" {
 		quantity = "margin of " + strings.Replace(strings.TrimSpace(res.Limit), ".", " ", 1)
 	}
-	what := strings.ToUpper(quantity[:1]) + quantity[1:] + " with each parameter changed by ±" + stepText(res.Step)
+	step := spec.FormatFraction(res.Step) // as the table prints it
+	what := strings.ToUpper(quantity[:1]) + quantity[1:] + " with each parameter changed by ±" + step
 	caption := what
 	if len(rows) > MaxBars {
 		caption += fmt.Sprintf(" (the first %d of %d parameters)", MaxBars, len(rows))
@@ -71,7 +72,6 @@ func SensitivityBars(title string, res *whatif.SensitivityResult, opt *Options) 
 	pad := 0.05 * (hi - lo)
 	p.X.Min, p.X.Max = lo-pad, hi+pad
 
-	step := stepText(res.Step)
 	entries := []legendEntry{{"−" + step, minus}, {"+" + step, plus}}
 	fig := Figure{Name: "sensitivity", Caption: caption, Series: []string{"−" + step, "+" + step}}
 	lines, err := marginLines(p, res.Baseline, lo, hi)
@@ -178,16 +178,4 @@ func vline(x, y0, y1 float64, s draw.LineStyle) (*plotter.Line, error) {
 	}
 	l.LineStyle = s
 	return l, nil
-}
-
-// stepText writes a fraction as a percentage for a legend: 0.1 → "10 %".
-func stepText(f float64) string {
-	return strconv.FormatFloat(round4(100*f), 'g', -1, 64) + " %"
-}
-
-// round4 keeps four significant digits, as the tables print.
-func round4(v float64) float64 {
-	s := strconv.FormatFloat(v, 'g', 4, 64)
-	r, _ := strconv.ParseFloat(s, 64)
-	return r
 }

@@ -55,11 +55,8 @@ func ACTables(w io.Writer, res *signal.Result, opt *TableOptions) error {
 		opt = &TableOptions{}
 	}
 	ew := &errWriter{w: w}
-	switch {
-	case opt.Title != "" && opt.Deck != "":
-		fmt.Fprintf(ew, "%s (%s)\n\n", opt.Title, opt.Deck)
-	case opt.Title != "" || opt.Deck != "":
-		fmt.Fprintf(ew, "%s%s\n\n", opt.Title, opt.Deck)
+	if s := titleLine(opt.Title, opt.Deck); s != "" {
+		fmt.Fprintf(ew, "%s\n\n", s)
 	}
 	fmt.Fprintf(ew, "Small signal at the operating point (strike off, supplies on): the drive is an ideal source at %s, biased at %s against %s.\n\n",
 		res.Drive.Node, biasText(res.Drive.Bias), res.Drive.Ref)
@@ -107,17 +104,11 @@ func transferTable(w io.Writer, res *signal.Result, rows []int) {
 
 // impedanceTable prints the impedance at the drive and each element's own.
 func impedanceTable(w io.Writer, res *signal.Result, rows []int) {
-	head := []string{"frequency", "at " + res.Drive.Node}
-	var names []string
-	for n := range res.Elements {
-		names = append(names, n)
-	}
-	names = sortedByOrder(names, res.ElementOrder)
-	head = append(head, names...)
+	head := append([]string{"frequency", "at " + res.Drive.Node}, res.ElementOrder...)
 	var body [][]string
 	for _, k := range rows {
 		row := []string{si(res.Freq[k], "Hz"), zText(res.Impedance, k)}
-		for _, n := range names {
+		for _, n := range res.ElementOrder {
 			row = append(row, zText(res.Elements[n], k))
 		}
 		body = append(body, row)
@@ -237,26 +228,6 @@ func zText(im *signal.Impedance, k int) string {
 	return si(im.MagOhm[k], "Ω") + " " + degText(im.PhaseDeg[k])
 }
 
-// sortedByOrder returns names in the order of order (names not in it last).
-func sortedByOrder(names, order []string) []string {
-	var out []string
-	seen := map[string]bool{}
-	for _, o := range order {
-		for _, n := range names {
-			if n == o && !seen[n] {
-				out = append(out, n)
-				seen[n] = true
-			}
-		}
-	}
-	for _, n := range names {
-		if !seen[n] {
-			out = append(out, n)
-		}
-	}
-	return out
-}
-
 // ACCSV writes the sweep as one CSV table: frequency, then per target its
 // gain and phase, the impedance at the drive, each element's impedance and,
 // with a two-port, its S-parameters. Plain column names with units, %.9g.
@@ -275,11 +246,7 @@ func ACCSV(w io.Writer, res *signal.Result) error {
 		cols = append(cols, func(k int) float64 { return im.MagOhm[k] }, func(k int) float64 { return im.PhaseDeg[k] })
 	}
 	addZ("Zin "+res.Drive.Node, res.Impedance)
-	var names []string
-	for n := range res.Elements {
-		names = append(names, n)
-	}
-	for _, n := range sortedByOrder(names, res.ElementOrder) {
+	for _, n := range res.ElementOrder {
 		addZ(n, res.Elements[n])
 	}
 	if tp := res.TwoPort; tp != nil {

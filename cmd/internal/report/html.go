@@ -267,7 +267,7 @@ func htmlTableOf(id, title string, head []string, rows [][]string) htmlTable {
 }
 
 func cellClass(head string) string {
-	if textColumns[head] || head == "verdict" {
+	if textColumns[head] {
 		return ""
 	}
 	return "num"

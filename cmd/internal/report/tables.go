@@ -32,13 +32,8 @@ func Tables(w io.Writer, runs []study.Run, opt *TableOptions) error {
 		opt = &TableOptions{}
 	}
 	ew := &errWriter{w: w}
-	switch {
-	case opt.Title != "" && opt.Deck != "":
-		fmt.Fprintf(ew, "%s (%s)\n", opt.Title, opt.Deck)
-	case opt.Title != "":
-		fmt.Fprintf(ew, "%s\n", opt.Title)
-	case opt.Deck != "":
-		fmt.Fprintf(ew, "%s\n", opt.Deck)
+	if s := titleLine(opt.Title, opt.Deck); s != "" {
+		fmt.Fprintln(ew, s)
 	}
 	if !opt.SummaryOnly {
 		for i := range runs {
@@ -51,6 +46,15 @@ func Tables(w io.Writer, runs []study.Run, opt *TableOptions) error {
 		return ew.err
 	}
 	return Summary(w, runs)
+}
+
+// titleLine is the line a report starts with: the deck's title and its
+// path, "TITLE (DECK)", either alone, or "" when neither is known.
+func titleLine(title, deck string) string {
+	if title != "" && deck != "" {
+		return title + " (" + deck + ")"
+	}
+	return title + deck
 }
 
 // Summary prints one row per run (variant, level, polarity, verdict, worst

@@ -20,13 +20,8 @@ func init() {
 
 // heading prints the title and deck line the run tables start with.
 func heading(w io.Writer, title, deck, what string) {
-	switch {
-	case title != "" && deck != "":
-		fmt.Fprintf(w, "%s (%s)\n", title, deck)
-	case title != "":
-		fmt.Fprintf(w, "%s\n", title)
-	case deck != "":
-		fmt.Fprintf(w, "%s\n", deck)
+	if s := titleLine(title, deck); s != "" {
+		fmt.Fprintln(w, s)
 	}
 	fmt.Fprintf(w, "\n%s\n", what)
 }
@@ -136,7 +131,7 @@ func marginCheckText(c *whatif.MarginCheck) (col, note string) {
 // worst margin.
 func SensitivityTable(w io.Writer, r *whatif.SensitivityResult, title, deck string) error {
 	ew := &errWriter{w: w}
-	pct := fmt.Sprintf("%g %%", 100*r.Step)
+	pct := spec.FormatFraction(r.Step)
 	which := "worst margin"
 	if r.Limit != "" {
 		which = "margin of " + strings.Replace(r.Limit, ".", " ", 1)
