@@ -195,20 +195,14 @@ func (d *TablePath) Probes() []Probe {
 
 // Probe implements Prober: dst[0] is ipath, dst[1] beyond, at x.
 func (d *TablePath) Probe(x []float64, dst []float64) {
-	at := func(i int) float64 {
-		if i < 0 {
-			return 0
-		}
-		return x[i]
-	}
-	u := at(d.d) - at(d.r)
+	u := at(x, d.d) - at(x, d.r)
 	i, _ := d.low.Eval(u)
 	ipath := i + d.gmin*u
 	beyond := d.low.Beyond(u)
 	if d.up != nil {
 		w := u - d.upRef
 		if d.rail {
-			w = at(d.d) - at(d.rl)
+			w = at(x, d.d) - at(x, d.rl)
 		}
 		iu, _ := d.up.Eval(w)
 		if d.rail {
