@@ -38,19 +38,19 @@ var clampKind = &Kind{Kind: spec.Kind{
 		Params: []spec.Param{
 			spec.Required("vbr", spec.Volt, spec.Positive).UnlessWord("table").
 				WarnAbove(1000, "clamp %s breaks down at %s: unusually high for a clamp"),
-			spec.Default("it", spec.Ampere, spec.Positive, 1e-3).As(spec.Model),
-			spec.Default("nbr", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+			keyIt,
+			keyNbr,
 			spec.Default("rdyn", spec.Ohm, spec.NonNegative, 0).
 				WarnAbove(100, "clamp %s has rdyn %s: a clamp's dynamic resistance is usually below 1 Ω"),
 			spec.Default("ls", spec.Henry, spec.NonNegative, 0),
 			spec.Default("cj", spec.Farad, spec.NonNegative, 0),
 			spec.Default("vj", spec.Volt, spec.Positive, 0.7).As(spec.Model),
 			spec.Default("m", spec.Dimensionless, spec.Fraction, 0).As(spec.Model),
-			spec.Default("is", spec.Ampere, spec.Positive, 1e-14).As(spec.Model),
-			spec.Default("n", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+			keyIs,
+			keyN,
 			spec.Limit("vrwm", spec.Volt, spec.Positive, spec.StandOff, true, "stand-off voltage"),
-			spec.Limit("ipp", spec.Ampere, spec.Positive, spec.PeakCurrent, true, "peak current"),
-			spec.Limit("emax", spec.Joule, spec.Positive, spec.Energy, true, "energy"),
+			ratingIpp,
+			ratingEmax,
 		},
 		Words: []spec.Word{
 			{Key: "polarity", Choices: []string{"uni", "bi"}, Default: "uni"},

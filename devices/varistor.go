@@ -53,8 +53,8 @@ func init() {
 				WarnAbove(100, "varistor %s has alpha %s: zinc-oxide varistors are about 20 to 50"),
 			spec.Default("rs", spec.Ohm, spec.NonNegative, 0),
 			spec.Default("c", spec.Farad, spec.NonNegative, 0),
-			spec.Limit("ipp", spec.Ampere, spec.Positive, spec.PeakCurrent, true, "peak current"),
-			spec.Limit("emax", spec.Joule, spec.Positive, spec.Energy, true, "energy"),
+			ratingIpp,
+			ratingEmax,
 		}},
 	}, New: newVaristor})
 }
