@@ -72,9 +72,7 @@ func (s *series) fluxRow(rows []StateRows) []StateRows {
 // stamp stamps the path.
 func (s *series) stamp(c *Context) {
 	if s.ls > 0 {
-		branchKCL(c, s.t, s.m, s.br)
-		c.Charge(s.kFlux, s.ls*c.V(s.br))
-		c.ChargeDeriv(s.kFlux, s.br, s.ls)
+		stampBranch(c, s.kFlux, s.t, s.m, s.br, s.ls)
 	}
 	if s.g > 0 {
 		c.Conductance(s.m, s.j, s.g)
