@@ -6,9 +6,8 @@ import "zapnet/devices/spec"
 //
 //	a –ls– m –rdyn– j –[junction ∥ junction charge]– b,   u = v(j) − v(b)
 //
-// The series inductance ls is a branch current i with flux λ = ls·i, its
-// branch equation v(a) − v(m) − dλ/dt = 0. rdyn is a plain conductance. A
-// zero ls or rdyn adds no unknown (m is a, or j is m). The junction carries
+// ls and rdyn are the series path of series.go (a zero one adds no
+// unknown). The junction carries
 // the current of clampLaw (uni or bi, see junction.go) plus the engine's
 // gmin, and the charge q(u) with C(u) = cj·(1+|u|/vj)^(−m) when cj > 0.
 //
@@ -21,12 +20,11 @@ type Clamp struct {
 	name  string
 	nodes [2]string
 	law   clampLaw
-	ls    float64 // H
-	grdyn float64 // 1/rdyn, S; 0: no rdyn
+	series
 
-	a, b, m, j, br int
-	kCharge, kFlux int
-	uold           float64 // limiting memory, V
+	b       int
+	kCharge int
+	uold    float64 // limiting memory, V
 }
 
 // clampKind is the clamp's description; the junction keys and their
@@ -38,19 +36,19 @@ var clampKind = &Kind{Kind: spec.Kind{
 		Params: []spec.Param{
 			spec.Required("vbr", spec.Volt, spec.Positive).UnlessWord("table").
 				WarnAbove(1000, "clamp %s breaks down at %s: unusually high for a clamp"),
-			spec.Default("it", spec.Ampere, spec.Positive, 1e-3).As(spec.Model),
-			spec.Default("nbr", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+			keyIt,
+			keyNbr,
 			spec.Default("rdyn", spec.Ohm, spec.NonNegative, 0).
 				WarnAbove(100, "clamp %s has rdyn %s: a clamp's dynamic resistance is usually below 1 Ω"),
 			spec.Default("ls", spec.Henry, spec.NonNegative, 0),
 			spec.Default("cj", spec.Farad, spec.NonNegative, 0),
 			spec.Default("vj", spec.Volt, spec.Positive, 0.7).As(spec.Model),
 			spec.Default("m", spec.Dimensionless, spec.Fraction, 0).As(spec.Model),
-			spec.Default("is", spec.Ampere, spec.Positive, 1e-14).As(spec.Model),
-			spec.Default("n", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+			keyIs,
+			keyN,
 			spec.Limit("vrwm", spec.Volt, spec.Positive, spec.StandOff, true, "stand-off voltage"),
-			spec.Limit("ipp", spec.Ampere, spec.Positive, spec.PeakCurrent, true, "peak current"),
-			spec.Limit("emax", spec.Joule, spec.Positive, spec.Energy, true, "energy"),
+			ratingIpp,
+			ratingEmax,
 		},
 		Words: []spec.Word{
 			{Key: "polarity", Choices: []string{"uni", "bi"}, Default: "uni"},
@@ -69,12 +67,9 @@ func newClamp(name string, nodes [2]string, v *spec.Values) (Device, error) {
 	vbr, it, nbr, is, n := v.Num("vbr"), v.Num("it"), v.Num("nbr"), v.Num("is"), v.Num("n")
 	rdyn, ls, cj, m, vj := v.Num("rdyn"), v.Num("ls"), v.Num("cj"), v.Num("m"), v.Num("vj")
 	bi := v.Word("polarity") == "bi"
-	d := &Clamp{name: name, nodes: nodes, ls: ls}
+	d := &Clamp{name: name, nodes: nodes, series: newSeries(ls, rdyn)}
 	d.law = newClampLaw(vbr, it, nbr, is, n, bi)
 	d.law.cj, d.law.vj, d.law.m = cj, vj, m
-	if rdyn > 0 {
-		d.grdyn = 1 / rdyn
-	}
 	return d, nil
 }
 
@@ -84,42 +79,21 @@ func (d *Clamp) Name() string { return d.name }
 // Layout implements Device.
 func (d *Clamp) Layout() Layout {
 	l := Layout{Terminals: []string{d.nodes[0], d.nodes[1]}}
-	switch {
-	case d.ls > 0 && d.grdyn > 0:
-		l.Internal = []string{"m", "j"}
-	case d.ls > 0 || d.grdyn > 0:
-		l.Internal = []string{"j"}
-	}
-	if d.ls > 0 {
-		l.Branches = []string{"ls"}
-	}
+	d.layout(&l, "j")
 	return l
 }
 
 // Bind implements Device.
 func (d *Clamp) Bind(n Nodes) []StateRows {
-	d.a, d.b = n.Terminals[0], n.Terminals[1]
-	d.m, d.j, d.br = d.a, d.a, Ground
-	switch {
-	case d.ls > 0 && d.grdyn > 0:
-		d.m, d.j = n.Internal[0], n.Internal[1]
-	case d.ls > 0:
-		d.m, d.j = n.Internal[0], n.Internal[0]
-	case d.grdyn > 0:
-		d.j = n.Internal[0]
-	}
+	d.b = n.Terminals[1]
+	d.bind(n.Terminals[0], n)
 	var rows []StateRows
-	d.kCharge, d.kFlux = -1, -1
+	d.kCharge = -1
 	if d.law.cj > 0 {
 		d.kCharge = len(rows)
 		rows = append(rows, StateRows{Plus: d.j, Minus: d.b})
 	}
-	if d.ls > 0 {
-		d.br = n.Branches[0]
-		d.kFlux = len(rows)
-		rows = append(rows, StateRows{Plus: Ground, Minus: d.br})
-	}
-	return rows
+	return d.fluxRow(rows)
 }
 
 // Reset implements Resetter: the limiting memory restarts at 0 V.
@@ -127,14 +101,7 @@ func (d *Clamp) Reset() { d.uold = 0 }
 
 // Eval implements Device.
 func (d *Clamp) Eval(c *Context) {
-	if d.ls > 0 {
-		branchKCL(c, d.a, d.m, d.br)
-		c.Charge(d.kFlux, d.ls*c.V(d.br))
-		c.ChargeDeriv(d.kFlux, d.br, d.ls)
-	}
-	if d.grdyn > 0 {
-		c.Conductance(d.m, d.j, d.grdyn)
-	}
+	d.stamp(c)
 	u := stampJunction(c, &d.law, d.j, d.b, &d.uold)
 	if d.kCharge >= 0 {
 		q, cap := d.law.charge(u)

@@ -49,9 +49,9 @@ func TestDiodeJacobian(t *testing.T) {
 			r.c.Gmin = 1e-12
 			for _, v := range []float64{0.72, 0.3, 0, -1, -5.0, -5.2, -5.35, -12.1} {
 				x := nlRandom(r.n, 1, uint64(vi*31+2))
-				x[d.k] = v
+				x[d.j] = v
 				if d.c >= 0 {
-					x[d.k] += x[d.c]
+					x[d.j] += x[d.c]
 				}
 				r.checkJacobian(t, x, fmt.Sprintf("diode %d c=%d v=%g", vi, c, v))
 			}
@@ -73,7 +73,7 @@ func TestDiodeLimitingAndNewton(t *testing.T) {
 	} {
 		d.Reset()
 		x := make([]float64, r.n)
-		x[d.k] = tc.v
+		x[d.j] = tc.v
 		r.eval(x, 0)
 		if !r.c.Limited || math.Abs(d.vold-tc.want) > 1e-12 {
 			t.Errorf("jump to %g V: limited=%v to %.12g, want %.12g", tc.v, r.c.Limited, d.vold, tc.want)

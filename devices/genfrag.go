@@ -37,7 +37,6 @@ type genNet struct {
 	sp    []int // per part: its spark unknown, or -1
 	st    []int // per part: its first local state, or -1
 	nst   int   // states in all
-	extra []int // every branch and spark unknown, for the idle stamp
 }
 
 func newGenNet(shape *waveforms.Fragment) *genNet {
@@ -70,7 +69,6 @@ func (g *genNet) bind(node, ref int, n Nodes) []StateRows {
 	g.nodes = n.Internal[:len(g.shape.Nodes)]
 	np := len(g.shape.Parts)
 	g.br, g.sp, g.st = make([]int, np), make([]int, np), make([]int, np)
-	g.extra = g.extra[:0]
 	var rows []StateRows
 	nb := 0
 	for k, p := range g.shape.Parts {
@@ -81,13 +79,11 @@ func (g *genNet) bind(node, ref int, n Nodes) []StateRows {
 			rows = append(rows, StateRows{Plus: g.index(p.A), Minus: g.index(p.B)})
 		case waveforms.PartInductor, waveforms.PartSwitch:
 			g.br[k] = n.Branches[nb]
-			g.extra = append(g.extra, g.br[k])
 			nb++
 			g.st[k] = len(rows)
 			rows = append(rows, StateRows{Plus: Ground, Minus: g.br[k]})
 			if p.Spark != nil {
 				g.sp[k] = n.Branches[nb]
-				g.extra = append(g.extra, g.sp[k])
 				nb++
 				rows = append(rows, StateRows{Plus: g.sp[k], Minus: Ground})
 			}
@@ -115,9 +111,13 @@ func (g *genNet) idle(c *Context) {
 	for _, k := range g.nodes {
 		c.Conductance(k, Ground, 1)
 	}
-	for _, b := range g.extra {
-		c.AddF(b, c.V(b))
-		c.AddJ(b, b, 1)
+	for k := range g.br {
+		for _, b := range [2]int{g.br[k], g.sp[k]} {
+			if b >= 0 {
+				c.AddF(b, c.V(b))
+				c.AddJ(b, b, 1)
+			}
+		}
 	}
 	for k := 0; k < g.nst; k++ {
 		c.Charge(k, 0)

@@ -28,7 +28,24 @@ package devices
 // the next Newton step starts from ul; it also sets Context.Limited so the
 // engine does not take the iterate as converged.
 
-import "math"
+import (
+	"math"
+
+	"zapnet/devices/spec"
+)
+
+// The junction keys that clamp, diode, pin and snapback share, with
+// MODELS.md's defaults, and the pulse ratings of the protectors: declared
+// once, so that a default or a rating's wording cannot drift between kinds.
+var (
+	keyIs  = spec.Default("is", spec.Ampere, spec.Positive, 1e-14).As(spec.Model)
+	keyN   = spec.Default("n", spec.Dimensionless, spec.Positive, 1).As(spec.Model)
+	keyIt  = spec.Default("it", spec.Ampere, spec.Positive, 1e-3).As(spec.Model)
+	keyNbr = spec.Default("nbr", spec.Dimensionless, spec.Positive, 1).As(spec.Model)
+
+	ratingIpp  = spec.Limit("ipp", spec.Ampere, spec.Positive, spec.PeakCurrent, true, "peak current")
+	ratingEmax = spec.Limit("emax", spec.Joule, spec.Positive, spec.Energy, true, "energy")
+)
 
 // Physical constants (SI, exact since the 2019 redefinition) and the fixed
 // junction temperature of MODELS.md.

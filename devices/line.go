@@ -241,16 +241,10 @@ func (d *Line) Accept(t float64, x []float64) {
 	if d.lumped {
 		return
 	}
-	get := func(i int) float64 {
-		if i < 0 {
-			return 0
-		}
-		return x[i]
-	}
-	v1, v2 := get(d.in), get(d.out)
+	v1, v2 := at(x, d.in), at(x, d.out)
 	var i1, i2 float64
 	if d.lastDC {
-		i1 = get(d.br)
+		i1 = at(x, d.br)
 		i2 = -i1
 	} else {
 		h1, h2 := d.history(t)

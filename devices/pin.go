@@ -51,12 +51,12 @@ func init() {
 			Params: []spec.Param{
 				spec.Default("cin", spec.Farad, spec.NonNegative, 0).Scales().
 					WarnAbove(1e-9, "pin %s has cin %s: unusually large for an IC input"),
-				spec.Default("is", spec.Ampere, spec.Positive, 1e-14).As(spec.Model),
-				spec.Default("n", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+				keyIs,
+				keyN,
 				spec.Default("rs", spec.Ohm, spec.NonNegative, 1),
 				spec.Optional("vbr", spec.Volt, spec.Positive).Noted("the internal clamp"),
-				spec.Default("it", spec.Ampere, spec.Positive, 1e-3).Only("vbr").As(spec.Model),
-				spec.Default("nbr", spec.Dimensionless, spec.Positive, 1).Only("vbr").As(spec.Model),
+				keyIt.Only("vbr"),
+				keyNbr.Only("vbr"),
 				spec.Default("rdyn", spec.Ohm, spec.NonNegative, 0).Only("vbr").
 					WarnAbove(100, "pin %s has rdyn %s: unusually high"),
 				spec.Limit("vmax", spec.Volt, spec.Any, spec.HighVoltage, true, "residual peak"),

@@ -20,7 +20,7 @@ func init() {
 		Table: spec.Table{Params: []spec.Param{
 			spec.Required("value", spec.Ohm, spec.Positive).Scales().
 				WarnAbove(1e9, "resistor %s is %s: unusually large"),
-			spec.Limit("emax", spec.Joule, spec.Positive, spec.Energy, true, "energy"),
+			ratingEmax,
 			spec.Limit("pmax", spec.Watt, spec.Positive, spec.PeakPower, true, "peak power"),
 		}},
 	}, New: newResistor})

@@ -98,14 +98,14 @@ func init() {
 				spec.Required("ih", spec.Ampere, spec.Positive).Noted("the holding current"),
 				spec.Required("ron", spec.Ohm, spec.Positive).
 					WarnAbove(100, "snapback %s has ron %s: a clamp's on-resistance is usually a few ohms at most"),
-				spec.Default("nbr", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+				keyNbr,
 				spec.Default("ton", spec.Second, spec.NonNegative, snapbackTon).As(spec.Model),
 				spec.Default("ls", spec.Henry, spec.NonNegative, 0),
 				spec.Default("cj", spec.Farad, spec.NonNegative, 0),
-				spec.Default("is", spec.Ampere, spec.Positive, 1e-14).As(spec.Model),
-				spec.Default("n", spec.Dimensionless, spec.Positive, 1).As(spec.Model),
+				keyIs,
+				keyN,
 				spec.Limit("it2", spec.Ampere, spec.Positive, spec.PeakCurrent, true, "peak current"),
-				spec.Limit("emax", spec.Joule, spec.Positive, spec.Energy, true, "energy"),
+				ratingEmax,
 			},
 			Words: []spec.Word{{Key: "polarity", Choices: []string{"uni", "bi"}, Default: "uni"}},
 		},
@@ -148,13 +148,13 @@ func NewSnapbackLaw(s SnapbackSpec) (*SnapbackLaw, error) {
 		}
 	}
 	if s.Nbr == 0 {
-		s.Nbr = 1
+		s.Nbr = keyNbr.Default
 	}
 	if s.Is == 0 {
-		s.Is = 1e-14
+		s.Is = keyIs.Default
 	}
 	if s.N == 0 {
-		s.N = 1
+		s.N = keyN.Default
 	}
 	for _, p := range []struct {
 		k string

@@ -13,19 +13,18 @@ import (
 // measured I–V, an IBIS input's clamp tables. Between the terminal t and
 // the reference r:
 //
-//	t –ls– m –rs– d,   d the die node;
-//	low:  current i_low(v(d) − v(r)) from d to r (required; both polarities);
-//	up:   current i_up(v(d) − v(rail)) from d to the rail node, or, without
-//	      a rail node, i_up(v(d) − v(r) − upref) from d to r (an IBIS POWER
+//	t –ls– m –rs– j,   j the die node;
+//	low:  current i_low(v(j) − v(r)) from j to r (required; both polarities);
+//	up:   current i_up(v(j) − v(rail)) from j to the rail node, or, without
+//	      a rail node, i_up(v(j) − v(r) − upref) from j to r (an IBIS POWER
 //	      clamp referred to a supply of upref volts that the deck does not
 //	      draw);
-//	c:    a linear capacitance from d to r (a clamp's junction capacitance,
+//	c:    a linear capacitance from j to r (a clamp's junction capacitance,
 //	      a pin's C_comp);
 //	cpkg: a linear capacitance from t to r (an IBIS package's C_pkg).
 //
-// A zero ls or rs adds no unknown. The series inductance is a branch
-// current with flux ls·i and branch equation v(t) − v(m) − dλ/dt = 0, as
-// the clamp's. Each table path carries the engine's gmin in parallel.
+// ls and rs are the series path of series.go, as the clamp's (a zero one
+// adds no unknown). Each table path carries the engine's gmin in parallel.
 //
 // Probes: "ipath" is the current through the table paths (low plus up,
 // out of the die), the current a pin's ifail is judged on; "beyond" is how
@@ -41,13 +40,12 @@ type TablePath struct {
 	upRef float64
 	rail  bool
 	c     float64
-	grs   float64 // 1/rs; 0: none
-	ls    float64
 	cpkg  float64
+	series
 
-	t, r, rl, m, d, br int
-	kC, kPkg, kFlux    int
-	gmin               float64
+	r, rl    int
+	kC, kPkg int
+	gmin     float64
 }
 
 // TableSpec describes a table path in plain values (SI units).
@@ -89,10 +87,7 @@ func NewTablePath(s TableSpec) (*TablePath, error) {
 		return nil, fmt.Errorf("%s: %w", s.Name, err)
 	}
 	d := &TablePath{name: s.Name, nodes: []string{s.Nodes[0], s.Nodes[1]}, low: s.Low, up: s.Up,
-		upRef: s.UpRef, c: s.C, ls: s.Ls, cpkg: s.Cpkg}
-	if s.Rs > 0 {
-		d.grs = 1 / s.Rs
-	}
+		upRef: s.UpRef, c: s.C, cpkg: s.Cpkg, series: newSeries(s.Ls, s.Rs)}
 	if s.Up != nil && s.Rail != "" {
 		d.rail = true
 		d.nodes = append(d.nodes, s.Rail)
@@ -106,77 +101,49 @@ func (d *TablePath) Name() string { return d.name }
 // Layout implements Device.
 func (d *TablePath) Layout() Layout {
 	l := Layout{Terminals: d.nodes}
-	switch {
-	case d.ls > 0 && d.grs > 0:
-		l.Internal = []string{"m", "die"}
-	case d.ls > 0 || d.grs > 0:
-		l.Internal = []string{"die"}
-	}
-	if d.ls > 0 {
-		l.Branches = []string{"ls"}
-	}
+	d.layout(&l, "die")
 	return l
 }
 
 // Bind implements Device.
 func (d *TablePath) Bind(n Nodes) []StateRows {
-	d.t, d.r, d.rl = n.Terminals[0], n.Terminals[1], Ground
+	d.r, d.rl = n.Terminals[1], Ground
 	if d.rail {
 		d.rl = n.Terminals[2]
 	}
-	d.m, d.d, d.br = d.t, d.t, Ground
-	switch {
-	case d.ls > 0 && d.grs > 0:
-		d.m, d.d = n.Internal[0], n.Internal[1]
-	case d.ls > 0:
-		d.m, d.d = n.Internal[0], n.Internal[0]
-	case d.grs > 0:
-		d.d = n.Internal[0]
-	}
+	d.bind(n.Terminals[0], n)
 	var rows []StateRows
-	d.kC, d.kPkg, d.kFlux = -1, -1, -1
+	d.kC, d.kPkg = -1, -1
 	if d.c > 0 {
 		d.kC = len(rows)
-		rows = append(rows, StateRows{Plus: d.d, Minus: d.r})
+		rows = append(rows, StateRows{Plus: d.j, Minus: d.r})
 	}
 	if d.cpkg > 0 {
 		d.kPkg = len(rows)
 		rows = append(rows, StateRows{Plus: d.t, Minus: d.r})
 	}
-	if d.ls > 0 {
-		d.br = n.Branches[0]
-		d.kFlux = len(rows)
-		rows = append(rows, StateRows{Plus: Ground, Minus: d.br})
-	}
-	return rows
+	return d.fluxRow(rows)
 }
 
 // Eval implements Device.
 func (d *TablePath) Eval(c *Context) {
 	d.gmin = c.Gmin
-	if d.ls > 0 {
-		branchKCL(c, d.t, d.m, d.br)
-		c.Charge(d.kFlux, d.ls*c.V(d.br))
-		c.ChargeDeriv(d.kFlux, d.br, d.ls)
-	}
-	if d.grs > 0 {
-		c.Conductance(d.m, d.d, d.grs)
-	}
-	u := c.V(d.d) - c.V(d.r)
+	d.stamp(c)
+	u := c.V(d.j) - c.V(d.r)
 	i, g := d.low.Eval(u)
-	c.Current(d.d, d.r, i+c.Gmin*u, g+c.Gmin)
+	c.Current(d.j, d.r, i+c.Gmin*u, g+c.Gmin)
 	if d.up != nil {
 		if d.rail {
-			w := c.V(d.d) - c.V(d.rl)
+			w := c.V(d.j) - c.V(d.rl)
 			i, g := d.up.Eval(w)
-			c.Current(d.d, d.rl, i+c.Gmin*w, g+c.Gmin)
+			c.Current(d.j, d.rl, i+c.Gmin*w, g+c.Gmin)
 		} else {
 			i, g := d.up.Eval(u - d.upRef)
-			c.Current(d.d, d.r, i, g)
+			c.Current(d.j, d.r, i, g)
 		}
 	}
 	if d.kC >= 0 {
-		c.Capacitance(d.kC, d.d, d.r, d.c*u, d.c)
+		c.Capacitance(d.kC, d.j, d.r, d.c*u, d.c)
 	}
 	if d.kPkg >= 0 {
 		w := c.V(d.t) - c.V(d.r)
@@ -195,20 +162,14 @@ func (d *TablePath) Probes() []Probe {
 
 // Probe implements Prober: dst[0] is ipath, dst[1] beyond, at x.
 func (d *TablePath) Probe(x []float64, dst []float64) {
-	at := func(i int) float64 {
-		if i < 0 {
-			return 0
-		}
-		return x[i]
-	}
-	u := at(d.d) - at(d.r)
+	u := at(x, d.j) - at(x, d.r)
 	i, _ := d.low.Eval(u)
 	ipath := i + d.gmin*u
 	beyond := d.low.Beyond(u)
 	if d.up != nil {
 		w := u - d.upRef
 		if d.rail {
-			w = at(d.d) - at(d.rl)
+			w = at(x, d.j) - at(x, d.rl)
 		}
 		iu, _ := d.up.Eval(w)
 		if d.rail {

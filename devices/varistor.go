@@ -16,7 +16,7 @@ import (
 // default, the current varistor voltages are quoted at [practice]); alpha
 // is the nonlinearity exponent, 20–50 for zinc oxide [practice], 30 by
 // default. The law is odd in u, so the part clamps both polarities alike.
-// rs = 0 joins j to a; c > 0 is a constant capacitance across the law (the
+// rs is the series path of series.go (rs = 0 joins j to a); c > 0 is a constant capacitance across the law (the
 // grains' capacitance, hundreds of pF to nF for a disc [practice]).
 //
 // Newton and the power law: i grows as exp(alpha·ln|u|), an exponential in
@@ -33,12 +33,12 @@ type Varistor struct {
 	v1    float64 // V
 	i1    float64 // A
 	alpha float64
-	grs   float64 // 1/rs, S; 0: no rs
 	c     float64 // F
+	series
 
-	a, b, j int
-	kCap    int
-	uold    float64 // limiting memory, V
+	b    int
+	kCap int
+	uold float64 // limiting memory, V
 }
 
 func init() {
@@ -53,8 +53,8 @@ func init() {
 				WarnAbove(100, "varistor %s has alpha %s: zinc-oxide varistors are about 20 to 50"),
 			spec.Default("rs", spec.Ohm, spec.NonNegative, 0),
 			spec.Default("c", spec.Farad, spec.NonNegative, 0),
-			spec.Limit("ipp", spec.Ampere, spec.Positive, spec.PeakCurrent, true, "peak current"),
-			spec.Limit("emax", spec.Joule, spec.Positive, spec.Energy, true, "energy"),
+			ratingIpp,
+			ratingEmax,
 		}},
 	}, New: newVaristor})
 }
@@ -67,10 +67,8 @@ func newVaristor(name string, nodes [2]string, v *spec.Values) (Device, error) {
 		// conducts better at low voltage than at high.
 		return nil, fmt.Errorf("varistor %s: alpha must be at least 1, have %g", name, alpha)
 	}
-	d := &Varistor{name: name, nodes: nodes, v1: v.Num("v1"), i1: v.Num("i1"), alpha: alpha, c: v.Num("c")}
-	if rs := v.Num("rs"); rs > 0 {
-		d.grs = 1 / rs
-	}
+	d := &Varistor{name: name, nodes: nodes, v1: v.Num("v1"), i1: v.Num("i1"), alpha: alpha, c: v.Num("c"),
+		series: newSeries(0, v.Num("rs"))}
 	return d, nil
 }
 
@@ -80,19 +78,14 @@ func (d *Varistor) Name() string { return d.name }
 // Layout implements Device.
 func (d *Varistor) Layout() Layout {
 	l := Layout{Terminals: []string{d.nodes[0], d.nodes[1]}}
-	if d.grs > 0 {
-		l.Internal = []string{"j"}
-	}
+	d.layout(&l, "j")
 	return l
 }
 
 // Bind implements Device.
 func (d *Varistor) Bind(n Nodes) []StateRows {
-	d.a, d.b = n.Terminals[0], n.Terminals[1]
-	d.j = d.a
-	if d.grs > 0 {
-		d.j = n.Internal[0]
-	}
+	d.b = n.Terminals[1]
+	d.bind(n.Terminals[0], n)
 	d.kCap = -1
 	if d.c > 0 {
 		d.kCap = 0
@@ -106,9 +99,7 @@ func (d *Varistor) Reset() { d.uold = 0 }
 
 // Eval implements Device.
 func (d *Varistor) Eval(c *Context) {
-	if d.grs > 0 {
-		c.Conductance(d.a, d.j, d.grs)
-	}
+	d.stamp(c)
 	u := stampJunction(c, d, d.j, d.b, &d.uold)
 	if d.kCap >= 0 {
 		c.Capacitance(d.kCap, d.j, d.b, d.c*u, d.c)

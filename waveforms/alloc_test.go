@@ -17,6 +17,14 @@ func TestHotPathsDoNotAllocate(t *testing.T) {
 	}); n != 0 {
 		t.Errorf("Tracker.Add allocates %g times", n)
 	}
+	// With Refine a peak every few samples takes the interpolation path.
+	rt, k := Tracker{Refine: true}, 0.0
+	if n := testing.AllocsPerRun(100, func() {
+		k++
+		rt.Add(k, math.Sin(k))
+	}); n != 0 {
+		t.Errorf("Tracker.Add with Refine allocates %g times", n)
+	}
 	for _, n := range Names() {
 		info := Lookup(n)
 		str := map[string]string{"file": "testdata/pulse.csv"}

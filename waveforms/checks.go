@@ -3,7 +3,6 @@ package waveforms
 import (
 	"fmt"
 	"math"
-	"strconv"
 	"zapnet/devices/spec"
 )
 
@@ -37,7 +36,7 @@ func rel(q, unit string, computed, published, tol float64, src, ref string) Chec
 		lo, hi = hi, lo
 	}
 	c := Check{Quantity: q, Unit: unit, Computed: computed, Published: published, Lo: lo, Hi: hi,
-		Tol: fmt.Sprintf("±%s %%", strconv.FormatFloat(tol*100, 'g', 6, 64)), Source: src, Ref: ref}
+		Tol: "±" + spec.FormatFraction(tol), Source: src, Ref: ref}
 	c.judge()
 	return c
 }

@@ -17,7 +17,7 @@ func init() {
 		Summary: "IEC 61000-4-5 combination wave generator (1.2/50 µs open, 8/20 µs short) with its coupling path",
 		Table:   spec.Table{Words: []spec.Word{{Key: "path", Choices: paths, Default: "direct", Fixed: true}}},
 		build:   newSurgeCWG,
-		Order:   55, Load: math.Inf(1), Loads: []float64{0},
+		Order:   55, Load: math.Inf(1), Loads: []float64{0}, generator: true,
 		checks: checksCWG,
 	})
 }

@@ -11,7 +11,7 @@ func init() {
 	Register(&Waveform{Name: "iec61000-4-2-network", Unit: spec.Volt, Level: 4000, Discharge: true, Rise: iecRiseMin,
 		Summary: "IEC 61000-4-2 contact discharge from the generator network: 150 pF, 330 Ω and its fast parasitic branch",
 		build:   newIECNetwork,
-		Order:   11, Load: iecTarget,
+		Order:   11, Load: iecTarget, generator: true,
 		checks: checksIECNetwork,
 	})
 }
@@ -24,7 +24,7 @@ func init() {
 				Noted("the fraction of the breakdown gap left when the spark forms"),
 		}},
 		build: newIECAir,
-		Order: 12, Load: iecTarget,
+		Order: 12, Load: iecTarget, generator: true,
 		checks: checksAir,
 	})
 }
@@ -191,15 +191,6 @@ func newIECAir(level float64, v *spec.Values) (*Stimulus, error) {
 // 20 ns at a slow approach [calc: generators.csv, peaks at 18–23 ns].
 const airDelay = 100e-9
 
-// generatorWaveforms are the waveforms whose stimulus may be a Generator
-// circuit (eft only with burst=).
-var generatorWaveforms = map[string]bool{
-	"iec61000-4-2-network": true,
-	"iec61000-4-2-air":     true,
-	"surge-cwg":            true,
-	"eft":                  true,
-}
-
 // GeneratorShape returns the generator circuit a strike's waveform builds
 // with the strike's values v (of the waveform's table), at the waveform's
 // typical level: the strike builds its unknowns for it, and every level of
@@ -210,7 +201,7 @@ var generatorWaveforms = map[string]bool{
 func GeneratorShape(v *spec.Values) *Fragment {
 	if v != nil {
 		for _, w := range registry {
-			if &w.Table != v.Table() || !generatorWaveforms[w.Name] {
+			if &w.Table != v.Table() || !w.generator {
 				continue
 			}
 			if s, err := w.New(w.Level, v); err == nil && s.Gen != nil {

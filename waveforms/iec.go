@@ -18,17 +18,16 @@ func init() {
 // Constants of the ideal contact-discharge current of IEC 61000-4-2 Ed. 2.0,
 // informative annex, at 4 kV (CHECKS.md) [pub in secondary sources].
 const (
-	iecRefLevel = 4000.0  // V, the level the amplitudes below belong to
-	iecI1       = 16.6    // A
-	iecI2       = 9.3     // A
-	iecTau1     = 1.1e-9  // s
-	iecTau2     = 2e-9    // s
-	iecTau3     = 12e-9   // s
-	iecTau4     = 37e-9   // s
-	iecN        = 1.8     // dimensionless
-	iecStop     = 200e-9  // s: the current is below 1 % of its peak after 184 ns [calc]
-	iecTarget   = 2.0     // Ω, the calibration target's resistance [pub]
-	iecCap      = 150e-12 // F, the generator's storage capacitor [pub]
+	iecRefLevel = 4000.0 // V, the level the amplitudes below belong to
+	iecI1       = 16.6   // A
+	iecI2       = 9.3    // A
+	iecTau1     = 1.1e-9 // s
+	iecTau2     = 2e-9   // s
+	iecTau3     = 12e-9  // s
+	iecTau4     = 37e-9  // s
+	iecN        = 1.8    // dimensionless
+	iecStop     = 200e-9 // s: the current is below 1 % of its peak after 184 ns [calc]
+	iecTarget   = 2.0    // Ω, the calibration target's resistance [pub]
 )
 
 // iecK returns the normalising factor k = exp(−(τa/τb)·(n·τb/τa)^(1/n)) of

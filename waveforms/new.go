@@ -46,6 +46,9 @@ type Waveform struct {
 	Loads []float64
 
 	build func(level float64, v *spec.Values) (*Stimulus, error)
+	// generator: build may return a Generator circuit (eft only with
+	// burst=), whose shape a strike must make room for (GeneratorShape).
+	generator bool
 	// checks compares s into load with the published check points,
 	// measuring through m (closed form or the engine's solution); nil: no
 	// published points.

@@ -30,7 +30,7 @@ func init() {
 				Noted("a standard burst at this repetition rate, 5k or 100k, through the coupling capacitor; replaces count and rate"),
 		}},
 		build: newEFTAny,
-		Order: 70, Load: eftR, Loads: []float64{1000},
+		Order: 70, Load: eftR, Loads: []float64{1000}, generator: true,
 		checks: checksEFT,
 	})
 }

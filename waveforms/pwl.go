@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sort"
 	"zapnet/devices/spec"
 	"zapnet/netlist/datafile"
 )
@@ -41,11 +40,7 @@ func newPWL(level float64, v *spec.Values) (*Stimulus, error) {
 		if t <= 0 || t < ts[0] || t > ts[last] {
 			return 0
 		}
-		k := sort.SearchFloat64s(ts, t) // first ts[k] >= t
-		if ts[k] == t {
-			return ys[k]
-		}
-		return lerp(ts[k-1], ys[k-1], ts[k], ys[k], t)
+		return valueAt(ts, ys, t)
 	}
 	bp := ts
 	if ts[0] > 0 {
