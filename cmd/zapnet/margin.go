@@ -87,7 +87,7 @@ func marginStudy(ctx context.Context, opt marginOptions, stdout, stderr io.Write
 	if err != nil {
 		return err
 	}
-	if err := studyOutputs(c, opt.json, opt.pictures); err != nil {
+	if err := deckOutputs(c, opt.json, opt.pictures).err(); err != nil {
 		return err
 	}
 	mopt := &whatif.MarginOptions{Shard: opt.sweep.shard, Verify: opt.verify}

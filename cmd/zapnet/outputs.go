@@ -34,8 +34,16 @@ func newOutputs(inputs ...string) *outputs {
 	return o
 }
 
-// deckOutputs starts the check of a command reading deck c.
-func deckOutputs(c *netlist.Circuit) *outputs { return newOutputs(c.Included...) }
+// deckOutputs starts the check of a command reading deck c (and the
+// files it includes) with the outputs every deck command has: its JSON and
+// its pictures.
+func deckOutputs(c *netlist.Circuit, json string, p pictureOptions) *outputs {
+	o := newOutputs(c.Included...)
+	o.file("--json", json)
+	o.file("--html", p.htmlFile)
+	o.dir("--plot", p.plotDir)
+	return o
+}
 
 func absOf(path string) string {
 	if a, err := filepath.Abs(path); err == nil {
@@ -101,16 +109,6 @@ func (o *outputs) csv(target, deck string, jobs []study.Job, unit spec.Unit) {
 	for _, p := range paths {
 		o.file("--csv", p)
 	}
-}
-
-// studyOutputs checks the outputs of a what-if study of c: its JSON and
-// its pictures.
-func studyOutputs(c *netlist.Circuit, json string, p pictureOptions) error {
-	out := deckOutputs(c)
-	out.file("--json", json)
-	out.file("--html", p.htmlFile)
-	out.dir("--plot", p.plotDir)
-	return out.err()
 }
 
 // err joins every problem found.

@@ -94,10 +94,7 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 	sopt := &study.Options{Levels: levels, Polarities: opt.polarities, Workers: opt.workers,
 		Record: opt.csv != "" || opt.pictures.wanted()}
 	check := func(jobs []study.Job) error {
-		out := deckOutputs(c)
-		out.file("--json", opt.json)
-		out.file("--html", opt.pictures.htmlFile)
-		out.dir("--plot", opt.pictures.plotDir)
+		out := deckOutputs(c, opt.json, opt.pictures)
 		out.csv(opt.csv, opt.deck, jobs, c.Strike().Waveform.Unit)
 		return out.err()
 	}
