@@ -148,6 +148,12 @@ func acStudy(opt acOptions, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	out := deckOutputs(c, opt.json, opt.pictures)
+	out.file("--csv", opt.csv)
+	out.file("--touchstone", opt.touchstone)
+	if err := out.err(); err != nil {
+		return err
+	}
 	res, err := analyseSignal(c, &opt.analysis)
 	if err != nil {
 		return fmt.Errorf("%s: %w", opt.deck, err)

@@ -100,6 +100,46 @@ func TestOutputsRefusedBeforeSolving(t *testing.T) {
 	}
 }
 
+// zapnet ac checks its outputs as the strike commands do: never over the
+// deck or a file it includes, one file per output, one output on standard
+// output [the house's output rules, README].
+func TestACOutputsRefusedBeforeAnalysing(t *testing.T) {
+	dir := t.TempDir()
+	deck := filepath.Join(dir, "usb-fs-port.zap")
+	src, err := os.ReadFile(usbDeck)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(deck, src, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	s2p := filepath.Join(dir, "line.s2p")
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--json", deck}, "that is an input of this command"},
+		{[]string{"--touchstone", deck}, "that is an input of this command"},
+		{[]string{"--csv", s2p, "--touchstone", s2p}, "--csv writes that file too"},
+		{[]string{"--json", "-", "--csv", "-"}, "both would write to standard output"},
+	} {
+		args := append([]string{"ac", deck}, c.args...)
+		out, errs, code := zapnet(t, args...)
+		if code != exitUnusable || !strings.Contains(errs, c.want) {
+			t.Errorf("%v: exit %d, stderr %q; want 2 and %q", c.args, code, errs, c.want)
+		}
+		if strings.Contains(out+errs, "Transfer from") {
+			t.Errorf("%v: the deck was analysed before the output was refused", c.args)
+		}
+	}
+	if b, _ := os.ReadFile(deck); string(b) != string(src) {
+		t.Error("the deck was overwritten")
+	}
+	if _, err := os.Stat(s2p); err == nil {
+		t.Error("a refused output was written")
+	}
+}
+
 // failingWriter stands for a standard output that cannot be written (a full
 // disk, a closed pipe).
 type failingWriter struct{}
