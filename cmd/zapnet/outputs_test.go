@@ -154,3 +154,34 @@ func TestFailedStandardOutputExits2(t *testing.T) {
 		t.Errorf("exit %d, stderr %q", code, e.String())
 	}
 }
+
+// zapnet waveform never writes over the file a pwl waveform reads, and
+// gives --csv and --json a file each [the house's output rules, README].
+func TestWaveformOutputsRefused(t *testing.T) {
+	dir := t.TempDir()
+	pwl := filepath.Join(dir, "measured.csv")
+	src := []byte("time [s],current [A]\n0,0\n1e-9,1\n2e-9,0\n")
+	if err := os.WriteFile(pwl, src, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	both := filepath.Join(dir, "hbm.out")
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"pwl", "--set", "file=" + pwl, "--csv", pwl}, "that is an input of this command"},
+		{[]string{"pwl", "--set", "file=" + pwl, "--json", pwl}, "that is an input of this command"},
+		{[]string{"hbm", "--csv", both, "--json", both}, "--csv writes that file too"},
+	} {
+		args := append([]string{"waveform"}, c.args...)
+		if _, errs, code := zapnet(t, args...); code != exitUnusable || !strings.Contains(errs, c.want) {
+			t.Errorf("%v: exit %d, stderr %q; want 2 and %q", c.args, code, errs, c.want)
+		}
+	}
+	if b, _ := os.ReadFile(pwl); string(b) != string(src) {
+		t.Error("the waveform's file was overwritten")
+	}
+	if _, err := os.Stat(both); err == nil {
+		t.Error("a refused output was written")
+	}
+}

@@ -100,8 +100,16 @@ A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 		v.FillDefaults()
 		opt.params = &v
 	}
-	out := newOutputs()
+	// A file the waveform reads (pwl's file=) is an input like a deck.
+	var inputs []string
+	for _, w := range wf.Words {
+		if p := opt.params; w.Path && p != nil && p.Word(w.Key) != "" {
+			inputs = append(inputs, p.Word(w.Key))
+		}
+	}
+	out := newOutputs(inputs...)
 	out.file("--csv", opt.csv)
+	out.file("--json", opt.json)
 	errs = append(errs, out.err())
 	if err := errors.Join(errs...); err != nil {
 		return fmt.Errorf("waveform: %w", err)
