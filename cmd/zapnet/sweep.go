@@ -105,14 +105,8 @@ type runSweep struct {
 // the failed solves and, when interrupted, an errInterrupted; runs is nil
 // only when nothing could start.
 func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, verify bool, check func([]study.Job) error, stderr io.Writer) (*runSweep, error) {
-	if len(spec.sets) > 0 {
-		sets, err := whatif.ParseSets(c, spec.sets)
-		if err != nil {
-			return nil, err
-		}
-		if sopt.Variants, err = whatif.Variants(c, sets); err != nil {
-			return nil, err
-		}
+	if err := setVariants(c, spec.sets, sopt); err != nil {
+		return nil, err
 	}
 	jobs, err := study.Jobs(c, sopt)
 	if err != nil {
@@ -160,6 +154,21 @@ func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, verify b
 		err = errors.Join(withoutContext(err), errInterrupted{len(runs), len(mine)})
 	}
 	return sw, err
+}
+
+// setVariants reads --set (run, margin) against c into the variants sopt
+// studies: the deck's vary lines combined with the sets (whatif.Variants).
+// Without --set sopt keeps the deck's own.
+func setVariants(c *netlist.Circuit, flags []string, sopt *study.Options) error {
+	if len(flags) == 0 {
+		return nil
+	}
+	sets, err := whatif.ParseSets(c, flags)
+	if err != nil {
+		return err
+	}
+	sopt.Variants, err = whatif.Variants(c, sets)
+	return err
 }
 
 // withoutContext drops context errors from a joined error.
