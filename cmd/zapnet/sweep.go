@@ -42,15 +42,11 @@ func addSweepFlags(fs *pflag.FlagSet) *sweepFlags {
 
 // spec parses the registered flags.
 func (f *sweepFlags) spec() (sweepSpec, error) {
-	var s sweepSpec
-	var errs []error
-	s.sets = *f.sets
 	sh, err := study.ParseShard(*f.shard)
 	if err != nil {
-		errs = append(errs, fmt.Errorf("--shard: %w", err))
+		err = fmt.Errorf("--shard: %w", err)
 	}
-	s.shard = sh
-	return s, errors.Join(errs...)
+	return sweepSpec{sets: *f.sets, shard: sh}, err
 }
 
 // parsePolarity reads --polarity: "" (the deck's), pos, neg or both.
