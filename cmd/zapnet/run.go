@@ -118,14 +118,8 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 	}
 	meta := deckMeta(opt.deck, c)
 	var errs []error
-	switch opt.json {
-	case "":
-	case "-":
-		if err := runJSON(stdout, meta, sw); err != nil {
-			errs = append(errs, err)
-		}
-	default:
-		if err := report.WriteFile(opt.json, func(w io.Writer) error { return runJSON(w, meta, sw) }); err != nil {
+	if opt.json != "" {
+		if err := writeOutput(opt.json, stdout, runDocument(meta, sw)); err != nil {
 			errs = append(errs, fmt.Errorf("--json: %w", err))
 		}
 	}

@@ -187,14 +187,14 @@ func withoutContext(err error) error {
 	return err
 }
 
-// runJSON writes the run document; a shard or an interrupted sweep also
-// says so.
-func runJSON(w io.Writer, meta study.Meta, sw *runSweep) error {
+// runDocument is the run JSON's document; a shard or an interrupted sweep
+// also says so.
+func runDocument(meta study.Meta, sw *runSweep) study.Document {
 	runs := sw.runs
 	if runs == nil {
 		runs = []study.Run{}
 	}
-	return report.EncodeJSON(w, study.Document{Meta: meta, Runs: runs, Shard: sw.shard, Interrupted: sw.interrupted})
+	return study.Document{Meta: meta, Runs: runs, Shard: sw.shard, Interrupted: sw.interrupted}
 }
 
 // rankVariants prints the variant ranking when the sweep has several.

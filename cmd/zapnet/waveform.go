@@ -170,14 +170,8 @@ func waveformReport(opt waveformOptions, out, stdout io.Writer) error {
 	for _, c := range checks {
 		doc.Pass = doc.Pass && c.Within
 	}
-	switch opt.json {
-	case "":
-	case "-":
-		if err := report.EncodeJSON(stdout, doc); err != nil {
-			return err
-		}
-	default:
-		if err := report.WriteFile(opt.json, func(w io.Writer) error { return report.EncodeJSON(w, doc) }); err != nil {
+	if opt.json != "" {
+		if err := writeOutput(opt.json, stdout, doc); err != nil {
 			return fmt.Errorf("waveform: --json: %w", err)
 		}
 	}
