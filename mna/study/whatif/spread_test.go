@@ -115,15 +115,6 @@ func TestDrawDistributions(t *testing.T) {
 	}
 }
 
-func num(t *testing.T, s string) float64 {
-	t.Helper()
-	var v float64
-	if err := json.Unmarshal([]byte(s), &v); err != nil {
-		t.Fatalf("%q: %v", s, err)
-	}
-	return v
-}
-
 func TestSpreadNeedsTolerances(t *testing.T) {
 	c := parse(t, "../../../testdata/demo-weak.zap")
 	if _, err := Spreads(context.Background(), c, nil); err == nil {
