@@ -173,14 +173,8 @@ func acStudy(opt acOptions, stdout, stderr io.Writer) error {
 		}
 	}
 	if opt.csv != "" {
-		var werr error
-		if opt.csv == "-" {
-			werr = report.ACCSV(stdout, res)
-		} else {
-			werr = report.WriteFile(opt.csv, func(w io.Writer) error { return report.ACCSV(w, res) })
-		}
-		if werr != nil {
-			errs = append(errs, fmt.Errorf("--csv: %w", werr))
+		if err := writeStream(opt.csv, stdout, func(w io.Writer) error { return report.ACCSV(w, res) }); err != nil {
+			errs = append(errs, fmt.Errorf("--csv: %w", err))
 		}
 	}
 	if opt.touchstone != "" {

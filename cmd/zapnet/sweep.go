@@ -205,12 +205,19 @@ func rankVariants(w io.Writer, sw *runSweep) error {
 	return report.VariantRanking(w, whatif.RankVariants(sw.runs))
 }
 
-// writeOutput writes a document to "-" (w) or to a file, whole or not at all.
+// writeOutput writes a document as JSON to "-" (w) or to a file, whole or
+// not at all.
 func writeOutput(path string, w io.Writer, doc any) error {
+	return writeStream(path, w, func(f io.Writer) error { return report.EncodeJSON(f, doc) })
+}
+
+// writeStream writes with write to "-" (w) or to a file, whole or not at
+// all.
+func writeStream(path string, w io.Writer, write func(io.Writer) error) error {
 	if path == "-" {
-		return report.EncodeJSON(w, doc)
+		return write(w)
 	}
-	return report.WriteFile(path, func(f io.Writer) error { return report.EncodeJSON(f, doc) })
+	return report.WriteFile(path, write)
 }
 
 // The plumbing run, margin, sensitivity and spread share: the one deck, the
