@@ -150,7 +150,7 @@ func acStudy(opt acOptions, stdout, stderr io.Writer) error {
 	}
 	out := deckOutputs(c, opt.json, opt.pictures)
 	out.file("--csv", opt.csv)
-	out.file("--touchstone", opt.touchstone)
+	out.named("--touchstone", opt.touchstone)
 	if err := out.err(); err != nil {
 		return err
 	}

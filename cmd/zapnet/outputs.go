@@ -40,7 +40,7 @@ func newOutputs(inputs ...string) *outputs {
 func deckOutputs(c *netlist.Circuit, json string, p pictureOptions) *outputs {
 	o := newOutputs(c.Included...)
 	o.file("--json", json)
-	o.file("--html", p.htmlFile)
+	o.named("--html", p.htmlFile)
 	o.dir("--plot", p.plotDir)
 	return o
 }
@@ -79,6 +79,17 @@ func (o *outputs) file(flag, path string) {
 	}
 }
 
+// named adds the file path that flag writes, which cannot be standard
+// output: "-" would otherwise be written as a file of that name, past
+// every check of file.
+func (o *outputs) named(flag, path string) {
+	if path == "-" {
+		o.errs = append(o.errs, fmt.Errorf("%s -: %s writes a file, not standard output; give the file's name (./- for a file called -)", flag, flag))
+		return
+	}
+	o.file(flag, path)
+}
+
 // dir adds the folder flag writes files into, making it when missing.
 func (o *outputs) dir(flag, dir string) {
 	if dir == "" {
@@ -107,7 +118,7 @@ func (o *outputs) csv(target, deck string, jobs []study.Job, unit spec.Unit) {
 		o.dir("--csv", filepath.Dir(paths[0])) // a folder --csv names is made now
 	}
 	for _, p := range paths {
-		o.file("--csv", p)
+		o.named("--csv", p)
 	}
 }
 

@@ -185,3 +185,29 @@ func TestWaveformOutputsRefused(t *testing.T) {
 		t.Error("a refused output was written")
 	}
 }
+
+// "-" is standard output only for the outputs that can stream there
+// (--json, ac's --csv, merge's -o); for a file output it is refused
+// before any solve rather than written as a file called "-" [the house's
+// output rules, README].
+func TestFileOutputsRefuseStandardOutput(t *testing.T) {
+	for _, args := range [][]string{
+		{"run", demoDeck, "--level", "2k", "--polarity", "pos", "--csv", "-"},
+		{"run", demoDeck, "--level", "2k", "--polarity", "pos", "--html", "-"},
+		{"margin", demoDeck, "--html", "-"},
+		{"waveform", "hbm", "--csv", "-"},
+		{"ac", usbDeck, "--touchstone", "-"},
+	} {
+		out, errs, code := zapnet(t, args...)
+		if code != exitUnusable || !strings.Contains(errs, "writes a file, not standard output") {
+			t.Errorf("%v: exit %d, stderr %q; want 2 and the file asked for", args, code, errs)
+		}
+		if strings.Contains(out, "Run 1/") || strings.Contains(out, "Transfer from") {
+			t.Errorf("%v: solved before the output was refused", args)
+		}
+	}
+	if _, err := os.Stat("-"); err == nil {
+		os.Remove("-")
+		t.Error("a file called - was written")
+	}
+}

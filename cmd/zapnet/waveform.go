@@ -108,7 +108,7 @@ A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 		}
 	}
 	out := newOutputs(inputs...)
-	out.file("--csv", opt.csv)
+	out.named("--csv", opt.csv)
 	out.file("--json", opt.json)
 	errs = append(errs, out.err())
 	if err := errors.Join(errs...); err != nil {
