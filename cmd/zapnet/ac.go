@@ -85,7 +85,7 @@ func addACFlags(fs *pflag.FlagSet) *acFlags {
 	f.stepRise = fs.String("step-rise", "1p", "the edge check's step, its linear ramp from 0 to 100 %")
 	f.noDamping = fs.Bool("no-damping", false, "skip the search for damping values")
 	f.json = fs.String("json", "", "write the results as JSON to `FILE` (- for stdout, the tables then go to stderr)")
-	f.csv = fs.String("csv", "", "write the sweep as CSV to `FILE` (- for stdout): gain and phase of every node, impedances, S-parameters")
+	f.csv = fs.String("csv", "", "write the sweep as CSV to `FILE` (- for stdout, the tables then go to stderr): gain and phase of every node, impedances, S-parameters")
 	f.touchstone = fs.String("touchstone", "", "write the two-port's S-parameters as a Touchstone v1 file (.s2p) to `FILE`; needs two ports of one z0")
 	f.pictures = addPictureFlags(fs)
 	fs.Lookup("plot").Usage = "write SVG figures into folder `DIR` (created when missing): Bode gain and phase, impedances, S-parameters"
@@ -148,6 +148,12 @@ func acStudy(opt acOptions, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	out := deckOutputs(c, opt.json, opt.pictures)
+	out.file("--csv", opt.csv)
+	out.named("--touchstone", opt.touchstone)
+	if err := out.err(); err != nil {
+		return err
+	}
 	res, err := analyseSignal(c, &opt.analysis)
 	if err != nil {
 		return fmt.Errorf("%s: %w", opt.deck, err)
@@ -157,7 +163,11 @@ func acStudy(opt acOptions, stdout, stderr io.Writer) error {
 	if err := report.ACTables(&text, res, &report.TableOptions{Title: c.Title, Deck: opt.deck}); err != nil {
 		return err
 	}
-	if _, err := tablesOut(opt.json, stdout, stderr).Write(text.Bytes()); err != nil {
+	tables := tablesOut(opt.json, stdout, stderr)
+	if opt.csv == "-" {
+		tables = stderr // standard output holds the CSV alone
+	}
+	if _, err := tables.Write(text.Bytes()); err != nil {
 		return err
 	}
 	var errs []error
@@ -167,14 +177,8 @@ func acStudy(opt acOptions, stdout, stderr io.Writer) error {
 		}
 	}
 	if opt.csv != "" {
-		var werr error
-		if opt.csv == "-" {
-			werr = report.ACCSV(stdout, res)
-		} else {
-			werr = report.WriteFile(opt.csv, func(w io.Writer) error { return report.ACCSV(w, res) })
-		}
-		if werr != nil {
-			errs = append(errs, fmt.Errorf("--csv: %w", werr))
+		if err := writeStream(opt.csv, stdout, func(w io.Writer) error { return report.ACCSV(w, res) }); err != nil {
+			errs = append(errs, fmt.Errorf("--csv: %w", err))
 		}
 	}
 	if opt.touchstone != "" {

@@ -190,3 +190,26 @@ func TestRunHTMLWithSignalSide(t *testing.T) {
 		}
 	}
 }
+
+// --csv - leaves standard output to the CSV alone, as --json - does the
+// JSON: a header line, then one row per frequency with a value per column
+// [practice: a file a spreadsheet or a script reads whole].
+func TestACCSVToStandardOutput(t *testing.T) {
+	out, errs, code := zapnet(t, "ac", usbDeck, "--csv", "-")
+	if code != exitFail && code != exitPass {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	lines := strings.Split(strings.TrimSpace(out), "\n")
+	if !strings.HasPrefix(lines[0], "freq [Hz],") {
+		t.Fatalf("standard output starts %q, want the CSV header", lines[0])
+	}
+	cols := strings.Count(lines[0], ",")
+	for i, l := range lines[1:] {
+		if strings.Count(l, ",") != cols {
+			t.Fatalf("line %d of standard output is not a CSV row: %q", i+2, l)
+		}
+	}
+	if !strings.Contains(errs, "Transfer from") {
+		t.Error("the tables must go to standard error")
+	}
+}

@@ -148,26 +148,18 @@ func demoReport(t *testing.T, c *netlist.Circuit, opt *study.Options) ([]byte, [
 		if err != nil {
 			t.Fatal(err)
 		}
-		hopt.RunFigures = append(hopt.RunFigures, asFigures(figs))
+		hopt.RunFigures = append(hopt.RunFigures, reportFigures(figs))
 	}
 	ov, err := plots.Overlays(c, runs, popt)
 	if err != nil {
 		t.Fatal(err)
 	}
-	hopt.Overlays = asFigures(ov)
+	hopt.Overlays = reportFigures(ov)
 	var buf bytes.Buffer
 	if err := report.HTML(&buf, runs, hopt); err != nil {
 		t.Fatal(err)
 	}
 	return buf.Bytes(), runs
-}
-
-func asFigures(fs []plots.Figure) []report.Figure {
-	var out []report.Figure
-	for _, f := range fs {
-		out = append(out, report.Figure{Name: f.Name, Caption: f.Caption, SVG: f.SVG})
-	}
-	return out
 }
 
 // The demo's report has the summary of its eight runs (testdata/demo-weak.zap:

@@ -87,7 +87,7 @@ func marginStudy(ctx context.Context, opt marginOptions, stdout, stderr io.Write
 	if err != nil {
 		return err
 	}
-	if err := studyOutputs(c, opt.json, opt.pictures); err != nil {
+	if err := deckOutputs(c, opt.json, opt.pictures).err(); err != nil {
 		return err
 	}
 	mopt := &whatif.MarginOptions{Shard: opt.sweep.shard, Verify: opt.verify}
@@ -99,14 +99,8 @@ func marginStudy(ctx context.Context, opt marginOptions, stdout, stderr io.Write
 	}
 	mopt.Study.Polarities = opt.polarities
 	mopt.Study.Workers = opt.workers
-	if len(opt.sweep.sets) > 0 {
-		sets, err := whatif.ParseSets(c, opt.sweep.sets)
-		if err != nil {
-			return err
-		}
-		if mopt.Study.Variants, err = whatif.Variants(c, sets); err != nil {
-			return err
-		}
+	if err := setVariants(c, opt.sweep.sets, &mopt.Study); err != nil {
+		return err
 	}
 	res, err := withProgress(stderr, "margin", opt.deck, func(p whatif.Progress) (*whatif.MarginResult, error) {
 		mopt.Progress = p

@@ -60,28 +60,28 @@ func mergeFiles(paths []string, out string, stdout, stderr io.Writer) error {
 	}
 	switch s.kind {
 	case "run":
-		docs, err := decodeShards(s, func() (any, *study.Document) {
+		docs, err := decodeShards(s, func() (any, *study.Meta, *study.Document) {
 			d := &study.Document{}
-			return d, d
+			return d, &d.Meta, d
 		})
 		if err != nil {
 			return err
 		}
 		return mergeRuns(docs, jsonPath, stdout, stderr)
 	case "margin":
-		return mergeResults(s, func() (any, *whatif.MarginResult) {
+		return mergeResults(s, func() (any, *study.Meta, *whatif.MarginResult) {
 			d := &whatif.MarginDocument{MarginResult: &whatif.MarginResult{}}
-			return d, d.MarginResult
+			return d, &d.Meta, d.MarginResult
 		}, whatif.MergeMargins, writeMargins, jsonPath, stdout, stderr)
 	case "sensitivity":
-		return mergeResults(s, func() (any, *whatif.SensitivityResult) {
+		return mergeResults(s, func() (any, *study.Meta, *whatif.SensitivityResult) {
 			d := &whatif.SensitivityDocument{SensitivityResult: &whatif.SensitivityResult{}}
-			return d, d.SensitivityResult
+			return d, &d.Meta, d.SensitivityResult
 		}, whatif.MergeSensitivities, writeSensitivity, jsonPath, stdout, stderr)
 	default: // spread
-		return mergeResults(s, func() (any, *whatif.SpreadResult) {
+		return mergeResults(s, func() (any, *study.Meta, *whatif.SpreadResult) {
 			d := &whatif.SpreadDocument{SpreadResult: &whatif.SpreadResult{}}
-			return d, d.SpreadResult
+			return d, &d.Meta, d.SpreadResult
 		}, whatif.MergeSpreads, writeSpread, jsonPath, stdout, stderr)
 	}
 }
@@ -89,7 +89,7 @@ func mergeFiles(paths []string, out string, stdout, stderr io.Writer) error {
 // mergeResults merges the shards of a what-if command, its documents
 // made by newDoc, joined by merge and written by write as the unsharded
 // command writes them.
-func mergeResults[R any](s *shards, newDoc func() (any, *R), merge func([]*R) (*R, error),
+func mergeResults[R any](s *shards, newDoc func() (any, *study.Meta, *R), merge func([]*R) (*R, error),
 	write func(*R, study.Meta, string, io.Writer, io.Writer) error, jsonPath string, stdout, stderr io.Writer) error {
 	parts, err := decodeShards(s, newDoc)
 	if err != nil {
@@ -134,19 +134,17 @@ func readShards(paths []string) (*shards, error) {
 }
 
 // decodeShards decodes every shard into the document newDoc makes, keeping
-// the result newDoc returns beside it, and checks that the shards come
-// from one deck and version.
-func decodeShards[R any](s *shards, newDoc func() (doc any, res *R)) ([]*R, error) {
+// its meta and result (parts of the document that newDoc points at), and
+// checks that the shards come from one deck and version.
+func decodeShards[R any](s *shards, newDoc func() (doc any, meta *study.Meta, res *R)) ([]*R, error) {
 	parts := make([]*R, len(s.raws))
 	for i, raw := range s.raws {
-		doc, res := newDoc()
+		doc, meta, res := newDoc()
 		d := json.NewDecoder(bytes.NewReader(raw))
 		if err := d.Decode(doc); err != nil {
 			return nil, fmt.Errorf("merge: %s: %w", s.paths[i], err)
 		}
-		if err := json.Unmarshal(raw, &s.metas[i]); err != nil {
-			return nil, err
-		}
+		s.metas[i] = *meta
 		parts[i] = res
 	}
 	if err := sameMeta(s.paths, s.metas); err != nil {
@@ -218,10 +216,7 @@ func mergeRuns(docs []*study.Document, jsonPath string, stdout, stderr io.Writer
 	}
 	sort.Slice(merged.Runs, func(a, b int) bool { return merged.Runs[a].Index < merged.Runs[b].Index })
 
-	tables := stdout
-	if jsonPath == "-" {
-		tables = stderr
-	}
+	tables := tablesOut(jsonPath, stdout, stderr)
 	fmt.Fprintf(tables, "%s (%s): %d shards, %d runs\n\n", merged.Title, merged.Deck, len(docs), len(merged.Runs))
 	if err := report.Summary(tables, merged.Runs); err != nil {
 		return err

@@ -34,8 +34,16 @@ func newOutputs(inputs ...string) *outputs {
 	return o
 }
 
-// deckOutputs starts the check of a command reading deck c.
-func deckOutputs(c *netlist.Circuit) *outputs { return newOutputs(c.Included...) }
+// deckOutputs starts the check of a command reading deck c (and the
+// files it includes) with the outputs every deck command has: its JSON and
+// its pictures.
+func deckOutputs(c *netlist.Circuit, json string, p pictureOptions) *outputs {
+	o := newOutputs(c.Included...)
+	o.file("--json", json)
+	o.named("--html", p.htmlFile)
+	o.dir("--plot", p.plotDir)
+	return o
+}
 
 func absOf(path string) string {
 	if a, err := filepath.Abs(path); err == nil {
@@ -71,6 +79,17 @@ func (o *outputs) file(flag, path string) {
 	}
 }
 
+// named adds the file path that flag writes, which cannot be standard
+// output: "-" would otherwise be written as a file of that name, past
+// every check of file.
+func (o *outputs) named(flag, path string) {
+	if path == "-" {
+		o.errs = append(o.errs, fmt.Errorf("%s -: %s writes a file, not standard output; give the file's name (./- for a file called -)", flag, flag))
+		return
+	}
+	o.file(flag, path)
+}
+
 // dir adds the folder flag writes files into, making it when missing.
 func (o *outputs) dir(flag, dir string) {
 	if dir == "" {
@@ -99,18 +118,8 @@ func (o *outputs) csv(target, deck string, jobs []study.Job, unit spec.Unit) {
 		o.dir("--csv", filepath.Dir(paths[0])) // a folder --csv names is made now
 	}
 	for _, p := range paths {
-		o.file("--csv", p)
+		o.named("--csv", p)
 	}
-}
-
-// studyOutputs checks the outputs of a what-if study of c: its JSON and
-// its pictures.
-func studyOutputs(c *netlist.Circuit, json string, p pictureOptions) error {
-	out := deckOutputs(c)
-	out.file("--json", json)
-	out.file("--html", p.htmlFile)
-	out.dir("--plot", p.plotDir)
-	return out.err()
 }
 
 // err joins every problem found.

@@ -94,10 +94,7 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 	sopt := &study.Options{Levels: levels, Polarities: opt.polarities, Workers: opt.workers,
 		Record: opt.csv != "" || opt.pictures.wanted()}
 	check := func(jobs []study.Job) error {
-		out := deckOutputs(c)
-		out.file("--json", opt.json)
-		out.file("--html", opt.pictures.htmlFile)
-		out.dir("--plot", opt.pictures.plotDir)
+		out := deckOutputs(c, opt.json, opt.pictures)
 		out.csv(opt.csv, opt.deck, jobs, c.Strike().Waveform.Unit)
 		return out.err()
 	}
@@ -121,14 +118,8 @@ func runStudy(opt runOptions, stdout, stderr io.Writer) error {
 	}
 	meta := deckMeta(opt.deck, c)
 	var errs []error
-	switch opt.json {
-	case "":
-	case "-":
-		if err := runJSON(stdout, meta, sw); err != nil {
-			errs = append(errs, err)
-		}
-	default:
-		if err := report.WriteFile(opt.json, func(w io.Writer) error { return runJSON(w, meta, sw) }); err != nil {
+	if opt.json != "" {
+		if err := writeOutput(opt.json, stdout, runDocument(meta, sw)); err != nil {
 			errs = append(errs, fmt.Errorf("--json: %w", err))
 		}
 	}

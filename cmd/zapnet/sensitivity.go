@@ -104,7 +104,7 @@ func sensitivityStudy(ctx context.Context, opt sensitivityOptions, stdout, stder
 	if err != nil {
 		return err
 	}
-	if err := studyOutputs(c, opt.json, opt.pictures); err != nil {
+	if err := deckOutputs(c, opt.json, opt.pictures).err(); err != nil {
 		return err
 	}
 	sopt := &whatif.SensitivityOptions{Params: opt.params, All: opt.all, Step: opt.step, Limit: opt.limit, Shard: opt.sweep.shard}

@@ -110,7 +110,7 @@ func spreadStudy(ctx context.Context, opt spreadOptions, stdout, stderr io.Write
 	if err != nil {
 		return err
 	}
-	if err := studyOutputs(c, opt.json, opt.pictures); err != nil {
+	if err := deckOutputs(c, opt.json, opt.pictures).err(); err != nil {
 		return err
 	}
 	sopt := &whatif.SpreadOptions{Runs: opt.runs, Seed: opt.seed, Shard: opt.sweep.shard, Samples: opt.samples,

@@ -42,15 +42,11 @@ func addSweepFlags(fs *pflag.FlagSet) *sweepFlags {
 
 // spec parses the registered flags.
 func (f *sweepFlags) spec() (sweepSpec, error) {
-	var s sweepSpec
-	var errs []error
-	s.sets = *f.sets
 	sh, err := study.ParseShard(*f.shard)
 	if err != nil {
-		errs = append(errs, fmt.Errorf("--shard: %w", err))
+		err = fmt.Errorf("--shard: %w", err)
 	}
-	s.shard = sh
-	return s, errors.Join(errs...)
+	return sweepSpec{sets: *f.sets, shard: sh}, err
 }
 
 // parsePolarity reads --polarity: "" (the deck's), pos, neg or both.
@@ -105,14 +101,8 @@ type runSweep struct {
 // the failed solves and, when interrupted, an errInterrupted; runs is nil
 // only when nothing could start.
 func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, verify bool, check func([]study.Job) error, stderr io.Writer) (*runSweep, error) {
-	if len(spec.sets) > 0 {
-		sets, err := whatif.ParseSets(c, spec.sets)
-		if err != nil {
-			return nil, err
-		}
-		if sopt.Variants, err = whatif.Variants(c, sets); err != nil {
-			return nil, err
-		}
+	if err := setVariants(c, spec.sets, sopt); err != nil {
+		return nil, err
 	}
 	jobs, err := study.Jobs(c, sopt)
 	if err != nil {
@@ -162,6 +152,21 @@ func sweepRuns(c *netlist.Circuit, sopt *study.Options, spec sweepSpec, verify b
 	return sw, err
 }
 
+// setVariants reads --set (run, margin) against c into the variants sopt
+// studies: the deck's vary lines combined with the sets (whatif.Variants).
+// Without --set sopt keeps the deck's own.
+func setVariants(c *netlist.Circuit, flags []string, sopt *study.Options) error {
+	if len(flags) == 0 {
+		return nil
+	}
+	sets, err := whatif.ParseSets(c, flags)
+	if err != nil {
+		return err
+	}
+	sopt.Variants, err = whatif.Variants(c, sets)
+	return err
+}
+
 // withoutContext drops context errors from a joined error.
 func withoutContext(err error) error {
 	if err == nil {
@@ -182,14 +187,14 @@ func withoutContext(err error) error {
 	return err
 }
 
-// runJSON writes the run document; a shard or an interrupted sweep also
-// says so.
-func runJSON(w io.Writer, meta study.Meta, sw *runSweep) error {
+// runDocument is the run JSON's document; a shard or an interrupted sweep
+// also says so.
+func runDocument(meta study.Meta, sw *runSweep) study.Document {
 	runs := sw.runs
 	if runs == nil {
 		runs = []study.Run{}
 	}
-	return report.EncodeJSON(w, study.Document{Meta: meta, Runs: runs, Shard: sw.shard, Interrupted: sw.interrupted})
+	return study.Document{Meta: meta, Runs: runs, Shard: sw.shard, Interrupted: sw.interrupted}
 }
 
 // rankVariants prints the variant ranking when the sweep has several.
@@ -200,12 +205,19 @@ func rankVariants(w io.Writer, sw *runSweep) error {
 	return report.VariantRanking(w, whatif.RankVariants(sw.runs))
 }
 
-// writeOutput writes a document to "-" (w) or to a file, whole or not at all.
+// writeOutput writes a document as JSON to "-" (w) or to a file, whole or
+// not at all.
 func writeOutput(path string, w io.Writer, doc any) error {
+	return writeStream(path, w, func(f io.Writer) error { return report.EncodeJSON(f, doc) })
+}
+
+// writeStream writes with write to "-" (w) or to a file, whole or not at
+// all.
+func writeStream(path string, w io.Writer, write func(io.Writer) error) error {
 	if path == "-" {
-		return report.EncodeJSON(w, doc)
+		return write(w)
 	}
-	return report.WriteFile(path, func(f io.Writer) error { return report.EncodeJSON(f, doc) })
+	return report.WriteFile(path, write)
 }
 
 // The plumbing run, margin, sensitivity and spread share: the one deck, the

@@ -100,8 +100,16 @@ A for surge-8-20 and tlp; a scale for pwl) and take SI prefixes (4k, 8kV).`,
 		v.FillDefaults()
 		opt.params = &v
 	}
-	out := newOutputs()
-	out.file("--csv", opt.csv)
+	// A file the waveform reads (pwl's file=) is an input like a deck.
+	var inputs []string
+	for _, w := range wf.Words {
+		if p := opt.params; w.Path && p != nil && p.Word(w.Key) != "" {
+			inputs = append(inputs, p.Word(w.Key))
+		}
+	}
+	out := newOutputs(inputs...)
+	out.named("--csv", opt.csv)
+	out.file("--json", opt.json)
 	errs = append(errs, out.err())
 	if err := errors.Join(errs...); err != nil {
 		return fmt.Errorf("waveform: %w", err)
@@ -162,14 +170,8 @@ func waveformReport(opt waveformOptions, out, stdout io.Writer) error {
 	for _, c := range checks {
 		doc.Pass = doc.Pass && c.Within
 	}
-	switch opt.json {
-	case "":
-	case "-":
-		if err := report.EncodeJSON(stdout, doc); err != nil {
-			return err
-		}
-	default:
-		if err := report.WriteFile(opt.json, func(w io.Writer) error { return report.EncodeJSON(w, doc) }); err != nil {
+	if opt.json != "" {
+		if err := writeOutput(opt.json, stdout, doc); err != nil {
 			return fmt.Errorf("waveform: --json: %w", err)
 		}
 	}

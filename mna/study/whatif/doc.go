@@ -1,11 +1,11 @@
 // Package whatif answers the questions an engineer asks once a deck runs:
 // which variant has the most margin, how high a level still passes, which
 // parameter buys the most margin, and how a batch of real parts spreads.
-// It is plain code over package study (Bench.Solve, ExecuteJobsContext) and
+// It is plain code over package study (Bench.Solve, ForEach) and
 // renders nothing; package report prints its results.
 //
 //   - Variants builds the variant list of a study from the deck's vary lines
-//     and command-line settings (ParseSet), and RankVariants orders the
+//     and command-line settings (ParseSets), and RankVariants orders the
 //     variants of a finished sweep by their worst margin over every level and
 //     polarity.
 //   - Margins searches, per variant and polarity, the highest level that

@@ -82,14 +82,18 @@ func TestRdynRaisesResidual(t *testing.T) {
 
 func TestSensitivityDefaultList(t *testing.T) {
 	c := parse(t, "../../../testdata/demo-weak.zap")
+	names := func(ps []param) map[string]bool {
+		has := map[string]bool{}
+		for _, p := range ps {
+			has[p.elem+"."+p.param] = true
+		}
+		return has
+	}
 	ps, skipped, err := paramList(c, nil, false)
 	if err != nil {
 		t.Fatal(err)
 	}
-	has := map[string]bool{}
-	for _, p := range ps {
-		has[p.elem+"."+p.param] = true
-	}
+	has := names(ps)
 	// [practice] design parameters in, ratings and the strike out, zero
 	// values skipped with a reason.
 	for _, want := range []string{"Lpad.value", "D1.ls", "D1.rdyn", "C1.value", "U1.cin"} {
@@ -107,10 +111,7 @@ func TestSensitivityDefaultList(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	withAll := map[string]bool{}
-	for _, p := range all {
-		withAll[p.elem+"."+p.param] = true
-	}
+	withAll := names(all)
 	if !withAll["D1.is"] || !withAll["D1.nbr"] || withAll["D1.ipp"] {
 		t.Errorf("--all list %v: the constants in, the ratings still out", withAll)
 	}

@@ -141,7 +141,7 @@ func TestSketchBuckets(t *testing.T) {
 func TestSketchMergeExact(t *testing.T) {
 	xs := append(draws("normal", 30000), draws("log-normal", 30000)...)
 	whole := sketchOf(SketchAccuracy, xs)
-	want := sketchText(t, whole)
+	want := jsonText(t, whole)
 
 	// Three parts by index modulo 3, as shards split, and three uneven
 	// contiguous blocks; each merged in two groupings and another order.
@@ -163,7 +163,7 @@ func TestSketchMergeExact(t *testing.T) {
 		mustMerge(t, other, a)
 		mustMerge(t, other, b)
 		for what, s := range map[string]*Sketch{"(a+b)+c": left, "a+(b+c)": r, "(c+a)+b": other} {
-			if got := sketchText(t, s); got != want {
+			if got := jsonText(t, s); got != want {
 				t.Errorf("%s %s differs from the sketch of every item:\n%s\n%s", name, what, got, want)
 			}
 		}
@@ -173,7 +173,7 @@ func TestSketchMergeExact(t *testing.T) {
 	for i := len(xs) - 1; i >= 0; i-- {
 		rev.Add(xs[i])
 	}
-	if got := sketchText(t, rev); got != want {
+	if got := jsonText(t, rev); got != want {
 		t.Error("the items in reverse order gave another sketch")
 	}
 	// Read back from its JSON, the sketch reads the same quantiles.
@@ -186,7 +186,7 @@ func TestSketchMergeExact(t *testing.T) {
 			t.Errorf("p = %g: %g before the JSON, %g after", p, a, b)
 		}
 	}
-	if sketchText(t, &back) != want {
+	if jsonText(t, &back) != want {
 		t.Error("the JSON of the sketch read back differs")
 	}
 	if err := whole.Merge(NewSketch(0.01)); err == nil {
@@ -209,15 +209,6 @@ func mustMerge(t *testing.T, s, o *Sketch) {
 	if err := s.Merge(o); err != nil {
 		t.Fatal(err)
 	}
-}
-
-func sketchText(t *testing.T, s *Sketch) string {
-	t.Helper()
-	b, err := json.Marshal(s)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return string(b)
 }
 
 // BenchmarkSketchMemory adds N and 10·N values of one log-normal

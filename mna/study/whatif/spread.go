@@ -180,12 +180,19 @@ type Sample struct {
 	Error string `json:"error,omitempty"`
 }
 
-// measure is one column of a sample: how to read it from a run and how the
-// worst case over conditions combines.
+// measure is one column of a sample: its name and how to read it from a
+// run. How its worst case over conditions combines follows from the name
+// (worstIsHighest), which is all a spread read back from JSON has.
 type measure struct {
-	name   string
-	read   func(r *study.Run) float64
-	higher bool // the worst case is the highest value (else the lowest)
+	name string
+	read func(r *study.Run) float64
+}
+
+// worstIsHighest says whether the worst case of measure m is its highest
+// value: true for peaks, energies and currents, false for a residual's low
+// and the worst margin (measuresOf).
+func worstIsHighest(m string) bool {
+	return !(m == "worst_margin" || strings.HasSuffix(m, ".residual.min"))
 }
 
 // Spreads draws opt.Runs circuits from the tolerances around c, strikes
@@ -388,12 +395,12 @@ func measuresOf(c *netlist.Circuit) []measure {
 		switch e.Kind.Role {
 		case spec.ProtectedPin:
 			ms = append(ms,
-				measure{name + ".residual.peak", func(r *study.Run) float64 { return residual(r).Peak }, true},
-				measure{name + ".residual.min", func(r *study.Run) float64 { return residual(r).Min }, false})
+				measure{name + ".residual.peak", func(r *study.Run) float64 { return residual(r).Peak }},
+				measure{name + ".residual.min", func(r *study.Run) float64 { return residual(r).Min }})
 		case spec.Protector:
 			ms = append(ms,
-				measure{name + ".energy", func(r *study.Run) float64 { return find(r).Energy }, true},
-				measure{name + ".peak_current", func(r *study.Run) float64 { return find(r).PeakCurrent }, true})
+				measure{name + ".energy", func(r *study.Run) float64 { return find(r).Energy }},
+				measure{name + ".peak_current", func(r *study.Run) float64 { return find(r).PeakCurrent }})
 		}
 	}
 	if hasLimits(c) {
@@ -402,7 +409,7 @@ func measuresOf(c *netlist.Circuit) []measure {
 				return math.NaN()
 			}
 			return r.Worst.Percent
-		}, false})
+		}})
 	}
 	return ms
 }
@@ -485,7 +492,7 @@ func (r *SpreadResult) add(s Sample) {
 		r.Passed++
 	}
 	for mi, m := range r.Measures {
-		higher := !(m == "worst_margin" || strings.HasSuffix(m, ".residual.min"))
+		higher := worstIsHighest(m)
 		w := s.Values[0][mi]
 		for ci, row := range s.Values {
 			x := row[mi]

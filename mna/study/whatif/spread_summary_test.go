@@ -56,7 +56,7 @@ func TestSpreadShardsMergeExactAndSketch(t *testing.T) {
 		{"uneven shards at the limit", 11, 6, 4, true},
 	} {
 		whole := spreadOf(t, deck, SpreadOptions{Runs: c.runs, Seed: 4, ExactUpTo: c.exact})
-		want := spreadJSON(t, whole)
+		want := jsonText(t, whole)
 		if (whole.PercentileError != 0) != c.sketch || whole.Summary != nil || whole.Samples != nil {
 			t.Errorf("%s: percentile error %g, summary %v, %d samples in the whole spread's result",
 				c.name, whole.PercentileError, whole.Summary != nil, len(whole.Samples))
@@ -73,7 +73,7 @@ func TestSpreadShardsMergeExactAndSketch(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v", c.name, err)
 		}
-		if got := spreadJSON(t, merged); got != want {
+		if got := jsonText(t, merged); got != want {
 			t.Errorf("%s: merged shards differ from the whole:\n%s\n%s", c.name, got, want)
 		}
 		// The same spread with every circuit's record: the same
@@ -83,7 +83,7 @@ func TestSpreadShardsMergeExactAndSketch(t *testing.T) {
 			t.Fatalf("%s: %d samples of %d circuits", c.name, len(with.Samples), c.runs)
 		}
 		with.Samples = nil
-		if got := spreadJSON(t, with); got != want {
+		if got := jsonText(t, with); got != want {
 			t.Errorf("%s: keeping the samples changed the statistics", c.name)
 		}
 		if _, err := MergeSpreads(parts[1:]); err == nil || !strings.Contains(err.Error(), "missing") {
@@ -153,7 +153,7 @@ func TestSpreadOldShardsMerge(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if a, b := spreadJSON(t, merged), spreadJSON(t, whole); a != b {
+	if a, b := jsonText(t, merged), jsonText(t, whole); a != b {
 		t.Errorf("old shards merged differ from the whole:\n%s\n%s", a, b)
 	}
 	// A shard with neither summary nor samples cannot be merged; one

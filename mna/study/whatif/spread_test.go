@@ -11,9 +11,11 @@ import (
 	"zapnet/netlist"
 )
 
-func spreadJSON(t *testing.T, r *SpreadResult) string {
+// jsonText is v's JSON: results that must be equal bit for bit are
+// compared by it.
+func jsonText(t testing.TB, v any) string {
 	t.Helper()
-	b, err := json.Marshal(r)
+	b, err := json.Marshal(v)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -37,7 +39,7 @@ func TestSpreadReproducible(t *testing.T) {
 	}
 	one := run(42, 1, study.Shard{})
 	two := run(42, 2, study.Shard{})
-	if a, b := spreadJSON(t, one), spreadJSON(t, two); a != b {
+	if a, b := jsonText(t, one), jsonText(t, two); a != b {
 		t.Fatalf("1 and 2 workers differ:\n%s\n%s", a, b)
 	}
 	if one.Solved != 6 || len(one.Samples) != 6 {
@@ -55,7 +57,7 @@ func TestSpreadReproducible(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if a, b := spreadJSON(t, one), spreadJSON(t, merged); a != b {
+	if a, b := jsonText(t, one), jsonText(t, merged); a != b {
 		t.Fatalf("merged shards differ from the whole:\n%s\n%s", a, b)
 	}
 	if _, err := MergeSpreads(parts[:3]); err == nil {
@@ -111,15 +113,6 @@ func TestDrawDistributions(t *testing.T) {
 	if a, b := Draw(c, tols, 7, 5), Draw(c, tols, 7, 6); reflect.DeepEqual(a, b) {
 		t.Error("indices 5 and 6 drew the same values")
 	}
-}
-
-func num(t *testing.T, s string) float64 {
-	t.Helper()
-	var v float64
-	if err := json.Unmarshal([]byte(s), &v); err != nil {
-		t.Fatalf("%q: %v", s, err)
-	}
-	return v
 }
 
 func TestSpreadNeedsTolerances(t *testing.T) {

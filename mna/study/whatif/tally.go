@@ -44,6 +44,12 @@ func (t *Tally) add(x float64) {
 		}
 		return
 	}
+	t.sketched(x)
+}
+
+// sketched counts x into the sketch and the exact sum, which always move
+// together.
+func (t *Tally) sketched(x float64) {
 	t.sketch.Add(x)
 	t.sum.Add(t.sum, t.x.SetFloat64(x))
 }
@@ -53,8 +59,7 @@ func (t *Tally) toSketch() {
 	t.sketch = NewSketch(SketchAccuracy)
 	t.sum = new(big.Float).SetPrec(sumPrec)
 	for _, v := range t.values {
-		t.sketch.Add(v)
-		t.sum.Add(t.sum, t.x.SetFloat64(v))
+		t.sketched(v)
 	}
 	t.values = nil
 }
@@ -70,8 +75,7 @@ func (t *Tally) merge(o *Tally) error {
 	}
 	if o.sketch == nil {
 		for _, v := range o.values {
-			t.sketch.Add(v)
-			t.sum.Add(t.sum, t.x.SetFloat64(v))
+			t.sketched(v)
 		}
 		return nil
 	}

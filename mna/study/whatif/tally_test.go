@@ -16,15 +16,6 @@ func tallyOf(limit int, xs []float64) *Tally {
 	return t
 }
 
-func tallyText(t *testing.T, x *Tally) string {
-	t.Helper()
-	b, err := json.Marshal(x)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return string(b)
-}
-
 // TestTallyExactThenSketch: up to its limit a tally gives Summarise's
 // percentiles bit for bit [calc: the same definition-7 arithmetic on the
 // same sorted values]; above it the sketch's, with the count, extremes and
@@ -87,12 +78,12 @@ func TestTallyExactThenSketch(t *testing.T) {
 func TestTallyMergeAnyOrder(t *testing.T) {
 	xs := append(draws("normal", 900), 0, math.Copysign(0, -1), 0)
 	for _, limit := range []int{10000, 500, 200} {
-		want := tallyText(t, tallyOf(limit, xs))
+		want := jsonText(t, tallyOf(limit, xs))
 		rev := newTally(limit)
 		for i := len(xs) - 1; i >= 0; i-- {
 			rev.add(xs[i])
 		}
-		if got := tallyText(t, rev); got != want {
+		if got := jsonText(t, rev); got != want {
 			t.Errorf("limit %d: reversed order gave another tally", limit)
 		}
 		// Three parts of 301 (below the limit of 500, above 200), merged
@@ -105,7 +96,7 @@ func TestTallyMergeAnyOrder(t *testing.T) {
 			}
 		}
 		var back Tally
-		if err := json.Unmarshal([]byte(tallyText(t, b)), &back); err != nil {
+		if err := json.Unmarshal([]byte(jsonText(t, b)), &back); err != nil {
 			t.Fatal(err)
 		}
 		right := newTally(limit)
@@ -115,7 +106,7 @@ func TestTallyMergeAnyOrder(t *testing.T) {
 			}
 		}
 		for what, x := range map[string]*Tally{"a+b+c": left, "c+b+a": right} {
-			if got := tallyText(t, x); got != want {
+			if got := jsonText(t, x); got != want {
 				t.Errorf("limit %d: %s differs from the tally of every value", limit, what)
 			}
 			if x.Percentiles() != tallyOf(limit, xs).Percentiles() {
