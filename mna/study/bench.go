@@ -410,27 +410,12 @@ func polaritySign(polarity string) (float64, error) {
 	return 0, fmt.Errorf("polarity %q: use pos or neg", polarity)
 }
 
-// window is the deck's window with the fields Options.Window sets replaced.
-func (b *Bench) window(opt *Options) netlist.Window {
-	w := b.Circuit.Window
-	if opt.Window.Stop > 0 {
-		w.Stop = opt.Window.Stop
-	}
-	if opt.Window.Resolve > 0 {
-		w.Resolve = opt.Window.Resolve
-	}
-	if opt.Window.Accuracy > 0 {
-		w.Accuracy = opt.Window.Accuracy
-	}
-	return w
-}
-
 // solveWindow solves the strike st over the run's window: the deck's, or
 // the default span, doubled up to its cap while an extreme sits at its end.
 // It records the window in r, with a note when the span was extended or an
 // extreme may still be rising at its end.
 func (b *Bench) solveWindow(r *Run, st *waveforms.Stimulus, sign float64, opt *Options) (*mna.Result, error) {
-	w := b.window(opt)
+	w := windowOf(b.Circuit, opt)
 	explicit := w.Stop > 0
 	stop, limit := w.Stop, Cap(st.Stop)
 	if !explicit {
