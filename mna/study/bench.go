@@ -140,13 +140,18 @@ func NewBench(c *netlist.Circuit, v netlist.Variant) (*Bench, error) {
 // reads, whether or not this element gives that rating (the reports show
 // the quantity either way).
 func newMeter(e *netlist.Element, elem, a, b int, probes []devices.Probe) elemMeter {
-	m := elemMeter{e: e, elem: elem, a: a, b: b, across: e.Kind.Role == spec.ProtectedPin}
+	// The voltage across the terminals is a pin's residual, a protector's
+	// voltage at rest (its stand-off, beside its leakage), and shown
+	// beside every voltage rating, one read on a probe included.
+	role := e.Kind.Role
+	m := elemMeter{e: e, elem: elem, a: a, b: b, across: role == spec.ProtectedPin || role == spec.Protector}
 	// Widths are of interest only against a rating; an infinite threshold
 	// keeps them at zero.
 	m.v.Above, m.v.Below = math.Inf(1), math.Inf(-1)
 	for _, r := range e.Kind.Ratings() {
-		if r.Rates.Measure == spec.PeakVoltage || r.Rates.Measure == spec.StandOff || e.Kind.Role == spec.Protector {
-			m.across = true // the voltage across the terminals is reported beside a probe's
+		switch r.Rates.Measure {
+		case spec.PeakVoltage, spec.HighVoltage, spec.LowVoltage, spec.StandOff:
+			m.across = true
 		}
 		switch {
 		case r.Rates.Probe != "":
@@ -157,8 +162,6 @@ func newMeter(e *netlist.Element, elem, a, b int, probes []devices.Probe) elemMe
 					}
 				}
 			}
-		case r.Rates.Measure == spec.PeakVoltage || r.Rates.Measure == spec.HighVoltage || r.Rates.Measure == spec.LowVoltage:
-			m.across = true
 		case r.Rates.Measure == spec.PeakPower:
 			m.power = true
 		}
@@ -243,8 +246,6 @@ func (b *Bench) sample(p *mna.Point) {
 	if b.first {
 		copy(b.w0, p.W)
 		copy(b.i0, p.I)
-	}
-	if b.first {
 		copy(b.node0, p.V)
 		b.first = false
 	}
@@ -537,7 +538,7 @@ func (b *Bench) measure(r *Run, res *mna.Result) {
 		if m.e.Kind.Role == spec.ProtectedPin {
 			er.Residual = m.residual(er.Energy)
 		}
-		if m.across && hasMeasure(m.e, spec.PeakVoltage) {
+		if hasMeasure(m.e, spec.PeakVoltage) { // the meter follows the voltage across it
 			v, t := m.v.AbsPeak()
 			v = quiet(v, voltageFloor)
 			er.PeakVoltage, er.TPeakVoltage = &v, &t
