@@ -25,6 +25,10 @@ type Bench struct {
 	elems  []string        // System.Elements
 	probes []devices.Probe // System.Probes
 	strIdx int             // the strike among elems
+	// Per node, whether a watch line names it and whether it is a
+	// protected pin's line; per watch line, its node's index (−1: none).
+	watched, pin []bool
+	watchAt      []int
 
 	// Streaming measurements, reset before every solve and fed by observe.
 	first   bool
@@ -112,7 +116,20 @@ func NewBench(c *netlist.Circuit, v netlist.Variant) (*Bench, error) {
 	b.elemTr = make([]waveforms.Tracker, len(b.elems))
 	b.w0 = make([]float64, len(b.elems))
 	b.i0 = make([]float64, len(b.elems))
+	b.watched, b.pin = make([]bool, len(b.nodes)), make([]bool, len(b.nodes))
+	for _, wt := range vc.Watches {
+		i, ok := nodeIdx[wt.Node]
+		if ok {
+			b.watched[i] = true
+		} else {
+			i = -1
+		}
+		b.watchAt = append(b.watchAt, i)
+	}
 	for _, e := range vc.Elements {
+		if i, ok := nodeIdx[e.Nodes[0]]; ok && e.Kind.Role == spec.ProtectedPin {
+			b.pin[i] = true
+		}
 		if !e.IsStrike() {
 			b.meters = append(b.meters, newMeter(e, elemIdx[e.Name], node(e.Nodes[0]), node(e.Nodes[1]), b.probes))
 			if i, ok := probeIdx[e.Name+".beyond"]; ok {
@@ -494,12 +511,8 @@ func (b *Bench) lateExtremes(stop float64) []string {
 			late = append(late, name+" lowest")
 		}
 	}
-	watched := map[string]bool{}
-	for _, wt := range b.Circuit.Watches {
-		watched[wt.Node] = true
-	}
 	for i, n := range b.nodes {
-		if watched[n] {
+		if b.watched[i] {
 			check("node "+n, &b.nodeTr[i], b.node0[i])
 		}
 	}
@@ -569,21 +582,11 @@ func (b *Bench) measure(r *Run, res *mna.Result) {
 
 // measureNodes fills the extremes of every node.
 func (b *Bench) measureNodes(r *Run) {
-	isPin := map[string]bool{}
-	for k := range b.meters {
-		if m := &b.meters[k]; m.e.Kind.Role == spec.ProtectedPin {
-			isPin[m.e.Nodes[0]] = true
-		}
-	}
-	watched := map[string]bool{}
-	for _, wt := range b.Circuit.Watches {
-		watched[wt.Node] = true
-	}
 	for i, n := range b.nodes {
 		hi, thi := b.nodeTr[i].Max()
 		lo, tlo := b.nodeTr[i].Min()
 		r.Nodes = append(r.Nodes, NodeResult{Name: n, Max: quiet(hi, voltageFloor), TMax: thi, Min: quiet(lo, voltageFloor), TMin: tlo,
-			Initial: b.node0[i], Watched: watched[n], Pin: isPin[n]})
+			Initial: b.node0[i], Watched: b.watched[i], Pin: b.pin[i]})
 	}
 }
 
@@ -632,10 +635,9 @@ func (b *Bench) limits(r *Run) {
 			r.Limits = append(r.Limits, l)
 		}
 	}
-	nodeIdx := indexOf(b.nodes)
-	for _, wt := range b.Circuit.Watches {
-		i, ok := nodeIdx[wt.Node]
-		if !ok {
+	for k, wt := range b.Circuit.Watches {
+		i := b.watchAt[k]
+		if i < 0 {
 			continue
 		}
 		if wt.HasMax {
