@@ -2,8 +2,9 @@ package study
 
 import (
 	"encoding/json"
+	"maps"
 	"math"
-	"sort"
+	"slices"
 	"strings"
 
 	"zapnet/devices/spec"
@@ -94,7 +95,7 @@ func unmarshalNamed[T any](b []byte, xs *[]T, setName func(*T, string)) error {
 		return err
 	}
 	*xs = (*xs)[:0]
-	for _, name := range sortedKeys(m) {
+	for _, name := range slices.Sorted(maps.Keys(m)) {
 		x := m[name]
 		setName(&x, name)
 		*xs = append(*xs, x)
@@ -130,7 +131,7 @@ func (l *Ledger) UnmarshalJSON(b []byte) error {
 		return err
 	}
 	*l = Ledger{Strike: m[ledgerStrike], Balance: m[ledgerBalance]}
-	for _, name := range sortedKeys(m) {
+	for _, name := range slices.Sorted(maps.Keys(m)) {
 		if name != ledgerStrike && name != ledgerBalance {
 			l.Entries = append(l.Entries, LedgerEntry{Name: name, Energy: m[name]})
 		}
@@ -207,13 +208,4 @@ func (l *Limit) UnmarshalJSON(b []byte) error {
 		l.Window, l.Headroom, l.Rest = true, *j.Headroom, *j.Rest
 	}
 	return nil
-}
-
-func sortedKeys[V any](m map[string]V) []string {
-	keys := make([]string, 0, len(m))
-	for k := range m {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	return keys
 }
