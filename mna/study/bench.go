@@ -34,7 +34,6 @@ type Bench struct {
 	first   bool
 	nodeTr  []waveforms.Tracker // per node, its voltage
 	node0   []float64           // per node, its value at t = 0
-	elemTr  []waveforms.Tracker // per element, its current
 	w0      []float64           // per element, its power at t = 0 (the operating point), W
 	i0      []float64           // per element, its current at t = 0, A
 	meters  []elemMeter         // per element but the strike, deck order
@@ -43,14 +42,15 @@ type Bench struct {
 	observe func(p *mna.Point)
 }
 
-// elemMeter follows what the ratings and the role of one element ask to be
-// measured beyond its current: the voltage across it, its power, and the
+// elemMeter follows one element's current, and what its ratings and role
+// ask to be measured beyond it: the voltage across it, its power, and the
 // device probes its ratings name (a pin's internal-path current, a
 // capacitor's dielectric voltage).
 type elemMeter struct {
 	e      *netlist.Element
 	elem   int // element index in the system
 	a, b   int // node indices of its terminals; −1 for gnd
+	i      waveforms.Tracker
 	across bool
 	v      waveforms.Tracker // v(a) − v(b), when across
 	v0     float64
@@ -113,7 +113,6 @@ func NewBench(c *netlist.Circuit, v netlist.Variant) (*Bench, error) {
 	}
 	b.nodeTr = make([]waveforms.Tracker, len(b.nodes))
 	b.node0 = make([]float64, len(b.nodes))
-	b.elemTr = make([]waveforms.Tracker, len(b.elems))
 	b.w0 = make([]float64, len(b.elems))
 	b.i0 = make([]float64, len(b.elems))
 	b.watched, b.pin = make([]bool, len(b.nodes)), make([]bool, len(b.nodes))
@@ -231,11 +230,9 @@ func (b *Bench) sample(p *mna.Point) {
 	for i := range b.nodeTr {
 		b.nodeTr[i].Add(t, p.V[i])
 	}
-	for i := range b.elemTr {
-		b.elemTr[i].Add(t, p.I[i])
-	}
 	for k := range b.meters {
 		m := &b.meters[k]
+		m.i.Add(t, p.I[m.elem])
 		if m.across {
 			v := volt(p.V, m.a) - volt(p.V, m.b)
 			m.v.Add(t, v)
@@ -273,17 +270,15 @@ func (b *Bench) sample(p *mna.Point) {
 // no interpolation of an extreme reaches across it.
 func (b *Bench) corner() { b.eachTracker((*waveforms.Tracker).Corner) }
 
-// eachTracker calls f on every tracker of the bench: the nodes', the
-// elements', and each meter's voltage, power and probes.
+// eachTracker calls f on every tracker of the bench: the nodes', and each
+// meter's current, voltage, power and probes.
 func (b *Bench) eachTracker(f func(*waveforms.Tracker)) {
 	for i := range b.nodeTr {
 		f(&b.nodeTr[i])
 	}
-	for i := range b.elemTr {
-		f(&b.elemTr[i])
-	}
 	for k := range b.meters {
 		m := &b.meters[k]
+		f(&m.i)
 		f(&m.v)
 		f(&m.w)
 		for j := range m.probes {
@@ -541,7 +536,7 @@ func (b *Bench) measure(r *Run, res *mna.Result) {
 	b.ledger(r, res)
 	for k := range b.meters {
 		m := &b.meters[k]
-		pk, tpk := b.elemTr[m.elem].AbsPeak()
+		pk, tpk := m.i.AbsPeak()
 		er := ElementResult{Name: m.e.Name, Kind: m.e.Kind.Name, Role: m.e.Kind.Role,
 			PeakCurrent: quiet(pk, currentFloor), TPeak: tpk, Energy: r.Ledger.Entries[k].Energy,
 			Quiescent: b.w0[m.elem]}
@@ -665,7 +660,7 @@ func (b *Bench) measured(m *elemMeter, rt spec.Param, r *Run) (meas, at, v0 floa
 		pm := m.probe(rt.Rates.Probe)
 		tr, v0 = &pm.tr, pm.v0
 	case rt.Rates.Measure == spec.PeakCurrent:
-		tr = &b.elemTr[m.elem]
+		tr = &m.i
 	case rt.Rates.Measure == spec.PeakPower:
 		tr = &m.w
 	}
@@ -715,7 +710,7 @@ func (b *Bench) validity(r *Run, st *waveforms.Stimulus) []string {
 		if m.e.Kind.Role != spec.Protector {
 			continue
 		}
-		pk, _ := b.elemTr[m.elem].AbsPeak()
+		pk, _ := m.i.AbsPeak()
 		if l := r.LimitOn(m.e.Name, spec.PeakCurrent); l != nil && pk > overdrive*l.Value {
 			notes = append(notes, fmt.Sprintf("%s carried %s, %.0f times its ipp of %s: far outside the range any model of the part is valid in",
 				m.e.Name, spec.FormatSI(pk, "A"), pk/l.Value, spec.FormatSI(l.Value, "A")))
