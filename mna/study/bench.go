@@ -53,6 +53,10 @@ type elemMeter struct {
 	i      waveforms.Tracker
 	across bool
 	v      waveforms.Tracker // v(a) − v(b), when across
+	// peakV: its kind has a peak-voltage rating, so its largest |v(a) −
+	// v(b)| is reported (ElementResult.PeakVoltage) whether or not this
+	// element gives the rating.
+	peakV  bool
 	v0     float64
 	power  bool
 	w      waveforms.Tracker // Σ v·i into it, when power
@@ -166,7 +170,9 @@ func newMeter(e *netlist.Element, elem, a, b int, probes []devices.Probe) elemMe
 	m.v.Above, m.v.Below = math.Inf(1), math.Inf(-1)
 	for _, r := range e.Kind.Ratings() {
 		switch r.Rates.Measure {
-		case spec.PeakVoltage, spec.HighVoltage, spec.LowVoltage, spec.StandOff:
+		case spec.PeakVoltage:
+			m.across, m.peakV = true, true
+		case spec.HighVoltage, spec.LowVoltage, spec.StandOff:
 			m.across = true
 		}
 		switch {
@@ -546,7 +552,7 @@ func (b *Bench) measure(r *Run, res *mna.Result) {
 		if m.e.Kind.Role == spec.ProtectedPin {
 			er.Residual = m.residual(er.Energy)
 		}
-		if hasMeasure(m.e, spec.PeakVoltage) { // the meter follows the voltage across it
+		if m.peakV {
 			v, t := m.v.AbsPeak()
 			v = quiet(v, voltageFloor)
 			er.PeakVoltage, er.TPeakVoltage = &v, &t
@@ -786,18 +792,6 @@ func quiet(v, floor float64) float64 {
 		return 0
 	}
 	return v
-}
-
-// hasMeasure reports whether the element's kind declares a rating judged
-// against meas (of its terminals or of a probe), whether or not this
-// element gives it a value.
-func hasMeasure(e *netlist.Element, meas spec.Measure) bool {
-	for _, r := range e.Kind.Ratings() {
-		if r.Rates.Measure == meas {
-			return true
-		}
-	}
-	return false
 }
 
 // ratingKeys lists every rating of every kind, in catalogue order.
