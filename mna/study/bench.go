@@ -625,7 +625,7 @@ func (b *Bench) limits(r *Run) {
 		m := &b.meters[k]
 		for _, rt := range m.ratings {
 			v, _ := m.e.Values.Lookup(rt.Key)
-			meas, at, v0 := b.measured(m, rt, r)
+			meas, at, v0 := m.measured(rt, r.Ledger.Entries[k].Energy)
 			var l Limit
 			if isWindow(rt.Rates.Measure) {
 				l = NewWindowLimit(m.e.Name, rt.Key, rt.Unit, v, meas, at, quiet(v0, voltageFloor), rt.Rates.Upper, rt.Rates.Says)
@@ -656,10 +656,10 @@ func (b *Bench) limits(r *Run) {
 // whose margin is judged against the headroom from the operating point.
 func isWindow(m spec.Measure) bool { return m == spec.HighVoltage || m == spec.LowVoltage }
 
-// measured is the measurement a rating of meter m is compared with, its
-// time (NaN for an energy or a stand-off) and its value at the operating
-// point.
-func (b *Bench) measured(m *elemMeter, rt spec.Param, r *Run) (meas, at, v0 float64) {
+// measured is the measurement a rating of the meter's element is compared
+// with, its time (NaN for an energy or a stand-off) and its value at the
+// operating point; energy is the element's entry in the ledger.
+func (m *elemMeter) measured(rt spec.Param, energy float64) (meas, at, v0 float64) {
 	tr, v0 := &m.v, m.v0 // the voltage across the element
 	switch {
 	case rt.Rates.Probe != "":
@@ -672,11 +672,7 @@ func (b *Bench) measured(m *elemMeter, rt spec.Param, r *Run) (meas, at, v0 floa
 	}
 	switch rt.Rates.Measure {
 	case spec.Energy:
-		for _, e := range r.Ledger.Entries {
-			if e.Name == m.e.Name {
-				return e.Energy, math.NaN(), 0
-			}
-		}
+		return energy, math.NaN(), 0
 	case spec.StandOff:
 		return math.Abs(m.v0), math.NaN(), m.v0
 	case spec.HighVoltage:
