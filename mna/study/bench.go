@@ -25,12 +25,15 @@ type Bench struct {
 	elems  []string        // System.Elements
 	probes []devices.Probe // System.Probes
 	strIdx int             // the strike among elems
+	// Per node, whether a watch line names it and whether it is a
+	// protected pin's line; per watch line, its node's index (−1: none).
+	watched, pin []bool
+	watchAt      []int
 
 	// Streaming measurements, reset before every solve and fed by observe.
 	first   bool
 	nodeTr  []waveforms.Tracker // per node, its voltage
 	node0   []float64           // per node, its value at t = 0
-	elemTr  []waveforms.Tracker // per element, its current
 	w0      []float64           // per element, its power at t = 0 (the operating point), W
 	i0      []float64           // per element, its current at t = 0, A
 	meters  []elemMeter         // per element but the strike, deck order
@@ -39,16 +42,21 @@ type Bench struct {
 	observe func(p *mna.Point)
 }
 
-// elemMeter follows what the ratings and the role of one element ask to be
-// measured beyond its current: the voltage across it, its power, and the
+// elemMeter follows one element's current, and what its ratings and role
+// ask to be measured beyond it: the voltage across it, its power, and the
 // device probes its ratings name (a pin's internal-path current, a
 // capacitor's dielectric voltage).
 type elemMeter struct {
 	e      *netlist.Element
 	elem   int // element index in the system
 	a, b   int // node indices of its terminals; −1 for gnd
+	i      waveforms.Tracker
 	across bool
 	v      waveforms.Tracker // v(a) − v(b), when across
+	// peakV: its kind has a peak-voltage rating, so its largest |v(a) −
+	// v(b)| is reported (ElementResult.PeakVoltage) whether or not this
+	// element gives the rating.
+	peakV  bool
 	v0     float64
 	power  bool
 	w      waveforms.Tracker // Σ v·i into it, when power
@@ -109,10 +117,22 @@ func NewBench(c *netlist.Circuit, v netlist.Variant) (*Bench, error) {
 	}
 	b.nodeTr = make([]waveforms.Tracker, len(b.nodes))
 	b.node0 = make([]float64, len(b.nodes))
-	b.elemTr = make([]waveforms.Tracker, len(b.elems))
 	b.w0 = make([]float64, len(b.elems))
 	b.i0 = make([]float64, len(b.elems))
+	b.watched, b.pin = make([]bool, len(b.nodes)), make([]bool, len(b.nodes))
+	for _, wt := range vc.Watches {
+		i, ok := nodeIdx[wt.Node]
+		if ok {
+			b.watched[i] = true
+		} else {
+			i = -1
+		}
+		b.watchAt = append(b.watchAt, i)
+	}
 	for _, e := range vc.Elements {
+		if i, ok := nodeIdx[e.Nodes[0]]; ok && e.Kind.Role == spec.ProtectedPin {
+			b.pin[i] = true
+		}
 		if !e.IsStrike() {
 			b.meters = append(b.meters, newMeter(e, elemIdx[e.Name], node(e.Nodes[0]), node(e.Nodes[1]), b.probes))
 			if i, ok := probeIdx[e.Name+".beyond"]; ok {
@@ -140,13 +160,20 @@ func NewBench(c *netlist.Circuit, v netlist.Variant) (*Bench, error) {
 // reads, whether or not this element gives that rating (the reports show
 // the quantity either way).
 func newMeter(e *netlist.Element, elem, a, b int, probes []devices.Probe) elemMeter {
-	m := elemMeter{e: e, elem: elem, a: a, b: b, across: e.Kind.Role == spec.ProtectedPin}
+	// The voltage across the terminals is a pin's residual, a protector's
+	// voltage at rest (its stand-off, beside its leakage), and shown
+	// beside every voltage rating, one read on a probe included.
+	role := e.Kind.Role
+	m := elemMeter{e: e, elem: elem, a: a, b: b, across: role == spec.ProtectedPin || role == spec.Protector}
 	// Widths are of interest only against a rating; an infinite threshold
 	// keeps them at zero.
 	m.v.Above, m.v.Below = math.Inf(1), math.Inf(-1)
 	for _, r := range e.Kind.Ratings() {
-		if r.Rates.Measure == spec.PeakVoltage || r.Rates.Measure == spec.StandOff || e.Kind.Role == spec.Protector {
-			m.across = true // the voltage across the terminals is reported beside a probe's
+		switch r.Rates.Measure {
+		case spec.PeakVoltage:
+			m.across, m.peakV = true, true
+		case spec.HighVoltage, spec.LowVoltage, spec.StandOff:
+			m.across = true
 		}
 		switch {
 		case r.Rates.Probe != "":
@@ -157,8 +184,6 @@ func newMeter(e *netlist.Element, elem, a, b int, probes []devices.Probe) elemMe
 					}
 				}
 			}
-		case r.Rates.Measure == spec.PeakVoltage || r.Rates.Measure == spec.HighVoltage || r.Rates.Measure == spec.LowVoltage:
-			m.across = true
 		case r.Rates.Measure == spec.PeakPower:
 			m.power = true
 		}
@@ -211,11 +236,9 @@ func (b *Bench) sample(p *mna.Point) {
 	for i := range b.nodeTr {
 		b.nodeTr[i].Add(t, p.V[i])
 	}
-	for i := range b.elemTr {
-		b.elemTr[i].Add(t, p.I[i])
-	}
 	for k := range b.meters {
 		m := &b.meters[k]
+		m.i.Add(t, p.I[m.elem])
 		if m.across {
 			v := volt(p.V, m.a) - volt(p.V, m.b)
 			m.v.Add(t, v)
@@ -243,8 +266,6 @@ func (b *Bench) sample(p *mna.Point) {
 	if b.first {
 		copy(b.w0, p.W)
 		copy(b.i0, p.I)
-	}
-	if b.first {
 		copy(b.node0, p.V)
 		b.first = false
 	}
@@ -255,17 +276,15 @@ func (b *Bench) sample(p *mna.Point) {
 // no interpolation of an extreme reaches across it.
 func (b *Bench) corner() { b.eachTracker((*waveforms.Tracker).Corner) }
 
-// eachTracker calls f on every tracker of the bench: the nodes', the
-// elements', and each meter's voltage, power and probes.
+// eachTracker calls f on every tracker of the bench: the nodes', and each
+// meter's current, voltage, power and probes.
 func (b *Bench) eachTracker(f func(*waveforms.Tracker)) {
 	for i := range b.nodeTr {
 		f(&b.nodeTr[i])
 	}
-	for i := range b.elemTr {
-		f(&b.elemTr[i])
-	}
 	for k := range b.meters {
 		m := &b.meters[k]
+		f(&m.i)
 		f(&m.v)
 		f(&m.w)
 		for j := range m.probes {
@@ -410,27 +429,12 @@ func polaritySign(polarity string) (float64, error) {
 	return 0, fmt.Errorf("polarity %q: use pos or neg", polarity)
 }
 
-// window is the deck's window with the fields Options.Window sets replaced.
-func (b *Bench) window(opt *Options) netlist.Window {
-	w := b.Circuit.Window
-	if opt.Window.Stop > 0 {
-		w.Stop = opt.Window.Stop
-	}
-	if opt.Window.Resolve > 0 {
-		w.Resolve = opt.Window.Resolve
-	}
-	if opt.Window.Accuracy > 0 {
-		w.Accuracy = opt.Window.Accuracy
-	}
-	return w
-}
-
 // solveWindow solves the strike st over the run's window: the deck's, or
 // the default span, doubled up to its cap while an extreme sits at its end.
 // It records the window in r, with a note when the span was extended or an
 // extreme may still be rising at its end.
 func (b *Bench) solveWindow(r *Run, st *waveforms.Stimulus, sign float64, opt *Options) (*mna.Result, error) {
-	w := b.window(opt)
+	w := windowOf(b.Circuit, opt)
 	explicit := w.Stop > 0
 	stop, limit := w.Stop, Cap(st.Stop)
 	if !explicit {
@@ -508,12 +512,8 @@ func (b *Bench) lateExtremes(stop float64) []string {
 			late = append(late, name+" lowest")
 		}
 	}
-	watched := map[string]bool{}
-	for _, wt := range b.Circuit.Watches {
-		watched[wt.Node] = true
-	}
 	for i, n := range b.nodes {
-		if watched[n] {
+		if b.watched[i] {
 			check("node "+n, &b.nodeTr[i], b.node0[i])
 		}
 	}
@@ -542,7 +542,7 @@ func (b *Bench) measure(r *Run, res *mna.Result) {
 	b.ledger(r, res)
 	for k := range b.meters {
 		m := &b.meters[k]
-		pk, tpk := b.elemTr[m.elem].AbsPeak()
+		pk, tpk := m.i.AbsPeak()
 		er := ElementResult{Name: m.e.Name, Kind: m.e.Kind.Name, Role: m.e.Kind.Role,
 			PeakCurrent: quiet(pk, currentFloor), TPeak: tpk, Energy: r.Ledger.Entries[k].Energy,
 			Quiescent: b.w0[m.elem]}
@@ -552,7 +552,7 @@ func (b *Bench) measure(r *Run, res *mna.Result) {
 		if m.e.Kind.Role == spec.ProtectedPin {
 			er.Residual = m.residual(er.Energy)
 		}
-		if m.across && hasMeasure(m.e, spec.PeakVoltage) {
+		if m.peakV {
 			v, t := m.v.AbsPeak()
 			v = quiet(v, voltageFloor)
 			er.PeakVoltage, er.TPeakVoltage = &v, &t
@@ -583,21 +583,11 @@ func (b *Bench) measure(r *Run, res *mna.Result) {
 
 // measureNodes fills the extremes of every node.
 func (b *Bench) measureNodes(r *Run) {
-	isPin := map[string]bool{}
-	for k := range b.meters {
-		if m := &b.meters[k]; m.e.Kind.Role == spec.ProtectedPin {
-			isPin[m.e.Nodes[0]] = true
-		}
-	}
-	watched := map[string]bool{}
-	for _, wt := range b.Circuit.Watches {
-		watched[wt.Node] = true
-	}
 	for i, n := range b.nodes {
 		hi, thi := b.nodeTr[i].Max()
 		lo, tlo := b.nodeTr[i].Min()
 		r.Nodes = append(r.Nodes, NodeResult{Name: n, Max: quiet(hi, voltageFloor), TMax: thi, Min: quiet(lo, voltageFloor), TMin: tlo,
-			Initial: b.node0[i], Watched: watched[n], Pin: isPin[n]})
+			Initial: b.node0[i], Watched: b.watched[i], Pin: b.pin[i]})
 	}
 }
 
@@ -635,7 +625,7 @@ func (b *Bench) limits(r *Run) {
 		m := &b.meters[k]
 		for _, rt := range m.ratings {
 			v, _ := m.e.Values.Lookup(rt.Key)
-			meas, at, v0 := b.measured(m, rt, r)
+			meas, at, v0 := m.measured(rt, r.Ledger.Entries[k].Energy)
 			var l Limit
 			if isWindow(rt.Rates.Measure) {
 				l = NewWindowLimit(m.e.Name, rt.Key, rt.Unit, v, meas, at, quiet(v0, voltageFloor), rt.Rates.Upper, rt.Rates.Says)
@@ -646,10 +636,9 @@ func (b *Bench) limits(r *Run) {
 			r.Limits = append(r.Limits, l)
 		}
 	}
-	nodeIdx := indexOf(b.nodes)
-	for _, wt := range b.Circuit.Watches {
-		i, ok := nodeIdx[wt.Node]
-		if !ok {
+	for k, wt := range b.Circuit.Watches {
+		i := b.watchAt[k]
+		if i < 0 {
 			continue
 		}
 		if wt.HasMax {
@@ -667,27 +656,23 @@ func (b *Bench) limits(r *Run) {
 // whose margin is judged against the headroom from the operating point.
 func isWindow(m spec.Measure) bool { return m == spec.HighVoltage || m == spec.LowVoltage }
 
-// measured is the measurement a rating of meter m is compared with, its
-// time (NaN for an energy or a stand-off) and its value at the operating
-// point.
-func (b *Bench) measured(m *elemMeter, rt spec.Param, r *Run) (meas, at, v0 float64) {
+// measured is the measurement a rating of the meter's element is compared
+// with, its time (NaN for an energy or a stand-off) and its value at the
+// operating point; energy is the element's entry in the ledger.
+func (m *elemMeter) measured(rt spec.Param, energy float64) (meas, at, v0 float64) {
 	tr, v0 := &m.v, m.v0 // the voltage across the element
 	switch {
 	case rt.Rates.Probe != "":
 		pm := m.probe(rt.Rates.Probe)
 		tr, v0 = &pm.tr, pm.v0
 	case rt.Rates.Measure == spec.PeakCurrent:
-		tr = &b.elemTr[m.elem]
+		tr = &m.i
 	case rt.Rates.Measure == spec.PeakPower:
 		tr = &m.w
 	}
 	switch rt.Rates.Measure {
 	case spec.Energy:
-		for _, e := range r.Ledger.Entries {
-			if e.Name == m.e.Name {
-				return e.Energy, math.NaN(), 0
-			}
-		}
+		return energy, math.NaN(), 0
 	case spec.StandOff:
 		return math.Abs(m.v0), math.NaN(), m.v0
 	case spec.HighVoltage:
@@ -727,7 +712,7 @@ func (b *Bench) validity(r *Run, st *waveforms.Stimulus) []string {
 		if m.e.Kind.Role != spec.Protector {
 			continue
 		}
-		pk, _ := b.elemTr[m.elem].AbsPeak()
+		pk, _ := m.i.AbsPeak()
 		if l := r.LimitOn(m.e.Name, spec.PeakCurrent); l != nil && pk > overdrive*l.Value {
 			notes = append(notes, fmt.Sprintf("%s carried %s, %.0f times its ipp of %s: far outside the range any model of the part is valid in",
 				m.e.Name, spec.FormatSI(pk, "A"), pk/l.Value, spec.FormatSI(l.Value, "A")))
@@ -803,18 +788,6 @@ func quiet(v, floor float64) float64 {
 		return 0
 	}
 	return v
-}
-
-// hasMeasure reports whether the element's kind declares a rating judged
-// against meas (of its terminals or of a probe), whether or not this
-// element gives it a value.
-func hasMeasure(e *netlist.Element, meas spec.Measure) bool {
-	for _, r := range e.Kind.Ratings() {
-		if r.Rates.Measure == meas {
-			return true
-		}
-	}
-	return false
 }
 
 // ratingKeys lists every rating of every kind, in catalogue order.

@@ -60,7 +60,7 @@ const BurstAccuracy = mna.DefaultAccuracy / 10
 // include the settled ones. The window's span does not apply: the burst
 // is its span.
 func (b *Bench) solveBurst(r *Run, st *waveforms.Stimulus, sign float64, opt *Options) (*mna.Result, error) {
-	w := b.window(opt)
+	w := windowOf(b.Circuit, opt)
 	var set mna.Settings
 	if opt.Settings != nil {
 		set = *opt.Settings

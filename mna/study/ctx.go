@@ -4,7 +4,6 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"runtime"
 
 	"zapnet/netlist"
 )
@@ -49,18 +48,14 @@ func Execute(ctx context.Context, c *netlist.Circuit, jobs []Job, opt *Options, 
 // is called after each finished run, never two calls at once.
 func solvePool(ctx context.Context, c *netlist.Circuit, jobs []Job, opt *Options, done func(finished int)) (runs []Run, ok []bool) {
 	opt = opt.WithContext(ctx)
-	workers := opt.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	benches := NewBenches(c, max(1, min(workers, len(jobs)))) // ForEach's pool
+	benches := NewBenches(c, PoolSize(opt.Workers, len(jobs)))
 	runs = make([]Run, len(jobs))
 	var progress func(done, total int)
 	if done != nil {
 		progress = func(finished, _ int) { done(finished) }
 	}
 	cut := make([]bool, len(jobs)) // runs the context stopped midway
-	ok = ForEach(ctx, workers, len(jobs), progress, func(w, k int) {
+	ok = ForEach(ctx, opt.Workers, len(jobs), progress, func(w, k int) {
 		j := jobs[k]
 		runs[k] = func() (run Run) {
 			// A panic is a bug, but the user should get a sentence and

@@ -6,13 +6,13 @@
 //
 // # Entry points
 //
-//   - Execute(c, opt) solves the whole plan of a circuit (or the levels,
-//     polarities and variants that Options override) and returns one Run per
-//     job, in plan order whatever the number of workers: variant-major, then
-//     level, then polarity.
-//   - Jobs(c, opt) lists those jobs without solving them, and ExecuteJobs
-//     solves any subset: a sharded sweep (`--shard i/n`) takes every n-th job
-//     and solves only those; the merge step puts Runs back in Job.Index order.
+//   - Jobs(c, opt) lists the runs of the whole plan of a circuit (or of the
+//     levels, polarities and variants that Options override) in plan order:
+//     variant-major, then level, then polarity. It solves nothing.
+//   - Execute(ctx, c, jobs, opt, done) solves those jobs, or any subset (a
+//     sharded sweep, `--shard i/n`, takes every n-th), and returns one Run
+//     per finished job in the order of jobs whatever the number of workers;
+//     the merge step puts the Runs of shards back in Job.Index order.
 //   - NewBench(c, variant) compiles one variant once; Bench.Solve(level,
 //     polarity, opt) solves one run with it and can be called again and
 //     again (one goroutine per Bench). A margin search bisects the level with
@@ -33,25 +33,32 @@
 // ∫ v·i dt from the engine's ledger), every protected pin (the residual
 // pulse v(pin) − v(ref): peak, lowest value, time above vmax and below vmin,
 // energy into the pin, peak current in its internal clamp paths from the
-// "PIN.ipath" probe), every capacitor (largest |voltage| across it) and the
-// energy ledger: where the strike's energy went.
+// "PIN.ipath" probe), every capacitor (largest |voltage| across it and on
+// its dielectric, the "C.vc" probe) and the energy ledger: where the
+// strike's energy went.
 //
 // # Limits, verdicts and margins
 //
-// A Limit is one rating compared with one measurement:
+// A Limit is one rating compared with one measurement. What a rating is
+// compared with is the catalogue's (spec.Rates: a measure, its side, and
+// for some a device probe instead of the terminals):
 //
-//	watch NODE max=  highest voltage of the node     ≤ max
-//	watch NODE min=  lowest voltage of the node      ≥ min
-//	clamp ipp        largest |current| of the clamp  ≤ ipp
-//	clamp emax       energy into the clamp           ≤ emax
-//	pin vmax         highest residual voltage        ≤ vmax
-//	pin vmin         lowest residual voltage         ≥ vmin
-//	pin ifail        largest |ipath| current         ≤ ifail
-//	capacitor rating largest |voltage| across it     ≤ rating
+//	watch NODE max=   highest voltage of the node               ≤ max
+//	watch NODE min=   lowest voltage of the node                ≥ min
+//	ipp, it2          largest |current| through the element     ≤ rating
+//	emax              energy into the element                   ≤ rating
+//	pmax              largest power into the element            ≤ rating
+//	vrwm              |voltage| across it at rest               ≤ rating
+//	pin vmax          highest residual voltage                  ≤ vmax
+//	pin vmin          lowest residual voltage                   ≥ vmin
+//	pin ifail         largest |ipath| current                   ≤ ifail
+//	capacitor rating  largest |voltage| on its dielectric (vc)  ≤ rating
 //
 // The margin of a limit is the distance from the measured extreme to the
-// limit, positive on the safe side, in the limit's own unit (V, A or J), and
-// as a percentage of |limit|. A run FAILs when any margin is negative and
+// limit, positive on the safe side, in the limit's own unit, and as a
+// percentage: of |limit|, or for one side of a voltage window (vmax, vmin,
+// a watch's max and min) of the headroom from the operating point to the
+// limit (NewWindowLimit). A run FAILs when any margin is negative and
 // PASSes otherwise (a run with no limits passes and says it checked none).
 // The worst margin is the limit with the smallest percentage, reported with
 // its name, for example "U1 vmax: 0.7 V (12.7 %)".
@@ -72,7 +79,7 @@
 // excursion from its value at t = 0, so a tail settling by microvolts does
 // not stretch the window.
 //
-// Without a `window reltol=` the study solves at the engine's default
+// Without a `window accuracy=` the study solves at the engine's default
 // accuracy (mna.DefaultAccuracy, 0.2 % on every reported extreme and
 // energy).
 package study

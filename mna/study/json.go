@@ -2,8 +2,9 @@ package study
 
 import (
 	"encoding/json"
+	"maps"
 	"math"
-	"sort"
+	"slices"
 	"strings"
 
 	"zapnet/devices/spec"
@@ -37,26 +38,12 @@ type NodeResults []NodeResult
 
 // MarshalJSON writes {"NODE": {...}, ...}.
 func (ns NodeResults) MarshalJSON() ([]byte, error) {
-	m := make(map[string]NodeResult, len(ns))
-	for _, n := range ns {
-		m[n.Name] = n
-	}
-	return json.Marshal(m)
+	return marshalNamed(ns, func(n *NodeResult) string { return n.Name })
 }
 
 // UnmarshalJSON reads the object back, nodes in name order.
 func (ns *NodeResults) UnmarshalJSON(b []byte) error {
-	var m map[string]NodeResult
-	if err := json.Unmarshal(b, &m); err != nil {
-		return err
-	}
-	*ns = (*ns)[:0]
-	for _, name := range sortedKeys(m) {
-		n := m[name]
-		n.Name = name
-		*ns = append(*ns, n)
-	}
-	return nil
+	return unmarshalNamed(b, (*[]NodeResult)(ns), func(n *NodeResult, name string) { n.Name = name })
 }
 
 // ElementResults are the measurements of every element but the strike, in
@@ -65,29 +52,17 @@ type ElementResults []ElementResult
 
 // MarshalJSON writes {"ELEMENT": {...}, ...}.
 func (es ElementResults) MarshalJSON() ([]byte, error) {
-	m := make(map[string]ElementResult, len(es))
-	for _, e := range es {
-		m[e.Name] = e
-	}
-	return json.Marshal(m)
+	return marshalNamed(es, func(e *ElementResult) string { return e.Name })
 }
 
 // UnmarshalJSON reads the object back, elements in name order.
 func (es *ElementResults) UnmarshalJSON(b []byte) error {
-	var m map[string]ElementResult
-	if err := json.Unmarshal(b, &m); err != nil {
-		return err
-	}
-	*es = (*es)[:0]
-	for _, name := range sortedKeys(m) {
-		e := m[name]
+	return unmarshalNamed(b, (*[]ElementResult)(es), func(e *ElementResult, name string) {
 		e.Name = name
 		if e.Residual != nil {
 			e.Residual.Name = name
 		}
-		*es = append(*es, e)
-	}
-	return nil
+	})
 }
 
 // ProbeResults are an element's probes.
@@ -95,24 +70,35 @@ type ProbeResults []ProbeResult
 
 // MarshalJSON writes {"PROBE": {...}, ...}.
 func (ps ProbeResults) MarshalJSON() ([]byte, error) {
-	m := make(map[string]ProbeResult, len(ps))
-	for _, p := range ps {
-		m[p.Name] = p
-	}
-	return json.Marshal(m)
+	return marshalNamed(ps, func(p *ProbeResult) string { return p.Name })
 }
 
 // UnmarshalJSON reads the object back, probes in name order.
 func (ps *ProbeResults) UnmarshalJSON(b []byte) error {
-	var m map[string]ProbeResult
+	return unmarshalNamed(b, (*[]ProbeResult)(ps), func(p *ProbeResult, name string) { p.Name = name })
+}
+
+// marshalNamed writes xs as one object keyed by each one's name.
+func marshalNamed[T any](xs []T, name func(*T) string) ([]byte, error) {
+	m := make(map[string]T, len(xs))
+	for i := range xs {
+		m[name(&xs[i])] = xs[i]
+	}
+	return json.Marshal(m)
+}
+
+// unmarshalNamed reads such an object back into *xs, in name order,
+// giving each its name with setName.
+func unmarshalNamed[T any](b []byte, xs *[]T, setName func(*T, string)) error {
+	var m map[string]T
 	if err := json.Unmarshal(b, &m); err != nil {
 		return err
 	}
-	*ps = (*ps)[:0]
-	for _, name := range sortedKeys(m) {
-		p := m[name]
-		p.Name = name
-		*ps = append(*ps, p)
+	*xs = (*xs)[:0]
+	for _, name := range slices.Sorted(maps.Keys(m)) {
+		x := m[name]
+		setName(&x, name)
+		*xs = append(*xs, x)
 	}
 	return nil
 }
@@ -145,7 +131,7 @@ func (l *Ledger) UnmarshalJSON(b []byte) error {
 		return err
 	}
 	*l = Ledger{Strike: m[ledgerStrike], Balance: m[ledgerBalance]}
-	for _, name := range sortedKeys(m) {
+	for _, name := range slices.Sorted(maps.Keys(m)) {
 		if name != ledgerStrike && name != ledgerBalance {
 			l.Entries = append(l.Entries, LedgerEntry{Name: name, Energy: m[name]})
 		}
@@ -222,13 +208,4 @@ func (l *Limit) UnmarshalJSON(b []byte) error {
 		l.Window, l.Headroom, l.Rest = true, *j.Headroom, *j.Rest
 	}
 	return nil
-}
-
-func sortedKeys[V any](m map[string]V) []string {
-	keys := make([]string, 0, len(m))
-	for k := range m {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	return keys
 }

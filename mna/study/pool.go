@@ -8,8 +8,8 @@ import (
 )
 
 // ForEach calls work(w, i) for every i in 0..n−1 on a pool of
-// max(1, min(workers, n)) workers (workers ≤ 0: every core); w names the
-// worker so that work can keep per-worker state such as a compiled circuit.
+// PoolSize(workers, n) workers; w names the worker so that work can keep
+// per-worker state such as a compiled circuit.
 // Once ctx is done no new item starts. progress, when not nil, is told after
 // each finished item how many have finished, of n; calls never overlap. It
 // returns which items finished. The solves of a study and of the what-if
@@ -27,10 +27,7 @@ func ForEach(ctx context.Context, workers, n int, progress func(done, total int)
 // of millions of circuits): it returns only how many items finished. When
 // ctx is done, those are the items that started.
 func Each(ctx context.Context, workers, n int, progress func(done, total int), work func(w, i int)) int {
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	workers = max(1, min(workers, n))
+	workers = PoolSize(workers, n)
 	next := make(chan int)
 	var mu sync.Mutex
 	count := 0
@@ -64,6 +61,16 @@ feed:
 	close(next)
 	wg.Wait()
 	return count
+}
+
+// PoolSize is how many workers ForEach and Each run for n items when asked
+// for workers (≤ 0: every core): at least one, at most n. Per-worker state
+// (Benches) needs this many slots.
+func PoolSize(workers, n int) int {
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	return max(1, min(workers, n))
 }
 
 // Benches keeps, for each worker of a pool, the variant it compiled last:

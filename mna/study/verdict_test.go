@@ -197,16 +197,7 @@ func TestStandOffAndResistorRatings(t *testing.T) {
 	}
 
 	// Below the working voltage, the stand-off fails in the trade's words.
-	c := railCircuit(t)
-	x, err := c.With(netlist.Setting{Element: "D1", Param: "vrwm", Num: 4.5, Text: "4.5V"})
-	if err != nil {
-		t.Fatal(err)
-	}
-	b, err := NewBench(x, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	low, err := b.Solve(2000, "pos", nil)
+	low, err := solve(railCircuit(t), netlist.Variant{{Element: "D1", Param: "vrwm", Num: 4.5, Text: "4.5V"}}, 2000, "pos", nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -219,16 +210,7 @@ func TestStandOffAndResistorRatings(t *testing.T) {
 // get notes saying the numbers are outside the models' validity; a clamp
 // that leaks at rest gets one too [practice].
 func TestValidityNotes(t *testing.T) {
-	c := railCircuit(t)
-	x, err := c.With(netlist.Setting{Element: "D1", Param: "vbr", Num: 5.1, Text: "5.1V"})
-	if err != nil {
-		t.Fatal(err)
-	}
-	b, err := NewBench(x, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	r, err := b.Solve(2e6, "pos", nil)
+	r, err := solve(railCircuit(t), netlist.Variant{{Element: "D1", Param: "vbr", Num: 5.1, Text: "5.1V"}}, 2e6, "pos", nil)
 	if err != nil {
 		t.Fatal(err)
 	}

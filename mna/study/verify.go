@@ -67,11 +67,8 @@ type VerifiedQuantity struct {
 // Accuracy is the relative accuracy the runs of c ask of the engine under
 // opt: the options' window, else the deck's, else the default.
 func Accuracy(c *netlist.Circuit, opt *Options) float64 {
-	if opt != nil && opt.Window.Accuracy > 0 {
-		return opt.Window.Accuracy
-	}
-	if c.Window.Accuracy > 0 {
-		return c.Window.Accuracy
+	if a := windowOf(c, opt).Accuracy; a > 0 {
+		return a
 	}
 	return mna.DefaultAccuracy
 }

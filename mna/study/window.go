@@ -25,6 +25,25 @@ const (
 	RCTaus    = 3.0
 )
 
+// windowOf is the deck's window with the fields opt.Window sets replaced
+// (opt may be nil).
+func windowOf(c *netlist.Circuit, opt *Options) netlist.Window {
+	w := c.Window
+	if opt == nil {
+		return w
+	}
+	if opt.Window.Stop > 0 {
+		w.Stop = opt.Window.Stop
+	}
+	if opt.Window.Resolve > 0 {
+		w.Resolve = opt.Window.Resolve
+	}
+	if opt.Window.Accuracy > 0 {
+		w.Accuracy = opt.Window.Accuracy
+	}
+	return w
+}
+
 // DefaultStop is the default span for circuit c struck by a stimulus whose
 // own span is stimStop: the longest of that span, LCPeriods periods
 // 2π√(L·C) of the largest inductance with the largest capacitance, and RCTaus

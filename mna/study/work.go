@@ -62,13 +62,7 @@ func EstimateWork(c *netlist.Circuit, opt *Options) (Work, error) {
 			limiters = append(limiters, limiter{e.Name, l})
 		}
 	}
-	win := c.Window
-	if opt != nil && opt.Window.Stop > 0 {
-		win.Stop = opt.Window.Stop
-	}
-	if opt != nil && opt.Window.Resolve > 0 {
-		win.Resolve = opt.Window.Resolve
-	}
+	win := windowOf(c, opt)
 	for _, level := range pl.Levels {
 		st, err := s.Waveform.New(level, &s.Values)
 		if err != nil {
