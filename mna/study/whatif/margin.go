@@ -229,10 +229,11 @@ func Margins(ctx context.Context, c *netlist.Circuit, opt *MarginOptions) (*Marg
 	for i, sr := range mine {
 		out[i] = Margin{Index: sr.index, Variant: variants[sr.variant], Polarity: sr.polarity, LevelUnit: unit}
 	}
-	workers := workerCount(opt.Study.Workers)
 	sopt := *opt.Study.WithContext(ctx)
 	sopt.Record = false
 	grid := scanGrid(steps, scan)
+	// The scans are the largest pool; the bisections use no more workers.
+	workers := study.PoolSize(opt.Study.Workers, len(mine)*len(grid))
 	total := (len(grid) + bisections(steps, scan)) * len(mine)
 	if opt.Verify {
 		total += 2 * len(mine)

@@ -158,7 +158,7 @@ func Sensitivities(ctx context.Context, c *netlist.Circuit, opt *SensitivityOpti
 		}
 	}
 	halves := make([]half, 2*len(mine))
-	finished := study.ForEach(ctx, workerCount(opt.Study.Workers), 2*len(mine), opt.Progress, func(_ int, i int) {
+	finished := study.ForEach(ctx, opt.Study.Workers, 2*len(mine), opt.Progress, func(_ int, i int) {
 		p := mine[i/2]
 		f := 1 - step
 		if i%2 == 1 {

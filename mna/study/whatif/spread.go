@@ -273,7 +273,7 @@ func Spreads(ctx context.Context, c *netlist.Circuit, opt *SpreadOptions) (*Spre
 	sopt.Record = false
 	var mu sync.Mutex
 	cut := 0 // circuits the context stopped midway: no result
-	finished := study.Each(ctx, workerCount(opt.Study.Workers), mine, opt.Progress, func(_ int, i int) {
+	finished := study.Each(ctx, opt.Study.Workers, mine, opt.Progress, func(_ int, i int) {
 		s, err := solveDrawn(c, tols, jobs, ms, opt.Seed, opt.Shard.Item(i), &sopt, res.LevelUnit)
 		mu.Lock()
 		if study.Interrupted(err) {
