@@ -76,6 +76,14 @@ const acScale = 0x1p64
 // Ref is gnd.
 type Pair struct{ Node, Ref string }
 
+// RefNode is the pair's reference by name: gnd when Ref is empty.
+func (p Pair) RefNode() string {
+	if p.Ref == "" {
+		return netlist.Ground
+	}
+	return p.Ref
+}
+
 // Port is a small-signal port: a pair of nodes and the real impedance Z0
 // that terminates it (and that its S-parameters are referred to), Ω.
 type Port struct {
@@ -199,16 +207,9 @@ func (a *AC) pair(p Pair) (int, int, error) {
 		return 0, 0, err
 	}
 	if i == j {
-		return 0, 0, fmt.Errorf("mna: %s and %s are the same node", p.Node, refName(p.Ref))
+		return 0, 0, fmt.Errorf("mna: %s and %s are the same node", p.Node, p.RefNode())
 	}
 	return i, j, nil
-}
-
-func refName(r string) string {
-	if r == "" {
-		return netlist.Ground
-	}
-	return r
 }
 
 // assemble forms Y at omega with the given ports terminated. skip, when a

@@ -107,7 +107,7 @@ func Analyse(c *netlist.Circuit, req *Request, opt *Options) (*Result, error) {
 		return nil, err
 	}
 	res := &Result{
-		Drive:     Drive{Node: req.Drive.Node, Ref: refName(req.Drive.Ref), Bias: bias(a, req.Drive)},
+		Drive:     Drive{Node: req.Drive.Node, Ref: req.Drive.RefNode(), Bias: bias(a, req.Drive)},
 		Freq:      freq,
 		Impedance: impedance(freq, zin),
 		Edges:     []Edge{},
@@ -254,13 +254,6 @@ func twoPort(a *mna.AC, freq []float64, p [2]mna.Port) (*TwoPort, error) {
 		tp.S22DB, tp.S22Deg = append(tp.S22DB, db(s[1][1])), append(tp.S22Deg, deg(s[1][1]))
 	}
 	return tp, nil
-}
-
-func refName(r string) string {
-	if r == "" {
-		return netlist.Ground
-	}
-	return r
 }
 
 func db(v complex128) float64  { return 20 * math.Log10(cmplx.Abs(v)) }

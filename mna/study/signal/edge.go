@@ -119,7 +119,7 @@ func edgeProbes(req *Request, o options) []edgeProbe {
 		// against the target's limit too.
 		merged := false
 		for i := range probes {
-			if probes[i].pair == t.Pair || (probes[i].pair.Node == t.Pair.Node && refName(probes[i].pair.Ref) == refName(t.Pair.Ref)) {
+			if probes[i].pair == t.Pair || (probes[i].pair.Node == t.Pair.Node && probes[i].pair.RefNode() == t.Pair.RefNode()) {
 				probes[i].limit = tighter(probes[i].limit, t.Rise)
 				merged = true
 			}
