@@ -74,3 +74,19 @@ func DeckNumber(v float64, unit Unit) string {
 func FormatFraction(f float64) string {
 	return strconv.FormatFloat(100*f, 'g', 6, 64) + " %"
 }
+
+// NiceCeil is the smallest of 1, 2 or 5 times a power of ten not below
+// v > 0 (to a part in a billion): a suggested window stop or an axis
+// span that reads well. v ≤ 0 comes back unchanged.
+func NiceCeil(v float64) float64 {
+	if !(v > 0) {
+		return v
+	}
+	p := math.Pow(10, math.Floor(math.Log10(v)))
+	for _, m := range []float64{1, 2, 5, 10} {
+		if m*p >= v*(1-1e-9) {
+			return m * p
+		}
+	}
+	return 10 * p
+}

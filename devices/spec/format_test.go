@@ -44,3 +44,12 @@ func TestFormatSI(t *testing.T) {
 		}
 	}
 }
+
+// NiceCeil rounds up to 1, 2 or 5 times a power of ten [practice].
+func TestNiceCeil(t *testing.T) {
+	for _, c := range [][2]float64{{9.6e-9, 10e-9}, {16e-9, 20e-9}, {1e-9, 1e-9}, {2.1, 5}, {51, 100}} {
+		if got := NiceCeil(c[0]); math.Abs(got/c[1]-1) > 1e-12 {
+			t.Errorf("NiceCeil(%g) = %g, want %g", c[0], got, c[1])
+		}
+	}
+}

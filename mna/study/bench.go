@@ -481,7 +481,7 @@ func (b *Bench) solveWindow(r *Run, st *waveforms.Stimulus, sign float64, opt *O
 	}
 	what := strings.Join(late, ", ")
 	if explicit {
-		r.Window.Suggest = niceCeil(math.Max(2*stop, DefaultStop(b.Circuit, st.Stop)))
+		r.Window.Suggest = spec.NiceCeil(math.Max(2*stop, DefaultStop(b.Circuit, st.Stop)))
 		r.Notes = append(r.Notes, fmt.Sprintf("%s: in the last %.0f %% of the window, possibly still rising, so not a peak; try window stop=%s",
 			what, 100*EndFraction, spec.DeckNumber(r.Window.Suggest, "s")))
 	} else {

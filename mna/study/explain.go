@@ -3,7 +3,6 @@ package study
 import (
 	"errors"
 	"fmt"
-	"math"
 
 	"zapnet/devices/spec"
 	"zapnet/mna"
@@ -60,18 +59,3 @@ func (e *SolveFailure) Error() string { return e.Msg }
 
 // Unwrap gives errors.As access to the engine's error.
 func (e *SolveFailure) Unwrap() error { return e.Cause }
-
-// niceCeil rounds a positive duration up to 1, 2 or 5 times a power of ten,
-// which reads well as a suggested window stop.
-func niceCeil(v float64) float64 {
-	if !(v > 0) {
-		return v
-	}
-	p := math.Pow(10, math.Floor(math.Log10(v)))
-	for _, m := range []float64{1, 2, 5, 10} {
-		if m*p >= v*(1-1e-9) {
-			return m * p
-		}
-	}
-	return 10 * p
-}

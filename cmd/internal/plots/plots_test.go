@@ -323,15 +323,6 @@ func TestThin(t *testing.T) {
 	}
 }
 
-// niceCeil rounds up to 1, 2 or 5 times a power of ten [practice].
-func TestNiceCeil(t *testing.T) {
-	for _, c := range [][2]float64{{9.6e-9, 10e-9}, {16e-9, 20e-9}, {1e-9, 1e-9}, {2.1, 5}, {51, 100}} {
-		if got := niceCeil(c[0]); math.Abs(got/c[1]-1) > 1e-12 {
-			t.Errorf("niceCeil(%g) = %g, want %g", c[0], got, c[1])
-		}
-	}
-}
-
 // With a vary line the overlays compare the first variant across levels and
 // polarities, then every variant at the top level, one figure per polarity
 // (testdata/panel-button.zap: vary Cf.part=mlcc-100n,mlcc-1u, levels up to

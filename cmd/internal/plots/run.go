@@ -332,18 +332,7 @@ func closeUpSpan(w *study.Waves) float64 {
 	if at <= 0 {
 		return 0
 	}
-	return niceCeil(12 * at)
-}
-
-// niceCeil is the smallest of 1, 2 or 5 times a power of ten not below x > 0.
-func niceCeil(x float64) float64 {
-	p := math.Pow(10, math.Floor(math.Log10(x)))
-	for _, m := range []float64{1, 2, 5, 10} {
-		if m*p >= x*(1-1e-12) {
-			return m * p
-		}
-	}
-	return 10 * p
+	return spec.NiceCeil(12 * at)
 }
 
 // percent is a share as the tables print it, without "-0.0 %".
