@@ -163,7 +163,13 @@ func (c *comparison) addAt(name string, unit spec.Unit, a, b, scale, asked float
 	if (a != 0 || b != 0) && c.listed[[2]float64{a, b}] {
 		return
 	}
-	floor := map[spec.Unit]float64{spec.Volt: 1e-3, spec.Ampere: 1e-3, spec.Joule: c.energyFloor}[unit]
+	floor := 0.0
+	switch unit {
+	case spec.Volt, spec.Ampere:
+		floor = 1e-3
+	case spec.Joule:
+		floor = c.energyFloor
+	}
 	d := a - b
 	scale = math.Max(scale, floor)
 	rel := math.Abs(d) / scale
