@@ -340,7 +340,7 @@ func TestCouplingPathsIntoShort(t *testing.T) {
 		r := into(t, "surge-cwg", 1000, nil, map[string]string{"path": p.Name}, 0)
 		pk := measurePulse(r.Time, r.I).peak
 		near(t, p.Name+" peak (reference)", pk, ref["cwg/"+p.Name+"-1k-short-peak"], 5e-3)
-		near(t, p.Name+" peak (1 kV / total)", pk, 1000/p.Total, 0.12)
+		near(t, p.Name+" peak (1 kV / total)", pk, 1000/p.Total(), 0.12)
 	}
 }
 

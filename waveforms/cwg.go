@@ -57,17 +57,22 @@ type CouplingPath struct {
 	Name string
 	C    float64 // coupling capacitor, F (0: none)
 	R    float64 // added series resistance, Ω
-	// Total is the source impedance the path is known by (the generator's
-	// 2 Ω plus R), Ω.
-	Total float64
 }
+
+// cwgImpedance is the combination wave generator's effective output
+// impedance, its open-circuit peak over its short-circuit peak, Ω [pub].
+const cwgImpedance = 2.0
+
+// Total is the source impedance the path is known by: the generator's
+// 2 Ω plus R, Ω.
+func (p CouplingPath) Total() float64 { return cwgImpedance + p.R }
 
 // CouplingPaths lists the paths of surge-cwg's path= word.
 var CouplingPaths = []CouplingPath{
-	{Name: "direct", Total: 2},
-	{Name: "line-line", C: 18e-6, Total: 2},         // between lines of a power port
-	{Name: "line-earth", C: 9e-6, R: 10, Total: 12}, // from a power line to earth
-	{Name: "io", C: 0.5e-6, R: 40, Total: 42},       // unshielded interconnection lines
+	{Name: "direct"},
+	{Name: "line-line", C: 18e-6},        // between lines of a power port
+	{Name: "line-earth", C: 9e-6, R: 10}, // from a power line to earth
+	{Name: "io", C: 0.5e-6, R: 40},       // unshielded interconnection lines
 }
 
 // cwgStop covers the open-circuit voltage's tail (below 1 % after about

@@ -203,7 +203,7 @@ func TestCouplingPaths(t *testing.T) {
 	want := map[string][3]float64{"direct": {0, 0, 2}, "line-line": {18e-6, 0, 2}, "line-earth": {9e-6, 10, 12}, "io": {0.5e-6, 40, 42}}
 	for _, p := range CouplingPaths {
 		w := want[p.Name]
-		if p.C != w[0] || p.R != w[1] || p.Total != w[2] || p.Total != 2+p.R {
+		if p.C != w[0] || p.R != w[1] || p.Total() != w[2] || p.Total() != 2+p.R {
 			t.Errorf("%s: %+v", p.Name, p)
 		}
 		s, err := mk("surge-cwg", 1000, nil, map[string]string{"path": p.Name})

@@ -224,8 +224,8 @@ func checksCWG(s *Stimulus, load float64, m meter) []Check {
 			}
 			pk, _ := m(s, 0, s.Stop, false).peak()
 			c := info("through "+p.Name+": short-circuit peak", "A", pk, "[calc]",
-				fmt.Sprintf("level / %g Ω, the path's total impedance (coupling path values [mem])", p.Total))
-			c.Published = s.Level / p.Total
+				fmt.Sprintf("level / %g Ω, the path's total impedance (coupling path values [mem])", p.Total()))
+			c.Published = s.Level / p.Total()
 			cs = append(cs, c)
 		}
 	}
