@@ -45,7 +45,7 @@ func wordProblem(k *devices.Kind, w *spec.Word, val string) string {
 	case w.Choices != nil && !slices.Contains(w.Choices, val):
 		return fmt.Sprintf("%s %s is %s, not %s%s", k.Name, w.Key, orList(w.Choices), val, didYouMean(val, w.Choices))
 	case w.Node:
-		if m := nameProblem(val); m != "" {
+		if m := NameProblem(val); m != "" {
 			return fmt.Sprintf("%s node name %s %s", w.Key, val, m)
 		}
 	}

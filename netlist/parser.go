@@ -349,7 +349,7 @@ func (p *parser) params(toks []token) (pos []token, kv []rawParam) {
 
 // checkName reports a malformed element, node or part name.
 func (p *parser) checkName(what, s string, pos Pos) bool {
-	msg := nameProblem(s)
+	msg := NameProblem(s)
 	if msg == "" {
 		return true
 	}
@@ -360,7 +360,10 @@ func (p *parser) checkName(what, s string, pos Pos) bool {
 	return false
 }
 
-func nameProblem(s string) string {
+// NameProblem says what is wrong with s as a name of the deck language
+// (an element, node or part), "" when nothing is: a part line written by
+// another tool must pass the rule the deck reads it by.
+func NameProblem(s string) string {
 	r, _ := utf8.DecodeRuneInString(s)
 	if s == "" {
 		return "is empty"

@@ -64,11 +64,8 @@ func checkPartName(name string) error {
 	if name == "" {
 		return errors.New("the part needs a name: give --name")
 	}
-	for i, r := range name {
-		ok := r == '_' || (r >= 'a' && r <= 'z') || (r >= 'A' && r <= 'Z') || (i > 0 && (r == '-' || r == '.' || (r >= '0' && r <= '9')))
-		if !ok {
-			return fmt.Errorf("%q is not a part name: it starts with a letter or _ and holds letters, digits, _, - and .", name)
-		}
+	if m := netlist.NameProblem(name); m != "" {
+		return fmt.Errorf("%q is not a part name: it %s", name, m)
 	}
 	return nil
 }

@@ -250,3 +250,14 @@ func TestFitProblemsBounded(t *testing.T) {
 		t.Errorf("%d lines for a capped list", n)
 	}
 }
+
+// A fitted part's name passes the rule the deck reads names by, no more
+// and no less (LANGUAGE.md: a letter or _ first, then letters, digits, _,
+// - and .; letters are Unicode letters).
+func TestFitPartNameIsADeckName(t *testing.T) {
+	for name, ok := range map[string]bool{"tvs5u": true, "_a.b-1": true, "Ωx": true, "1x": false, "a b": false, "": false} {
+		if err := checkPartName(name); (err == nil) != ok {
+			t.Errorf("checkPartName(%q) = %v, want accepted %v", name, err, ok)
+		}
+	}
+}
