@@ -12,6 +12,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"zapnet/cmd/internal/report"
 	"zapnet/netlist"
 
 	"github.com/spf13/pflag"
@@ -74,12 +75,12 @@ func Main(args []string, stdout, stderr io.Writer) int {
 	}
 	for _, c := range commands() {
 		if c.name == args[0] {
-			out := &checkedWriter{w: stdout}
+			out := &report.CheckedWriter{W: stdout}
 			err := c.run(args[1:], out, stderr)
-			if out.err != nil && (err == nil || errors.Is(err, errVerdictFail)) {
+			if out.Err != nil && (err == nil || errors.Is(err, errVerdictFail)) {
 				// Results that did not reach their reader are lost
 				// results, whatever the verdict.
-				err = fmt.Errorf("cannot write to standard output: %w", out.err)
+				err = fmt.Errorf("cannot write to standard output: %w", out.Err)
 			}
 			return exitCode(err, stderr)
 		}
@@ -101,23 +102,6 @@ func exitCode(err error, stderr io.Writer) int {
 	// shown, never obeyed by the terminal.
 	fmt.Fprintf(stderr, "zapnet: %s\n", netlist.Printable(err.Error()))
 	return exitUnusable
-}
-
-// checkedWriter remembers the first error of the writer it wraps (standard
-// output full, closed or gone), so that a command whose output was lost
-// does not report success.
-type checkedWriter struct {
-	w   io.Writer
-	err error
-}
-
-func (c *checkedWriter) Write(p []byte) (int, error) {
-	if c.err != nil {
-		return 0, c.err
-	}
-	n, err := c.w.Write(p)
-	c.err = err
-	return n, err
 }
 
 func usage(w io.Writer) {

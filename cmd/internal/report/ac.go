@@ -54,7 +54,7 @@ func ACTables(w io.Writer, res *signal.Result, opt *TableOptions) error {
 	if opt == nil {
 		opt = &TableOptions{}
 	}
-	ew := &errWriter{w: w}
+	ew := &CheckedWriter{W: w}
 	if s := titleLine(opt.Title, opt.Deck); s != "" {
 		fmt.Fprintf(ew, "%s\n\n", s)
 	}
@@ -81,7 +81,7 @@ func ACTables(w io.Writer, res *signal.Result, opt *TableOptions) error {
 		fmt.Fprintln(ew)
 	}
 	fmt.Fprintln(ew, Caution)
-	return ew.err
+	return ew.Err
 }
 
 // transferTable prints each target's gain and phase at the rows' frequencies.

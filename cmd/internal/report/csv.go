@@ -25,7 +25,7 @@ func CSV(w io.Writer, r *study.Run) error {
 	if wv == nil {
 		return errors.New("report: the run was not recorded (study.Options.Record)")
 	}
-	ew := &errWriter{w: w}
+	ew := &CheckedWriter{W: w}
 	head := []string{column("time", spec.Second)}
 	for _, n := range wv.Nodes {
 		head = append(head, column(n, spec.Volt))
@@ -62,7 +62,7 @@ func CSV(w io.Writer, r *study.Run) error {
 		buf = append(buf, '\n')
 		ew.Write(buf)
 	}
-	return ew.err
+	return ew.Err
 }
 
 // CSVPaths names one CSV file per run from target: with one run, target

@@ -31,7 +31,7 @@ func Tables(w io.Writer, runs []study.Run, opt *TableOptions) error {
 	if opt == nil {
 		opt = &TableOptions{}
 	}
-	ew := &errWriter{w: w}
+	ew := &CheckedWriter{W: w}
 	if s := titleLine(opt.Title, opt.Deck); s != "" {
 		fmt.Fprintln(ew, s)
 	}
@@ -42,8 +42,8 @@ func Tables(w io.Writer, runs []study.Run, opt *TableOptions) error {
 		}
 		fmt.Fprintln(ew)
 	}
-	if ew.err != nil {
-		return ew.err
+	if ew.Err != nil {
+		return ew.Err
 	}
 	return Summary(w, runs)
 }
@@ -60,7 +60,7 @@ func titleLine(title, deck string) string {
 // Summary prints one row per run (variant, level, polarity, verdict, worst
 // margin) and the Caution line.
 func Summary(w io.Writer, runs []study.Run) error {
-	ew := &errWriter{w: w}
+	ew := &CheckedWriter{W: w}
 	fmt.Fprintln(ew, "Summary")
 	variants := false
 	for _, r := range runs {
@@ -89,7 +89,7 @@ func Summary(w io.Writer, runs []study.Run) error {
 	fmt.Fprintln(ew, verdictCount(runs, noun))
 	fmt.Fprintln(ew)
 	fmt.Fprintln(ew, Caution)
-	return ew.err
+	return ew.Err
 }
 
 // verdictCount counts the runs by verdict: "3 runs: 2 PASS, 1 FAIL", and
@@ -424,9 +424,9 @@ func CheckTable(w io.Writer, checks []waveforms.Check) error {
 		}
 		rows = append(rows, []string{c.Quantity, waveforms.FormatValue(c.Computed, c.Unit), pub, c.Tol, result, c.Source})
 	}
-	ew := &errWriter{w: w}
+	ew := &CheckedWriter{W: w}
 	writeTable(ew, head, rows)
-	return ew.err
+	return ew.Err
 }
 
 // limitRows are every limit with its margin, "FAIL" in the last column
@@ -526,18 +526,20 @@ func percentText(p float64) string {
 	return percent(p)
 }
 
-// errWriter keeps the first write error so that a report is written or
-// reported as failed as a whole.
-type errWriter struct {
-	w   io.Writer
-	err error
+// CheckedWriter keeps the first error of the writer it wraps and refuses
+// every write after it, so that a report is written or reported as failed
+// as a whole, and a command whose standard output was full, closed or
+// gone does not report success.
+type CheckedWriter struct {
+	W   io.Writer
+	Err error
 }
 
-func (e *errWriter) Write(p []byte) (int, error) {
-	if e.err != nil {
-		return 0, e.err
+func (e *CheckedWriter) Write(p []byte) (int, error) {
+	if e.Err != nil {
+		return 0, e.Err
 	}
-	n, err := e.w.Write(p)
-	e.err = err
+	n, err := e.W.Write(p)
+	e.Err = err
 	return n, err
 }

@@ -32,11 +32,11 @@ const rankingTitle = "Variants ranked by worst margin over every level and polar
 // VariantRanking prints the variants of a sweep ranked by their worst margin
 // over every level and polarity, the most margin first.
 func VariantRanking(w io.Writer, ranks []whatif.VariantRank) error {
-	ew := &errWriter{w: w}
+	ew := &CheckedWriter{W: w}
 	fmt.Fprintln(ew, "\n"+rankingTitle)
 	head, rows := rankingRows(ranks)
 	writeTable(ew, head, rows)
-	return ew.err
+	return ew.Err
 }
 
 // rankingRows are the ranking's table, one row per variant.
@@ -60,7 +60,7 @@ func rankingRows(ranks []whatif.VariantRank) (head []string, rows [][]string) {
 // MarginTable prints a margin search: per variant and polarity the highest
 // passing level, the first failing one and the limit that fails.
 func MarginTable(w io.Writer, r *whatif.MarginResult, title, deck string) error {
-	ew := &errWriter{w: w}
+	ew := &CheckedWriter{W: w}
 	heading(ew, title, deck, fmt.Sprintf("Margin search: %s up to %s in steps of %s", r.Waveform,
 		si(r.Max, r.LevelUnit), si(r.Resolution, r.LevelUnit)))
 	head := []string{"variant", "polarity", "highest pass", "first fail", "limiting", "monotonic", "solves"}
@@ -110,7 +110,7 @@ func MarginTable(w io.Writer, r *whatif.MarginResult, title, deck string) error 
 	}
 	fmt.Fprintln(ew)
 	fmt.Fprintln(ew, Caution)
-	return ew.err
+	return ew.Err
 }
 
 // marginCheckText is a margin's check column and, when a verdict flips or
@@ -130,7 +130,7 @@ func marginCheckText(c *whatif.MarginCheck) (col, note string) {
 // SensitivityTable prints the parameters ranked by what ±step does to the
 // worst margin.
 func SensitivityTable(w io.Writer, r *whatif.SensitivityResult, title, deck string) error {
-	ew := &errWriter{w: w}
+	ew := &CheckedWriter{W: w}
 	pct := spec.FormatFraction(r.Step)
 	which := "worst margin"
 	if r.Limit != "" {
@@ -170,7 +170,7 @@ func SensitivityTable(w io.Writer, r *whatif.SensitivityResult, title, deck stri
 	}
 	fmt.Fprintln(ew)
 	fmt.Fprintln(ew, Caution)
-	return ew.err
+	return ew.Err
 }
 
 func signedPoints(v float64) string {
@@ -184,7 +184,7 @@ func signedPoints(v float64) string {
 // its 95 % interval, and the percentiles of every measurement, over all
 // conditions and per level and polarity.
 func SpreadTable(w io.Writer, r *whatif.SpreadResult, title, deck string) error {
-	ew := &errWriter{w: w}
+	ew := &CheckedWriter{W: w}
 	heading(ew, title, deck, fmt.Sprintf("Spread: %d circuits drawn with seed %d", r.Runs, r.Seed))
 	if len(r.Variant) > 0 {
 		fmt.Fprintf(ew, "Design: %s\n", r.Variant.String())
@@ -224,7 +224,7 @@ func SpreadTable(w io.Writer, r *whatif.SpreadResult, title, deck string) error 
 		fmt.Fprintf(ew, "Interrupted: %d of %d circuits finished; the statistics are of those.\n", r.Solved+r.Unsolved, r.Runs)
 	}
 	fmt.Fprintln(ew, Caution)
-	return ew.err
+	return ew.Err
 }
 
 // fractionText renders a fraction as a percentage that keeps two significant
