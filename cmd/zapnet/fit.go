@@ -154,13 +154,14 @@ func stem(path string) string {
 }
 
 // check checks every output of a fit before the fit runs (see outputs):
-// none may be one of the data files read, --plot's folder is made now.
+// none may be one of the data files read, --plot's folder is made now;
+// files (flag, path pairs) are files a part names, never standard output.
 func (o fitOutputs) check(inputs []string, files ...string) error {
 	out := newOutputs(inputs...)
 	out.file("--json", o.json)
 	out.dir("--plot", o.plot)
 	for k := 0; k+1 < len(files); k += 2 {
-		out.file(files[k], files[k+1])
+		out.named(files[k], files[k+1])
 	}
 	return out.err()
 }

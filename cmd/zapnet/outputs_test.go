@@ -197,6 +197,7 @@ func TestFileOutputsRefuseStandardOutput(t *testing.T) {
 		{"margin", demoDeck, "--html", "-"},
 		{"waveform", "hbm", "--csv", "-"},
 		{"ac", usbDeck, "--touchstone", "-"},
+		{"fit", "pin", "--tlp", "../../testdata/fit/pinA-tlp.csv", "--table", "-"},
 	} {
 		out, errs, code := zapnet(t, args...)
 		if code != exitUnusable || !strings.Contains(errs, "writes a file, not standard output") {
