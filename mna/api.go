@@ -141,8 +141,9 @@ type Result struct {
 	// (see Accuracy).
 	Gross []float64
 	// PeakCurrent is the largest |I| of each element, A, refined between
-	// the points as waveforms.Tracker refines it.
-	PeakCurrent []float64
+	// the points as waveforms.Tracker refines it, and TPeakCurrent when it
+	// came, s.
+	PeakCurrent, TPeakCurrent []float64
 	// Balance is the sum of Energy, J. Every entry is integrated from the same
 	// terminal currents, so it measures what the solution leaves unbalanced
 	// (the KCL residual Newton accepted, and the current into Gmin), not the

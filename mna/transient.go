@@ -298,7 +298,7 @@ func (r *run) configure(set *Settings) error {
 	}
 
 	ne := len(s.devs)
-	res := &Result{Energy: make([]float64, ne), Gross: make([]float64, ne), PeakCurrent: make([]float64, ne), Stop: stop}
+	res := &Result{Energy: make([]float64, ne), Gross: make([]float64, ne), PeakCurrent: make([]float64, ne), TPeakCurrent: make([]float64, ne), Stop: stop}
 	if r.cfg.Record {
 		res.V = make([][]float64, len(s.nodeNames))
 		res.I = make([][]float64, ne)
@@ -590,7 +590,7 @@ func (r *run) advance(hs, grow float64, corner bool) {
 func (r *run) finish() *Result {
 	s, res := r.s, r.res
 	for i := range s.curTr {
-		res.PeakCurrent[i], _ = s.curTr[i].AbsPeak()
+		res.PeakCurrent[i], res.TPeakCurrent[i] = s.curTr[i].AbsPeak()
 	}
 	for _, e := range res.Energy {
 		res.Balance += e

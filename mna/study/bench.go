@@ -42,17 +42,20 @@ type Bench struct {
 	observe func(p *mna.Point)
 }
 
-// elemMeter follows one element's current, and what its ratings and role
-// ask to be measured beyond it: the voltage across it, its power, and the
+// elemMeter measures one element: its peak current (the engine tracks it),
+// and what its ratings and role ask to be measured beyond it, streamed
+// point by point: the voltage across it, its power, and the
 // device probes its ratings name (a pin's internal-path current, a
 // capacitor's dielectric voltage).
 type elemMeter struct {
-	e      *netlist.Element
-	elem   int // element index in the system
-	a, b   int // node indices of its terminals; −1 for gnd
-	i      waveforms.Tracker
-	across bool
-	v      waveforms.Tracker // v(a) − v(b), when across
+	e    *netlist.Element
+	elem int // element index in the system
+	a, b int // node indices of its terminals; −1 for gnd
+	// pk is its largest |current| and tpk when, as the engine tracked
+	// them (mna.Result.PeakCurrent): set by measure.
+	pk, tpk float64
+	across  bool
+	v       waveforms.Tracker // v(a) − v(b), when across
 	// peakV: its kind has a peak-voltage rating, so its largest |v(a) −
 	// v(b)| is reported (ElementResult.PeakVoltage) whether or not this
 	// element gives the rating.
@@ -238,7 +241,6 @@ func (b *Bench) sample(p *mna.Point) {
 	}
 	for k := range b.meters {
 		m := &b.meters[k]
-		m.i.Add(t, p.I[m.elem])
 		if m.across {
 			v := volt(p.V, m.a) - volt(p.V, m.b)
 			m.v.Add(t, v)
@@ -277,14 +279,13 @@ func (b *Bench) sample(p *mna.Point) {
 func (b *Bench) corner() { b.eachTracker((*waveforms.Tracker).Corner) }
 
 // eachTracker calls f on every tracker of the bench: the nodes', and each
-// meter's current, voltage, power and probes.
+// meter's voltage, power and probes.
 func (b *Bench) eachTracker(f func(*waveforms.Tracker)) {
 	for i := range b.nodeTr {
 		f(&b.nodeTr[i])
 	}
 	for k := range b.meters {
 		m := &b.meters[k]
-		f(&m.i)
 		f(&m.v)
 		f(&m.w)
 		for j := range m.probes {
@@ -542,7 +543,8 @@ func (b *Bench) measure(r *Run, res *mna.Result) {
 	b.ledger(r, res)
 	for k := range b.meters {
 		m := &b.meters[k]
-		pk, tpk := m.i.AbsPeak()
+		m.pk, m.tpk = res.PeakCurrent[m.elem], res.TPeakCurrent[m.elem]
+		pk, tpk := m.pk, m.tpk
 		er := ElementResult{Name: m.e.Name, Kind: m.e.Kind.Name, Role: m.e.Kind.Role,
 			PeakCurrent: quiet(pk, currentFloor), TPeak: tpk, Energy: r.Ledger.Entries[k].Energy,
 			Quiescent: b.w0[m.elem]}
@@ -666,7 +668,7 @@ func (m *elemMeter) measured(rt spec.Param, energy float64) (meas, at, v0 float6
 		pm := m.probe(rt.Rates.Probe)
 		tr, v0 = &pm.tr, pm.v0
 	case rt.Rates.Measure == spec.PeakCurrent:
-		tr = &m.i
+		return quiet(m.pk, floorOf(rt.Unit)), m.tpk, v0
 	case rt.Rates.Measure == spec.PeakPower:
 		tr = &m.w
 	}
@@ -712,7 +714,7 @@ func (b *Bench) validity(r *Run, st *waveforms.Stimulus) []string {
 		if m.e.Kind.Role != spec.Protector {
 			continue
 		}
-		pk, _ := m.i.AbsPeak()
+		pk := m.pk
 		if l := r.LimitOn(m.e.Name, spec.PeakCurrent); l != nil && pk > overdrive*l.Value {
 			notes = append(notes, fmt.Sprintf("%s carried %s, %.0f times its ipp of %s: far outside the range any model of the part is valid in",
 				m.e.Name, spec.FormatSI(pk, "A"), pk/l.Value, spec.FormatSI(l.Value, "A")))
